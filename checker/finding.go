@@ -1,0 +1,68 @@
+package checker
+
+import (
+	"welfare/records"
+)
+
+// Severity is the weight of a finding, in the terms animal-care programme
+// reviews use (US PHS Policy IV.B distinguishes significant from minor).
+type Severity string
+
+const (
+	Significant Severity = "significant"
+	Minor       Severity = "minor"
+	Note        Severity = "note"
+)
+
+// Rank orders severities: significant 3, minor 2, note 1, anything else 0.
+func (s Severity) Rank() int {
+	switch s {
+	case Significant:
+		return 3
+	case Minor:
+		return 2
+	case Note:
+		return 1
+	}
+	return 0
+}
+
+// Finding is one problem found in the records.
+type Finding struct {
+	Check    string        `json:"check"`   // domain.topic.problem
+	Domain   string        `json:"domain"`  // the check id's first part
+	Subject  string        `json:"subject"` // enclosure, animal, staff, item, protocol or site id, or FILE:LINE
+	On       records.Day   `json:"on"`
+	Until    records.Day   `json:"until,omitempty"` // last day of a run; zero for a single day
+	Severity Severity      `json:"severity"`
+	Message  string        `json:"message"`
+	Evidence []records.Ref `json:"evidence"`
+	Title    string        `json:"title"`
+	Source   string        `json:"source"`
+}
+
+// Key is the finding's stable identity: check id, subject and first day.
+func (f Finding) Key() string {
+	return f.Check + "|" + f.Subject + "|" + f.On.String()
+}
+
+// CheckInfo is a rule's metadata, read from its # METADATA annotation.
+type CheckInfo struct {
+	ID          string   `json:"id"`
+	Domain      string   `json:"domain"`
+	Title       string   `json:"title"`
+	Description string   `json:"description"`
+	Severity    Severity `json:"severity"` // the rule's default
+	Source      string   `json:"source"`
+	Package     string   `json:"package"` // e.g. welfare.care
+	File        string   `json:"file"`    // where the rule is defined
+	// Needs lists the record files the check reads; when one is absent the
+	// check is "not evaluated".
+	Needs []string `json:"needs,omitempty"`
+}
+
+// Skipped is a check that was not evaluated, and why.
+type Skipped struct {
+	Check  string `json:"check"`
+	Reason string `json:"reason"`
+}
