@@ -90,11 +90,11 @@ type Building struct {
 // Animal is a row of animals.csv.
 type Animal struct {
 	Ref         Ref
-	ID          string   `csv:"animal_id" validate:"required,id"`
-	Species     string   `csv:"species" validate:"required,code"`
+	ID          string   `csv:"animal_id,required" validate:"required,id"`
+	Species     string   `csv:"species,required" validate:"required,code"`
 	Sex         string   `csv:"sex" validate:"omitempty,oneof=f m u"`
 	BornOn      Day      `csv:"born_on"`
-	ArrivedOn   Day      `csv:"arrived_on" validate:"required"`
+	ArrivedOn   Day      `csv:"arrived_on,required" validate:"required"`
 	LeftOn      Day      `csv:"left_on"`
 	LeftReason  string   `csv:"left_reason" validate:"omitempty,oneof=culled died transferred sold released"`
 	EnclosureID string   `csv:"enclosure_id" validate:"omitempty,id"`
@@ -107,13 +107,13 @@ type Animal struct {
 // Enclosure is a row of enclosures.csv.
 type Enclosure struct {
 	Ref          Ref
-	ID           string   `csv:"enclosure_id" validate:"required,id"`
-	BuildingID   string   `csv:"building_id" validate:"required,id"`
-	Kind         string   `csv:"kind" validate:"required,oneof=cage pen run room"`
+	ID           string   `csv:"enclosure_id,required" validate:"required,id"`
+	BuildingID   string   `csv:"building_id,required" validate:"required,id"`
+	Kind         string   `csv:"kind,required" validate:"required,oneof=cage pen run room"`
 	LengthCm     *float64 `csv:"length,unit=length" validate:"omitempty,gt=0,lte=5000"`
 	WidthCm      *float64 `csv:"width,unit=length" validate:"omitempty,gt=0,lte=5000"`
 	FloorAreaM2  *float64 `csv:"floor_area,unit=area" validate:"omitempty,gt=0,lte=10000"`
-	HeightCm     float64  `csv:"height,unit=length" validate:"required,gt=0,lte=5000"`
+	HeightCm     float64  `csv:"height,unit=length,required" validate:"gt=0,lte=5000"`
 	MaxOccupants int      `csv:"max_occupants" validate:"omitempty,gte=1"`
 	NestBox      Bool     `csv:"nest_box"`
 	Platform     Bool     `csv:"platform"`
@@ -133,18 +133,18 @@ func (e Enclosure) Area() float64 {
 // Housing is a row of housing.csv: one animal's stay in one enclosure.
 type Housing struct {
 	Ref         Ref
-	AnimalID    string `csv:"animal_id" validate:"required,id"`
-	EnclosureID string `csv:"enclosure_id" validate:"required,id"`
-	MovedInOn   Day    `csv:"moved_in_on" validate:"required"`
+	AnimalID    string `csv:"animal_id,required" validate:"required,id"`
+	EnclosureID string `csv:"enclosure_id,required" validate:"required,id"`
+	MovedInOn   Day    `csv:"moved_in_on,required" validate:"required"`
 	MovedOutOn  Day    `csv:"moved_out_on"` // zero: still there
 }
 
 // Staff is a row of staff.csv.
 type Staff struct {
 	Ref                 Ref
-	ID                  string   `csv:"staff_id" validate:"required,id"`
-	Name                string   `csv:"name" validate:"required"`
-	Role                string   `csv:"role" validate:"required,oneof=keeper technician veterinarian supervisor other"`
+	ID                  string   `csv:"staff_id,required" validate:"required,id"`
+	Name                string   `csv:"name,required" validate:"required"`
+	Role                string   `csv:"role,required" validate:"required,oneof=keeper technician veterinarian supervisor other"`
 	ActiveFrom          Day      `csv:"active_from"`
 	ActiveTo            Day      `csv:"active_to"`
 	HandlingTrainedOn   Day      `csv:"handling_trained_on"`
@@ -160,10 +160,10 @@ type Staff struct {
 // Protocol is a row of protocols.csv.
 type Protocol struct {
 	Ref               Ref
-	ID                string   `csv:"protocol_id" validate:"required,id"`
-	Title             string   `csv:"title" validate:"required"`
-	ApprovedOn        Day      `csv:"approved_on" validate:"required"`
-	ExpiresOn         Day      `csv:"expires_on" validate:"required"`
+	ID                string   `csv:"protocol_id,required" validate:"required,id"`
+	Title             string   `csv:"title,required" validate:"required"`
+	ApprovedOn        Day      `csv:"approved_on,required" validate:"required"`
+	ExpiresOn         Day      `csv:"expires_on,required" validate:"required"`
 	Species           []string `csv:"species" validate:"dive,code"`
 	MaxAnimals        *int     `csv:"max_animals" validate:"omitempty,gte=0"`
 	Procedures        []string `csv:"procedures" validate:"dive,oneof=temperament_test health_check vet_exam treatment weighing transfer breeding sampling other"`
@@ -174,13 +174,13 @@ type Protocol struct {
 // whole building.
 type CareRound struct {
 	Ref             Ref
-	At              time.Time // checked_at; for a date-only row, midnight local
-	Day             Day       // the local day of the round
+	At              time.Time `csv:"checked_at"` // for a date-only row, midnight local
+	Day             Day       `csv:"date"`       // the local day of the round
 	DateOnly        bool      // the row gave a date, not a time
 	EnclosureID     string    `csv:"enclosure_id" validate:"omitempty,id"`
 	BuildingID      string    `csv:"building_id" validate:"omitempty,id"`
-	StaffID         string    `csv:"staff_id" validate:"required,id"`
-	Observed        Bool      `csv:"observed"`
+	StaffID         string    `csv:"staff_id,required" validate:"required,id"`
+	Observed        Bool      `csv:"observed,required"`
 	Fed             Bool      `csv:"fed"`
 	FeedG           *float64  `csv:"feed,unit=grams" validate:"omitempty,gte=0,lte=10000"`
 	Water           string    `csv:"water" validate:"omitempty,oneof=ok low empty frozen not_checked"`
@@ -195,10 +195,10 @@ type CareRound struct {
 // Handling is a row of handling.csv.
 type Handling struct {
 	Ref                Ref
-	At                 time.Time `csv:"handled_at"`
-	AnimalID           string    `csv:"animal_id" validate:"required,id"`
-	StaffID            string    `csv:"staff_id" validate:"required,id"`
-	Purpose            string    `csv:"purpose" validate:"required,oneof=temperament_test health_check vet_exam treatment weighing transfer breeding sampling other"`
+	At                 time.Time `csv:"handled_at,required"`
+	AnimalID           string    `csv:"animal_id,required" validate:"required,id"`
+	StaffID            string    `csv:"staff_id,required" validate:"required,id"`
+	Purpose            string    `csv:"purpose,required" validate:"required,oneof=temperament_test health_check vet_exam treatment weighing transfer breeding sampling other"`
 	Restraint          string    `csv:"restraint" validate:"omitempty,oneof=none gloved_hand net restraint_box sedation anaesthesia"`
 	DurationMin        *float64  `csv:"duration,unit=duration" validate:"omitempty,gte=0,lte=1440"`
 	Glove              string    `csv:"glove" validate:"omitempty,oneof=none nitrile leather bite_resistant gauntlet"`
@@ -215,30 +215,30 @@ type Handling struct {
 // PPECheck is a row of ppe_checks.csv.
 type PPECheck struct {
 	Ref        Ref
-	CheckedOn  Day    `csv:"checked_on" validate:"required"`
-	ItemID     string `csv:"item_id" validate:"required,id"`
-	Item       string `csv:"item" validate:"required,oneof=glove gauntlet respirator face_shield coverall other"`
+	CheckedOn  Day    `csv:"checked_on,required" validate:"required"`
+	ItemID     string `csv:"item_id,required" validate:"required,id"`
+	Item       string `csv:"item,required" validate:"required,oneof=glove gauntlet respirator face_shield coverall other"`
 	AssignedTo string `csv:"assigned_to" validate:"omitempty,id"`
-	Condition  string `csv:"condition" validate:"required,oneof=good worn damaged"`
+	Condition  string `csv:"condition,required" validate:"required,oneof=good worn damaged"`
 	Action     string `csv:"action" validate:"omitempty,oneof=kept repaired replaced withdrawn"`
 }
 
 // Weather is a row of weather.csv, in SI units.
 type Weather struct {
 	Ref      Ref
-	At       time.Time `csv:"observed_at"`
-	SiteID   string    `csv:"site_id" validate:"required,id"`
-	AirTempC float64   `csv:"air_temp,unit=temperature" validate:"gte=-80,lte=60"`
+	At       time.Time `csv:"observed_at,required"`
+	SiteID   string    `csv:"site_id,required" validate:"required,id"`
+	AirTempC float64   `csv:"air_temp,unit=temperature,required" validate:"gte=-80,lte=60"`
 	WindKmh  *float64  `csv:"wind,unit=speed" validate:"omitempty,gte=0,lte=250"`
 }
 
 // OutdoorWork is a row of outdoor_work.csv: one continuous outdoor stint.
 type OutdoorWork struct {
 	Ref       Ref
-	StaffID   string    `csv:"staff_id" validate:"required,id"`
-	StartedAt time.Time `csv:"started_at"`
-	EndedAt   time.Time `csv:"ended_at"`
-	SiteID    string    `csv:"site_id" validate:"required,id"`
+	StaffID   string    `csv:"staff_id,required" validate:"required,id"`
+	StartedAt time.Time `csv:"started_at,required"`
+	EndedAt   time.Time `csv:"ended_at,required"`
+	SiteID    string    `csv:"site_id,required" validate:"required,id"`
 	Activity  string    `csv:"activity" validate:"omitempty,oneof=light moderate heavy"` // empty: moderate
 	Emergency Bool      `csv:"emergency"`
 }
@@ -246,11 +246,11 @@ type OutdoorWork struct {
 // Cull is a row of culls.csv.
 type Cull struct {
 	Ref            Ref
-	At             time.Time `csv:"culled_at"`
-	AnimalID       string    `csv:"animal_id" validate:"required,id"`
-	StaffID        string    `csv:"staff_id" validate:"required,id"`
-	Reason         string    `csv:"reason" validate:"required,oneof=breeding_selection health humane_endpoint end_of_study pelting other"`
-	Method         string    `csv:"method" validate:"required,code"`
+	At             time.Time `csv:"culled_at,required"`
+	AnimalID       string    `csv:"animal_id,required" validate:"required,id"`
+	StaffID        string    `csv:"staff_id,required" validate:"required,id"`
+	Reason         string    `csv:"reason,required" validate:"required,oneof=breeding_selection health humane_endpoint end_of_study pelting other"`
+	Method         string    `csv:"method,required" validate:"required,code"`
 	Sedated        Bool      `csv:"sedated"`
 	DeathConfirmed Bool      `csv:"death_confirmed"`
 	Confirmation   []string  `csv:"confirmation" validate:"dive,oneof=no_heartbeat no_breathing no_corneal_reflex no_pedal_reflex rigor_mortis secondary_method"`

@@ -1,0 +1,397 @@
+package records
+
+import (
+	"fmt"
+	"reflect"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
+)
+
+// fieldKind is how a cell is read into a Go field.
+type fieldKind uint8
+
+const (
+	kString fieldKind = iota
+	kDay
+	kTime
+	kBool
+	kFloat
+	kFloatPtr
+	kInt
+	kIntPtr
+	kList
+)
+
+// field is one csv-tagged struct field, described once per row type.
+type field struct {
+	index    int
+	goName   string
+	name     string   // column name, or the base name when unit is set
+	unit     unitKind // "" for a unitless column
+	required bool     // the column must exist and its cells must not be empty
+	kind     fieldKind
+	intern   bool // ids and codes repeat across rows: share one string
+	// The plausible range from the validate tag, for keeper-readable reasons.
+	lo, hi         string
+	loOpen, hasRng bool
+}
+
+// rowType is the decoding description of one record type, built from its
+// struct tags once and shared by every file of that type.
+type rowType struct {
+	typ    reflect.Type
+	fields []field
+	byGo   map[string]int // Go field name -> index in fields
+	ref    int            // index of the Ref field
+}
+
+var rowTypes sync.Map // reflect.Type -> *rowType
+
+func rowTypeOf(t reflect.Type) (*rowType, error) {
+	if rt, ok := rowTypes.Load(t); ok {
+		return rt.(*rowType), nil
+	}
+	rt := &rowType{typ: t, byGo: map[string]int{}, ref: -1}
+	for i := 0; i < t.NumField(); i++ {
+		sf := t.Field(i)
+		if sf.Type == reflect.TypeFor[Ref]() {
+			rt.ref = i
+			continue
+		}
+		tag, ok := sf.Tag.Lookup("csv")
+		if !ok {
+			continue
+		}
+		parts := strings.Split(tag, ",")
+		f := field{index: i, goName: sf.Name, name: parts[0]}
+		for _, opt := range parts[1:] {
+			switch {
+			case opt == "required":
+				f.required = true
+			case strings.HasPrefix(opt, "unit="):
+				f.unit = unitKind(strings.TrimPrefix(opt, "unit="))
+				if _, ok := units[f.unit]; !ok {
+					return nil, fmt.Errorf("records: %s.%s: unknown unit %q", t.Name(), sf.Name, f.unit)
+				}
+			default:
+				return nil, fmt.Errorf("records: %s.%s: unknown csv tag option %q", t.Name(), sf.Name, opt)
+			}
+		}
+		switch sf.Type {
+		case reflect.TypeFor[string]():
+			f.kind = kString
+		case reflect.TypeFor[Day]():
+			f.kind = kDay
+		case reflect.TypeFor[time.Time]():
+			f.kind = kTime
+		case reflect.TypeFor[Bool]():
+			f.kind = kBool
+		case reflect.TypeFor[float64]():
+			f.kind = kFloat
+		case reflect.TypeFor[*float64]():
+			f.kind = kFloatPtr
+		case reflect.TypeFor[int]():
+			f.kind = kInt
+		case reflect.TypeFor[*int]():
+			f.kind = kIntPtr
+		case reflect.TypeFor[[]string]():
+			f.kind = kList
+		default:
+			return nil, fmt.Errorf("records: %s.%s: no decoder for %s", t.Name(), sf.Name, sf.Type)
+		}
+		v := sf.Tag.Get("validate")
+		f.intern = strings.Contains(v, "id") || strings.Contains(v, "code") || strings.Contains(v, "oneof")
+		for rule := range strings.SplitSeq(v, ",") {
+			if rule == "dive" {
+				break // the rest applies to list elements
+			}
+			name, param, _ := strings.Cut(rule, "=")
+			switch name {
+			case "gt", "gte":
+				f.lo, f.loOpen, f.hasRng = param, name == "gt", true
+			case "lt", "lte":
+				f.hi, f.hasRng = param, true
+			}
+		}
+		rt.byGo[sf.Name] = len(rt.fields)
+		rt.fields = append(rt.fields, f)
+	}
+	if rt.ref < 0 {
+		return nil, fmt.Errorf("records: %s has no Ref field", t.Name())
+	}
+	actual, _ := rowTypes.LoadOrStore(t, rt)
+	return actual.(*rowType), nil
+}
+
+// column is one header cell of a file, resolved against the row type.
+type column struct {
+	header string   // as written, trimmed
+	field  int      // index into rowType.fields, -1 when unknown
+	alt    *unitAlt // the unit this column is written in
+}
+
+// plan is how one file's columns map onto its row type: computed once from
+// the header, then applied to every row.
+type plan struct {
+	rt    *rowType
+	cols  []column
+	colOf []int // field index -> column index, -1 when the file lacks it
+}
+
+// has reports whether the file has a column for the Go field.
+func (p *plan) has(goName string) bool {
+	i, ok := p.rt.byGo[goName]
+	return ok && p.colOf[i] >= 0
+}
+
+// header returns the column name as written for the Go field, or the
+// field's SI name when the file lacks it.
+func (p *plan) header(goName string) string {
+	i, ok := p.rt.byGo[goName]
+	if !ok {
+		return goName
+	}
+	if c := p.colOf[i]; c >= 0 {
+		return p.cols[c].header
+	}
+	return siName(&p.rt.fields[i])
+}
+
+// siName is the column name in the SI unit, as records.md documents it.
+func siName(f *field) string {
+	if f.unit == "" {
+		return f.name
+	}
+	return f.name + units[f.unit][0].suffix
+}
+
+// alternatives names a measured column's accepted spellings.
+func alternatives(f *field) string {
+	if f.unit == "" {
+		return f.name
+	}
+	alts := units[f.unit]
+	var b strings.Builder
+	b.WriteString(f.name + alts[0].suffix)
+	for i, a := range alts[1:] {
+		if i == len(alts)-2 {
+			b.WriteString(" or ")
+		} else {
+			b.WriteString(", ")
+		}
+		b.WriteString(f.name + a.suffix)
+	}
+	return b.String()
+}
+
+// headerIssue is a header problem that makes the whole file unusable.
+type headerIssue struct {
+	column, reason string
+}
+
+// newPlan resolves a header. It returns warnings for columns that are not
+// read, and an issue when the file cannot be used at all.
+func newPlan(rt *rowType, header []string) (*plan, []string, *headerIssue) {
+	p := &plan{rt: rt, cols: make([]column, len(header)), colOf: make([]int, len(rt.fields))}
+	for i := range p.colOf {
+		p.colOf[i] = -1
+	}
+	seen := map[string]int{}
+	var unknown []string
+	for i, h := range header {
+		h = strings.TrimSpace(h)
+		p.cols[i] = column{header: h, field: -1}
+		key := strings.ToLower(h)
+		if key == "" {
+			unknown = append(unknown, fmt.Sprintf("column %d has no name", i+1))
+			continue
+		}
+		if j, dup := seen[key]; dup {
+			return nil, nil, &headerIssue{h, fmt.Sprintf("column appears twice (columns %d and %d)", j+1, i+1)}
+		}
+		seen[key] = i
+		if fi, alt, ok := matchColumn(rt, key); ok {
+			if c := p.colOf[fi]; c >= 0 {
+				return nil, nil, &headerIssue{h, fmt.Sprintf("two units for one measurement: %s and %s; keep one", p.cols[c].header, h)}
+			}
+			p.cols[i].field, p.cols[i].alt = fi, alt
+			p.colOf[fi] = i
+			continue
+		}
+		unknown = append(unknown, h)
+	}
+	for fi := range rt.fields {
+		f := &rt.fields[fi]
+		if f.required && p.colOf[fi] < 0 {
+			reason := "required column is missing"
+			if f.unit != "" && len(units[f.unit]) > 1 {
+				reason = "required column is missing (give one of " + alternatives(f) + ")"
+			}
+			return nil, nil, &headerIssue{siName(f), reason}
+		}
+	}
+	return p, unknown, nil
+}
+
+func matchColumn(rt *rowType, key string) (int, *unitAlt, bool) {
+	for fi := range rt.fields {
+		f := &rt.fields[fi]
+		if f.unit == "" {
+			if key == f.name {
+				return fi, nil, true
+			}
+			continue
+		}
+		if !strings.HasPrefix(key, f.name) {
+			continue
+		}
+		alts := units[f.unit]
+		for ai := range alts {
+			if key == f.name+alts[ai].suffix {
+				return fi, &alts[ai], true
+			}
+		}
+	}
+	return -1, nil, false
+}
+
+// cellError is the first problem found in a row.
+type cellError struct {
+	field  int // -1 for a row-level problem
+	column string
+	value  string
+	reason string
+}
+
+// decoder reads rows of one file into T values, reusing its scratch space.
+type decoder struct {
+	p       *plan
+	loc     *time.Location
+	strs    map[string]string
+	floats  []float64 // slab for *float64 fields: one allocation per thousand rows, not per cell
+	failed  []bool    // per field: the cell did not decode, so validator errors on it are noise
+	refBase string
+}
+
+func newDecoder(p *plan, loc *time.Location, file string) *decoder {
+	return &decoder{p: p, loc: loc, strs: map[string]string{}, failed: make([]bool, len(p.rt.fields)), refBase: file + ":"}
+}
+
+// intern shares one copy of repeated ids and codes, so that a million rows
+// naming the same enclosure hold one string, and the CSV line the cell was
+// cut from can be freed.
+func (d *decoder) intern(s string) string {
+	if v, ok := d.strs[s]; ok {
+		return v
+	}
+	s = strings.Clone(s)
+	if len(d.strs) < 1<<16 {
+		d.strs[s] = s
+	}
+	return s
+}
+
+func (d *decoder) newFloat(v float64) *float64 {
+	if len(d.floats) == cap(d.floats) {
+		d.floats = make([]float64, 0, 1024)
+	}
+	d.floats = append(d.floats, v)
+	return &d.floats[len(d.floats)-1]
+}
+
+func (d *decoder) ref(line int) Ref {
+	var buf [64]byte
+	b := append(buf[:0], d.refBase...)
+	b = strconv.AppendInt(b, int64(line), 10)
+	return Ref(b)
+}
+
+// decode fills the struct rv (a T, addressable) from a record. It returns the
+// first problem, but goes on decoding the remaining cells so that the row's
+// date can still place a rejected row in time.
+func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
+	var first *cellError
+	clear(d.failed)
+	for ci := range d.p.cols {
+		col := &d.p.cols[ci]
+		if col.field < 0 {
+			continue
+		}
+		f := &d.p.rt.fields[col.field]
+		raw := rec[ci]
+		cell := strings.TrimSpace(raw)
+		if cell == "" {
+			if f.required && first == nil {
+				first = &cellError{col.field, col.header, "", "is required but empty"}
+				d.failed[col.field] = true
+			}
+			continue
+		}
+		if reason := d.set(rv.Field(f.index), f, col, cell); reason != "" {
+			d.failed[col.field] = true
+			if first == nil {
+				first = &cellError{col.field, col.header, raw, reason}
+			}
+		}
+	}
+	return first
+}
+
+func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) string {
+	switch f.kind {
+	case kString:
+		s := cell
+		if f.intern {
+			s = d.intern(cell)
+		} else {
+			s = strings.Clone(cell)
+		}
+		*fv.Addr().Interface().(*string) = s
+	case kDay:
+		day, err := parseDate(cell)
+		if err != nil {
+			return err.Error()
+		}
+		*fv.Addr().Interface().(*Day) = day
+	case kTime:
+		t, err := parseDateTime(cell, d.loc)
+		if err != nil {
+			return err.Error()
+		}
+		*fv.Addr().Interface().(*time.Time) = t
+	case kBool:
+		b, ok := parseBool(cell)
+		if !ok {
+			return fmt.Sprintf("%q is not yes or no (yes/no, y/n, true/false, 1/0)", cell)
+		}
+		*fv.Addr().Interface().(*Bool) = b
+	case kFloat, kFloatPtr:
+		v, ok := parseNumber(cell)
+		if !ok {
+			return fmt.Sprintf("%q is not a number", cell)
+		}
+		if col.alt != nil {
+			v = col.alt.toSI(v)
+		}
+		if f.kind == kFloat {
+			*fv.Addr().Interface().(*float64) = v
+		} else {
+			*fv.Addr().Interface().(**float64) = d.newFloat(v)
+		}
+	case kInt, kIntPtr:
+		v, err := strconv.Atoi(cell)
+		if err != nil {
+			return fmt.Sprintf("%q is not a whole number", cell)
+		}
+		if f.kind == kInt {
+			*fv.Addr().Interface().(*int) = v
+		} else {
+			*fv.Addr().Interface().(**int) = &v
+		}
+	case kList:
+		*fv.Addr().Interface().(*[]string) = parseList(cell, d.intern)
+	}
+	return ""
+}

@@ -1,0 +1,66 @@
+package records
+
+import (
+	"strconv"
+	"strings"
+)
+
+// LoadError is a failure of the folder as a whole: it cannot be read, a
+// required file is missing, or facility.yaml is unusable. No Set is returned
+// with it, because every later check depends on what failed.
+type LoadError struct {
+	File   string
+	Line   int    // 0 when the failure has no line (a missing file)
+	Column string // the YAML key or CSV column, when there is one
+	Reason string
+	Err    error // the underlying error, if any (for errors.Is, e.g. fs.ErrNotExist)
+}
+
+func (e *LoadError) Error() string { return position(e.File, e.Line, e.Column, e.Reason) }
+
+func (e *LoadError) Unwrap() error { return e.Err }
+
+// Error makes a Problem printable and usable as an error, in the same
+// one-line form as LoadError: "daily_care.csv:212: water: "frozn" is not one of ...".
+func (p Problem) Error() string { return position(p.File, p.Line, p.Column, p.Reason) }
+
+// String is the problem's one-line form.
+func (p Problem) String() string { return p.Error() }
+
+// String is "FILE: COLUMN: MESSAGE" (or "FILE: MESSAGE" for a whole file).
+func (w Warning) String() string { return position(w.File, 0, w.Column, w.Message) }
+
+// Rejected returns the number of rows rejected across all files.
+func (s *Set) Rejected() int {
+	n := 0
+	for _, c := range s.Accounting {
+		n += c.Rejected
+	}
+	return n
+}
+
+// Count returns the accounting of one file, and whether it was read.
+func (s *Set) Count(file string) (FileCount, bool) {
+	for _, c := range s.Accounting {
+		if c.File == file {
+			return c, true
+		}
+	}
+	return FileCount{File: file}, false
+}
+
+func position(file string, line int, column, reason string) string {
+	var b strings.Builder
+	b.WriteString(file)
+	if line > 0 {
+		b.WriteByte(':')
+		b.WriteString(strconv.Itoa(line))
+	}
+	b.WriteString(": ")
+	if column != "" {
+		b.WriteString(column)
+		b.WriteString(": ")
+	}
+	b.WriteString(reason)
+	return b.String()
+}

@@ -1,0 +1,518 @@
+package records
+
+import (
+	"bufio"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"reflect"
+	"slices"
+	"sort"
+	"strings"
+	"sync"
+	"time"
+)
+
+// Options are what loading needs from outside the records folder.
+type Options struct {
+	// Species are the species codes of the limits in force. An animal row
+	// naming any other species is rejected. When empty, species are checked
+	// for form only and a warning says so.
+	Species []string
+}
+
+// The record files in the order records.md documents them; accounting and
+// problems follow this order.
+const (
+	animalsFile    = "animals.csv"
+	enclosuresFile = "enclosures.csv"
+	housingFile    = "housing.csv"
+	staffFile      = "staff.csv"
+	protocolsFile  = "protocols.csv"
+	careFile       = "daily_care.csv"
+	handlingFile   = "handling.csv"
+	ppeFile        = "ppe_checks.csv"
+	weatherFile    = "weather.csv"
+	workFile       = "outdoor_work.csv"
+	cullsFile      = "culls.csv"
+)
+
+// Files lists the record files a folder may hold, facility.yaml first, then
+// the CSV files in the order of the records contract.
+var Files = []string{facilityFile, animalsFile, enclosuresFile, housingFile, staffFile, protocolsFile,
+	careFile, handlingFile, ppeFile, weatherFile, workFile, cullsFile}
+
+func fileOrder(name string) int {
+	if i := slices.Index(Files, name); i >= 0 {
+		return i
+	}
+	return len(Files)
+}
+
+// env is what row rules need beyond the row itself.
+type env struct {
+	loc         *time.Location
+	species     map[string]bool
+	speciesList string
+}
+
+// rowCheck gives a file's row rules the row's cells, to cite columns as
+// written in the header and values as written in the cell.
+type rowCheck struct {
+	p   *plan
+	rec []string
+	env *env
+}
+
+// fail positions a row-rule problem at the Go field's column.
+func (c *rowCheck) fail(goName, reason string) *cellError {
+	ce := &cellError{field: -1, column: c.p.header(goName), reason: reason}
+	if fi, ok := c.p.rt.byGo[goName]; ok {
+		ce.field = fi
+		if ci := c.p.colOf[fi]; ci >= 0 && c.rec != nil {
+			ce.value = c.rec[ci]
+		}
+	}
+	return ce
+}
+
+// fileSpec is what differs between record files.
+type fileSpec[T any] struct {
+	name   string
+	header func(p *plan) *headerIssue         // column rules beyond "required"
+	row    func(r *T, c *rowCheck) *cellError // row rules validate tags cannot say
+	day    func(r *T) Day                     // the row's date, to place a rejected row in time
+	id     func(r *T) string                  // the row's unique id, for files keyed by one
+	idName string                             // the Go field of that id
+}
+
+// loaded is one file after reading: its accepted rows and its account.
+type loaded[T any] struct {
+	spec     *fileSpec[T]
+	present  bool
+	rows     []T
+	count    FileCount
+	problems []Problem
+	warnings []Warning
+	plan     *plan
+	// rejected maps the ids of rejected rows to their ref, so a reference to
+	// one can say why it is unknown.
+	rejected map[string]Ref
+}
+
+func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
+	l := &loaded[T]{spec: spec, count: FileCount{File: spec.name}}
+	f, err := fsys.Open(spec.name)
+	if err != nil {
+		if !errors.Is(err, fs.ErrNotExist) {
+			l.present = true
+			l.fail("", "cannot be read: "+err.Error())
+		}
+		return l
+	}
+	defer f.Close()
+	l.present = true
+	rt, err := rowTypeOf(reflect.TypeFor[T]())
+	if err != nil {
+		l.fail("", err.Error())
+		return l
+	}
+	br := bufio.NewReaderSize(f, 1<<16)
+	if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
+		_, _ = br.Discard(3)
+	}
+	r := csv.NewReader(br)
+	r.FieldsPerRecord = -1
+	r.ReuseRecord = true
+
+	head, err := r.Read()
+	switch {
+	case err == io.EOF:
+		l.fail("", "no header row (the file is empty)")
+		return l
+	case err != nil:
+		l.fail("", "header row: "+csvReason(err))
+		l.drain(r)
+		return l
+	}
+	p, unknown, issue := newPlan(rt, head)
+	if issue == nil && spec.header != nil {
+		issue = spec.header(p)
+	}
+	if issue != nil {
+		l.problems = append(l.problems, Problem{File: spec.name, Line: 1, Column: issue.column, Reason: issue.reason})
+		l.count.Failed = issue.column + ": " + issue.reason
+		l.drain(r)
+		return l
+	}
+	l.plan = p
+	for _, u := range unknown {
+		l.warnings = append(l.warnings, Warning{File: spec.name, Column: u, Message: "unknown column, not read"})
+	}
+	l.read(r, newDecoder(p, e.loc, spec.name), e)
+	return l
+}
+
+// fail marks the whole file unusable.
+func (l *loaded[T]) fail(column, reason string) {
+	l.problems = append(l.problems, Problem{File: l.spec.name, Column: column, Reason: reason})
+	l.count.Failed = reason
+}
+
+// drain counts the rows of a file that failed as a whole: each is read and rejected.
+func (l *loaded[T]) drain(r *csv.Reader) {
+	for {
+		_, err := r.Read()
+		if err == io.EOF {
+			return
+		}
+		var pe *csv.ParseError
+		if err != nil && !errors.As(err, &pe) {
+			return
+		}
+		l.count.Read++
+		l.count.Rejected++
+	}
+}
+
+func csvReason(err error) string {
+	var pe *csv.ParseError
+	if errors.As(err, &pe) {
+		return fmt.Sprintf("%v (line %d, character %d)", pe.Err, pe.Line, pe.Column)
+	}
+	return err.Error()
+}
+
+func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
+	spec, p := l.spec, d.p
+	check := rowCheck{p: p, env: e}
+	var zero T
+	firstAt := map[string]int{}
+	if spec.id != nil {
+		l.rejected = map[string]Ref{}
+	}
+	idField := -1
+	if spec.idName != "" {
+		idField = p.rt.byGo[spec.idName]
+	}
+	for {
+		rec, err := r.Read()
+		if err == io.EOF {
+			return
+		}
+		if err != nil {
+			var pe *csv.ParseError
+			if !errors.As(err, &pe) {
+				l.fail("", "cannot be read: "+err.Error())
+				return
+			}
+			l.count.Read++
+			l.count.Rejected++
+			l.problems = append(l.problems, Problem{File: spec.name, Line: pe.StartLine, Reason: csvReason(err)})
+			continue
+		}
+		line, _ := r.FieldPos(0)
+		l.count.Read++
+		var ce *cellError
+		l.rows = append(l.rows, zero)
+		row := &l.rows[len(l.rows)-1]
+		switch {
+		case len(rec) != len(p.cols):
+			ce = &cellError{field: -1, reason: fmt.Sprintf("row has %d cells but the header has %d", len(rec), len(p.cols))}
+		case blank(rec):
+			ce = &cellError{field: -1, reason: "row is empty (every cell is blank)"}
+		default:
+			ce = d.decode(reflect.ValueOf(row).Elem(), rec)
+			if ce == nil {
+				ce = d.validateRow(row, rec)
+			}
+			if ce == nil && spec.row != nil {
+				check.rec = rec
+				ce = spec.row(row, &check)
+			}
+			if spec.id != nil && !d.failed[idField] {
+				if id := spec.id(row); id != "" {
+					if first, dup := firstAt[id]; dup {
+						if ce == nil {
+							check.rec = rec
+							ce = check.fail(spec.idName, fmt.Sprintf("%q is a duplicate; first at %s:%d", id, spec.name, first))
+						}
+					} else {
+						firstAt[id] = line
+						if ce != nil {
+							l.rejected[id] = d.ref(line)
+						}
+					}
+				}
+			}
+		}
+		if ce != nil {
+			pr := Problem{File: spec.name, Line: line, Column: ce.column, Value: strings.Clone(ce.value), Reason: ce.reason}
+			if spec.day != nil {
+				pr.Day = spec.day(row)
+			}
+			l.problems = append(l.problems, pr)
+			l.count.Rejected++
+			l.rows = l.rows[:len(l.rows)-1]
+			continue
+		}
+		*reflect.ValueOf(row).Elem().Field(p.rt.ref).Addr().Interface().(*Ref) = d.ref(line)
+		l.count.Accepted++
+	}
+}
+
+func blank(rec []string) bool {
+	for _, c := range rec {
+		if strings.TrimSpace(c) != "" {
+			return false
+		}
+	}
+	return true
+}
+
+// The per-file rules. Cross-file rules are in refs.go.
+var (
+	animalSpec = &fileSpec[Animal]{
+		name: animalsFile,
+		row: func(a *Animal, c *rowCheck) *cellError {
+			if c.env.species != nil && !c.env.species[a.Species] {
+				return c.fail("Species", fmt.Sprintf("%q is not a species profile in the limits (%s)", a.Species, c.env.speciesList))
+			}
+			switch {
+			case !a.LeftOn.IsZero() && a.LeftReason == "":
+				return c.fail("LeftReason", "is required when left_on is given")
+			case a.LeftOn.IsZero() && a.LeftReason != "":
+				return c.fail("LeftOn", "is required when left_reason is given")
+			case !a.LeftOn.IsZero() && a.LeftOn < a.ArrivedOn:
+				return c.fail("LeftOn", fmt.Sprintf("%s is before arrived_on %s", a.LeftOn, a.ArrivedOn))
+			}
+			return nil
+		},
+		day:    func(a *Animal) Day { return a.ArrivedOn },
+		id:     func(a *Animal) string { return a.ID },
+		idName: "ID",
+	}
+	enclosureSpec = &fileSpec[Enclosure]{
+		name: enclosuresFile,
+		header: func(p *plan) *headerIssue {
+			if !p.has("FloorAreaM2") && !(p.has("LengthCm") && p.has("WidthCm")) {
+				return &headerIssue{"floor_area_m2", "required column is missing (give floor_area_m2, or both length_cm and width_cm)"}
+			}
+			return nil
+		},
+		row: func(e *Enclosure, c *rowCheck) *cellError {
+			if e.FloorAreaM2 == nil && (e.LengthCm == nil || e.WidthCm == nil) {
+				return c.fail("FloorAreaM2", fmt.Sprintf("is required when %s and %s are not both given", c.p.header("LengthCm"), c.p.header("WidthCm")))
+			}
+			return nil
+		},
+		id:     func(e *Enclosure) string { return e.ID },
+		idName: "ID",
+	}
+	housingSpec = &fileSpec[Housing]{
+		name: housingFile,
+		row: func(h *Housing, c *rowCheck) *cellError {
+			if !h.MovedOutOn.IsZero() && h.MovedOutOn <= h.MovedInOn {
+				return c.fail("MovedOutOn", fmt.Sprintf("%s is not after moved_in_on %s", h.MovedOutOn, h.MovedInOn))
+			}
+			return nil
+		},
+		day: func(h *Housing) Day { return h.MovedInOn },
+	}
+	staffSpec = &fileSpec[Staff]{
+		name:   staffFile,
+		id:     func(s *Staff) string { return s.ID },
+		idName: "ID",
+	}
+	protocolSpec = &fileSpec[Protocol]{
+		name: protocolsFile,
+		row: func(p *Protocol, c *rowCheck) *cellError {
+			if p.ExpiresOn <= p.ApprovedOn {
+				return c.fail("ExpiresOn", fmt.Sprintf("%s is not after approved_on %s", p.ExpiresOn, p.ApprovedOn))
+			}
+			return nil
+		},
+		day:    func(p *Protocol) Day { return p.ApprovedOn },
+		id:     func(p *Protocol) string { return p.ID },
+		idName: "ID",
+	}
+	careSpec = &fileSpec[CareRound]{
+		name: careFile,
+		header: func(p *plan) *headerIssue {
+			if !p.has("At") && !p.has("Day") {
+				return &headerIssue{"checked_at", "required column is missing (give checked_at, or date)"}
+			}
+			if !p.has("EnclosureID") && !p.has("BuildingID") {
+				return &headerIssue{"enclosure_id", "required column is missing (give enclosure_id, or building_id)"}
+			}
+			return nil
+		},
+		row: func(r *CareRound, c *rowCheck) *cellError {
+			switch {
+			case !r.At.IsZero():
+				d := DayOf(r.At)
+				if r.Day != 0 && r.Day != d {
+					return c.fail("Day", fmt.Sprintf("%s is not the day of checked_at (%s)", r.Day, d))
+				}
+				r.Day = d
+			case r.Day != 0:
+				r.At, r.DateOnly = r.Day.In(c.env.loc), true
+			default:
+				return c.fail("At", "is required but empty (give checked_at, or date)")
+			}
+			if r.EnclosureID == "" && r.BuildingID == "" {
+				return c.fail("EnclosureID", "is required but empty (give enclosure_id, or building_id)")
+			}
+			return nil
+		},
+		day: func(r *CareRound) Day {
+			if !r.At.IsZero() {
+				return DayOf(r.At)
+			}
+			return r.Day
+		},
+	}
+	handlingSpec = &fileSpec[Handling]{
+		name: handlingFile,
+		day:  func(h *Handling) Day { return dayOfTime(h.At) },
+	}
+	ppeSpec = &fileSpec[PPECheck]{
+		name: ppeFile,
+		day:  func(p *PPECheck) Day { return p.CheckedOn },
+	}
+	weatherSpec = &fileSpec[Weather]{
+		name: weatherFile,
+		day:  func(w *Weather) Day { return dayOfTime(w.At) },
+	}
+	workSpec = &fileSpec[OutdoorWork]{
+		name: workFile,
+		row: func(w *OutdoorWork, c *rowCheck) *cellError {
+			if !w.EndedAt.After(w.StartedAt) {
+				return c.fail("EndedAt", fmt.Sprintf("%s is not after started_at %s",
+					w.EndedAt.Format("2006-01-02T15:04"), w.StartedAt.Format("2006-01-02T15:04")))
+			}
+			return nil
+		},
+		day: func(w *OutdoorWork) Day { return dayOfTime(w.StartedAt) },
+	}
+	cullSpec = &fileSpec[Cull]{
+		name: cullsFile,
+		day:  func(c *Cull) Day { return dayOfTime(c.At) },
+	}
+)
+
+func dayOfTime(t time.Time) Day {
+	if t.IsZero() {
+		return 0
+	}
+	return DayOf(t)
+}
+
+// Load reads and validates a records folder (see the package comment).
+// The error is for the folder as a whole and is a *LoadError; every
+// row-level problem is in the Set instead.
+func Load(fsys fs.FS, opt Options) (*Set, error) {
+	entries, err := fs.ReadDir(fsys, ".")
+	if err != nil {
+		return nil, &LoadError{File: ".", Reason: "cannot read the records folder: " + err.Error(), Err: err}
+	}
+	fac, loc, err := loadFacility(fsys)
+	if err != nil {
+		return nil, err
+	}
+	names := map[string]bool{}
+	for _, e := range entries {
+		names[e.Name()] = true
+	}
+	for _, req := range []string{animalsFile, enclosuresFile} {
+		if !names[req] {
+			return nil, &LoadError{File: req, Reason: "required file is missing", Err: fs.ErrNotExist}
+		}
+	}
+	s := &Set{Facility: fac, Location: loc, Present: map[string]bool{facilityFile: true}}
+	for _, e := range entries {
+		name := e.Name()
+		if fileOrder(name) < len(Files) {
+			continue
+		}
+		msg := "unknown file, not read"
+		if e.IsDir() {
+			msg = "unknown folder, not read"
+		}
+		if lower := strings.ToLower(name); lower != name && fileOrder(lower) < len(Files) {
+			msg += fmt.Sprintf(" (file names are lower case: did you mean %s?)", lower)
+		}
+		s.Warnings = append(s.Warnings, Warning{File: name, Message: msg})
+	}
+
+	e := &env{loc: loc}
+	if len(opt.Species) > 0 {
+		e.species = map[string]bool{}
+		for _, sp := range opt.Species {
+			e.species[sp] = true
+		}
+		list := slices.Clone(opt.Species)
+		sort.Strings(list)
+		e.speciesList = strings.Join(slices.Compact(list), ", ")
+	} else {
+		s.Warnings = append(s.Warnings, Warning{File: animalsFile, Column: "species",
+			Message: "not checked against species profiles (no limits were given)"})
+	}
+
+	var (
+		wg sync.WaitGroup
+		ld loadedSet
+	)
+	// Files are independent until the cross-record rules, so they load in parallel.
+	wg.Go(func() { ld.animals = loadFile(fsys, animalSpec, e) })
+	wg.Go(func() { ld.enclosures = loadFile(fsys, enclosureSpec, e) })
+	wg.Go(func() { ld.housing = loadFile(fsys, housingSpec, e) })
+	wg.Go(func() { ld.staff = loadFile(fsys, staffSpec, e) })
+	wg.Go(func() { ld.protocols = loadFile(fsys, protocolSpec, e) })
+	wg.Go(func() { ld.care = loadFile(fsys, careSpec, e) })
+	wg.Go(func() { ld.handling = loadFile(fsys, handlingSpec, e) })
+	wg.Go(func() { ld.ppe = loadFile(fsys, ppeSpec, e) })
+	wg.Go(func() { ld.weather = loadFile(fsys, weatherSpec, e) })
+	wg.Go(func() { ld.work = loadFile(fsys, workSpec, e) })
+	wg.Go(func() { ld.culls = loadFile(fsys, cullSpec, e) })
+	wg.Wait()
+
+	ld.crossCheck(&fac)
+
+	collect(s, ld.animals)
+	collect(s, ld.enclosures)
+	collect(s, ld.housing)
+	collect(s, ld.staff)
+	collect(s, ld.protocols)
+	collect(s, ld.care)
+	collect(s, ld.handling)
+	collect(s, ld.ppe)
+	collect(s, ld.weather)
+	collect(s, ld.work)
+	collect(s, ld.culls)
+	s.Animals, s.Enclosures, s.Housing = ld.animals.rows, ld.enclosures.rows, ld.housing.rows
+	s.Staff, s.Protocols, s.Care, s.Handling = ld.staff.rows, ld.protocols.rows, ld.care.rows, ld.handling.rows
+	s.PPEChecks, s.Weather, s.Work, s.Culls = ld.ppe.rows, ld.weather.rows, ld.work.rows, ld.culls.rows
+	s.Problems = append(s.Problems, ld.extra...)
+	sort.SliceStable(s.Problems, func(i, j int) bool {
+		a, b := s.Problems[i], s.Problems[j]
+		if oa, ob := fileOrder(a.File), fileOrder(b.File); oa != ob {
+			return oa < ob
+		}
+		return a.Line < b.Line
+	})
+	return s, nil
+}
+
+// collect adds one file's account, problems and warnings to the set.
+func collect[T any](s *Set, l *loaded[T]) {
+	if !l.present {
+		return
+	}
+	s.Present[l.spec.name] = true
+	s.Accounting = append(s.Accounting, l.count)
+	s.Problems = append(s.Problems, l.problems...)
+	s.Warnings = append(s.Warnings, l.warnings...)
+}

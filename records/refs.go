@@ -1,0 +1,288 @@
+package records
+
+import (
+	"fmt"
+	"strings"
+)
+
+// loadedSet holds every file between reading and the cross-record rules.
+type loadedSet struct {
+	animals    *loaded[Animal]
+	enclosures *loaded[Enclosure]
+	housing    *loaded[Housing]
+	staff      *loaded[Staff]
+	protocols  *loaded[Protocol]
+	care       *loaded[CareRound]
+	handling   *loaded[Handling]
+	ppe        *loaded[PPECheck]
+	weather    *loaded[Weather]
+	work       *loaded[OutdoorWork]
+	culls      *loaded[Cull]
+	extra      []Problem // file-level problems that belong to no file read (a missing staff.csv)
+}
+
+// index is the set of accepted ids of one file, with what is known about
+// the ids that are not there, so a dangling reference says why.
+type index struct {
+	file     string
+	present  bool
+	failed   bool
+	ids      map[string]bool
+	rejected map[string]Ref
+}
+
+func newIndex[T any](l *loaded[T]) *index {
+	ix := &index{file: l.spec.name, present: l.present, failed: l.count.Failed != "", ids: make(map[string]bool, len(l.rows)), rejected: l.rejected}
+	for i := range l.rows {
+		ix.ids[l.spec.id(&l.rows[i])] = true
+	}
+	return ix
+}
+
+// check returns the reason id is unknown, or "" when it is accepted.
+func (ix *index) check(id string) string {
+	if ix.ids[id] {
+		return ""
+	}
+	why := ""
+	switch {
+	case !ix.present:
+		why = fmt.Sprintf(" (%s is missing)", ix.file)
+	case ix.failed:
+		why = fmt.Sprintf(" (%s could not be used)", ix.file)
+	case ix.rejected[id] != "":
+		why = fmt.Sprintf(" (its row %s was rejected)", ix.rejected[id])
+	}
+	return fmt.Sprintf("%q is not in %s%s", id, ix.file, why)
+}
+
+// nameSet is a set of ids defined in facility.yaml or seen in a file.
+type nameSet struct {
+	ids  map[string]bool
+	what string // "a building in facility.yaml"
+}
+
+func (n nameSet) check(id string) string {
+	if n.ids[id] {
+		return ""
+	}
+	return fmt.Sprintf("%q is not %s", id, n.what)
+}
+
+// ref is one reference a row makes: the Go field naming the column, the id
+// it names, and the set it must be in.
+type ref struct {
+	goName string
+	id     string
+	in     interface{ check(string) string }
+}
+
+// keep drops the rows whose references do not resolve (or that fail
+// another cross-record rule), turning each into a problem. Rows are checked
+// in file order, so a rule like "no overlap" sees only rows already kept.
+func (l *loaded[T]) keep(check func(r *T) *cellError) {
+	if l.plan == nil {
+		return
+	}
+	kept := l.rows[:0]
+	for i := range l.rows {
+		r := &l.rows[i]
+		if ce := check(r); ce != nil {
+			pr := Problem{File: l.spec.name, Line: refLine(r), Column: ce.column, Value: ce.value, Reason: ce.reason}
+			if l.spec.day != nil {
+				pr.Day = l.spec.day(r)
+			}
+			l.problems = append(l.problems, pr)
+			l.count.Accepted--
+			l.count.Rejected++
+			if l.spec.id != nil {
+				l.rejected[l.spec.id(r)] = rowRef(r)
+			}
+			continue
+		}
+		kept = append(kept, *r)
+	}
+	clear(l.rows[len(kept):]) // let dropped rows' strings go
+	l.rows = kept
+}
+
+// refs checks a row's references in order and reports the first that fails.
+func (l *loaded[T]) refs(rs ...ref) *cellError {
+	for _, r := range rs {
+		if r.id == "" {
+			continue
+		}
+		if why := r.in.check(r.id); why != "" {
+			return &cellError{field: -1, column: l.plan.header(r.goName), value: r.id, reason: why}
+		}
+	}
+	return nil
+}
+
+func (l *loaded[T]) cellErr(goName, value, reason string) *cellError {
+	return &cellError{field: -1, column: l.plan.header(goName), value: value, reason: reason}
+}
+
+func rowRef(r any) Ref {
+	switch r := r.(type) {
+	case *Animal:
+		return r.Ref
+	case *Enclosure:
+		return r.Ref
+	case *Housing:
+		return r.Ref
+	case *Staff:
+		return r.Ref
+	case *Protocol:
+		return r.Ref
+	case *CareRound:
+		return r.Ref
+	case *Handling:
+		return r.Ref
+	case *PPECheck:
+		return r.Ref
+	case *Weather:
+		return r.Ref
+	case *OutdoorWork:
+		return r.Ref
+	case *Cull:
+		return r.Ref
+	}
+	return ""
+}
+
+func refLine(r any) int {
+	s := string(rowRef(r))
+	i := strings.LastIndexByte(s, ':')
+	n := 0
+	for _, c := range s[i+1:] {
+		n = n*10 + int(c-'0')
+	}
+	return n
+}
+
+// crossCheck applies the rules that span files, in dependency order so that
+// a rejected enclosure also rejects the rows that name it.
+func (ld *loadedSet) crossCheck(fac *Facility) {
+	buildings := nameSet{ids: map[string]bool{}, what: "a building in facility.yaml"}
+	for _, b := range fac.Buildings {
+		buildings.ids[b.ID] = true
+	}
+	sites := nameSet{ids: map[string]bool{}, what: "a weather site in facility.yaml"}
+	for _, w := range fac.WeatherSites {
+		sites.ids[w] = true
+	}
+
+	ld.enclosures.keep(func(e *Enclosure) *cellError {
+		return ld.enclosures.refs(ref{"BuildingID", e.BuildingID, buildings})
+	})
+	enclosures := newIndex(ld.enclosures)
+	protocols := newIndex(ld.protocols)
+	if !ld.protocols.present {
+		// protocols.csv is optional: without it, protocol ids cannot be checked.
+		protocols = nil
+	}
+	protoRef := func(goName, id string) ref {
+		if protocols == nil {
+			return ref{}
+		}
+		return ref{goName, id, protocols}
+	}
+
+	ld.staffRequired()
+	staff := newIndex(ld.staff)
+
+	ld.animals.keep(func(a *Animal) *cellError {
+		return ld.animals.refs(ref{"EnclosureID", a.EnclosureID, enclosures}, protoRef("ProtocolID", a.ProtocolID))
+	})
+	animals := newIndex(ld.animals)
+
+	// Housing: references, then no two stays of one animal overlap. A
+	// stay is [moved_in_on, moved_out_on), open-ended when still there.
+	stays := map[string][]*Housing{}
+	ld.housing.keep(func(h *Housing) *cellError {
+		if ce := ld.housing.refs(ref{"AnimalID", h.AnimalID, animals}, ref{"EnclosureID", h.EnclosureID, enclosures}); ce != nil {
+			return ce
+		}
+		for _, o := range stays[h.AnimalID] {
+			if overlaps(h, o) {
+				return ld.housing.cellErr("MovedInOn", h.MovedInOn.String(),
+					fmt.Sprintf("stay %s overlaps the stay %s at %s", stay(h), stay(o), o.Ref))
+			}
+		}
+		stays[h.AnimalID] = append(stays[h.AnimalID], h)
+		return nil
+	})
+
+	ld.ppe.keep(func(p *PPECheck) *cellError {
+		return ld.ppe.refs(ref{"AssignedTo", p.AssignedTo, staff})
+	})
+	var items *nameSet
+	if ld.ppe.present {
+		items = &nameSet{ids: map[string]bool{}, what: "an item_id in " + ppeFile}
+		for _, p := range ld.ppe.rows {
+			items.ids[p.ItemID] = true
+		}
+	}
+
+	ld.care.keep(func(r *CareRound) *cellError {
+		return ld.care.refs(
+			ref{"EnclosureID", r.EnclosureID, enclosures},
+			ref{"BuildingID", r.BuildingID, buildings},
+			ref{"StaffID", r.StaffID, staff},
+			ref{"ConcernAnimalID", r.ConcernAnimalID, animals})
+	})
+	ld.handling.keep(func(h *Handling) *cellError {
+		rs := []ref{{"AnimalID", h.AnimalID, animals}, {"StaffID", h.StaffID, staff}, protoRef("ProtocolID", h.ProtocolID)}
+		if items != nil {
+			rs = append(rs, ref{"GloveID", h.GloveID, items})
+		}
+		return ld.handling.refs(rs...)
+	})
+	ld.weather.keep(func(w *Weather) *cellError {
+		return ld.weather.refs(ref{"SiteID", w.SiteID, sites})
+	})
+	ld.work.keep(func(w *OutdoorWork) *cellError {
+		return ld.work.refs(ref{"StaffID", w.StaffID, staff}, ref{"SiteID", w.SiteID, sites})
+	})
+	ld.culls.keep(func(c *Cull) *cellError {
+		return ld.culls.refs(ref{"AnimalID", c.AnimalID, animals}, ref{"StaffID", c.StaffID, staff}, protoRef("ProtocolID", c.ProtocolID))
+	})
+}
+
+// staffRequired reports a missing staff.csv when any accepted row names a
+// person; those rows are then rejected by the reference check.
+func (ld *loadedSet) staffRequired() {
+	if ld.staff.present {
+		return
+	}
+	n := 0
+	for _, p := range ld.ppe.rows {
+		if p.AssignedTo != "" {
+			n++
+		}
+	}
+	n += len(ld.care.rows) + len(ld.handling.rows) + len(ld.work.rows) + len(ld.culls.rows)
+	if n > 0 {
+		rows := "rows name"
+		if n == 1 {
+			rows = "row names"
+		}
+		ld.extra = append(ld.extra, Problem{File: staffFile,
+			Reason: fmt.Sprintf("required file is missing: %d %s a staff_id", n, rows)})
+	}
+}
+
+func overlaps(a, b *Housing) bool {
+	// Half-open intervals; a zero MovedOutOn is "still there".
+	aEnd, bEnd := a.MovedOutOn, b.MovedOutOn
+	return (bEnd == 0 || a.MovedInOn < bEnd) && (aEnd == 0 || b.MovedInOn < aEnd)
+}
+
+func stay(h *Housing) string {
+	out := "still there"
+	if h.MovedOutOn != 0 {
+		out = h.MovedOutOn.String()
+	}
+	return h.MovedInOn.String() + " … " + out
+}
