@@ -15,7 +15,8 @@ type HazardBand struct {
 	Level int
 	// Label is our short name, e.g. "freeze 10-30 min".
 	Label string
-	// Wording is the published description of the risk.
+	// Wording is the published description of the risk (Level 0's, for
+	// wind chills above 0, is ours: the published bands start at 0).
 	Wording string
 	// WarmestC and ColdestC are the displayed (whole-degree) wind chills
 	// the band covers, inclusive. The coldest band has ColdestC =
@@ -28,8 +29,8 @@ type HazardBand struct {
 // Change Canada wind chill hazard bands.
 var bands = [...]HazardBand{
 	{Level: 0, Label: "none", Wording: "above 0: no wind chill hazard band", WarmestC: math.MaxInt, ColdestC: 1},
-	{Level: 1, Label: "low", Wording: "low risk", WarmestC: 0, ColdestC: -9},
-	{Level: 2, Label: "hypothermia", Wording: "low risk; risk of hypothermia with long exposure", WarmestC: -10, ColdestC: -27},
+	{Level: 1, Label: "low", Wording: "low", WarmestC: 0, ColdestC: -9},
+	{Level: 2, Label: "hypothermia", Wording: "low (risk of hypothermia with long exposure)", WarmestC: -10, ColdestC: -27},
 	{Level: 3, Label: "freeze 10-30 min", Wording: "exposed skin can freeze in 10–30 min", WarmestC: -28, ColdestC: -39},
 	{Level: 4, Label: "freeze 5-10 min", Wording: "exposed skin can freeze in 5–10 min", WarmestC: -40, ColdestC: -47},
 	{Level: 5, Label: "freeze 2-5 min", Wording: "exposed skin can freeze in 2–5 min", WarmestC: -48, ColdestC: -54},

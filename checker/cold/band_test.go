@@ -20,17 +20,17 @@ func TestBandEdges(t *testing.T) {
 	}{
 		{"1 no band", 1, 0, "above 0: no wind chill hazard band"}, // ECCC bands start at 0
 		{"0.5 shows as 1", 0.5, 0, "above 0: no wind chill hazard band"},
-		{"0 low", 0, 1, "low risk"},               // ECCC: 0 to −9 low
-		{"-0.4 shows as 0", -0.4, 1, "low risk"},  // rounded for display first
-		{"-9 low", -9, 1, "low risk"},             // ECCC: 0 to −9 low
-		{"-9.4 shows as -9", -9.4, 1, "low risk"}, // rounded for display first
-		{"-9.5 shows as -10", -9.5, 2, "low risk; risk of hypothermia with long exposure"},
-		{"-10", -10, 2, "low risk; risk of hypothermia with long exposure"}, // ECCC: −10 to −27
-		{"-27", -27, 2, "low risk; risk of hypothermia with long exposure"}, // ECCC: −10 to −27
-		{"-28", -28, 3, "exposed skin can freeze in 10–30 min"},             // ECCC: −28 to −39
-		{"-39", -39, 3, "exposed skin can freeze in 10–30 min"},             // ECCC: −28 to −39
-		{"-40", -40, 4, "exposed skin can freeze in 5–10 min"},              // ECCC: −40 to −47
-		{"-47", -47, 4, "exposed skin can freeze in 5–10 min"},              // ECCC: −40 to −47
+		{"0 low", 0, 1, "low"},               // ECCC: 0 to −9 low
+		{"-0.4 shows as 0", -0.4, 1, "low"},  // rounded for display first
+		{"-9 low", -9, 1, "low"},             // ECCC: 0 to −9 low
+		{"-9.4 shows as -9", -9.4, 1, "low"}, // rounded for display first
+		{"-9.5 shows as -10", -9.5, 2, "low (risk of hypothermia with long exposure)"},
+		{"-10", -10, 2, "low (risk of hypothermia with long exposure)"}, // ECCC: −10 to −27
+		{"-27", -27, 2, "low (risk of hypothermia with long exposure)"}, // ECCC: −10 to −27
+		{"-28", -28, 3, "exposed skin can freeze in 10–30 min"},         // ECCC: −28 to −39
+		{"-39", -39, 3, "exposed skin can freeze in 10–30 min"},         // ECCC: −28 to −39
+		{"-40", -40, 4, "exposed skin can freeze in 5–10 min"},          // ECCC: −40 to −47
+		{"-47", -47, 4, "exposed skin can freeze in 5–10 min"},          // ECCC: −40 to −47
 		{"-47.504 shows as -48", -47.504, 5, "exposed skin can freeze in 2–5 min"},
 		{"-48", -48, 5, "exposed skin can freeze in 2–5 min"},     // ECCC: −48 to −54
 		{"-54", -54, 5, "exposed skin can freeze in 2–5 min"},     // ECCC: −48 to −54

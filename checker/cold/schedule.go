@@ -117,6 +117,7 @@ type ScheduleError struct {
 	Reason string
 }
 
+// Error is "KEY: REASON"; the caller adds the limits file and line.
 func (e *ScheduleError) Error() string { return e.Key + ": " + e.Reason }
 
 const schedKey = "cold.work_warmup"
