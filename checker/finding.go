@@ -59,6 +59,12 @@ type CheckInfo struct {
 	// Needs lists the record files the check reads; when one is absent the
 	// check is "not evaluated".
 	Needs []string `json:"needs,omitempty"`
+	// Runs is true when consecutive days of the same check and subject
+	// collapse into one finding (On = first day, Until = last day).
+	Runs bool `json:"runs,omitempty"`
+	// Subjects are the subject kinds whose facts the check's package
+	// receives (enclosure, animal, ...), from its package METADATA.
+	Subjects []string `json:"subjects,omitempty"`
 }
 
 // Skipped is a check that was not evaluated, and why.
