@@ -20,7 +20,7 @@ import (
 	"go.yaml.in/yaml/v3"
 )
 
-//go:embed limits.yaml
+//go:embed *.rego limits.yaml
 var shipped embed.FS
 
 // FS returns the shipped rules: the .rego policies with their _test.rego

@@ -1,0 +1,117 @@
+# METADATA
+# title: Daily care
+# description: |
+#   Observation, feeding, water and health concerns, per enclosure.
+#   Input (enclosure): {id, ref, building, exposure, ..., care: {
+#     unobserved: [{from, until, days}],                 runs of occupied days with no observed round
+#     unfed: [{from, until, days, every_days, due_on}],   runs of occupied days with no feeding
+#     water_unavailable: [{on, state, restored, ref}],    rounds that found water empty or frozen
+#     concerns: [{on, ref, animal, answered_ref, answered_after_hours}]}}
+# scope: package
+# custom:
+#   subjects: [enclosure]
+package welfare.care
+
+# A run of missed days is significant once it reaches the limit's length.
+run_severity(days) := "significant" if {
+	days >= data.limits.care.significant_run_days
+} else := "minor"
+
+# METADATA
+# title: Animals not observed
+# description: An occupied enclosure had no round with every animal observed on a day.
+# custom:
+#   id: care.observation.missed
+#   severity: minor
+#   source: "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112: animals observed at least daily"
+#   runs: true
+#   needs: [daily_care.csv]
+findings contains f if {
+	some r in input.care.unobserved
+	f := {
+		"check": "care.observation.missed",
+		"subject": input.id,
+		"on": r.from,
+		"until": r.until,
+		"severity": run_severity(r.days),
+		"message": sprintf("no round observed the animals on %d day(s) in a row", [r.days]),
+		"evidence": [input.ref],
+	}
+}
+
+# METADATA
+# title: Feeding not recorded
+# description: An occupied enclosure went without a recorded feeding for as long as the species may.
+# custom:
+#   id: care.feeding.missed
+#   severity: minor
+#   source: common practice
+#   runs: true
+#   needs: [daily_care.csv]
+findings contains f if {
+	some r in input.care.unfed
+	r.days >= r.every_days
+	f := {
+		"check": "care.feeding.missed",
+		"subject": input.id,
+		"on": r.due_on,
+		"until": r.until,
+		"severity": run_severity(r.days),
+		"message": sprintf("no feeding recorded for %d day(s) in a row (%s to %s); the species is fed every %d day(s)", [r.days, r.from, r.until, r.every_days]),
+		"evidence": [input.ref],
+	}
+}
+
+# METADATA
+# title: Water unavailable
+# description: A round found water empty or frozen and did not record it restored before leaving.
+# custom:
+#   id: care.water.unavailable
+#   severity: significant
+#   source: "OLAW: inoperative watering systems are a significant deficiency (US PHS Policy IV.B)"
+#   needs: [daily_care.csv]
+findings contains f if {
+	some w in input.care.water_unavailable
+	not w.restored
+	f := {
+		"check": "care.water.unavailable",
+		"subject": input.id,
+		"on": w.on,
+		"message": sprintf("water found %s and not recorded as restored", [w.state]),
+		"evidence": [w.ref],
+	}
+}
+
+# METADATA
+# title: Health concern not followed up
+# description: A round raised a health concern and no health check, vet exam or treatment of the animal followed within the limit.
+# custom:
+#   id: care.health.unattended
+#   severity: significant
+#   source: common practice
+#   needs: [daily_care.csv, handling.csv]
+findings contains f if {
+	some c in input.care.concerns
+	not answered_in_time(c)
+	f := {
+		"check": "care.health.unattended",
+		"subject": input.id,
+		"on": c.on,
+		"message": sprintf("health concern%s not followed by %s within %v h%s", [about(c), concat(" or ", data.limits.care.concern_answered_by), data.limits.care.concern_response_hours, late(c)]),
+		"evidence": array.concat([c.ref], answered_refs(c)),
+	}
+}
+
+answered_in_time(c) if {
+	c.answered_after_hours != null
+	c.answered_after_hours <= data.limits.care.concern_response_hours
+}
+
+about(c) := sprintf(" about %s", [c.animal]) if c.animal != null
+else := ""
+
+late(c) := sprintf(" (first after %.1f h)", [c.answered_after_hours]) if c.answered_after_hours != null
+else := ""
+
+answered_refs(c) := [c.answered_ref] if c.answered_ref != null
+else := []

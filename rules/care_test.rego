@@ -1,0 +1,63 @@
+package welfare.care_test
+
+import data.welfare.care
+
+enc(care_facts) := {"kind": "enclosure", "id": "S1-01", "ref": "enclosures.csv:2", "care": object.union(
+	{"unobserved": [], "unfed": [], "water_unavailable": [], "concerns": []},
+	care_facts,
+)}
+
+test_no_problems_no_findings if {
+	count(care.findings) == 0 with input as enc({})
+}
+
+# Guide 8th ed. p. 112: observation at least daily. One missed day is minor,
+# two in a row significant (common practice, care.significant_run_days: 2).
+test_one_unobserved_day_is_minor if {
+	some f in care.findings with input as enc({"unobserved": [{"from": "2026-01-05", "until": "2026-01-05", "days": 1}]})
+	f.check == "care.observation.missed"
+	f.severity == "minor"
+	f.until == "2026-01-05"
+}
+
+test_two_unobserved_days_are_significant if {
+	some f in care.findings with input as enc({"unobserved": [{"from": "2026-01-05", "until": "2026-01-06", "days": 2}]})
+	f.severity == "significant"
+}
+
+test_unfed_run_shorter_than_interval_is_quiet if {
+	count(care.findings) == 0 with input as enc({"unfed": [{"from": "2026-01-05", "until": "2026-01-05", "days": 1, "every_days": 2, "due_on": "2026-01-06"}]})
+}
+
+test_unfed_run_reaching_interval_fires_from_due_day if {
+	some f in care.findings with input as enc({"unfed": [{"from": "2026-01-05", "until": "2026-01-07", "days": 3, "every_days": 2, "due_on": "2026-01-06"}]})
+	f.check == "care.feeding.missed"
+	f.on == "2026-01-06"
+	f.until == "2026-01-07"
+	f.severity == "significant"
+}
+
+test_frozen_water_not_restored_fires if {
+	some f in care.findings with input as enc({"water_unavailable": [{"on": "2026-01-09", "state": "frozen", "restored": false, "ref": "daily_care.csv:77"}]})
+	f.check == "care.water.unavailable"
+	f.evidence == ["daily_care.csv:77"]
+}
+
+test_frozen_water_restored_is_quiet if {
+	count(care.findings) == 0 with input as enc({"water_unavailable": [{"on": "2026-01-09", "state": "frozen", "restored": true, "ref": "daily_care.csv:77"}]})
+}
+
+test_concern_answered_in_time_is_quiet if {
+	count(care.findings) == 0 with input as enc({"concerns": [{"on": "2026-01-09", "ref": "daily_care.csv:80", "animal": "F1", "answered_ref": "handling.csv:5", "answered_after_hours": 24}]})
+}
+
+test_concern_answered_late_fires if {
+	some f in care.findings with input as enc({"concerns": [{"on": "2026-01-09", "ref": "daily_care.csv:80", "animal": "F1", "answered_ref": "handling.csv:5", "answered_after_hours": 24.5}]})
+	f.check == "care.health.unattended"
+	f.evidence == ["daily_care.csv:80", "handling.csv:5"]
+}
+
+test_concern_never_answered_fires if {
+	some f in care.findings with input as enc({"concerns": [{"on": "2026-01-09", "ref": "daily_care.csv:80", "animal": null, "answered_ref": null, "answered_after_hours": null}]})
+	f.evidence == ["daily_care.csv:80"]
+}

@@ -1,0 +1,120 @@
+# METADATA
+# title: Enclosures
+# description: |
+#   Floor space, height, capacity and furnishing for the animals an enclosure holds.
+#   Input (enclosure): {id, ref, building, exposure, enclosure_kind, area_m2, height_cm,
+#   max_occupants (0: none set), nest_box, platform, occupancy: [{from, until, days, count,
+#   occupants: [{animal, species, stage, required_m2}], required_m2, required_unknown,
+#   min_height_cm, needs_nest_box, needs_platform, evidence}]}.
+# scope: package
+# custom:
+#   subjects: [enclosure]
+package welfare.enclosure
+
+# METADATA
+# title: Floor space too small
+# description: The floor area is less than the sum of the areas the occupants need.
+# custom:
+#   id: enclosure.space.insufficient
+#   severity: significant
+#   source: "Council of Europe fur-animal recommendation (1999) as implemented in Finnish rules and Czech Decree 208/2004 §13; dogs: 9 CFR §3.6(c)(1)"
+#   runs: true
+findings contains f if {
+	some s in input.occupancy
+	input.area_m2 < s.required_m2
+	f := {
+		"check": "enclosure.space.insufficient",
+		"subject": input.id,
+		"on": s.from,
+		"until": s.until,
+		"message": sprintf("%v m² for %d animal(s) that need %v m²", [input.area_m2, s.count, s.required_m2]),
+		"evidence": s.evidence,
+	}
+}
+
+# METADATA
+# title: Enclosure too low
+# description: The inside height is below the largest minimum height among the occupants' species.
+# custom:
+#   id: enclosure.height.insufficient
+#   severity: significant
+#   source: "Council of Europe fur-animal recommendation (1999) as implemented in Finnish rules and Czech Decree 208/2004 §13"
+#   runs: true
+findings contains f if {
+	some s in input.occupancy
+	input.height_cm < s.min_height_cm
+	f := {
+		"check": "enclosure.height.insufficient",
+		"subject": input.id,
+		"on": s.from,
+		"until": s.until,
+		"message": sprintf("%v cm high; the occupants need at least %v cm", [input.height_cm, s.min_height_cm]),
+		"evidence": s.evidence,
+	}
+}
+
+# METADATA
+# title: Over capacity
+# description: More occupants than the capacity the facility set for the enclosure.
+# custom:
+#   id: enclosure.capacity.exceeded
+#   severity: minor
+#   source: facility choice
+#   runs: true
+findings contains f if {
+	input.max_occupants > 0
+	some s in input.occupancy
+	s.count > input.max_occupants
+	f := {
+		"check": "enclosure.capacity.exceeded",
+		"subject": input.id,
+		"on": s.from,
+		"until": s.until,
+		"message": sprintf("%d occupants; capacity %d", [s.count, input.max_occupants]),
+		"evidence": s.evidence,
+	}
+}
+
+# METADATA
+# title: Nest box missing
+# description: Occupied by a species that requires a nest box, and the enclosure has none recorded.
+# custom:
+#   id: enclosure.nest_box.missing
+#   severity: minor
+#   source: "Council of Europe fur-animal recommendation (1999) as implemented in national rules (from memory)"
+#   runs: true
+findings contains f if {
+	some s in input.occupancy
+	s.needs_nest_box
+	not input.nest_box
+	f := {
+		"check": "enclosure.nest_box.missing",
+		"subject": input.id,
+		"on": s.from,
+		"until": s.until,
+		"message": "the occupants' species needs a nest box and none is recorded",
+		"evidence": s.evidence,
+	}
+}
+
+# METADATA
+# title: Resting platform missing
+# description: Occupied by a species that requires a resting platform, and the enclosure has none recorded.
+# custom:
+#   id: enclosure.platform.missing
+#   severity: minor
+#   source: "Council of Europe fur-animal recommendation (1999) as implemented in national rules (from memory)"
+#   runs: true
+findings contains f if {
+	some s in input.occupancy
+	s.needs_platform
+	not input.platform
+	f := {
+		"check": "enclosure.platform.missing",
+		"subject": input.id,
+		"on": s.from,
+		"until": s.until,
+		"message": "the occupants' species needs a resting platform and none is recorded",
+		"evidence": s.evidence,
+	}
+}

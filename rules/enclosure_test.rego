@@ -1,0 +1,51 @@
+package welfare.enclosure_test
+
+import data.welfare.enclosure
+
+seg(over) := object.union({
+	"from": "2026-01-01", "until": "2026-01-31", "days": 31, "count": 1,
+	"occupants": [{"animal": "F1", "species": "vulpes_vulpes", "stage": "adult", "required_m2": 0.8}],
+	"required_m2": 0.8, "required_unknown": [], "min_height_cm": 70,
+	"needs_nest_box": true, "needs_platform": true, "evidence": ["enclosures.csv:2", "animals.csv:2"],
+}, over)
+
+cage(over, s) := object.union({
+	"kind": "enclosure", "id": "S1-01", "ref": "enclosures.csv:2", "area_m2": 0.8, "height_cm": 70,
+	"max_occupants": 1, "nest_box": true, "platform": true, "occupancy": [s],
+}, over)
+
+# Council of Europe fur-animal recommendation (1999), Czech Decree 208/2004 §13:
+# adult fox 0.8 m² and 70 cm — a cage of exactly that passes.
+test_cage_at_the_minimum_is_quiet if {
+	count(enclosure.findings) == 0 with input as cage({}, seg({}))
+}
+
+test_cage_below_area_fires if {
+	some f in enclosure.findings with input as cage({"area_m2": 0.79}, seg({}))
+	f.check == "enclosure.space.insufficient"
+	f.on == "2026-01-01"
+	f.until == "2026-01-31"
+}
+
+test_cage_below_height_fires if {
+	some f in enclosure.findings with input as cage({"height_cm": 69}, seg({}))
+	f.check == "enclosure.height.insufficient"
+}
+
+test_over_capacity_fires if {
+	some f in enclosure.findings with input as cage({"area_m2": 2, "max_occupants": 1}, seg({"count": 2, "required_m2": 1.6}))
+	f.check == "enclosure.capacity.exceeded"
+}
+
+test_no_capacity_set_is_quiet if {
+	count(enclosure.findings) == 0 with input as cage({"area_m2": 2, "max_occupants": 0}, seg({"count": 2, "required_m2": 1.6}))
+}
+
+test_missing_nest_box_and_platform_fire if {
+	fs := enclosure.findings with input as cage({"nest_box": false, "platform": false}, seg({}))
+	{f.check | some f in fs} == {"enclosure.nest_box.missing", "enclosure.platform.missing"}
+}
+
+test_mink_needs_no_platform if {
+	count(enclosure.findings) == 0 with input as cage({"platform": false, "area_m2": 0.255, "height_cm": 45}, seg({"required_m2": 0.255, "min_height_cm": 45, "needs_platform": false}))
+}
