@@ -1,0 +1,226 @@
+package checker
+
+import (
+	"sort"
+	"strconv"
+
+	"welfare/records"
+	"welfare/rules"
+)
+
+// facts holds the indexes that every domain's facts are computed from, and
+// the input documents being built, one per subject. Domain files
+// (facts_care.go, facts_enclosure.go, ...) each add their own section to the
+// documents of the subjects they describe.
+type facts struct {
+	set    *records.Set
+	lim    *rules.Limits
+	period Period
+
+	animals    map[string]*records.Animal
+	enclosures map[string]*records.Enclosure
+	buildings  map[string]records.Building
+	staff      map[string]*records.Staff
+	protocols  map[string]*records.Protocol
+	// byBuilding lists each building's enclosure ids in file order.
+	byBuilding map[string][]string
+	// stays lists, per enclosure, the animals' stays clipped to the period.
+	stays map[string][]stay
+	// segments is each enclosure's occupancy over the period as runs of days
+	// with the same occupants and life stages (see occupancy.go).
+	segments map[string][]segment
+
+	// Built on first use by the domains that need them.
+	care     *careDays
+	handling map[string][]*records.Handling
+
+	docs map[string]map[string]map[string]any // kind -> subject id -> document
+
+	// For the report: care coverage and the weather sites' daily minima.
+	coverage CareCoverage
+	weather  []SiteDays
+}
+
+// stay is one animal in one enclosure from From to To inclusive (To is
+// clipped to the period end when the stay is open).
+type stay struct {
+	Animal   *records.Animal
+	From, To records.Day
+	Ref      records.Ref
+}
+
+func newFacts(set *records.Set, lim *rules.Limits, p Period) *facts {
+	f := &facts{
+		set: set, lim: lim, period: p,
+		animals:    make(map[string]*records.Animal, len(set.Animals)),
+		enclosures: make(map[string]*records.Enclosure, len(set.Enclosures)),
+		buildings:  make(map[string]records.Building, len(set.Facility.Buildings)),
+		staff:      make(map[string]*records.Staff, len(set.Staff)),
+		protocols:  make(map[string]*records.Protocol, len(set.Protocols)),
+		byBuilding: map[string][]string{},
+		docs:       map[string]map[string]map[string]any{},
+	}
+	for i := range set.Animals {
+		f.animals[set.Animals[i].ID] = &set.Animals[i]
+	}
+	for i := range set.Enclosures {
+		e := &set.Enclosures[i]
+		f.enclosures[e.ID] = e
+		f.byBuilding[e.BuildingID] = append(f.byBuilding[e.BuildingID], e.ID)
+	}
+	for _, b := range set.Facility.Buildings {
+		f.buildings[b.ID] = b
+	}
+	for i := range set.Staff {
+		f.staff[set.Staff[i].ID] = &set.Staff[i]
+	}
+	for i := range set.Protocols {
+		f.protocols[set.Protocols[i].ID] = &set.Protocols[i]
+	}
+	f.stays = f.buildStays()
+	f.segments = make(map[string][]segment, len(f.stays))
+	for id, ss := range f.stays {
+		f.segments[id] = f.occupancy(f.enclosures[id], ss)
+	}
+	return f
+}
+
+// buildStays places each animal in its enclosures: from housing.csv when the
+// file exists (it replaces animals.enclosure_id), else the home enclosure
+// from arrival to departure.
+func (f *facts) buildStays() map[string][]stay {
+	out := map[string][]stay{}
+	add := func(encID string, s stay) {
+		// A stay ends at the animal's departure even if housing says otherwise.
+		if a := s.Animal; !a.LeftOn.IsZero() && (s.To.IsZero() || s.To > a.LeftOn) {
+			s.To = a.LeftOn
+		}
+		if s.To.IsZero() || s.To > f.period.To {
+			s.To = f.period.To
+		}
+		if s.From < f.period.From {
+			s.From = f.period.From
+		}
+		if s.From > s.To {
+			return
+		}
+		out[encID] = append(out[encID], s)
+	}
+	if f.set.Present["housing.csv"] {
+		for i := range f.set.Housing {
+			h := &f.set.Housing[i]
+			a, ok := f.animals[h.AnimalID]
+			if !ok {
+				continue
+			}
+			to := h.MovedOutOn
+			if !to.IsZero() {
+				// The move-out day counts in the new enclosure.
+				to--
+			}
+			from := h.MovedInOn
+			if from < a.ArrivedOn {
+				from = a.ArrivedOn
+			}
+			add(h.EnclosureID, stay{Animal: a, From: from, To: to, Ref: h.Ref})
+		}
+	} else {
+		for i := range f.set.Animals {
+			a := &f.set.Animals[i]
+			if a.EnclosureID == "" {
+				continue
+			}
+			add(a.EnclosureID, stay{Animal: a, From: a.ArrivedOn, To: a.LeftOn, Ref: a.Ref})
+		}
+	}
+	for id := range out {
+		ss := out[id]
+		sort.SliceStable(ss, func(i, j int) bool { return ss[i].From < ss[j].From })
+	}
+	return out
+}
+
+// doc returns the input document of one subject, creating it with its kind
+// and id on first use.
+func (f *facts) doc(kind, id string) map[string]any {
+	byID := f.docs[kind]
+	if byID == nil {
+		byID = map[string]map[string]any{}
+		f.docs[kind] = byID
+	}
+	d := byID[id]
+	if d == nil {
+		d = map[string]any{"kind": kind, "id": id}
+		byID[id] = d
+	}
+	return d
+}
+
+// inputs returns the documents of one kind sorted by subject id, so
+// evaluation order (and so any error) is deterministic.
+func (f *facts) inputs(kind string) []map[string]any {
+	byID := f.docs[kind]
+	ids := make([]string, 0, len(byID))
+	for id := range byID {
+		ids = append(ids, id)
+	}
+	sort.Strings(ids)
+	out := make([]map[string]any, len(ids))
+	for i, id := range ids {
+		out[i] = byID[id]
+	}
+	return out
+}
+
+// inPeriod reports whether a day falls in the checked period.
+func (f *facts) inPeriod(d records.Day) bool { return d >= f.period.From && d <= f.period.To }
+
+// lifeStage is the animal's stage on day d: the recorded life_stage wins;
+// otherwise juvenile while younger than the limits' juvenile age.
+func (f *facts) lifeStage(a *records.Animal, d records.Day) string {
+	if a.LifeStage != "" {
+		return a.LifeStage
+	}
+	if !a.BornOn.IsZero() && d < a.BornOn.AddMonths(f.lim.Juveniles.UnderMonths) {
+		return "juvenile"
+	}
+	return "adult"
+}
+
+// refs turns refs into the []any of strings a document holds.
+func refs(rs ...records.Ref) []any {
+	out := make([]any, 0, len(rs))
+	for _, r := range rs {
+		if r != "" {
+			out = append(out, string(r))
+		}
+	}
+	return out
+}
+
+// strs turns a string slice into the []any a document holds.
+func strs(ss []string) []any {
+	out := make([]any, len(ss))
+	for i, s := range ss {
+		out[i] = s
+	}
+	return out
+}
+
+// num gives an optional number as a document value: null when not recorded.
+func num(p *float64) any {
+	if p == nil {
+		return nil
+	}
+	return *p
+}
+
+// dayOrNull gives a day as "YYYY-MM-DD", or null when not recorded.
+func dayOrNull(d records.Day) any {
+	if d.IsZero() {
+		return nil
+	}
+	return d.String()
+}
+
+func itoa(n int) string { return strconv.Itoa(n) }

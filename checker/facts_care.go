@@ -1,0 +1,298 @@
+package checker
+
+import (
+	"sort"
+
+	"welfare/records"
+)
+
+// dayCare is what the care rounds of one day recorded for one enclosure (or,
+// for building rounds, for every enclosure of a building).
+type dayCare struct {
+	observed    bool
+	fed         bool
+	bedding     bool
+	waterChecks uint8 // rounds that recorded a water state (not_checked and empty do not count)
+}
+
+func (a dayCare) or(b dayCare) dayCare {
+	w := int(a.waterChecks) + int(b.waterChecks)
+	if w > 255 {
+		w = 255
+	}
+	return dayCare{a.observed || b.observed, a.fed || b.fed, a.bedding || b.bedding, uint8(w)}
+}
+
+// careDays indexes the care rounds by enclosure (and building) and day of
+// the period: a flat slice per enclosure keeps millions of rounds cheap.
+type careDays struct {
+	from records.Day
+	n    int
+	enc  map[string][]dayCare
+	bld  map[string][]dayCare
+}
+
+func (f *facts) careIndex() *careDays {
+	if f.care != nil {
+		return f.care
+	}
+	c := &careDays{from: f.period.From, n: int(f.period.To-f.period.From) + 1,
+		enc: map[string][]dayCare{}, bld: map[string][]dayCare{}}
+	for i := range f.set.Care {
+		r := &f.set.Care[i]
+		if !f.inPeriod(r.Day) {
+			continue
+		}
+		m, id := c.enc, r.EnclosureID
+		if id == "" {
+			m, id = c.bld, r.BuildingID
+		}
+		days := m[id]
+		if days == nil {
+			days = make([]dayCare, c.n)
+			m[id] = days
+		}
+		dc := &days[r.Day-c.from]
+		dc.observed = dc.observed || r.Observed.IsYes()
+		dc.fed = dc.fed || r.Fed.IsYes() || (r.FeedG != nil && *r.FeedG > 0)
+		dc.bedding = dc.bedding || r.BeddingAdded.IsYes()
+		if r.Water != "" && r.Water != "not_checked" && dc.waterChecks < 255 {
+			dc.waterChecks++
+		}
+	}
+	f.care = c
+	return c
+}
+
+// on is what the rounds of day d recorded for the enclosure, counting its
+// building's rounds.
+func (c *careDays) on(encID, buildingID string, d records.Day) dayCare {
+	i := int(d - c.from)
+	if i < 0 || i >= c.n {
+		return dayCare{}
+	}
+	var out dayCare
+	if days := c.enc[encID]; days != nil {
+		out = days[i]
+	}
+	if days := c.bld[buildingID]; days != nil {
+		out = out.or(days[i])
+	}
+	return out
+}
+
+// careFacts adds each enclosure's "care" section: runs of occupied days
+// without an observation or a feeding, rounds that left water unavailable,
+// and health concerns with the time to the first check that answered them.
+func (f *facts) careFacts() {
+	c := f.careIndex()
+	for i := range f.set.Enclosures {
+		e := &f.set.Enclosures[i]
+		unobserved, unfed := []any{}, []any{}
+		var obsRun, fedRun run
+		for _, s := range f.segments[e.ID] {
+			every := 0
+			for _, o := range s.Occupants {
+				if n := f.lim.Species[o.Animal.Species].FeedEveryDays; n > 0 && (every == 0 || n < every) {
+					every = n
+				}
+			}
+			for d := s.From; d <= s.To; d++ {
+				dc := c.on(e.ID, e.BuildingID, d)
+				f.coverage.OccupiedDays++
+				if dc.observed && dc.fed {
+					f.coverage.CompleteDays++
+				}
+				if x := obsRun.step(d, !dc.observed, 0); x != nil {
+					unobserved = append(unobserved, x)
+				}
+				if x := fedRun.step(d, !dc.fed, every); x != nil {
+					unfed = append(unfed, x)
+				}
+			}
+		}
+		if x := obsRun.flush(); x != nil {
+			unobserved = append(unobserved, x)
+		}
+		if x := fedRun.flush(); x != nil {
+			unfed = append(unfed, x)
+		}
+		d := f.doc("enclosure", e.ID)
+		d["care"] = map[string]any{
+			"rounds_recorded":   f.set.Present["daily_care.csv"],
+			"unobserved":        unobserved,
+			"unfed":             unfed,
+			"water_unavailable": []any{},
+			"concerns":          []any{},
+		}
+	}
+	f.roundEvents()
+}
+
+// run tracks one run of consecutive problem days.
+type run struct {
+	from, to records.Day
+	minN     int // the smallest "every N days" seen over the run
+}
+
+// step extends the run with day d when bad, and returns the finished run
+// when a good day (or a gap in occupancy) ends it.
+func (r *run) step(d records.Day, bad bool, n int) map[string]any {
+	var done map[string]any
+	if r.from != 0 && (!bad || d != r.to+1) {
+		done = r.flush()
+	}
+	if bad {
+		if r.from == 0 {
+			r.from, r.minN = d, n
+		}
+		r.to = d
+		if n > 0 && (r.minN == 0 || n < r.minN) {
+			r.minN = n
+		}
+	}
+	return done
+}
+
+func (r *run) flush() map[string]any {
+	if r.from == 0 {
+		return nil
+	}
+	m := map[string]any{"from": r.from.String(), "until": r.to.String(), "days": int(r.to-r.from) + 1}
+	if r.minN > 0 {
+		m["every_days"] = r.minN
+		m["due_on"] = (r.from + records.Day(r.minN) - 1).String()
+	}
+	*r = run{}
+	return m
+}
+
+// roundEvents adds the per-round care events: water found empty or frozen
+// and not restored, and health concerns.
+func (f *facts) roundEvents() {
+	byAnimal := f.handlingByAnimal()
+	for i := range f.set.Care {
+		r := &f.set.Care[i]
+		if !f.inPeriod(r.Day) {
+			continue
+		}
+		// A building round speaks for every enclosure of the building that
+		// had animals that day; an enclosure round for its enclosure.
+		targets := []string{r.EnclosureID}
+		if r.EnclosureID == "" {
+			targets = targets[:0]
+			for _, id := range f.byBuilding[r.BuildingID] {
+				if f.occupied(id, r.Day) {
+					targets = append(targets, id)
+				}
+			}
+		}
+		if r.Water == "empty" || r.Water == "frozen" {
+			for _, id := range targets {
+				appendTo(f.doc("enclosure", id)["care"], "water_unavailable", map[string]any{
+					"on": r.Day.String(), "state": r.Water, "restored": r.WaterRestored.IsYes(), "ref": string(r.Ref),
+				})
+			}
+		}
+		if !r.HealthConcern.IsYes() {
+			continue
+		}
+		// The animals the concern is about: the named one, else every
+		// occupant of the enclosures the round covered.
+		var animals []string
+		subject := r.EnclosureID
+		if r.ConcernAnimalID != "" {
+			animals = []string{r.ConcernAnimalID}
+			if subject == "" {
+				subject = f.enclosureOf(r.ConcernAnimalID, r.Day)
+			}
+		} else {
+			for _, id := range targets {
+				if s := f.segmentOn(id, r.Day); s != nil {
+					for _, o := range s.Occupants {
+						animals = append(animals, o.Animal.ID)
+					}
+				}
+			}
+		}
+		if subject == "" {
+			subject = r.BuildingID
+		}
+		var best *records.Handling
+		for _, a := range animals {
+			for _, h := range byAnimal[a] {
+				if h.At.Before(r.At) || !contains(f.lim.Care.ConcernAnsweredBy, h.Purpose) {
+					continue
+				}
+				if best == nil || h.At.Before(best.At) {
+					best = h
+				}
+				break
+			}
+		}
+		c := map[string]any{
+			"on": r.Day.String(), "ref": string(r.Ref), "animal": nilIfEmpty(r.ConcernAnimalID),
+			"answered_ref": nil, "answered_after_hours": nil,
+		}
+		if best != nil {
+			c["answered_ref"] = string(best.Ref)
+			c["answered_after_hours"] = best.At.Sub(r.At).Hours()
+		}
+		if f.docs["enclosure"][subject] == nil && f.enclosures[subject] == nil {
+			// A building-wide concern about no named animal: the building
+			// stands as the subject.
+			f.doc("enclosure", subject)["care"] = map[string]any{"unobserved": []any{}, "unfed": []any{}, "water_unavailable": []any{}, "concerns": []any{}}
+		}
+		appendTo(f.doc("enclosure", subject)["care"], "concerns", c)
+	}
+}
+
+// handlingByAnimal indexes the handling events by animal, in time order.
+func (f *facts) handlingByAnimal() map[string][]*records.Handling {
+	if f.handling != nil {
+		return f.handling
+	}
+	m := map[string][]*records.Handling{}
+	for i := range f.set.Handling {
+		h := &f.set.Handling[i]
+		m[h.AnimalID] = append(m[h.AnimalID], h)
+	}
+	for _, hs := range m {
+		sort.SliceStable(hs, func(i, j int) bool { return hs[i].At.Before(hs[j].At) })
+	}
+	f.handling = m
+	return m
+}
+
+// enclosureOf is the enclosure an animal occupied on day d, or "".
+func (f *facts) enclosureOf(animalID string, d records.Day) string {
+	for id, ss := range f.stays {
+		for _, s := range ss {
+			if s.Animal.ID == animalID && s.From <= d && d <= s.To {
+				return id
+			}
+		}
+	}
+	return ""
+}
+
+func appendTo(section any, key string, v any) {
+	m := section.(map[string]any)
+	m[key] = append(m[key].([]any), v)
+}
+
+func contains(xs []string, x string) bool {
+	for _, y := range xs {
+		if y == x {
+			return true
+		}
+	}
+	return false
+}
+
+func nilIfEmpty(s string) any {
+	if s == "" {
+		return nil
+	}
+	return s
+}

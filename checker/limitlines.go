@@ -1,0 +1,85 @@
+package checker
+
+import (
+	"fmt"
+	"regexp"
+	"strings"
+
+	"go.yaml.in/yaml/v3"
+)
+
+// sourceTag finds a value's source tag in its comment: [P] ..., [C], [F], [M].
+var sourceTag = regexp.MustCompile(`\[[PCFM]\].*`)
+
+// limitLines flattens a limits file into one line per value, each with the
+// source its comment gives (or the nearest enclosing key's, for values in a
+// block whose heading carries the source). Unparseable text gives none: the
+// file was already validated when it was loaded.
+func limitLines(src []byte) []LimitLine {
+	var root yaml.Node
+	if yaml.Unmarshal(src, &root) != nil || len(root.Content) == 0 {
+		return nil
+	}
+	var out []LimitLine
+	var walk func(n *yaml.Node, key, inherited string)
+	walk = func(n *yaml.Node, key, inherited string) {
+		switch n.Kind {
+		case yaml.MappingNode:
+			for i := 0; i+1 < len(n.Content); i += 2 {
+				k, v := n.Content[i], n.Content[i+1]
+				src := tagOf(k.LineComment, v.LineComment)
+				if src == "" {
+					src = inherited
+				}
+				child := k.Value
+				if key != "" {
+					child = key + "." + k.Value
+				}
+				if v.Kind == yaml.MappingNode && !flowLeaf(v) {
+					walk(v, child, src)
+					continue
+				}
+				out = append(out, LimitLine{Key: child, Value: flat(v), Source: src})
+			}
+		case yaml.SequenceNode:
+			for i, c := range n.Content {
+				walk(c, fmt.Sprintf("%s[%d]", key, i), inherited)
+			}
+		}
+	}
+	walk(root.Content[0], "", "")
+	return out
+}
+
+// flowLeaf treats a short inline mapping ({sedation: true}) as one value.
+func flowLeaf(n *yaml.Node) bool { return n.Style&yaml.FlowStyle != 0 }
+
+func tagOf(comments ...string) string {
+	for _, c := range comments {
+		if m := sourceTag.FindString(c); m != "" {
+			return strings.TrimSpace(m)
+		}
+	}
+	return ""
+}
+
+// flat renders a value on one line as it would be written in YAML flow style.
+func flat(n *yaml.Node) string {
+	switch n.Kind {
+	case yaml.ScalarNode:
+		return n.Value
+	case yaml.SequenceNode:
+		parts := make([]string, len(n.Content))
+		for i, c := range n.Content {
+			parts[i] = flat(c)
+		}
+		return "[" + strings.Join(parts, ", ") + "]"
+	case yaml.MappingNode:
+		parts := make([]string, 0, len(n.Content)/2)
+		for i := 0; i+1 < len(n.Content); i += 2 {
+			parts = append(parts, n.Content[i].Value+": "+flat(n.Content[i+1]))
+		}
+		return "{" + strings.Join(parts, ", ") + "}"
+	}
+	return ""
+}
