@@ -1,0 +1,62 @@
+package reports
+
+import (
+	"encoding/csv"
+	"io"
+
+	"welfare/checker"
+)
+
+// csvHeader is the findings.csv header; the column order is part of the contract.
+var csvHeader = []string{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source"}
+
+// WriteCSV writes one finding per row, in r.Findings order, evidence refs
+// joined with "; ". A cell a spreadsheet would run as a formula is neutralised
+// (see Neutralise).
+func WriteCSV(w io.Writer, r *checker.Result) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(csvHeader); err != nil {
+		return err
+	}
+	row := make([]string, len(csvHeader))
+	for i := range r.Findings {
+		f := &r.Findings[i]
+		until := ""
+		if f.Until != f.On {
+			until = f.Until.String()
+		}
+		row[0] = string(f.Severity)
+		row[1] = f.Check
+		row[2] = domainOf(f)
+		row[3] = f.Subject
+		row[4] = f.On.String()
+		row[5] = until
+		row[6] = f.Message
+		row[7] = refsString(f.Evidence, "; ")
+		row[8] = f.Title
+		row[9] = f.Source
+		for j := range row {
+			row[j] = Neutralise(row[j])
+		}
+		if err := cw.Write(row); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// Neutralise prefixes a single quote to a cell whose first character would
+// make a spreadsheet treat it as a formula (=, +, -, @) or shift it into
+// another cell (tab, carriage return). Only the first character matters:
+// "wind chill −31 °C, limit -20" is left alone, "-20 °C" becomes "'-20 °C".
+func Neutralise(cell string) string {
+	if cell == "" {
+		return cell
+	}
+	switch cell[0] {
+	case '=', '+', '-', '@', '\t', '\r':
+		return "'" + cell
+	}
+	return cell
+}
