@@ -1,0 +1,235 @@
+package records
+
+import (
+	"math"
+	"reflect"
+	"testing"
+	"time"
+)
+
+func TestParseBool(t *testing.T) {
+	tests := []struct {
+		in     string
+		want   Bool
+		wantOK bool
+	}{
+		{"yes", Yes, true}, {"YES", Yes, true}, {"Yes", Yes, true}, {"y", Yes, true}, {"Y", Yes, true},
+		{"true", Yes, true}, {"TRUE", Yes, true}, {"1", Yes, true},
+		{"no", No, true}, {"No", No, true}, {"n", No, true}, {"false", No, true}, {"False", No, true}, {"0", No, true},
+		{"maybe", NotRecorded, false}, {"2", NotRecorded, false}, {"yess", NotRecorded, false}, {"t", NotRecorded, false},
+	}
+	for _, tt := range tests {
+		t.Run(tt.in, func(t *testing.T) {
+			got, ok := parseBool(tt.in)
+			if got != tt.want || ok != tt.wantOK {
+				t.Errorf("parseBool(%q) = %v, %v; want %v, %v", tt.in, got, ok, tt.want, tt.wantOK)
+			}
+		})
+	}
+}
+
+func TestParseNumber(t *testing.T) {
+	tests := []struct {
+		in     string
+		want   float64
+		wantOK bool
+	}{
+		{"12.5", 12.5, true}, {"-40", -40, true}, {"+3", 3, true}, {"1e2", 100, true}, {"0", 0, true},
+		{"12,5", 0, false}, // a decimal comma is refused, not guessed
+		{"NaN", 0, false}, {"Inf", 0, false}, {"0x10", 0, false}, {"1_000", 0, false}, {"12 kg", 0, false},
+	}
+	for _, tt := range tests {
+		t.Run(tt.in, func(t *testing.T) {
+			got, ok := parseNumber(tt.in)
+			if got != tt.want || ok != tt.wantOK {
+				t.Errorf("parseNumber(%q) = %v, %v; want %v, %v", tt.in, got, ok, tt.want, tt.wantOK)
+			}
+		})
+	}
+}
+
+func TestParseDate(t *testing.T) {
+	tests := []struct {
+		in      string
+		want    Day
+		wantErr bool
+	}{
+		// 2026-01-01T00:00:00Z is Unix time 1767225600 = 20454 days (from memory,
+		// checked by the arithmetic 20454 × 86400); Day counts 1970-01-01 as 1.
+		{"2026-01-01", 20455, false},
+		{"1970-01-01", 1, false},
+		{"2024-02-29", MakeDay(2024, 2, 29), false}, // leap year (Gregorian rule, common practice)
+		{"2100-02-28", MakeDay(2100, 2, 28), false},
+		{"2023-02-29", 0, true}, // not a leap year
+		{"2100-02-29", 0, true}, // century not divisible by 400
+		{"2026-13-01", 0, true},
+		{"2026-1-5", 0, true},
+		{"15/01/2026", 0, true},
+		{"2026-01-15T07:00", 0, true},
+	}
+	for _, tt := range tests {
+		t.Run(tt.in, func(t *testing.T) {
+			got, err := parseDate(tt.in)
+			if (err != nil) != tt.wantErr || got != tt.want {
+				t.Errorf("parseDate(%q) = %v, %v; want %v, error %v", tt.in, got, err, tt.want, tt.wantErr)
+			}
+		})
+	}
+}
+
+// civilDay must agree with the time package on every day across a wide span.
+func TestCivilDayMatchesTime(t *testing.T) {
+	for d := time.Date(1899, 1, 1, 0, 0, 0, 0, time.UTC); d.Year() < 2101; d = d.AddDate(0, 0, 1) {
+		got := civilDay(d.Year(), int(d.Month()), d.Day())
+		if want := DayOf(d); got != want {
+			t.Fatalf("civilDay(%s) = %d, want %d", d.Format("2006-01-02"), got, want)
+		}
+	}
+}
+
+func TestParseDateTime(t *testing.T) {
+	loc, err := time.LoadLocation("America/Winnipeg")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Winnipeg keeps Central Standard Time, UTC−6, in January and Central
+	// Daylight Time, UTC−5, in July (IANA tz database, America/Winnipeg).
+	jan := time.Date(2026, 1, 15, 13, 0, 0, 0, time.UTC)
+	tests := []struct {
+		in      string
+		want    time.Time
+		wantErr bool
+	}{
+		{"2026-01-15T07:00", jan, false},
+		{"2026-01-15 07:00", jan, false},
+		{"2026-01-15T07:00:30", jan.Add(30 * time.Second), false},
+		{"2026-01-15 07:00:30", jan.Add(30 * time.Second), false},
+		{"2026-07-15T07:00", time.Date(2026, 7, 15, 12, 0, 0, 0, time.UTC), false},
+		{"2026-01-15T13:00:00Z", jan, false},
+		{"2026-01-15T08:00:00-05:00", jan, false},
+		{"2026-01-15 08:00:00-05:00", jan, false},
+		{"2026-01-15T08:00-05:00", jan, false},
+		{"2026-01-15T24:00", time.Time{}, true},
+		{"2026-01-15T07:60", time.Time{}, true},
+		{"2026-01-15", time.Time{}, true},
+		{"2026-01-15T7:00", time.Time{}, true},
+		{"15.01.2026 07:00", time.Time{}, true},
+	}
+	for _, tt := range tests {
+		t.Run(tt.in, func(t *testing.T) {
+			got, err := parseDateTime(tt.in, loc)
+			if (err != nil) != tt.wantErr || !got.Equal(tt.want) {
+				t.Fatalf("parseDateTime(%q) = %v, %v; want %v, error %v", tt.in, got, err, tt.want, tt.wantErr)
+			}
+			if err == nil && got.Location() != loc {
+				t.Errorf("parseDateTime(%q) is in %v, want the facility's zone", tt.in, got.Location())
+			}
+		})
+	}
+	// An offset that crosses midnight lands on the facility's local day.
+	got, err := parseDateTime("2026-01-16T03:00:00Z", loc)
+	if err != nil || DayOf(got) != MakeDay(2026, 1, 15) {
+		t.Errorf("03:00Z on Jan 16 = %v (day %v), want Jan 15 in Winnipeg", got, DayOf(got))
+	}
+}
+
+func TestParseList(t *testing.T) {
+	tests := []struct {
+		in   string
+		want []string
+	}{
+		{"coverall", []string{"coverall"}},
+		{"coverall;boots", []string{"coverall", "boots"}},
+		{" coverall ; boots ;", []string{"coverall", "boots"}},
+		{";;", []string{}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.in, func(t *testing.T) {
+			got := parseList(tt.in, func(s string) string { return s })
+			if !reflect.DeepEqual(got, tt.want) {
+				t.Errorf("parseList(%q) = %q, want %q", tt.in, got, tt.want)
+			}
+		})
+	}
+}
+
+func TestIDAndCode(t *testing.T) {
+	long := "A123456789012345678901234567890123456789012345678901234567890123" // 64 characters
+	tests := []struct {
+		in           string
+		isID, isCode bool
+	}{
+		{"A1", true, false},
+		{"fox-07.b:2/x_y", true, false},
+		{long, true, false},
+		{long + "4", false, false},
+		{"", false, false},
+		{"A 1", false, false},
+		{"Ä1", false, false},
+		{"vulpes_vulpes", true, true},
+		{"co2_chamber", true, true},
+		{"Captive_Bolt", true, false},
+		{"2nd_method", true, false},
+		{"captive-bolt", true, false},
+	}
+	for _, tt := range tests {
+		t.Run(tt.in, func(t *testing.T) {
+			if got := isID(tt.in); got != tt.isID {
+				t.Errorf("isID(%q) = %v, want %v", tt.in, got, tt.isID)
+			}
+			if got := isCode(tt.in); got != tt.isCode {
+				t.Errorf("isCode(%q) = %v, want %v", tt.in, got, tt.isCode)
+			}
+		})
+	}
+}
+
+// TestUnitConversions checks every unit alternative against NIST SP 811
+// (2008 edition), Appendix B.8 "Factors for units listed alphabetically".
+func TestUnitConversions(t *testing.T) {
+	tests := []struct {
+		kind   unitKind
+		suffix string
+		in     float64
+		want   float64
+	}{
+		{"temperature", "_c", -40, -40},
+		{"temperature", "_f", -40, -40},  // SP 811 B.8: t/°C = (t/°F − 32)/1.8; −40 °F = −40 °C
+		{"temperature", "_f", 32, 0},     // SP 811 B.8: freezing point of water
+		{"temperature", "_f", 212, 100},  // SP 811 B.8: boiling point of water at 1 atm
+		{"temperature", "_f", -130, -90}, // (−130 − 32)/1.8 = −90
+		{"speed", "_kmh", 25, 25},
+		{"speed", "_mph", 1, 1.609344},  // SP 811 B.8: 1 mi/h = 1.609344 km/h (exact)
+		{"speed", "_mph", 15, 24.14016}, // 15 × 1.609344
+		{"speed", "_ms", 1, 3.6},        // SP 811 B.8: 1 km/h = 0.2777778 m/s, i.e. 1 m/s = 3.6 km/h
+		{"speed", "_ms", 10, 36},
+		{"length", "_cm", 70, 70},
+		{"length", "_in", 1, 2.54},   // SP 811 B.8: 1 in = 2.54 cm (exact)
+		{"length", "_in", 24, 60.96}, // 24 × 2.54
+		{"area", "_m2", 0.8, 0.8},
+		{"area", "_ft2", 1, 0.09290304}, // SP 811 B.8: 1 ft² = 9.290304 E−02 m² (exact)
+		{"area", "_ft2", 10, 0.9290304},
+		{"mass", "_kg", 6.2, 6.2},
+		{"mass", "_lb", 1, 0.45359237},  // SP 811 B.8: 1 lb (avoirdupois) = 0.45359237 kg (exact)
+		{"mass", "_lb", 22, 9.97903214}, // 22 × 0.45359237
+		{"thickness", "_mm", 2.5, 2.5},
+		{"duration", "_min", 15, 15},
+		{"grams", "_g", 250, 250},
+	}
+	for _, tt := range tests {
+		t.Run(string(tt.kind)+tt.suffix, func(t *testing.T) {
+			var alt *unitAlt
+			for i, a := range units[tt.kind] {
+				if a.suffix == tt.suffix {
+					alt = &units[tt.kind][i]
+				}
+			}
+			if alt == nil {
+				t.Fatalf("no %s alternative %s", tt.kind, tt.suffix)
+			}
+			if got := alt.toSI(tt.in); math.Abs(got-tt.want) > 1e-9 {
+				t.Errorf("%v%s = %v, want %v", tt.in, tt.suffix, got, tt.want)
+			}
+		})
+	}
+}
