@@ -1,0 +1,256 @@
+package checker
+
+import (
+	"fmt"
+	"sort"
+
+	"welfare/records"
+	"welfare/rules"
+)
+
+func init() { domainFacts = append(domainFacts, (*facts).staffFacts) }
+
+// staffDay gathers what one person did on one day. Every fact about a person
+// (training, vaccination, fit test, employment) is a property of the day,
+// not of the row, so a keeper who handled forty foxes on one day gets one
+// finding per check with forty rows of evidence rather than forty findings.
+type staffDay struct {
+	day        records.Day
+	handled    []records.Ref
+	rabies     []records.Ref // handlings of a rabies-risk species
+	respirator []records.Ref // handlings with a respirator worn
+	culls      []records.Ref
+	methods    []string // cull methods used, first-seen order
+	outside    []records.Ref
+}
+
+// staffFacts adds each person's "staff" section: per day, the handling
+// training, rabies pre-exposure status and respirator fit at the time of
+// their handlings; the euthanasia training at the time of their culls; and
+// the rows that name them outside their employment window.
+func (f *facts) staffFacts() {
+	days := map[string]map[records.Day]*staffDay{}
+	at := func(s *records.Staff, d records.Day) *staffDay {
+		byDay := days[s.ID]
+		if byDay == nil {
+			byDay = map[records.Day]*staffDay{}
+			days[s.ID] = byDay
+		}
+		sd := byDay[d]
+		if sd == nil {
+			sd = &staffDay{day: d}
+			byDay[d] = sd
+		}
+		return sd
+	}
+	// outside notes a row naming s on d when d is outside s's employment.
+	outside := func(s *records.Staff, d records.Day, ref records.Ref) {
+		if (!s.ActiveFrom.IsZero() && d < s.ActiveFrom) || (!s.ActiveTo.IsZero() && d > s.ActiveTo) {
+			sd := at(s, d)
+			sd.outside = append(sd.outside, ref)
+		}
+	}
+
+	for i := range f.set.Handling {
+		h := &f.set.Handling[i]
+		d := records.DayOf(h.At)
+		s := f.staff[h.StaffID]
+		// Rows naming unknown staff were rejected by the loader.
+		if s == nil || !f.inPeriod(d) {
+			continue
+		}
+		sd := at(s, d)
+		sd.handled = append(sd.handled, h.Ref)
+		if a := f.animals[h.AnimalID]; a != nil && f.lim.Species[a.Species].RabiesRisk {
+			sd.rabies = append(sd.rabies, h.Ref)
+		}
+		if contains(h.PPE, "respirator") {
+			sd.respirator = append(sd.respirator, h.Ref)
+		}
+		outside(s, d, h.Ref)
+	}
+	for i := range f.set.Culls {
+		c := &f.set.Culls[i]
+		d := records.DayOf(c.At)
+		s := f.staff[c.StaffID]
+		if s == nil || !f.inPeriod(d) {
+			continue
+		}
+		sd := at(s, d)
+		sd.culls = append(sd.culls, c.Ref)
+		if !contains(sd.methods, c.Method) {
+			sd.methods = append(sd.methods, c.Method)
+		}
+		outside(s, d, c.Ref)
+	}
+	for i := range f.set.Care {
+		r := &f.set.Care[i]
+		if s := f.staff[r.StaffID]; s != nil && f.inPeriod(r.Day) {
+			outside(s, r.Day, r.Ref)
+		}
+	}
+	for i := range f.set.Work {
+		w := &f.set.Work[i]
+		d := records.DayOf(w.StartedAt)
+		if s := f.staff[w.StaffID]; s != nil && f.inPeriod(d) {
+			outside(s, d, w.Ref)
+		}
+	}
+
+	for id, byDay := range days {
+		s := f.staff[id]
+		sds := make([]*staffDay, 0, len(byDay))
+		for _, sd := range byDay {
+			sds = append(sds, sd)
+		}
+		sort.Slice(sds, func(i, j int) bool { return sds[i].day < sds[j].day })
+		handled, culled, out := []any{}, []any{}, []any{}
+		for _, sd := range sds {
+			if len(sd.handled) > 0 {
+				handled = append(handled, f.handlerDay(s, sd))
+			}
+			if len(sd.culls) > 0 {
+				culled = append(culled, f.operatorDay(s, sd))
+			}
+			if len(sd.outside) > 0 {
+				out = append(out, map[string]any{"on": sd.day.String(), "refs": refs(sd.outside...)})
+			}
+		}
+		d := f.doc("staff", id)
+		d["staff"] = map[string]any{
+			"ref":            string(s.Ref),
+			"name":           s.Name,
+			"active_from":    dayOrNull(s.ActiveFrom),
+			"active_to":      dayOrNull(s.ActiveTo),
+			"handled":        handled,
+			"culled":         culled,
+			"outside_active": out,
+		}
+	}
+}
+
+// trainedAt is a training record as seen on day d: a training dated after
+// d did not exist yet. valid_until is the last day the training covers: the
+// same date `months` later, so an event on the anniversary itself is still
+// covered and the day after is "older than N months".
+func trainedAt(on records.Day, months int, d records.Day) map[string]any {
+	m := map[string]any{"trained_on": dayOrNull(on), "trained_after_event": !on.IsZero() && on > d, "valid_until": nil}
+	if !on.IsZero() && on <= d {
+		m["valid_until"] = on.AddMonths(months).String()
+	}
+	return m
+}
+
+// handlerDay is one day of handling by s: training, rabies status (when a
+// rabies-risk species was handled) and respirator fit (when one was worn).
+func (f *facts) handlerDay(s *records.Staff, sd *staffDay) map[string]any {
+	d := sd.day
+	out := map[string]any{
+		"on":         d.String(),
+		"refs":       refs(sd.handled...),
+		"training":   trainedAt(s.HandlingTrainedOn, f.lim.Staff.HandlingTrainingMonths, d),
+		"rabies":     nil,
+		"respirator": nil,
+	}
+	if len(sd.rabies) > 0 {
+		status, reason := rabiesStatus(s, d, f.lim.Staff.Rabies)
+		out["rabies"] = map[string]any{
+			"refs": refs(sd.rabies...), "status": status, "reason": reason,
+			"category": f.lim.Staff.Rabies.RiskCategory, "primary_on": dayOrNull(s.RabiesPrimaryOn),
+		}
+	}
+	if len(sd.respirator) > 0 {
+		r := trainedAt(s.RespiratorFitOn, f.lim.Staff.RespiratorFitMonths, d)
+		out["respirator"] = map[string]any{
+			"refs": refs(sd.respirator...), "fit_on": r["trained_on"],
+			"fit_after_event": r["trained_after_event"], "valid_until": r["valid_until"],
+		}
+	}
+	return out
+}
+
+// operatorDay is one day of culls by s: the methods used that s is not
+// recorded as trained for, and the euthanasia training's age.
+func (f *facts) operatorDay(s *records.Staff, sd *staffDay) map[string]any {
+	untrained := []any{}
+	for _, m := range sd.methods {
+		if !contains(s.EuthanasiaMethods, m) {
+			untrained = append(untrained, m)
+		}
+	}
+	out := trainedAt(s.EuthanasiaTrainedOn, f.lim.Staff.EuthanasiaTrainingMonths, sd.day)
+	out["on"] = sd.day.String()
+	out["refs"] = refs(sd.culls...)
+	out["methods"] = strs(sd.methods)
+	out["untrained_methods"] = untrained
+	return out
+}
+
+// rabiesStatus is a person's rabies pre-exposure status on day d under the
+// ACIP 2022 schedule (MMWR 2022;71(18):619–627) for the risk category the
+// limits select. rabies_primary_on is the day the 2-dose series (days 0
+// and 7) was completed, and ACIP counts the titer and booster windows
+// "after completion of the 2-dose primary series", so the windows run from
+// that day. Titers and boosters dated after d are not yet known at d.
+//
+// status is "unprotected" (no completed primary series on d), "overdue"
+// (primary series done, follow-up missing) or "protected"; reason says why
+// in a keeper's words.
+func rabiesStatus(s *records.Staff, d records.Day, lim rules.RabiesLimit) (status, reason string) {
+	p := s.RabiesPrimaryOn
+	if p.IsZero() {
+		return "unprotected", "no rabies pre-exposure series recorded"
+	}
+	if p > d {
+		return "unprotected", fmt.Sprintf("rabies pre-exposure series completed only on %s", p)
+	}
+	if lim.RiskCategory == 4 {
+		return "protected", ""
+	}
+	minTiter := lim.MinTiterIUmL
+	titerOn, booster := s.RabiesTiterOn, s.RabiesBoosterOn
+	hasTiter := s.RabiesTiterIUmL != nil && !titerOn.IsZero() && titerOn <= d
+	hasBooster := !booster.IsZero() && booster <= d
+	var titer float64
+	if hasTiter {
+		titer = *s.RabiesTiterIUmL
+	}
+	// In every category a titer below the minimum calls for a booster.
+	if hasTiter && titer < minTiter && (!hasBooster || booster < titerOn) {
+		return "overdue", fmt.Sprintf("titer %g IU/mL on %s is below %g IU/mL and no booster was given after it", titer, titerOn, minTiter)
+	}
+	switch lim.RiskCategory {
+	case 1, 2:
+		every := lim.TiterEveryMonths[lim.RiskCategory]
+		if every <= 0 {
+			// ACIP 2022: category 1 every 6 months, category 2 every 2 years.
+			every = map[int]int{1: 6, 2: 24}[lim.RiskCategory]
+		}
+		since, what := p, "the pre-exposure series"
+		if hasTiter && titerOn > p {
+			since, what = titerOn, "the last titer"
+		}
+		if due := since.AddMonths(every); d > due {
+			return "overdue", fmt.Sprintf("risk category %d needs a titer every %d months; none since %s (%s), due by %s", lim.RiskCategory, every, what, since, due)
+		}
+	case 3:
+		end := p.AddYears(3)
+		if d <= end {
+			return "protected", ""
+		}
+		from := p.AddYears(1)
+		titerInWindow := hasTiter && titerOn >= from && titerOn <= end
+		if titerInWindow && titer >= minTiter {
+			return "protected", ""
+		}
+		// A low titer in the window answered by a booster.
+		if titerInWindow && hasBooster && booster >= titerOn {
+			return "protected", ""
+		}
+		if hasBooster && booster >= p+21 && booster <= end {
+			return "protected", ""
+		}
+		return "overdue", fmt.Sprintf("more than 3 years since the pre-exposure series (%s) with no titer of at least %g IU/mL taken %s to %s and no booster given %s to %s", p, minTiter, from, end, p+21, end)
+	}
+	return "protected", ""
+}
