@@ -1,0 +1,465 @@
+package checker
+
+import (
+	"math"
+	"sort"
+	"time"
+
+	"welfare/checker/cold"
+	"welfare/records"
+)
+
+// Cold-season facts. Every subject gets a "cold" section:
+//
+//   - site: the days at or below the frostbite wind chill as runs, and the
+//     days of the period without a reading (checks that need the weather are
+//     not judged on those days);
+//   - enclosure (outdoor or sheltered buildings only): the occupied cold days
+//     with too few water checks, and runs of days with stale bedding or an
+//     absent nest box in hard cold, and the occupied days whose weather is
+//     unknown;
+//   - staff: each outdoor stint with the reading in force at its start and
+//     the work/warm-up schedule step for it.
+//
+// The Go side selects the days with the limits in force (a year of 10,000
+// enclosures must not reach the rules day by day); each selected day or run
+// carries its figures (unrounded wind chill, air temperature, counts) so the
+// rules compare them against data.limits again and word the message.
+
+func init() { domainFacts = append(domainFacts, (*facts).coldFacts) }
+
+// siteWeather is one weather site's readings and daily minima.
+type siteWeather struct {
+	id       string
+	readings []*records.Weather // every reading of the site, in time order
+	days     []DayCold          // one per day of the period
+	// The reading that gave each day's minimum wind chill and minimum air
+	// temperature, as evidence.
+	coldestWC  []*records.Weather
+	coldestAir []*records.Weather
+}
+
+// day returns the site's figures for day d and whether it had readings.
+func (s *siteWeather) day(p Period, d records.Day) (DayCold, *records.Weather, bool) {
+	if s == nil || d < p.From || d > p.To {
+		return DayCold{}, nil, false
+	}
+	i := int(d - p.From)
+	return s.days[i], s.coldestWC[i], s.days[i].Readings > 0
+}
+
+// readingWindChill is the 2001 index for a reading; a reading without a wind
+// measurement counts as calm, so its wind chill is the air temperature.
+func readingWindChill(w *records.Weather) float64 {
+	if w.WindKmh == nil {
+		return w.AirTempC
+	}
+	return cold.WindChillC(w.AirTempC, *w.WindKmh)
+}
+
+func (f *facts) coldFacts() {
+	sites := f.weatherSites()
+	f.weather = make([]SiteDays, len(sites))
+	byID := make(map[string]*siteWeather, len(sites))
+	for i, s := range sites {
+		f.weather[i] = SiteDays{Site: s.id, Days: s.days}
+		byID[s.id] = s
+		f.siteColdFacts(s)
+	}
+	f.enclosureColdFacts(byID)
+	f.stintColdFacts(byID)
+}
+
+// weatherSites gathers the sites named by facility.yaml, its buildings and
+// the readings, sorted by id, with their daily minima over the period.
+func (f *facts) weatherSites() []*siteWeather {
+	byID := map[string]*siteWeather{}
+	add := func(id string) *siteWeather {
+		if id == "" {
+			return nil
+		}
+		s := byID[id]
+		if s == nil {
+			s = &siteWeather{id: id}
+			byID[id] = s
+		}
+		return s
+	}
+	for _, id := range f.set.Facility.WeatherSites {
+		add(id)
+	}
+	for _, b := range f.set.Facility.Buildings {
+		add(b.WeatherSite)
+	}
+	for i := range f.set.Weather {
+		w := &f.set.Weather[i]
+		s := add(w.SiteID)
+		s.readings = append(s.readings, w)
+	}
+	n := int(f.period.To-f.period.From) + 1
+	out := make([]*siteWeather, 0, len(byID))
+	for _, s := range byID {
+		sort.SliceStable(s.readings, func(i, j int) bool { return s.readings[i].At.Before(s.readings[j].At) })
+		s.days = make([]DayCold, n)
+		s.coldestWC = make([]*records.Weather, n)
+		s.coldestAir = make([]*records.Weather, n)
+		for i := range s.days {
+			s.days[i].Day = f.period.From + records.Day(i)
+		}
+		for _, w := range s.readings {
+			d := records.DayOf(w.At)
+			if !f.inPeriod(d) {
+				continue
+			}
+			i := int(d - f.period.From)
+			dc := &s.days[i]
+			wc := readingWindChill(w)
+			if dc.Readings == 0 || wc < dc.MinWindChillC {
+				dc.MinWindChillC, s.coldestWC[i] = wc, w
+			}
+			if dc.Readings == 0 || w.AirTempC < dc.MinAirC {
+				dc.MinAirC, s.coldestAir[i] = w.AirTempC, w
+			}
+			dc.Readings++
+		}
+		out = append(out, s)
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].id < out[j].id })
+	return out
+}
+
+// coldSpan describes the coldest moment of days from..to at a site: the
+// lowest wind chill, the reading that gave it, and its air and wind.
+func (f *facts) coldSpan(s *siteWeather, from, to records.Day) map[string]any {
+	var best *records.Weather
+	bestWC := math.Inf(1)
+	for d := from; d <= to; d++ {
+		dc, w, ok := s.day(f.period, d)
+		if ok && dc.MinWindChillC < bestWC {
+			best, bestWC = w, dc.MinWindChillC
+		}
+	}
+	m := map[string]any{
+		"from": from.String(), "until": to.String(), "days": int(to-from) + 1,
+		"min_wind_chill_c": nil, "wind_chill_display": nil, "air_c": nil, "wind_kmh": nil,
+		"coldest_on": nil, "coldest_ref": nil, "band": nil,
+	}
+	if best != nil {
+		m["min_wind_chill_c"] = bestWC
+		m["wind_chill_display"] = cold.Display(bestWC)
+		m["air_c"] = best.AirTempC
+		m["wind_kmh"] = num(best.WindKmh)
+		m["coldest_on"] = records.DayOf(best.At).String()
+		m["coldest_ref"] = string(best.Ref)
+		m["band"] = cold.Band(bestWC).Wording
+	}
+	return m
+}
+
+// dayRun collects consecutive days; step returns the finished run (from, to)
+// when day d breaks it.
+type dayRun struct{ from, to records.Day }
+
+func (r *dayRun) step(d records.Day, bad bool) (from, to records.Day, done bool) {
+	if r.from != 0 && (!bad || d != r.to+1) {
+		from, to, done = r.from, r.to, true
+		*r = dayRun{}
+	}
+	if bad {
+		if r.from == 0 {
+			r.from = d
+		}
+		r.to = d
+	}
+	return from, to, done
+}
+
+func (r *dayRun) flush() (from, to records.Day, done bool) {
+	if r.from == 0 {
+		return 0, 0, false
+	}
+	from, to = r.from, r.to
+	*r = dayRun{}
+	return from, to, true
+}
+
+// spanRun is a plain run of days as a document value.
+func spanRun(from, to records.Day) map[string]any {
+	return map[string]any{"from": from.String(), "until": to.String(), "days": int(to-from) + 1}
+}
+
+// siteColdFacts adds a site's frostbite runs and its days without readings.
+func (f *facts) siteColdFacts(s *siteWeather) {
+	frost, missing := []any{}, []any{}
+	var frostRun, missRun dayRun
+	limit := f.lim.Cold.FrostbiteWindChill
+	for d := f.period.From; d <= f.period.To; d++ {
+		dc, _, ok := s.day(f.period, d)
+		if from, to, done := frostRun.step(d, ok && dc.MinWindChillC <= limit); done {
+			frost = append(frost, f.coldSpan(s, from, to))
+		}
+		if from, to, done := missRun.step(d, !ok); done {
+			missing = append(missing, spanRun(from, to))
+		}
+	}
+	if from, to, done := frostRun.flush(); done {
+		frost = append(frost, f.coldSpan(s, from, to))
+	}
+	if from, to, done := missRun.flush(); done {
+		missing = append(missing, spanRun(from, to))
+	}
+	f.doc("site", s.id)["cold"] = map[string]any{
+		"readings_recorded":     f.set.Present["weather.csv"],
+		"frostbite":             frost,
+		"days_without_readings": missing,
+	}
+}
+
+// beddingIndex lists, per enclosure and per building, the days a round
+// added bedding, sorted, from every round up to the period's end: the
+// look-back before the period start uses the rounds themselves, so the first
+// days of a period are judged on the week before it.
+type beddingIndex struct {
+	enc, bld map[string][]records.Day
+}
+
+func (f *facts) beddingDays() beddingIndex {
+	ix := beddingIndex{enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
+	for i := range f.set.Care {
+		r := &f.set.Care[i]
+		if !r.BeddingAdded.IsYes() || r.Day > f.period.To {
+			continue
+		}
+		if r.EnclosureID != "" {
+			ix.enc[r.EnclosureID] = append(ix.enc[r.EnclosureID], r.Day)
+		} else {
+			ix.bld[r.BuildingID] = append(ix.bld[r.BuildingID], r.Day)
+		}
+	}
+	for _, m := range []map[string][]records.Day{ix.enc, ix.bld} {
+		for _, ds := range m {
+			sort.Slice(ds, func(i, j int) bool { return ds[i] < ds[j] })
+		}
+	}
+	return ix
+}
+
+// last is the latest day on or before d bedding was added to the enclosure
+// (by its own rounds or its building's), or 0.
+func (ix beddingIndex) last(encID, buildingID string, d records.Day) records.Day {
+	var best records.Day
+	for _, ds := range [][]records.Day{ix.enc[encID], ix.bld[buildingID]} {
+		i := sort.Search(len(ds), func(i int) bool { return ds[i] > d })
+		if i > 0 && ds[i-1] > best {
+			best = ds[i-1]
+		}
+	}
+	return best
+}
+
+// exposed reports whether a building's animals live in the outside air.
+func exposed(b records.Building) bool {
+	return b.Exposure == "outdoor" || b.Exposure == "sheltered"
+}
+
+// enclosureColdFacts adds the cold section of every enclosure in an outdoor
+// or sheltered building.
+func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
+	c := f.careIndex()
+	bed := f.beddingDays()
+	lc := f.lim.Cold
+	for i := range f.set.Enclosures {
+		e := &f.set.Enclosures[i]
+		b := f.buildings[e.BuildingID]
+		if !exposed(b) {
+			continue
+		}
+		s := sites[b.WeatherSite]
+		water, stale, shelter, unknown := []any{}, []any{}, []any{}, []any{}
+		var staleRun, shelterRun, unknownRun dayRun
+		var staleLast records.Day // last bedding before the open stale run
+		flushStale := func(from, to records.Day) {
+			m := f.coldSpan(s, from, to)
+			m["last_bedding"] = dayOrNull(staleLast)
+			m["evidence"] = refs(e.Ref, records.Ref(strOr(m["coldest_ref"])))
+			stale = append(stale, m)
+		}
+		flushShelter := func(from, to records.Day) {
+			m := f.coldSpan(s, from, to)
+			m["evidence"] = refs(e.Ref, records.Ref(strOr(m["coldest_ref"])))
+			shelter = append(shelter, m)
+		}
+		for _, seg := range f.segments[e.ID] {
+			needsNest := false
+			for _, o := range seg.Occupants {
+				needsNest = needsNest || f.lim.Species[o.Animal.Species].NestBox
+			}
+			for d := seg.From; d <= seg.To; d++ {
+				dc, _, ok := s.day(f.period, d)
+				if from, to, done := unknownRun.step(d, !ok); done {
+					unknown = append(unknown, spanRun(from, to))
+				}
+				if ok && dc.MinAirC < lc.WaterCheckBelowC {
+					if n := int(c.on(e.ID, e.BuildingID, d).waterChecks); n < lc.WaterChecksMin {
+						air := s.coldestAir[d-f.period.From]
+						water = append(water, map[string]any{
+							"on": d.String(), "min_air_c": dc.MinAirC, "checks": n,
+							"evidence": refs(e.Ref, air.Ref),
+						})
+					}
+				}
+				isStale := false
+				if ok && dc.MinWindChillC <= lc.BeddingWindChill {
+					last := bed.last(e.ID, e.BuildingID, d)
+					isStale = last == 0 || int(d-last) >= lc.BeddingDays
+					if isStale && (staleRun.from == 0 || d != staleRun.to+1) {
+						// The run that d starts: remember the bedding before it.
+						if from, to, done := staleRun.flush(); done {
+							flushStale(from, to)
+						}
+						staleLast = last
+					}
+				}
+				if from, to, done := staleRun.step(d, isStale); done {
+					flushStale(from, to)
+				}
+				noShelter := ok && needsNest && !e.NestBox.IsYes() && dc.MinWindChillC <= lc.ShelterWindChill
+				if from, to, done := shelterRun.step(d, noShelter); done {
+					flushShelter(from, to)
+				}
+			}
+		}
+		if from, to, done := staleRun.flush(); done {
+			flushStale(from, to)
+		}
+		if from, to, done := shelterRun.flush(); done {
+			flushShelter(from, to)
+		}
+		if from, to, done := unknownRun.flush(); done {
+			unknown = append(unknown, spanRun(from, to))
+		}
+		f.doc("enclosure", e.ID)["cold"] = map[string]any{
+			"exposure":             b.Exposure,
+			"weather_site":         nilIfEmpty(b.WeatherSite),
+			"nest_box":             e.NestBox.IsYes(),
+			"water":                water,
+			"bedding_stale":        stale,
+			"shelter_missing":      shelter,
+			"days_without_weather": unknown,
+		}
+	}
+}
+
+func strOr(v any) string {
+	s, _ := v.(string)
+	return s
+}
+
+// readingInForce is the reading that describes conditions at time t: the
+// latest at or before t when it is no older than within, else the nearest
+// one either side. ok is false when the site has no readings at all.
+func readingInForce(rs []*records.Weather, t time.Time, within time.Duration) (w *records.Weather, ok bool) {
+	i := sort.Search(len(rs), func(i int) bool { return rs[i].At.After(t) })
+	var before, after *records.Weather
+	if i > 0 {
+		before = rs[i-1]
+	}
+	if i < len(rs) {
+		after = rs[i]
+	}
+	switch {
+	case before != nil && t.Sub(before.At) <= within:
+		return before, true
+	case before == nil && after == nil:
+		return nil, false
+	case before == nil:
+		return after, true
+	case after == nil:
+		return before, true
+	case after.At.Sub(t) < t.Sub(before.At):
+		return after, true
+	}
+	return before, true
+}
+
+// stintColdFacts adds each staff member's outdoor stints in the period with
+// the reading in force at the start and the work/warm-up step it gives.
+func (f *facts) stintColdFacts(sites map[string]*siteWeather) {
+	sched, schedErr := cold.NewSchedule(f.lim.Cold.WorkWarmup)
+	within := time.Duration(f.lim.Cold.ReadingWithinHours * float64(time.Hour))
+	for i := range f.set.Work {
+		w := &f.set.Work[i]
+		day := records.DayOf(w.StartedAt)
+		if !f.inPeriod(day) {
+			continue
+		}
+		activity := w.Activity
+		if activity == "" {
+			activity = "moderate"
+		}
+		st := map[string]any{
+			"on": day.String(), "ref": string(w.Ref), "site": w.SiteID,
+			"started_at": w.StartedAt.Format("2006-01-02 15:04"),
+			"ended_at":   w.EndedAt.Format("2006-01-02 15:04"),
+			"minutes":    w.EndedAt.Sub(w.StartedAt).Minutes(),
+			"activity":   activity, "emergency": w.Emergency.IsYes(),
+			"reading": nil,
+			"step":    map[string]any{"kind": "unknown", "text": "no reading at the site: not judged"},
+		}
+		var rs []*records.Weather
+		if s := sites[w.SiteID]; s != nil {
+			rs = s.readings
+		}
+		if r, ok := readingInForce(rs, w.StartedAt, within); ok {
+			wind := 0.0 // no wind recorded: calm, as for the wind chill
+			if r.WindKmh != nil {
+				wind = *r.WindKmh
+			}
+			wc := readingWindChill(r)
+			st["reading"] = map[string]any{
+				"ref": string(r.Ref), "at": r.At.Format("2006-01-02 15:04"),
+				"air_c": r.AirTempC, "wind_kmh": num(r.WindKmh),
+				"wind_chill_c": wc, "wind_chill_display": cold.Display(wc),
+				"hours_before_start": w.StartedAt.Sub(r.At).Hours(),
+			}
+			if schedErr != nil {
+				st["step"] = map[string]any{"kind": "unknown", "text": "the work/warm-up schedule in the limits is unusable: " + schedErr.Error()}
+			} else {
+				st["step"] = stepDoc(sched.Lookup(r.AirTempC, wind, activity))
+			}
+		}
+		d := f.doc("staff", w.StaffID)
+		sec, _ := d["cold"].(map[string]any)
+		if sec == nil {
+			sec = map[string]any{"stints": []any{}}
+			d["cold"] = sec
+		}
+		sec["stints"] = append(sec["stints"].([]any), st)
+	}
+}
+
+// stepDoc is a schedule step as a document value; kind is no_limit, limit,
+// cease or unknown.
+func stepDoc(s cold.Step) map[string]any {
+	kind := "unknown"
+	switch s.Kind {
+	case cold.NoLimit:
+		kind = "no_limit"
+	case cold.Limit:
+		kind = "limit"
+	case cold.Cease:
+		kind = "cease"
+	}
+	m := map[string]any{
+		"kind": kind, "text": s.String(), "cell": nilIfEmpty(s.Cell),
+		"max_work_min": nil, "breaks": nil, "row_warmest_c": nil,
+		"column_kmh": s.ColumnKmh, "air_row_c": s.AirRowC, "light_shift": s.Shifted,
+	}
+	if s.Kind == cold.Limit {
+		m["max_work_min"], m["breaks"] = s.MaxWorkMin, s.Breaks
+	}
+	if s.Row >= 0 {
+		m["row_warmest_c"] = s.RowWarmestC
+	}
+	return m
+}

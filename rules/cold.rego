@@ -1,0 +1,170 @@
+# METADATA
+# title: Cold season
+# description: |
+#   Water, bedding and nest boxes for animals in outdoor and sheltered buildings, the
+#   work/warm-up schedule for keepers' outdoor stints, and frostbite weather at each site.
+#   Wind chill is the 2001 North American index (°C, km/h) of each reading, unrounded; a
+#   reading without wind counts as calm (wind chill = air temperature). A day's figures are
+#   the minimum over its readings. The facts select the days with the limits in force and
+#   give their figures; these rules compare the figures against data.limits.cold again and
+#   word the messages. Days with no reading at the site are not judged by the checks that
+#   need the weather: they are listed as days_without_weather / days_without_readings.
+#   Input (site): {id, cold: {readings_recorded, frostbite: [RUN], days_without_readings: [{from, until, days}]}}.
+#   Input (enclosure, outdoor or sheltered buildings only): {id, ref, ..., cold: {exposure,
+#     weather_site, nest_box, water: [{on, min_air_c, checks, evidence}] (occupied days below
+#     water_check_below_c with fewer than water_checks_min water checks), bedding_stale: [RUN +
+#     last_bedding, evidence], shelter_missing: [RUN + evidence], days_without_weather: [{from, until, days}]}}.
+#   RUN = {from, until, days, min_wind_chill_c, wind_chill_display, air_c, wind_kmh, coldest_on,
+#     coldest_ref, band}: the coldest reading of the run.
+#   Input (staff): {id, cold: {stints: [{on, ref, site, started_at, ended_at, minutes, activity,
+#     emergency, reading: null | {ref, at, air_c, wind_kmh, wind_chill_c, wind_chill_display,
+#     hours_before_start}, step: {kind (no_limit, limit, cease, unknown), text, cell, max_work_min,
+#     breaks, row_warmest_c, column_kmh, air_row_c, light_shift}}]}}.
+# scope: package
+# custom:
+#   subjects: [site, enclosure, staff]
+package welfare.cold
+
+lim := data.limits.cold
+
+wind_text(kmh) := sprintf("%v km/h", [kmh]) if kmh != null
+else := "wind not recorded"
+
+# conditions describes the coldest reading of a run for a keeper.
+conditions(r) := sprintf("wind chill %d on %s: air %v °C, %s", [r.wind_chill_display, r.coldest_on, r.air_c, wind_text(r.wind_kmh)])
+
+# METADATA
+# title: Too few water checks on a freezing day
+# description: An occupied enclosure in an outdoor or sheltered building had fewer rounds recording a water state than the limit on a day whose minimum air temperature was below the limit.
+# custom:
+#   id: cold.water.checks_insufficient
+#   severity: minor
+#   source: common practice
+#   needs: [daily_care.csv, weather.csv]
+findings contains f if {
+	some w in input.cold.water
+	w.min_air_c < lim.water_check_below_c
+	w.checks < lim.water_checks_min
+	f := {
+		"check": "cold.water.checks_insufficient",
+		"subject": input.id,
+		"on": w.on,
+		"message": sprintf("%d water check(s) recorded on a day down to %v °C air; below %v °C at least %d are needed so frozen water is found", [w.checks, w.min_air_c, lim.water_check_below_c, lim.water_checks_min]),
+		"evidence": w.evidence,
+	}
+}
+
+# METADATA
+# title: Bedding not refreshed in hard cold
+# description: An occupied enclosure in an outdoor or sheltered building, on days whose minimum wind chill was at or below the limit, had no bedding added in the limit's number of days up to that day.
+# custom:
+#   id: cold.bedding.stale
+#   severity: minor
+#   source: facility choice
+#   runs: true
+#   needs: [daily_care.csv, weather.csv]
+findings contains f if {
+	some r in input.cold.bedding_stale
+	r.min_wind_chill_c <= lim.bedding_wind_chill
+	f := {
+		"check": "cold.bedding.stale",
+		"subject": input.id,
+		"on": r.from,
+		"until": r.until,
+		"message": sprintf("no bedding added in the %d days up to each of %d day(s) of hard cold (%s); %s", [lim.bedding_days, r.days, conditions(r), last_bedding(r)]),
+		"evidence": r.evidence,
+	}
+}
+
+last_bedding(r) := sprintf("bedding last added %s", [r.last_bedding]) if r.last_bedding != null
+else := "no bedding added on record"
+
+# METADATA
+# title: No nest box in hard cold
+# description: An enclosure in an outdoor or sheltered building, occupied by a species that needs a nest box, has none recorded on days whose minimum wind chill was at or below the limit.
+# custom:
+#   id: cold.shelter.missing
+#   severity: significant
+#   source: common practice
+#   runs: true
+#   needs: [weather.csv]
+findings contains f if {
+	some r in input.cold.shelter_missing
+	not input.cold.nest_box
+	r.min_wind_chill_c <= lim.shelter_wind_chill
+	f := {
+		"check": "cold.shelter.missing",
+		"subject": input.id,
+		"on": r.from,
+		"until": r.until,
+		"message": sprintf("no nest box recorded for nest-box animals on %d day(s) with wind chill at or below %v (%s)", [r.days, lim.shelter_wind_chill, conditions(r)]),
+		"evidence": r.evidence,
+	}
+}
+
+# METADATA
+# title: Outdoor stint longer than the work/warm-up schedule allows
+# description: A non-emergency outdoor stint lasted strictly longer than the maximum work period of the work/warm-up schedule for the conditions at its start.
+# custom:
+#   id: cold.work.over_limit
+#   severity: significant
+#   source: ACGIH TLV cold stress, work/warm-up schedule for a 4-hour shift (Saskatchewan origin)
+#   needs: [outdoor_work.csv, weather.csv]
+findings contains f if {
+	some s in input.cold.stints
+	not s.emergency
+	s.step.kind == "limit"
+	s.minutes > s.step.max_work_min
+	f := {
+		"check": "cold.work.over_limit",
+		"subject": input.id,
+		"on": s.on,
+		"message": sprintf("%v-min %s stint at %s from %s; the schedule allows %d min then a warm-up break (%s; %s)", [s.minutes, s.activity, s.site, s.started_at, s.step.max_work_min, s.step.text, reading_text(s.reading)]),
+		"evidence": [s.ref, s.reading.ref],
+	}
+}
+
+# METADATA
+# title: Outdoor work when it should cease
+# description: A non-emergency outdoor stint was worked in conditions where the work/warm-up schedule says non-emergency work should cease.
+# custom:
+#   id: cold.work.should_cease
+#   severity: significant
+#   source: ACGIH TLV cold stress, work/warm-up schedule for a 4-hour shift (Saskatchewan origin)
+#   needs: [outdoor_work.csv, weather.csv]
+findings contains f if {
+	some s in input.cold.stints
+	not s.emergency
+	s.step.kind == "cease"
+	f := {
+		"check": "cold.work.should_cease",
+		"subject": input.id,
+		"on": s.on,
+		"message": sprintf("%v-min non-emergency %s stint at %s from %s when non-emergency work should cease (%s; %s)", [s.minutes, s.activity, s.site, s.started_at, s.step.text, reading_text(s.reading)]),
+		"evidence": [s.ref, s.reading.ref],
+	}
+}
+
+reading_text(r) := sprintf("reading %s: air %v °C, %s, wind chill %d", [r.at, r.air_c, wind_text(r.wind_kmh), r.wind_chill_display])
+
+# METADATA
+# title: Frostbite weather
+# description: A weather site's minimum wind chill was at or below the frostbite limit; exposed skin can freeze within 30 minutes. A note for the keepers' own protection and the animals' exposed skin.
+# custom:
+#   id: cold.frostbite.risk
+#   severity: note
+#   source: Environment and Climate Change Canada wind chill hazard bands
+#   runs: true
+#   needs: [weather.csv]
+findings contains f if {
+	some r in input.cold.frostbite
+	r.min_wind_chill_c <= lim.frostbite_wind_chill
+	f := {
+		"check": "cold.frostbite.risk",
+		"subject": input.id,
+		"on": r.from,
+		"until": r.until,
+		"message": sprintf("wind chill at or below %v on %d day(s), down to %d: %s (%s)", [lim.frostbite_wind_chill, r.days, r.wind_chill_display, r.band, conditions(r)]),
+		"evidence": [r.coldest_ref],
+	}
+}

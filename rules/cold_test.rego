@@ -1,0 +1,166 @@
+package welfare.cold_test
+
+import data.welfare.cold
+
+# Limits (shipped limits.yaml): water_check_below_c 0 and water_checks_min 2 (common
+# practice), bedding_wind_chill -20 and bedding_days 7 (facility choice),
+# shelter_wind_chill -20 (common practice), frostbite_wind_chill -28 (Environment and
+# Climate Change Canada: exposed skin can freeze in 10–30 min at -28 and colder).
+
+enc(cold_facts) := {"kind": "enclosure", "id": "SHED1-03", "ref": "enclosures.csv:4", "cold": object.union(
+	{
+		"exposure": "outdoor", "weather_site": "YARD", "nest_box": false, "water": [],
+		"bedding_stale": [], "shelter_missing": [], "days_without_weather": [],
+	},
+	cold_facts,
+)}
+
+run(wc) := {
+	"from": "2026-01-12", "until": "2026-01-13", "days": 2, "min_wind_chill_c": wc,
+	"wind_chill_display": round(wc), "air_c": -14.5, "wind_kmh": 30, "coldest_on": "2026-01-13",
+	"coldest_ref": "weather.csv:40", "band": "low (risk of hypothermia with long exposure)",
+	"last_bedding": "2026-01-02", "evidence": ["enclosures.csv:4", "weather.csv:40"],
+}
+
+site(runs) := {"kind": "site", "id": "YARD", "cold": {"readings_recorded": true, "frostbite": runs, "days_without_readings": []}}
+
+staff(stint) := {"kind": "staff", "id": "K-ORVO", "cold": {"stints": [stint]}}
+
+# −35 °C with an 8 km/h wind, moderate work: 40 min and 4 warm-up breaks
+# (ACGIH TLV / Saskatchewan work/warm-up schedule, the published example).
+stint(minutes, emergency) := {
+	"on": "2026-01-13", "ref": "outdoor_work.csv:7", "site": "YARD",
+	"started_at": "2026-01-13 07:10", "ended_at": "2026-01-13 07:50", "minutes": minutes,
+	"activity": "moderate", "emergency": emergency,
+	"reading": {
+		"ref": "weather.csv:41", "at": "2026-01-13 07:00", "air_c": -35, "wind_kmh": 8,
+		"wind_chill_c": -43.9, "wind_chill_display": -44, "hours_before_start": 0.17,
+	},
+	"step": {
+		"kind": "limit", "text": "max 40 min work, 4 warm-up breaks (row -35 °C, 8 km/h column)",
+		"cell": "40/4", "max_work_min": 40, "breaks": 4, "row_warmest_c": -35, "column_kmh": 8,
+		"air_row_c": -35, "light_shift": false,
+	},
+}
+
+cease_stint(emergency) := object.union(stint(20, emergency), {"step": {
+	"kind": "cease", "text": "non-emergency work should cease (row -35 °C, 24 km/h column)",
+	"cell": "C", "max_work_min": null, "breaks": null, "row_warmest_c": -35, "column_kmh": 24,
+	"air_row_c": -35, "light_shift": false,
+}})
+
+test_clean_enclosure_no_findings if {
+	count(cold.findings) == 0 with input as enc({})
+}
+
+# Water: at least 2 checks below 0 °C (common practice).
+test_one_water_check_on_freezing_day_fires if {
+	some f in cold.findings with input as enc({"water": [{"on": "2026-01-12", "min_air_c": -0.5, "checks": 1, "evidence": ["enclosures.csv:4", "weather.csv:38"]}]})
+	f.check == "cold.water.checks_insufficient"
+	f.on == "2026-01-12"
+	f.evidence == ["enclosures.csv:4", "weather.csv:38"]
+	contains(f.message, "1 water check(s)")
+	contains(f.message, "-0.5 °C")
+}
+
+test_exactly_two_water_checks_is_quiet if {
+	count(cold.findings) == 0 with input as enc({"water": [{"on": "2026-01-12", "min_air_c": -12, "checks": 2, "evidence": []}]})
+}
+
+test_water_at_exactly_zero_is_quiet if {
+	# "below 0 °C": a day whose minimum is exactly 0 does not need two checks.
+	count(cold.findings) == 0 with input as enc({"water": [{"on": "2026-01-12", "min_air_c": 0, "checks": 0, "evidence": []}]})
+}
+
+# Bedding: wind chill at or below −20 (facility choice).
+test_bedding_stale_at_exactly_minus_20_fires if {
+	some f in cold.findings with input as enc({"bedding_stale": [run(-20)]})
+	f.check == "cold.bedding.stale"
+	f.on == "2026-01-12"
+	f.until == "2026-01-13"
+	contains(f.message, "bedding last added 2026-01-02")
+	contains(f.message, "wind chill -20")
+}
+
+test_bedding_just_above_minus_20_is_quiet if {
+	count(cold.findings) == 0 with input as enc({"bedding_stale": [run(-19.9)]})
+}
+
+test_bedding_never_added_says_so if {
+	some f in cold.findings with input as enc({"bedding_stale": [object.union(run(-25), {"last_bedding": null})]})
+	contains(f.message, "no bedding added on record")
+}
+
+# Shelter: nest box at or below −20 (common practice).
+test_shelter_missing_at_exactly_minus_20_fires if {
+	some f in cold.findings with input as enc({"shelter_missing": [run(-20)]})
+	f.check == "cold.shelter.missing"
+	f.until == "2026-01-13"
+}
+
+test_shelter_just_above_minus_20_is_quiet if {
+	count(cold.findings) == 0 with input as enc({"shelter_missing": [run(-19.99)]})
+}
+
+test_shelter_with_nest_box_is_quiet if {
+	count(cold.findings) == 0 with input as enc({"nest_box": true, "shelter_missing": [run(-30)]})
+}
+
+# Frostbite: −28 and colder (Environment and Climate Change Canada hazard bands).
+test_frostbite_at_exactly_minus_28_fires if {
+	some f in cold.findings with input as site([object.union(run(-28), {"band": "exposed skin can freeze in 10–30 min"})])
+	f.check == "cold.frostbite.risk"
+	f.subject == "YARD"
+	f.evidence == ["weather.csv:40"]
+	contains(f.message, "exposed skin can freeze in 10–30 min")
+}
+
+test_frostbite_just_above_minus_28_is_quiet if {
+	count(cold.findings) == 0 with input as site([run(-27.9)])
+}
+
+test_site_without_runs_is_quiet if {
+	count(cold.findings) == 0 with input as site([])
+}
+
+# Work/warm-up: 40 min allowed in the published example cell.
+test_stint_exactly_at_maximum_is_fine if {
+	count(cold.findings) == 0 with input as staff(stint(40, false))
+}
+
+test_stint_one_minute_over_fires if {
+	some f in cold.findings with input as staff(stint(41, false))
+	f.check == "cold.work.over_limit"
+	f.subject == "K-ORVO"
+	f.on == "2026-01-13"
+	f.evidence == ["outdoor_work.csv:7", "weather.csv:41"]
+	contains(f.message, "41-min")
+	contains(f.message, "allows 40 min")
+	contains(f.message, "wind chill -44")
+}
+
+test_emergency_stint_over_limit_is_exempt if {
+	count(cold.findings) == 0 with input as staff(stint(90, true))
+}
+
+test_stint_in_cease_conditions_fires if {
+	fs := cold.findings with input as staff(cease_stint(false))
+	count(fs) == 1
+	some f in fs
+	f.check == "cold.work.should_cease"
+	contains(f.message, "should cease")
+}
+
+test_emergency_stint_in_cease_conditions_is_exempt if {
+	count(cold.findings) == 0 with input as staff(cease_stint(true))
+}
+
+test_stint_without_reading_is_not_judged if {
+	s := object.union(stint(300, false), {"reading": null, "step": {"kind": "unknown", "text": "no reading at the site: not judged"}})
+	count(cold.findings) == 0 with input as staff(s)
+}
+
+test_normal_breaks_no_limit if {
+	s := object.union(stint(240, false), {"step": {"kind": "no_limit", "text": "normal breaks", "cell": "N", "max_work_min": null}})
+	count(cold.findings) == 0 with input as staff(s)
+}
