@@ -456,7 +456,7 @@ func (s *scenario) buildStation() {
 
 	// Planted record-keeping typo: an unknown species code.
 	s.animals = append(s.animals, animal{id: "RF-499", species: "vulpes_vulpes", badSpecies: "vulpes_vulpse", sex: "m",
-		born: "2025-05-02", arrived: "2025-05-02", mass: 7.0, length: 68})
+		born: "2025-05-02", arrived: janDate(5), mass: 7.0, length: 68})
 
 	// Departures in January (culls; RF-111's death is written as "died").
 	for _, c := range []struct {
@@ -859,10 +859,14 @@ func (s *scenario) writeTables(rng *rand.Rand) error {
 				home = m.to // the home enclosure now; housing.csv has the history
 			}
 		}
-		line := an.add(a.id, sp, a.sex, a.born, a.arrived, left, a.leftReason, home, a.protocol, num(a.mass, 1), num(a.length, 0), a.stage)
+		length := ""
+		if a.length > 0 {
+			length = num(a.length, 0)
+		}
+		line := an.add(a.id, sp, a.sex, a.born, a.arrived, left, a.leftReason, home, a.protocol, num(a.mass, 1), length, a.stage)
 		if a.badSpecies != "" {
-			s.plant("records.row.rejected", an.ref(line), "", "", fmt.Sprintf(
-				"%s: animal RF-499 has species %q, a typo for vulpes_vulpes (no such species profile). Its row has no date the checker reads.",
+			s.plant("records.row.rejected", an.ref(line), a.arrived, "", fmt.Sprintf(
+				"%s: animal RF-499, bought in on Jan 5, has species %q, a typo for vulpes_vulpes (no such species profile). The row's date is its arrived_on. It has no housing row, so nothing else refers to it.",
 				an.ref(line), a.badSpecies))
 		}
 	}
@@ -946,8 +950,8 @@ func (s *scenario) writeTables(rng *rand.Rand) error {
 		}
 		line := hd.add(when, h.animal, h.staff, h.purpose, h.restraint, mins, h.glove, h.gloveID, th, h.ppe, h.bite, h.scratch, h.washed, rep, h.protocol)
 		if h.badStamp != "" {
-			s.plant("records.row.rejected", hd.ref(line), "", "", fmt.Sprintf(
-				"%s: handled_at %q is not a date (digits swapped for Jan 23); the row has no readable date.", hd.ref(line), h.badStamp))
+			s.plant("records.row.rejected", hd.ref(line), janDate(1), "", fmt.Sprintf(
+				"%s: handled_at %q is not a date (digits swapped for Jan 23). The row has no readable date, so the finding is placed on the first day of the checked period, 2026-01-01 (checks.md leaves this open; the shipped rule does so).", hd.ref(line), h.badStamp))
 		}
 	}
 	s.handling = hs
@@ -1292,7 +1296,7 @@ The demo records (records/demo/birchfall, copied in testdata/demo/records) descr
 station for the period 2026-01-01 … 2026-01-31. Checked with the default limits
 (rules/limits.yaml) over that period, the checker must produce exactly the findings below: no
 more, no fewer. ` + "`on`" + ` is the finding's first day and ` + "`until`" + ` the last day of a run (empty for a
-single day); a rejected row whose date cannot be read has an empty ` + "`on`" + `. Subjects are exactly the
+single day); a rejected row whose date cannot be read is placed on the period's first day. Subjects are exactly the
 findings' subjects. This file is generated with the records by
 ` + "`go test ./records/demo -update`" + `; do not edit it by hand.
 
