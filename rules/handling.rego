@@ -1,0 +1,163 @@
+# METADATA
+# title: Handling events
+# description: |
+#   Gloves, protective clothing, duration and bite/scratch follow-up of each handling of an animal.
+#   Input (animal): {id, ref, species, ..., handling: [{on, at, ref, staff, purpose, restraint,
+#     glove, glove_thickness_mm, ppe: [..], duration_min, bite, scratch, wound_washed,
+#     reported_after_hours}]}  (null where the row recorded nothing; reported_after_hours is
+#     the time from handled_at to exposure_reported_at).
+#   Bites and scratches from foxes carry a rabies and infection risk: the attending veterinarian
+#   and occupational health decide on wound care and post-exposure prophylaxis.
+# scope: package
+# custom:
+#   subjects: [animal]
+package welfare.handling
+
+lim := data.limits.handling
+
+# The animal could bite: its species is a bite risk and the restraint left it conscious.
+conscious_bite_risk(e) if {
+	data.limits.species[input.species].bite_risk
+	not e.restraint in lim.unconscious_restraint
+}
+
+shown(x) := "(none recorded)" if x == null
+else := x
+
+# METADATA
+# title: Inadequate gloves for a conscious animal
+# description: A conscious animal of a bite-risk species was handled without an accepted bite-resistant glove, or with a glove thinner than the minimum.
+# custom:
+#   id: handling.glove.inadequate
+#   severity: significant
+#   source: "common practice: bite-resistant gloves for conscious carnivores; minimum thickness: facility choice"
+#   needs: [handling.csv]
+findings contains f if {
+	some e in input.handling
+	conscious_bite_risk(e)
+	not e.glove in lim.accepted_gloves
+	f := {
+		"check": "handling.glove.inadequate",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s handled conscious (%s) by %s with glove %s; accepted: %s", [e.purpose, shown(e.restraint), e.staff, shown(e.glove), concat(", ", lim.accepted_gloves)]),
+		"evidence": [e.ref],
+	}
+}
+
+findings contains f if {
+	some e in input.handling
+	conscious_bite_risk(e)
+	e.glove in lim.accepted_gloves
+	e.glove_thickness_mm != null
+	e.glove_thickness_mm < lim.min_glove_thickness_mm
+	f := {
+		"check": "handling.glove.inadequate",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s handled conscious by %s with a %v mm glove; the minimum is %v mm", [e.purpose, e.staff, e.glove_thickness_mm, lim.min_glove_thickness_mm]),
+		"evidence": [e.ref],
+	}
+}
+
+required_ppe(purpose) := object.get(lim.required_ppe, purpose, object.get(lim.required_ppe, "default", []))
+
+# METADATA
+# title: Protective clothing missing
+# description: An item the limits require for the handling's purpose is not in the row's ppe.
+# custom:
+#   id: handling.ppe.missing
+#   severity: minor
+#   source: "facility choice: dedicated clothing against fox tapeworm eggs in fur and faeces (PHAC pathogen safety data sheet)"
+#   needs: [handling.csv]
+findings contains f if {
+	some e in input.handling
+	missing := [p | some p in required_ppe(e.purpose); not p in e.ppe]
+	count(missing) > 0
+	f := {
+		"check": "handling.ppe.missing",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s by %s without %s", [e.purpose, e.staff, concat(", ", missing)]),
+		"evidence": [e.ref],
+	}
+}
+
+# METADATA
+# title: Handling too long
+# description: The handling lasted longer than the maximum the limits set for its purpose.
+# custom:
+#   id: handling.duration.exceeded
+#   severity: minor
+#   source: facility choice
+#   needs: [handling.csv]
+findings contains f if {
+	some e in input.handling
+	e.duration_min != null
+	most := lim.max_duration_min[e.purpose]
+	e.duration_min > most
+	f := {
+		"check": "handling.duration.exceeded",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s lasted %v min; the limit is %v min", [e.purpose, e.duration_min, most]),
+		"evidence": [e.ref],
+	}
+}
+
+wounded(e) if e.bite
+wounded(e) if e.scratch
+
+injury(e) := "bite" if e.bite
+else := "scratch"
+
+# METADATA
+# title: Bite or scratch not washed
+# description: A bite or scratch is recorded without the wound being washed.
+# custom:
+#   id: handling.bite.not_washed
+#   severity: significant
+#   source: "WHO rabies position paper (2018): immediate thorough washing of the wound with soap and water"
+#   needs: [handling.csv]
+findings contains f if {
+	some e in input.handling
+	wounded(e)
+	not e.wound_washed
+	f := {
+		"check": "handling.bite.not_washed",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s to %s at %s not recorded as washed: wash at once for about 15 minutes with soap and water, and seek the attending physician's advice on rabies post-exposure prophylaxis", [injury(e), e.staff, e.at]),
+		"evidence": [e.ref],
+	}
+}
+
+reported_in_time(e) if {
+	e.reported_after_hours != null
+	e.reported_after_hours >= 0
+	e.reported_after_hours <= lim.report_within_hours
+}
+
+report_state(e) := "never reported" if e.reported_after_hours == null
+else := sprintf("reported %.1f h after the handling", [e.reported_after_hours])
+
+# METADATA
+# title: Bite or scratch not reported in time
+# description: A bite or scratch was not reported for medical assessment within the limit (24 h by default).
+# custom:
+#   id: handling.bite.not_reported
+#   severity: significant
+#   source: "common practice: prompt medical assessment for rabies post-exposure prophylaxis"
+#   needs: [handling.csv]
+findings contains f if {
+	some e in input.handling
+	wounded(e)
+	not reported_in_time(e)
+	f := {
+		"check": "handling.bite.not_reported",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s to %s at %s %s; it must be reported within %v h so a physician can decide on post-exposure prophylaxis", [injury(e), e.staff, e.at, report_state(e), lim.report_within_hours]),
+		"evidence": [e.ref],
+	}
+}

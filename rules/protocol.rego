@@ -1,0 +1,128 @@
+# METADATA
+# title: Protocol approvals
+# description: |
+#   Handlings and culls against the approved protocol they fall under (the row's protocol_id, else
+#   the animal's), and the protocol's animal count and expiry.
+#   Input (protocol): {id, protocol: {ref, title, approved_on, expires_on, expires_after_period_by,
+#     max_animals, procedures, euthanasia_methods,
+#     days: [{on, in_force, refs, purposes: {purpose: [refs]}, methods: {method: [refs]}}],
+#     animals: {count, exceeded_on, over_refs, over_animals}}}
+#   days has one entry per day of the period with a handling or cull under the protocol; in_force
+#   is approved_on <= on <= expires_on (the last day is in force). animals counts, cumulatively over
+#   the approval up to the period end, the animals held under the protocol: animals.csv protocol_id
+#   from the first day of their stay inside the approval, and animals on rows naming the protocol
+#   from that row's day. exceeded_on is the first day the count went over max_animals.
+#   expires_after_period_by is expires_on minus the period's last day, in days.
+# scope: package
+# custom:
+#   subjects: [protocol]
+package welfare.protocol
+
+p := input.protocol
+
+when(d) := sprintf("before its approval on %s", [p.approved_on]) if d < p.approved_on
+else := sprintf("after it expired on %s", [p.expires_on])
+
+# METADATA
+# title: Work outside the protocol's approval
+# description: A handling or cull under the protocol falls before approved_on or after expires_on.
+# custom:
+#   id: protocol.inactive
+#   severity: significant
+#   source: common practice
+#   needs: [protocols.csv]
+findings contains f if {
+	some e in p.days
+	not e.in_force
+	f := {
+		"check": "protocol.inactive",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%d handling or cull row(s) under protocol %s on %s, %s", [count(e.refs), input.id, e.on, when(e.on)]),
+		"evidence": array.concat([p.ref], e.refs),
+	}
+}
+
+# METADATA
+# title: Procedure not approved
+# description: A handling's purpose is not among the protocol's listed procedures (a protocol that lists none is not judged).
+# custom:
+#   id: protocol.procedure.unapproved
+#   severity: significant
+#   source: common practice
+#   needs: [protocols.csv, handling.csv]
+findings contains f if {
+	count(p.procedures) > 0
+	some e in p.days
+	bad := sort([k | some k, _ in e.purposes; not k in p.procedures])
+	count(bad) > 0
+	f := {
+		"check": "protocol.procedure.unapproved",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s under protocol %s, which approves only %s", [concat(", ", bad), input.id, concat(", ", p.procedures)]),
+		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.purposes[k]]),
+	}
+}
+
+# METADATA
+# title: Euthanasia method not approved
+# description: A cull's method is not among the protocol's listed euthanasia methods (a protocol that lists none is not judged).
+# custom:
+#   id: protocol.method.unapproved
+#   severity: significant
+#   source: common practice
+#   needs: [protocols.csv, culls.csv]
+findings contains f if {
+	count(p.euthanasia_methods) > 0
+	some e in p.days
+	bad := sort([k | some k, _ in e.methods; not k in p.euthanasia_methods])
+	count(bad) > 0
+	f := {
+		"check": "protocol.method.unapproved",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("cull by %s under protocol %s, which approves only %s; the attending veterinarian and the committee decide on any change of method", [concat(", ", bad), input.id, concat(", ", p.euthanasia_methods)]),
+		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.methods[k]]),
+	}
+}
+
+# METADATA
+# title: Protocol's animal number exceeded
+# description: More distinct animals have been held under the protocol during its approval, counted cumulatively, than its max_animals; reported on the first day the count went over.
+# custom:
+#   id: protocol.animals.exceeded
+#   severity: significant
+#   source: common practice
+#   needs: [protocols.csv]
+findings contains f if {
+	p.max_animals != null
+	p.animals.exceeded_on != null
+	f := {
+		"check": "protocol.animals.exceeded",
+		"subject": input.id,
+		"on": p.animals.exceeded_on,
+		"message": sprintf("%d animals held under protocol %s, which approves %d; the count went over on %s (first over the limit: %s)", [p.animals.count, input.id, p.max_animals, p.animals.exceeded_on, concat(", ", p.animals.over_animals)]),
+		"evidence": array.concat([p.ref], p.animals.over_refs),
+	}
+}
+
+# METADATA
+# title: Protocol expiring
+# description: The protocol expires within the limit (30 days by default) after the checked period ends, or on its last day.
+# custom:
+#   id: protocol.expiring
+#   severity: note
+#   source: common practice
+#   needs: [protocols.csv]
+findings contains f if {
+	p.expires_after_period_by >= 0
+	p.expires_after_period_by <= data.limits.protocol.expiring_within_days
+	f := {
+		"check": "protocol.expiring",
+		"subject": input.id,
+		"on": p.expires_on,
+		"message": sprintf("protocol %s (%s) expires on %s, %d day(s) after the checked period; renew it before work continues", [input.id, p.title, p.expires_on, p.expires_after_period_by]),
+		"evidence": [p.ref],
+	}
+}

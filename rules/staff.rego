@@ -1,0 +1,173 @@
+# METADATA
+# title: People
+# description: |
+#   Training, rabies pre-exposure prophylaxis, respirator fit and employment of the people named
+#   in the records. A handler is the staff_id of a handling row; cull operators are checked for
+#   euthanasia training only.
+#   Input (staff): {id, staff: {ref, name, active_from, active_to,
+#     handled: [{on, refs, training: {trained_on, trained_after_event, valid_until},
+#                rabies: null | {refs, status: protected|unprotected|overdue, reason, category, primary_on},
+#                respirator: null | {refs, fit_on, fit_after_event, valid_until}}],
+#     culled: [{on, refs, methods, untrained_methods, trained_on, trained_after_event, valid_until}],
+#     outside_active: [{on, refs}]}}
+#   One entry per person per day. valid_until is the last day a training or fit test covers (the
+#   same date N months later); null when there was none on or before the day. rabies is present
+#   only on days the person handled a rabies-risk species; its status follows ACIP 2022 for the
+#   limits' risk category. Rabies questions go to the attending physician or occupational health.
+# scope: package
+# custom:
+#   subjects: [staff]
+package welfare.staff
+
+s := input.staff
+
+evidence(e) := array.concat([s.ref], e.refs)
+
+# Why a training record does not cover day e.on, or undefined when it does.
+lapsed(t, on, what) := sprintf("no %s recorded", [what]) if {
+	t.trained_on == null
+} else := sprintf("%s dated %s, after this day", [what, t.trained_on]) if {
+	t.trained_after_event
+} else := sprintf("%s on %s covers only until %s", [what, t.trained_on, t.valid_until]) if {
+	on > t.valid_until
+}
+
+# METADATA
+# title: Handler not trained
+# description: The handler's animal-handling training is missing, dated after the handling, or older than the limit (12 months by default) on the day.
+# custom:
+#   id: staff.handling.untrained
+#   severity: significant
+#   source: facility choice
+#   needs: [handling.csv, staff.csv]
+findings contains f if {
+	some e in s.handled
+	why := lapsed(e.training, e.on, "handling training")
+	f := {
+		"check": "staff.handling.untrained",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s handled %d animal(s): %s (refresher every %d months)", [s.name, count(e.refs), why, data.limits.staff.handling_training_months]),
+		"evidence": evidence(e),
+	}
+}
+
+# METADATA
+# title: Euthanasia operator not trained
+# description: A cull operator is not recorded as trained for the method used, or the euthanasia training is missing or older than the limit (12 months by default).
+# custom:
+#   id: staff.euthanasia.untrained
+#   severity: significant
+#   source: facility choice
+#   needs: [culls.csv, staff.csv]
+findings contains f if {
+	some e in s.culled
+	why := euthanasia_gap(e)
+	f := {
+		"check": "staff.euthanasia.untrained",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s performed %d cull(s) by %s: %s. Euthanasia must be done only by people trained for the method, as the attending veterinarian and the AVMA Guidelines direct", [s.name, count(e.refs), concat(", ", e.methods), why]),
+		"evidence": evidence(e),
+	}
+}
+
+euthanasia_gap(e) := concat("; ", [w | some w in euthanasia_reasons(e)]) if count(euthanasia_reasons(e)) > 0
+
+euthanasia_reasons(e) := {w |
+	count(e.untrained_methods) > 0
+	w := sprintf("not recorded as trained for %s", [concat(", ", e.untrained_methods)])
+} | {w |
+	w := lapsed(e, e.on, "euthanasia training")
+}
+
+# METADATA
+# title: Handler of a rabies-risk species without pre-exposure vaccination
+# description: A handler of a rabies-risk species had not completed the rabies pre-exposure series on the day (rabies_primary_on empty or later).
+# custom:
+#   id: staff.rabies.unprotected
+#   severity: significant
+#   source: "ACIP 2022 (MMWR 2022;71(18):619-627): 2-dose pre-exposure series, days 0 and 7"
+#   needs: [handling.csv, staff.csv]
+findings contains f if {
+	some e in s.handled
+	e.rabies.status == "unprotected"
+	f := {
+		"check": "staff.rabies.unprotected",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s handled %d rabies-risk animal(s): %s. Refer to occupational health; after any bite or scratch the physician decides on post-exposure prophylaxis", [s.name, count(e.rabies.refs), e.rabies.reason]),
+		"evidence": array.concat([s.ref], e.rabies.refs),
+	}
+}
+
+# METADATA
+# title: Rabies titer or booster overdue
+# description: |
+#   The rabies pre-exposure follow-up of the limits' ACIP 2022 risk category is overdue on a day the
+#   person handled a rabies-risk species: category 3, more than 3 years after the primary series with
+#   no titer of at least 0.5 IU/mL taken in years 1 to 3 and no booster from day 21 to year 3;
+#   categories 1-2, the latest titer older than 6 or 24 months; any category, a titer below
+#   0.5 IU/mL with no later booster.
+# custom:
+#   id: staff.rabies.followup_overdue
+#   severity: minor
+#   source: "ACIP 2022 (MMWR 2022;71(18):619-627): risk categories 1-3"
+#   needs: [handling.csv, staff.csv]
+findings contains f if {
+	some e in s.handled
+	e.rabies.status == "overdue"
+	f := {
+		"check": "staff.rabies.followup_overdue",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s handled %d rabies-risk animal(s): %s (ACIP 2022 risk category %d). Refer to occupational health", [s.name, count(e.rabies.refs), e.rabies.reason, e.rabies.category]),
+		"evidence": array.concat([s.ref], e.rabies.refs),
+	}
+}
+
+# METADATA
+# title: Respirator fit test overdue
+# description: A respirator was worn and the wearer's fit test is missing, dated after the day, or older than the limit (12 months).
+# custom:
+#   id: staff.respirator.fit_overdue
+#   severity: minor
+#   source: "OSHA 29 CFR 1910.134(f)(2): fit test before first use and at least annually"
+#   needs: [handling.csv, staff.csv]
+findings contains f if {
+	some e in s.handled
+	r := e.respirator
+	r != null
+	why := lapsed({"trained_on": r.fit_on, "trained_after_event": r.fit_after_event, "valid_until": r.valid_until}, e.on, "respirator fit test")
+	f := {
+		"check": "staff.respirator.fit_overdue",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s wore a respirator: %s (fit test every %d months)", [s.name, why, data.limits.staff.respirator_fit_months]),
+		"evidence": array.concat([s.ref], r.refs),
+	}
+}
+
+window := sprintf("%s to %s", [shown(s.active_from), shown(s.active_to)])
+
+shown(x) := "(open)" if x == null
+else := x
+
+# METADATA
+# title: Person named outside employment
+# description: A handling, cull, care or outdoor-work row names a person on a day outside active_from to active_to.
+# custom:
+#   id: staff.inactive
+#   severity: minor
+#   source: common practice
+#   needs: [staff.csv]
+findings contains f if {
+	some e in s.outside_active
+	f := {
+		"check": "staff.inactive",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s is named on %d row(s) on %s, outside their employment %s", [s.name, count(e.refs), e.on, window]),
+		"evidence": evidence(e),
+	}
+}
