@@ -37,6 +37,7 @@ findings contains f if {
 }
 
 listed(class) := "list as unacceptable" if class == "unacceptable"
+
 else := "do not list as acceptable"
 
 # METADATA
@@ -72,6 +73,7 @@ unmet_conditions(e) := {w |
 }
 
 note(e) := sprintf(" (%s)", [e.conditions.note]) if e.conditions.note != null
+
 else := ""
 
 # The AVMA (2020) rule as recalled: no single sign but rigor mortis confirms
@@ -95,6 +97,7 @@ confirmed(e) if {
 }
 
 unconfirmed_reason(e) := "death_confirmed is not yes" if not e.death_confirmed
+
 else := sprintf("only %d sign recorded (%s); no single sign but rigor mortis confirms death", [e.signs, concat(", ", e.confirmation)])
 
 # METADATA

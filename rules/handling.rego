@@ -22,6 +22,7 @@ conscious_bite_risk(e) if {
 }
 
 shown(x) := "(none recorded)" if x == null
+
 else := x
 
 # METADATA
@@ -109,6 +110,7 @@ wounded(e) if e.bite
 wounded(e) if e.scratch
 
 injury(e) := "bite" if e.bite
+
 else := "scratch"
 
 # METADATA
@@ -139,6 +141,7 @@ reported_in_time(e) if {
 }
 
 report_state(e) := "never reported" if e.reported_after_hours == null
+
 else := sprintf("reported %.1f h after the handling", [e.reported_after_hours])
 
 # METADATA

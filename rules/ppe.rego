@@ -41,11 +41,13 @@ not_inspected(u, n) := sprintf("last inspected %s, %d days before", [u.last_chec
 }
 
 check_ref(u) := [u.last_check.ref] if u.last_check != null
+
 else := []
 
 # The latest inspection left the item unfit: damaged and neither repaired
 # nor replaced, or withdrawn from use.
 unfit(c) := sprintf("found %s and withdrawn", [c.condition]) if c.action == "withdrawn"
+
 else := "found damaged and not repaired or replaced" if {
 	c.condition == "damaged"
 	not c.action in {"repaired", "replaced"}

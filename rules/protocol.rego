@@ -21,6 +21,7 @@ package welfare.protocol
 p := input.protocol
 
 when(d) := sprintf("before its approval on %s", [p.approved_on]) if d < p.approved_on
+
 else := sprintf("after it expired on %s", [p.expires_on])
 
 # METADATA

@@ -151,6 +151,7 @@ findings contains f if {
 window := sprintf("%s to %s", [shown(s.active_from), shown(s.active_to)])
 
 shown(x) := "(open)" if x == null
+
 else := x
 
 # METADATA
