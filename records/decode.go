@@ -32,7 +32,8 @@ type field struct {
 	unit     unitKind // "" for a unitless column
 	required bool     // the column must exist and its cells must not be empty
 	kind     fieldKind
-	intern   bool // ids and codes repeat across rows: share one string
+	intern   bool   // ids and codes repeat across rows: share one string
+	vtag     string // the validate tag, run on each distinct cell value
 	// The plausible range from the validate tag, for keeper-readable reasons.
 	lo, hi         string
 	loOpen, hasRng bool
@@ -102,6 +103,9 @@ func rowTypeOf(t reflect.Type) (*rowType, error) {
 			return nil, fmt.Errorf("records: %s.%s: no decoder for %s", t.Name(), sf.Name, sf.Type)
 		}
 		v := sf.Tag.Get("validate")
+		// Only present cells are validated (an empty cell is "not recorded"),
+		// so omitempty must not also skip a written 0.
+		f.vtag = strings.TrimPrefix(strings.TrimPrefix(v, "omitempty"), ",")
 		f.intern = strings.Contains(v, "id") || strings.Contains(v, "code") || strings.Contains(v, "oneof")
 		for rule := range strings.SplitSeq(v, ",") {
 			if rule == "dive" {
@@ -273,10 +277,21 @@ type decoder struct {
 	floats  []float64 // slab for *float64 fields: one allocation per thousand rows, not per cell
 	failed  []bool    // per field: the cell did not decode, so validator errors on it are noise
 	refBase string
+	// verdicts memoises, per column, the validation reason of each distinct
+	// cell ("" = valid): validation is a pure function of the cell, and a
+	// million rows repeat a few hundred values.
+	verdicts []map[string]string
 }
 
 func newDecoder(p *plan, loc *time.Location, file string) *decoder {
-	return &decoder{p: p, loc: loc, strs: map[string]string{}, failed: make([]bool, len(p.rt.fields)), refBase: file + ":"}
+	d := &decoder{p: p, loc: loc, strs: map[string]string{}, failed: make([]bool, len(p.rt.fields)), refBase: file + ":"}
+	d.verdicts = make([]map[string]string, len(p.cols))
+	for ci, c := range p.cols {
+		if c.field >= 0 && p.rt.fields[c.field].vtag != "" {
+			d.verdicts[ci] = map[string]string{}
+		}
+	}
+	return d
 }
 
 // intern shares one copy of repeated ids and codes, so that a million rows
@@ -329,7 +344,12 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 			}
 			continue
 		}
-		if reason := d.set(rv.Field(f.index), f, col, cell); reason != "" {
+		fv := rv.Field(f.index)
+		reason := d.set(fv, f, col, cell)
+		if reason == "" && d.verdicts[ci] != nil {
+			reason = d.verdict(ci, fv, f, cell)
+		}
+		if reason != "" {
 			d.failed[col.field] = true
 			if first == nil {
 				first = &cellError{col.field, col.header, raw, reason}
@@ -348,13 +368,13 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		} else {
 			s = strings.Clone(cell)
 		}
-		*fv.Addr().Interface().(*string) = s
+		fv.SetString(s)
 	case kDay:
 		day, err := parseDate(cell)
 		if err != nil {
 			return err.Error()
 		}
-		*fv.Addr().Interface().(*Day) = day
+		fv.SetInt(int64(day))
 	case kTime:
 		t, err := parseDateTime(cell, d.loc)
 		if err != nil {
@@ -366,7 +386,7 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		if !ok {
 			return fmt.Sprintf("%q is not yes or no (yes/no, y/n, true/false, 1/0)", cell)
 		}
-		*fv.Addr().Interface().(*Bool) = b
+		fv.SetInt(int64(b))
 	case kFloat, kFloatPtr:
 		v, ok := parseNumber(cell)
 		if !ok {
@@ -376,9 +396,9 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 			v = col.alt.toSI(v)
 		}
 		if f.kind == kFloat {
-			*fv.Addr().Interface().(*float64) = v
+			fv.SetFloat(v)
 		} else {
-			*fv.Addr().Interface().(**float64) = d.newFloat(v)
+			fv.Set(reflect.ValueOf(d.newFloat(v)))
 		}
 	case kInt, kIntPtr:
 		v, err := strconv.Atoi(cell)
@@ -386,12 +406,12 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 			return fmt.Sprintf("%q is not a whole number", cell)
 		}
 		if f.kind == kInt {
-			*fv.Addr().Interface().(*int) = v
+			fv.SetInt(int64(v))
 		} else {
-			*fv.Addr().Interface().(**int) = &v
+			fv.Set(reflect.ValueOf(&v))
 		}
 	case kList:
-		*fv.Addr().Interface().(*[]string) = parseList(cell, d.intern)
+		fv.Set(reflect.ValueOf(parseList(cell, d.intern)))
 	}
 	return ""
 }

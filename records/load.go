@@ -2,6 +2,7 @@ package records
 
 import (
 	"bufio"
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -123,6 +124,7 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 	if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
 		_, _ = br.Discard(3)
 	}
+	l.rows = make([]T, 0, estimateRows(f, br))
 	r := csv.NewReader(br)
 	r.FieldsPerRecord = -1
 	r.ReuseRecord = true
@@ -153,6 +155,23 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 	}
 	l.read(r, newDecoder(p, e.loc, spec.name), e)
 	return l
+}
+
+// estimateRows guesses the row count from the file size and the lines in
+// the first buffer, so that a million-row file is not grown (and copied)
+// twenty times over.
+func estimateRows(f fs.File, br *bufio.Reader) int {
+	st, err := f.Stat()
+	if err != nil || st.Size() <= 0 {
+		return 0
+	}
+	head, _ := br.Peek(br.Size())
+	lines := bytes.Count(head, []byte{'\n'})
+	if lines < 2 || len(head) == 0 {
+		return lines
+	}
+	per := len(head) / lines
+	return int(st.Size()/int64(per)) + lines/8 + 16
 }
 
 // fail marks the whole file unusable.
@@ -225,9 +244,6 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 			ce = &cellError{field: -1, reason: "row is empty (every cell is blank)"}
 		default:
 			ce = d.decode(reflect.ValueOf(row).Elem(), rec)
-			if ce == nil {
-				ce = d.validateRow(row, rec)
-			}
 			if ce == nil && spec.row != nil {
 				check.rec = rec
 				ce = spec.row(row, &check)
@@ -258,7 +274,7 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 			l.rows = l.rows[:len(l.rows)-1]
 			continue
 		}
-		*reflect.ValueOf(row).Elem().Field(p.rt.ref).Addr().Interface().(*Ref) = d.ref(line)
+		reflect.ValueOf(row).Elem().Field(p.rt.ref).SetString(string(d.ref(line)))
 		l.count.Accepted++
 	}
 }

@@ -25,6 +25,7 @@ type loadedSet struct {
 // the ids that are not there, so a dangling reference says why.
 type index struct {
 	file     string
+	what     string // "in animals.csv", "a building in facility.yaml"
 	present  bool
 	failed   bool
 	ids      map[string]bool
@@ -32,7 +33,7 @@ type index struct {
 }
 
 func newIndex[T any](l *loaded[T]) *index {
-	ix := &index{file: l.spec.name, present: l.present, failed: l.count.Failed != "", ids: make(map[string]bool, len(l.rows)), rejected: l.rejected}
+	ix := &index{file: l.spec.name, what: "in " + l.spec.name, present: l.present, failed: l.count.Failed != "", ids: make(map[string]bool, len(l.rows)), rejected: l.rejected}
 	for i := range l.rows {
 		ix.ids[l.spec.id(&l.rows[i])] = true
 	}
@@ -53,20 +54,12 @@ func (ix *index) check(id string) string {
 	case ix.rejected[id] != "":
 		why = fmt.Sprintf(" (its row %s was rejected)", ix.rejected[id])
 	}
-	return fmt.Sprintf("%q is not in %s%s", id, ix.file, why)
+	return fmt.Sprintf("%q is not %s%s", id, ix.what, why)
 }
 
 // nameSet is a set of ids defined in facility.yaml or seen in a file.
-type nameSet struct {
-	ids  map[string]bool
-	what string // "a building in facility.yaml"
-}
-
-func (n nameSet) check(id string) string {
-	if n.ids[id] {
-		return ""
-	}
-	return fmt.Sprintf("%q is not %s", id, n.what)
+func nameSet(what string) *index {
+	return &index{what: what, present: true, ids: map[string]bool{}}
 }
 
 // ref is one reference a row makes: the Go field naming the column, the id
@@ -74,7 +67,7 @@ func (n nameSet) check(id string) string {
 type ref struct {
 	goName string
 	id     string
-	in     interface{ check(string) string }
+	in     *index
 }
 
 // keep drops the rows whose references do not resolve (or that fail
@@ -84,7 +77,7 @@ func (l *loaded[T]) keep(check func(r *T) *cellError) {
 	if l.plan == nil {
 		return
 	}
-	kept := l.rows[:0]
+	n := 0
 	for i := range l.rows {
 		r := &l.rows[i]
 		if ce := check(r); ce != nil {
@@ -100,10 +93,13 @@ func (l *loaded[T]) keep(check func(r *T) *cellError) {
 			}
 			continue
 		}
-		kept = append(kept, *r)
+		if n != i {
+			l.rows[n] = *r
+		}
+		n++
 	}
-	clear(l.rows[len(kept):]) // let dropped rows' strings go
-	l.rows = kept
+	clear(l.rows[n:]) // let dropped rows' strings go
+	l.rows = l.rows[:n]
 }
 
 // refs checks a row's references in order and reports the first that fails.
@@ -164,11 +160,11 @@ func refLine(r any) int {
 // crossCheck applies the rules that span files, in dependency order so that
 // a rejected enclosure also rejects the rows that name it.
 func (ld *loadedSet) crossCheck(fac *Facility) {
-	buildings := nameSet{ids: map[string]bool{}, what: "a building in facility.yaml"}
+	buildings := nameSet("a building in facility.yaml")
 	for _, b := range fac.Buildings {
 		buildings.ids[b.ID] = true
 	}
-	sites := nameSet{ids: map[string]bool{}, what: "a weather site in facility.yaml"}
+	sites := nameSet("a weather site in facility.yaml")
 	for _, w := range fac.WeatherSites {
 		sites.ids[w] = true
 	}
@@ -217,9 +213,9 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 	ld.ppe.keep(func(p *PPECheck) *cellError {
 		return ld.ppe.refs(ref{"AssignedTo", p.AssignedTo, staff})
 	})
-	var items *nameSet
+	var items *index
 	if ld.ppe.present {
-		items = &nameSet{ids: map[string]bool{}, what: "an item_id in " + ppeFile}
+		items = nameSet("an item_id in " + ppeFile)
 		for _, p := range ld.ppe.rows {
 			items.ids[p.ItemID] = true
 		}

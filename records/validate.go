@@ -29,37 +29,26 @@ var validate = sync.OnceValue(func() *validator.Validate {
 	return v
 })
 
-// validateRow runs the struct's validate tags and returns the first error
-// on a field whose cell did decode (a cell that did not decode already has
-// its reason).
-func (d *decoder) validateRow(ptr any, rec []string) *cellError {
-	err := validate().Struct(ptr)
-	if err == nil {
-		return nil
+// verdict validates a decoded cell against its field's validate tag, once
+// per distinct cell of the column.
+func (d *decoder) verdict(ci int, fv reflect.Value, f *field, cell string) string {
+	m := d.verdicts[ci]
+	if reason, ok := m[cell]; ok {
+		return reason
 	}
-	var ves validator.ValidationErrors
-	if !errors.As(err, &ves) {
-		return &cellError{field: -1, reason: err.Error()}
-	}
-	for _, fe := range ves {
-		goName, _, _ := strings.Cut(fe.StructField(), "[")
-		fi, ok := d.p.rt.byGo[goName]
-		if !ok || d.failed[fi] {
-			continue
+	reason := ""
+	if err := validate().Var(fv.Interface(), f.vtag); err != nil {
+		var ves validator.ValidationErrors
+		if errors.As(err, &ves) && len(ves) > 0 {
+			reason = d.describe(ves[0], f, ci, cell)
+		} else {
+			reason = err.Error()
 		}
-		f := &d.p.rt.fields[fi]
-		ci := d.p.colOf[fi]
-		ce := &cellError{field: fi, column: siName(f)}
-		cell := ""
-		if ci >= 0 {
-			ce.column = d.p.cols[ci].header
-			cell = strings.TrimSpace(rec[ci])
-			ce.value = rec[ci]
-		}
-		ce.reason = d.describe(fe, f, ci, cell)
-		return ce
 	}
-	return nil
+	if len(m) < 1<<16 {
+		m[strings.Clone(cell)] = reason
+	}
+	return reason
 }
 
 // describe turns a validator error into a reason a keeper can act on.
