@@ -150,3 +150,15 @@ func TestWorkLimit(t *testing.T) {
 		})
 	}
 }
+
+// TestDogArea checks the generator's 9 CFR §3.6(c)(1) formula, which places
+// the planted space problem, against the USDA worked example.
+func TestDogArea(t *testing.T) {
+	// USDA Animal Care tech note "Minimum Space Requirements for Dogs" (from
+	// memory): a 31-inch dog needs (31 + 6)² / 144 = 9.51 ft².
+	dog := &animal{species: "canis_familiaris", length: 31 * 2.54}
+	got := requiredArea(dog) / 0.09290304 // back to ft²
+	if math.Abs(got-9.51) > 0.005 {
+		t.Errorf("required area for a 31-inch dog = %.3f ft², want 9.51", got)
+	}
+}
