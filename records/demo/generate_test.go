@@ -354,9 +354,6 @@ func (s *scenario) occupants(enclID string, d int) []*animal {
 	return out
 }
 
-// startingEnclosure is where the animal lived before any January move.
-func (s *scenario) startingEnclosure(a *animal) string { return a.encl }
-
 func generate() (*scenario, error) {
 	s := &scenario{how: map[string][]string{}}
 	rng := rand.New(rand.NewPCG(20260101, 42)) // fixed seed: the demo must be reproducible
@@ -365,7 +362,7 @@ func generate() (*scenario, error) {
 	s.buildStaff()
 	s.buildRounds()
 	s.buildStints()
-	if err := s.writeTables(rng); err != nil {
+	if err := s.writeTables(); err != nil {
 		return nil, err
 	}
 	s.evaluate()
@@ -836,7 +833,7 @@ func (s *scenario) handlingRows() []handlingRow {
 	return hs
 }
 
-func (s *scenario) writeTables(rng *rand.Rand) error {
+func (s *scenario) writeTables() error {
 	var files []*table
 	newTable := func(name string, cols string) *table {
 		t := &table{name: name, header: strings.Split(cols, ",")}
@@ -1048,7 +1045,6 @@ func (s *scenario) writeTables(rng *rand.Rand) error {
 		}
 		s.plant(c.check, subject, c.at.Format("2006-01-02"), "", c.how)
 	}
-	_ = rng
 	s.tables = files
 	return nil
 }
