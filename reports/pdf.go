@@ -308,7 +308,7 @@ func (d *doc) keyValue(label, value string, valueFamily string, size float64) {
 	h := float64(len(lines)) * lineHeight(size)
 	d.ensure(h)
 	y := p.GetY()
-	d.font(sans, "B", size)
+	d.font(sans, "B", 10.5)
 	p.SetXY(margin, y)
 	p.CellFormat(lw, lineHeight(size), label, "", 0, "L", false, 0, "")
 	d.font(valueFamily, "", size)

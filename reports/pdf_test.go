@@ -95,7 +95,7 @@ func TestWritePDFContent(t *testing.T) {
 		t.Fatalf("pdfinfo gave no page count:\n%s", info)
 	}
 	pages, _ := strconv.Atoi(m[1])
-	text := run(t, "pdftotext", "-layout", file, "-")
+	text := run(t, "pdftotext", "-raw", file, "-")
 	// pdftotext separates pages with form feeds.
 	pageTexts := strings.Split(strings.TrimSuffix(text, "\f"), "\f")
 	if len(pageTexts) != pages {

@@ -201,12 +201,12 @@ func (d *doc) findings() {
 func (d *doc) checkFindings(c checkGroup) {
 	p := d.pdf
 	tb := &table{size: 8, caption: c.check, minRowH: 11, cols: []column{
-		{head: "Severity", w: 18, align: "L"},
-		{head: "Subject", w: 25, align: "L", mono: true},
+		{head: "Severity", w: 16, align: "L"},
+		{head: "Subject", w: 24, align: "L", mono: true},
 		{head: "Date or days", w: 22, align: "L"},
-		{head: "Message", w: 52, align: "L"},
-		{head: "Evidence", w: 31, align: "L", mono: true},
-		{head: "Plan and schedule for correction", w: 32, align: "L"},
+		{head: "Message", w: 49, align: "L"},
+		{head: "Evidence", w: 36, align: "L", mono: true},
+		{head: "Plan and schedule for correction", w: 33, align: "L"},
 	}}
 	counts := map[checker.Severity]int{}
 	for _, f := range c.findings {
@@ -245,9 +245,9 @@ func (d *doc) checkFindings(c checkGroup) {
 		d.row(tb, findingCells(f), rowStyle{})
 	}
 	if more := len(c.findings) - shown; more > 0 {
-		d.ensure(6)
+		d.ensure(7)
 		d.font(sans, "I", 8.5)
-		p.Ln(0.5)
+		p.Ln(1.5)
 		p.MultiCell(contentW, lineHeight(8.5), fmt.Sprintf("%d more %s findings in the attached findings.csv / findings.json.", more, c.check), "", "L", false)
 	}
 }
@@ -265,7 +265,12 @@ func findingCells(f *checker.Finding) []string {
 	if len(ev) == 0 {
 		text = "—"
 	}
-	return []string{string(f.Severity), f.Subject, dates(f), f.Message, text, ""}
+	when := dates(f)
+	if !f.Until.IsZero() && f.Until != f.On {
+		// One date per line: a range never breaks inside a date.
+		when = dayOrNone(f.On) + " –\n" + f.Until.String()
+	}
+	return []string{string(f.Severity), f.Subject, when, f.Message, text, ""}
 }
 
 func (d *doc) limits() {
@@ -365,7 +370,7 @@ func (d *doc) cautions() {
 
 func (d *doc) signOff() {
 	p := d.pdf
-	const blockH = 44.0
+	const blockH = 52.0
 	d.ensure(14 + 2*blockH)
 	if p.GetY() > topMargin+1 {
 		p.Ln(4)
@@ -385,7 +390,7 @@ func (d *doc) signOff() {
 		p.CellFormat(contentW-8, 6, role, "", 0, "L", false, 0, "")
 		d.font(sans, "", 9.5)
 		for i, label := range []string{"Name", "Signature", "Date"} {
-			ly := y + 16 + float64(i)*8
+			ly := y + 18 + float64(i)*11
 			p.SetXY(margin+4, ly-4.5)
 			p.CellFormat(24, 5, label, "", 0, "L", false, 0, "")
 			p.SetLineWidth(0.2)

@@ -1,5 +1,11 @@
 package reports
 
+import (
+	"strings"
+
+	"github.com/jung-kurt/gofpdf"
+)
+
 // column is one column of a PDF table.
 type column struct {
 	head  string
@@ -39,7 +45,12 @@ func (d *doc) layoutRow(t *table, cells []string, st rowStyle) ([][]string, floa
 		if i < len(cells) {
 			text = clean(cells[i])
 		}
-		ls := wrap(d.pdf, text, c.w)
+		var ls []string
+		if c.mono {
+			ls = wrapIDs(d.pdf, text, c.w)
+		} else {
+			ls = wrap(d.pdf, text, c.w)
+		}
 		if len(ls) > maxCellLines {
 			ls = append(ls[:maxCellLines-1], "… (full text in the attached files)")
 		}
@@ -55,7 +66,7 @@ func (d *doc) cellFont(t *table, c column, st rowStyle) {
 	case st.bold:
 		d.font(sans, "B", t.size)
 	case c.mono:
-		d.font(mono, "", t.size-0.5)
+		d.font(mono, "", t.size-1)
 	default:
 		d.font(sans, "", t.size)
 	}
@@ -131,4 +142,32 @@ func (d *doc) drawCells(t *table, cells []string, st rowStyle) {
 	}
 	p.SetDrawColor(0, 0, 0)
 	p.SetXY(margin, y+h)
+}
+
+// wrapIDs wraps ids and FILE:LINE refs, which have no spaces: a line too
+// long for the cell breaks after the last ':', '/', '_', '.' or '-' that
+// fits, so "care_rounds.csv:" and its line number stay readable.
+func wrapIDs(p *gofpdf.Fpdf, text string, w float64) []string {
+	avail := w - 2*p.GetCellMargin()
+	var out []string
+	for _, line := range strings.Split(text, "\n") {
+		for p.GetStringWidth(line) > avail {
+			r := []rune(line)
+			fit := 1
+			for fit < len(r) && p.GetStringWidth(string(r[:fit+1])) <= avail {
+				fit++
+			}
+			cut := fit
+			for i := fit - 1; i > 0; i-- {
+				if strings.ContainsRune(":/_.-", r[i-1]) {
+					cut = i
+					break
+				}
+			}
+			out = append(out, string(r[:cut]))
+			line = string(r[cut:])
+		}
+		out = append(out, line)
+	}
+	return out
 }

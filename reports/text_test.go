@@ -1,0 +1,270 @@
+package reports_test
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"strings"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+
+	"welfare/checker"
+	"welfare/records"
+	"welfare/reports"
+)
+
+func TestWriteText(t *testing.T) {
+	r := sampleResult(320)
+	var b bytes.Buffer
+	if err := reports.WriteText(&b, r, reports.TextOptions{MaxPerCheck: 5}); err != nil {
+		t.Fatal(err)
+	}
+	got := b.String()
+	if strings.ContainsRune(got, '\x1b') {
+		t.Errorf("text output contains an escape (colour) code")
+	}
+	// Recount what the summary must say, independently of the writer.
+	blocks := map[string]int{} // severity + check → findings
+	for _, f := range r.Findings {
+		blocks[string(f.Severity)+" "+f.Check]++
+	}
+	care := map[checker.Severity]int{}
+	for _, f := range r.Findings {
+		if f.Domain == "care" {
+			care[f.Severity]++
+		}
+	}
+	listed := strings.Count(got, "\n  evidence: ")
+	wantListed := 0
+	for _, n := range blocks {
+		wantListed += min(n, 5)
+	}
+	if listed != wantListed {
+		t.Errorf("listed %d findings, want %d (at most 5 per check and severity)", listed, wantListed)
+	}
+	for _, w := range []string{
+		"Welfare records check: Birchfall Fur Research Station",
+		"Period: 2026-01-01 to 2026-01-31",
+		"Fingerprint: " + r.Fingerprint,
+		"care_rounds.csv       1540       1534          6",
+		"culls.csv                0          0          0  (not used: missing required column \"method\")",
+		"total                 2800       2793          7",
+		fmt.Sprintf("  %-10s  %11d  %11d  %11d  %11d", "care", care[checker.Significant], care[checker.Minor], care[checker.Note], care[checker.Significant]+care[checker.Minor]+care[checker.Note]),
+		"Checks not evaluated (2)",
+		"ppe.damaged.used: ppe_checks.csv is absent",
+		"on 689 of 744 occupied enclosure-days (92.6 %)",
+		fmt.Sprintf("… and %d more significant care.water.unavailable findings", blocks["significant care.water.unavailable"]-5),
+		"SIGNIFICANT  care.water.unavailable  N-01  2026-01-04",
+		"it is not a veterinary judgement",
+		"the animal-care committee and local law",
+	} {
+		if !strings.Contains(got, w) {
+			t.Errorf("text lacks %q", w)
+		}
+	}
+	// Most severe first: no significant finding after the first minor one.
+	firstMinor := strings.Index(got, "\nMINOR  ")
+	lastSig := strings.LastIndex(got, "\nSIGNIFICANT  ")
+	if firstMinor < 0 || lastSig < 0 || lastSig > firstMinor {
+		t.Errorf("severity order: last significant at %d, first minor at %d", lastSig, firstMinor)
+	}
+}
+
+// jsonContract mirrors the findings JSON as DESIGN.md describes it, typed
+// with plain strings so the decoding does not lean on the writer's types.
+type jsonContract struct {
+	Facility string `json:"facility"`
+	Period   struct {
+		From string `json:"from"`
+		To   string `json:"to"`
+	} `json:"period"`
+	Fingerprint string `json:"fingerprint"`
+	Accounting  []struct {
+		File     string `json:"file"`
+		Read     int    `json:"read"`
+		Accepted int    `json:"accepted"`
+		Rejected int    `json:"rejected"`
+		Failed   string `json:"failed"`
+	} `json:"accounting"`
+	Findings []struct {
+		Severity string   `json:"severity"`
+		Check    string   `json:"check"`
+		Domain   string   `json:"domain"`
+		Subject  string   `json:"subject"`
+		On       string   `json:"on"`
+		Until    string   `json:"until"`
+		Message  string   `json:"message"`
+		Evidence []string `json:"evidence"`
+		Title    string   `json:"title"`
+		Source   string   `json:"source"`
+	} `json:"findings"`
+	Checks []checkContract `json:"checks"`
+	NotEvaluated []struct {
+		Check  string `json:"check"`
+		Reason string `json:"reason"`
+	} `json:"not_evaluated"`
+	Warnings []struct {
+		File    string `json:"file"`
+		Column  string `json:"column"`
+		Message string `json:"message"`
+	} `json:"warnings"`
+	Care struct {
+		Occupied int `json:"occupied_enclosure_days"`
+		Complete int `json:"complete_days"`
+	} `json:"care_coverage"`
+}
+
+type checkContract struct {
+	ID          string   `json:"id"`
+	Domain      string   `json:"domain"`
+	Title       string   `json:"title"`
+	Description string   `json:"description"`
+	Severity    string   `json:"severity"`
+	Source      string   `json:"source"`
+	Package     string   `json:"package"`
+	File        string   `json:"file"`
+	Needs       []string `json:"needs"`
+}
+
+func TestWriteJSONRoundTrip(t *testing.T) {
+	r := sampleResult(320)
+	var b bytes.Buffer
+	if err := reports.WriteJSON(&b, r); err != nil {
+		t.Fatal(err)
+	}
+	dec := json.NewDecoder(bytes.NewReader(b.Bytes()))
+	dec.DisallowUnknownFields() // every field written is in the contract
+	var got jsonContract
+	if err := dec.Decode(&got); err != nil {
+		t.Fatalf("decoding the JSON: %v", err)
+	}
+
+	var want jsonContract
+	want.Facility = r.Facility
+	want.Period.From, want.Period.To = "2026-01-01", "2026-01-31"
+	want.Fingerprint = r.Fingerprint
+	want.Accounting = make([]struct {
+		File     string `json:"file"`
+		Read     int    `json:"read"`
+		Accepted int    `json:"accepted"`
+		Rejected int    `json:"rejected"`
+		Failed   string `json:"failed"`
+	}, len(r.Accounting))
+	for i, c := range r.Accounting {
+		want.Accounting[i].File, want.Accounting[i].Read, want.Accounting[i].Accepted = c.File, c.Read, c.Accepted
+		want.Accounting[i].Rejected, want.Accounting[i].Failed = c.Rejected, c.Failed
+	}
+	for _, f := range r.Findings {
+		var jf = struct {
+			Severity string   `json:"severity"`
+			Check    string   `json:"check"`
+			Domain   string   `json:"domain"`
+			Subject  string   `json:"subject"`
+			On       string   `json:"on"`
+			Until    string   `json:"until"`
+			Message  string   `json:"message"`
+			Evidence []string `json:"evidence"`
+			Title    string   `json:"title"`
+			Source   string   `json:"source"`
+		}{Severity: string(f.Severity), Check: f.Check, Domain: f.Domain, Subject: f.Subject,
+			On: f.On.Time().Format("2006-01-02"), Message: f.Message, Evidence: []string{}, Title: f.Title, Source: f.Source}
+		if !f.Until.IsZero() {
+			jf.Until = f.Until.Time().Format("2006-01-02")
+		}
+		for _, e := range f.Evidence {
+			jf.Evidence = append(jf.Evidence, string(e))
+		}
+		want.Findings = append(want.Findings, jf)
+	}
+	for _, c := range r.Checks {
+		want.Checks = append(want.Checks, checkContract{ID: c.ID, Domain: c.Domain, Title: c.Title, Description: c.Description,
+			Severity: string(c.Severity), Source: c.Source, Package: c.Package, File: c.File, Needs: c.Needs})
+	}
+	for _, s := range r.NotEvaluated {
+		want.NotEvaluated = append(want.NotEvaluated, struct {
+			Check  string `json:"check"`
+			Reason string `json:"reason"`
+		}{s.Check, s.Reason})
+	}
+	for _, w := range r.Warnings {
+		want.Warnings = append(want.Warnings, struct {
+			File    string `json:"file"`
+			Column  string `json:"column"`
+			Message string `json:"message"`
+		}{w.File, w.Column, w.Message})
+	}
+	want.Care.Occupied, want.Care.Complete = 744, 689
+
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("JSON round trip (-want +got):\n%s", diff)
+	}
+	if !bytes.Contains(b.Bytes(), []byte("\n  \"facility\": ")) {
+		t.Errorf("JSON is not indented by two spaces")
+	}
+}
+
+func TestWriteJSONEmpty(t *testing.T) {
+	var b bytes.Buffer
+	if err := reports.WriteJSON(&b, &checker.Result{Facility: "Birchfall Fur Research Station", Period: period}); err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range []string{`"findings": []`, `"accounting": []`, `"not_evaluated": []`, `"from": "2026-01-01"`} {
+		if !strings.Contains(b.String(), w) {
+			t.Errorf("empty result JSON lacks %s:\n%s", w, b.String())
+		}
+	}
+}
+
+func TestNeutralise(t *testing.T) {
+	// OWASP "CSV Injection": cells starting with = + - @ tab or CR are
+	// formulas to a spreadsheet (common practice).
+	tests := []struct{ in, want string }{
+		{"=HYPERLINK(\"http://x\")", "'=HYPERLINK(\"http://x\")"},
+		{"+1", "'+1"},
+		{"-20 °C wind chill", "'-20 °C wind chill"},
+		{"@SUM(A1)", "'@SUM(A1)"},
+		{"\tN-01", "'\tN-01"},
+		{"\rN-01", "'\rN-01"},
+		{"wind chill −31, limit -20", "wind chill −31, limit -20"}, // only the first character matters
+		{"−31 (true minus sign)", "−31 (true minus sign)"},
+		{"2026-01-14", "2026-01-14"},
+		{"N-01", "N-01"},
+		{"", ""},
+	}
+	for _, tt := range tests {
+		t.Run(tt.in, func(t *testing.T) {
+			if got := reports.Neutralise(tt.in); got != tt.want {
+				t.Errorf("Neutralise(%q) = %q, want %q", tt.in, got, tt.want)
+			}
+		})
+	}
+}
+
+func TestWriteCSV(t *testing.T) {
+	r := &checker.Result{Facility: "Birchfall Fur Research Station", Period: period, Findings: []checker.Finding{
+		{Check: "cold.frostbite.risk", Domain: "cold", Subject: "north-yard", On: period.From + 13, Until: period.From + 15,
+			Severity: checker.Note, Message: "-41 wind chill", Evidence: []records.Ref{"weather.csv:310", "weather.csv:334"},
+			Title: "Frostbite risk", Source: "Environment and Climate Change Canada"},
+		{Check: "records.row.rejected", Domain: "records", Subject: "=cmd|' /C calc'!A0", On: period.From,
+			Severity: checker.Minor, Message: "@risk: value \"+1\" rejected", Evidence: []records.Ref{"care_rounds.csv:7"},
+			Title: "Row rejected", Source: "common practice"},
+	}}
+	var b bytes.Buffer
+	if err := reports.WriteCSV(&b, r); err != nil {
+		t.Fatal(err)
+	}
+	got, err := csv.NewReader(&b).ReadAll()
+	if err != nil {
+		t.Fatalf("reading the CSV back: %v", err)
+	}
+	want := [][]string{
+		{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source"},
+		{"note", "cold.frostbite.risk", "cold", "north-yard", "2026-01-14", "2026-01-16", "'-41 wind chill", "weather.csv:310; weather.csv:334", "Frostbite risk", "Environment and Climate Change Canada"},
+		{"minor", "records.row.rejected", "records", "'=cmd|' /C calc'!A0", "2026-01-01", "", "'@risk: value \"+1\" rejected", "care_rounds.csv:7", "Row rejected", "common practice"},
+	}
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("CSV (-want +got):\n%s", diff)
+	}
+}
