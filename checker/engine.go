@@ -14,6 +14,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"time"
 
 	"github.com/open-policy-agent/opa/v1/ast"
@@ -58,6 +59,7 @@ type RulesError struct {
 	Problems []string
 }
 
+// Error is one problem per line.
 func (e *RulesError) Error() string {
 	return strings.Join(e.Problems, "\n")
 }
@@ -560,30 +562,31 @@ func (e *Engine) Evaluate(ctx context.Context, kind string, inputs []map[string]
 		return nil, nil
 	}
 
-	groupCtx, cancel := context.WithCancel(ctx)
-	defer cancel()
+	// On the first failure no new subjects start, but the ones already
+	// running finish (each is bounded by the time budget). Subjects start
+	// in input order, so every subject before a failing one has run, and
+	// the error returned is always the one of the first failing subject,
+	// however the workers were scheduled.
+	var failed atomic.Bool
 	results := make([][]Finding, len(inputs))
 	errs := make([]error, len(inputs))
 	next := make(chan int)
 	var wg sync.WaitGroup
-	workers := min(e.opt.Workers, len(inputs))
-	for range workers {
+	for range min(e.opt.Workers, len(inputs)) {
 		wg.Go(func() {
 			for i := range next {
-				results[i], errs[i] = e.evaluateOne(groupCtx, queries, inputs[i])
+				results[i], errs[i] = e.evaluateOne(ctx, queries, inputs[i])
 				if errs[i] != nil {
-					cancel()
+					failed.Store(true)
 				}
 			}
 		})
 	}
-feed:
 	for i := range inputs {
-		select {
-		case next <- i:
-		case <-groupCtx.Done():
-			break feed
+		if failed.Load() || ctx.Err() != nil {
+			break
 		}
+		next <- i
 	}
 	close(next)
 	wg.Wait()
@@ -591,10 +594,8 @@ feed:
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	// The first real error in input order; the others may only be the
-	// cancellation that error caused.
 	for _, err := range errs {
-		if err != nil && !errors.Is(err, errStopped) {
+		if err != nil {
 			return nil, err
 		}
 	}
@@ -606,9 +607,6 @@ feed:
 	SortFindings(all)
 	return all, nil
 }
-
-// errStopped marks an evaluation abandoned because another one failed.
-var errStopped = errors.New("stopped")
 
 func inputSubject(input map[string]any) string {
 	if id, ok := input["id"]; ok {
@@ -625,9 +623,6 @@ func (e *Engine) evaluateOne(ctx context.Context, queries []*packageQuery, input
 	}
 	var out []Finding
 	for _, q := range queries {
-		if ctx.Err() != nil {
-			return nil, errStopped
-		}
 		evalCtx, cancel := context.WithTimeout(ctx, e.opt.Timeout)
 		rs, err := q.query.Eval(evalCtx, rego.EvalParsedInput(val))
 		timedOut := errors.Is(evalCtx.Err(), context.DeadlineExceeded)
@@ -635,7 +630,7 @@ func (e *Engine) evaluateOne(ctx context.Context, queries []*packageQuery, input
 		if err != nil {
 			switch {
 			case ctx.Err() != nil:
-				return nil, errStopped
+				return nil, ctx.Err()
 			case timedOut || topdown.IsCancel(err):
 				return nil, fmt.Errorf("%s: subject %s: the %s %w (a rule is looping or doing too much work)", q.name, subject, e.opt.Timeout, ErrTimeBudget)
 			}

@@ -8,6 +8,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/open-policy-agent/opa/v1/ast"
 	"github.com/open-policy-agent/opa/v1/tester"
 )
 
@@ -26,11 +27,24 @@ func RunTests(ctx context.Context, sources []Source, limits map[string]any, w io
 	if err != nil {
 		return 0, 0, err
 	}
+	// Bad METADATA in the rules under test is reported here too, so a
+	// committee editing rules hears of it before the next inspection.
+	rulesOnly := map[string]*ast.Module{}
+	for name, m := range modules {
+		if !strings.HasSuffix(name, "_test.rego") {
+			rulesOnly[name] = m
+		}
+	}
+	if _, _, err := readMetadata(rulesOnly); err != nil {
+		return 0, 0, err
+	}
 	store, err := limitsStore(limits)
 	if err != nil {
 		return 0, 0, err
 	}
-	compiler := newCompiler(sandboxCapabilities())
+	// print output is shown for failing tests (and all tests when
+	// verbose); the engine itself drops print calls.
+	compiler := newCompiler(sandboxCapabilities()).WithEnablePrintStatements(true)
 	runner := tester.NewRunner().
 		SetCompiler(compiler).
 		SetStore(store).
