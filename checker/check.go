@@ -142,7 +142,10 @@ func orderBySeverity(fs []Finding) {
 	})
 }
 
-// recordSpan is the first and last day any dated record falls on.
+// recordSpan is the first and last day of the facility's event records
+// (care rounds, handling, weather, outdoor work, culls). Inspections of
+// equipment are left out: the last glove check before the period is
+// evidence for it, not part of it.
 func recordSpan(set *records.Set) (from, to records.Day) {
 	see := func(d records.Day) {
 		if d.IsZero() {
@@ -169,9 +172,6 @@ func recordSpan(set *records.Set) (from, to records.Day) {
 	}
 	for i := range set.Culls {
 		see(records.DayOf(set.Culls[i].At))
-	}
-	for i := range set.PPEChecks {
-		see(set.PPEChecks[i].CheckedOn)
 	}
 	return from, to
 }
