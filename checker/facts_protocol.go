@@ -147,7 +147,9 @@ func (f *facts) protocolFacts() {
 
 // heldUnder counts the animals held under p up to the end of the period (or
 // of the approval, if sooner) and finds the first day the count went over
-// p's max_animals.
+// p's max_animals. That day may precede the period: the excess persists
+// while the approval runs, so it is reported as long as the approval
+// reaches into the period.
 func (f *facts) heldUnder(p *records.Protocol, start map[string]records.Day) map[string]any {
 	type held struct {
 		a   *records.Animal
@@ -167,7 +169,8 @@ func (f *facts) heldUnder(p *records.Protocol, start map[string]records.Day) map
 		return list[i].a.ID < list[j].a.ID
 	})
 	out := map[string]any{"count": len(list), "exceeded_on": nil, "over_refs": []any{}, "over_animals": []any{}}
-	if p.MaxAnimals != nil && len(list) > *p.MaxAnimals {
+	// An approval that ended before the period is last period's business.
+	if p.MaxAnimals != nil && len(list) > *p.MaxAnimals && p.ExpiresOn >= f.period.From {
 		over := list[*p.MaxAnimals:]
 		out["exceeded_on"] = over[0].day.String()
 		rs, ids := []any{}, []any{}

@@ -1,0 +1,135 @@
+package checker
+
+import (
+	"bytes"
+	"testing"
+	"time"
+
+	"github.com/google/go-cmp/cmp"
+
+	"welfare/records"
+	"welfare/rules"
+)
+
+// peopleLimits are the shipped default limits.
+func peopleLimits(t testing.TB) *rules.Limits {
+	t.Helper()
+	lim, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return lim
+}
+
+// pday reads YYYY-MM-DD or fails the test.
+func pday(t testing.TB, s string) records.Day {
+	t.Helper()
+	if s == "" {
+		return 0
+	}
+	d, err := records.ParseDay(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return d
+}
+
+// ptime reads "YYYY-MM-DD HH:MM" in UTC, the facility's zone in these tests.
+func ptime(t testing.TB, s string) time.Time {
+	t.Helper()
+	at, err := time.ParseInLocation("2006-01-02 15:04", s, time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return at
+}
+
+func iu(v float64) *float64 { return &v }
+
+func TestRabiesStatus(t *testing.T) {
+	// Timings and thresholds from ACIP 2022 (MMWR 2022;71(18):619-627): 2-dose series on
+	// days 0 and 7; category 3: one titer in years 1-3 after the series or one booster from
+	// day 21 to year 3; booster when a titer is < 0.5 IU/mL; category 1 titer every 6 months,
+	// category 2 every 2 years; category 4 primary series only. The series here was
+	// completed (day 7) on 2022-01-10.
+	const primary = "2022-01-10"
+	tests := []struct {
+		name     string
+		category int
+		titerOn  string
+		titer    *float64
+		booster  string
+		event    string
+		want     string
+	}{
+		{name: "day before the day-7 dose: series not complete", category: 3, event: "2022-01-09", want: "unprotected"},
+		{name: "on the day-7 dose: series complete", category: 3, event: primary, want: "protected"},
+		{name: "no series recorded", category: 3, event: "2022-01-10", want: "unprotected"},
+		{name: "exactly 3 years on, nothing needed yet", category: 3, event: "2025-01-10", want: "protected"},
+		{name: "3 years and a day, no titer or booster", category: 3, event: "2025-01-11", want: "overdue"},
+		{name: "titer at 1 year - 1 day does not count", category: 3, titerOn: "2023-01-09", titer: iu(2), event: "2025-02-01", want: "overdue"},
+		{name: "titer at 1 year counts", category: 3, titerOn: "2023-01-10", titer: iu(2), event: "2025-02-01", want: "protected"},
+		{name: "titer at 3 years counts", category: 3, titerOn: "2025-01-10", titer: iu(2), event: "2025-02-01", want: "protected"},
+		{name: "titer at 3 years + 1 day does not count", category: 3, titerOn: "2025-01-11", titer: iu(2), event: "2025-02-01", want: "overdue"},
+		{name: "titer of exactly 0.5 IU/mL protects", category: 3, titerOn: "2024-01-10", titer: iu(0.5), event: "2025-02-01", want: "protected"},
+		{name: "titer of 0.49 IU/mL without booster is overdue at once", category: 3, titerOn: "2023-06-01", titer: iu(0.49), event: "2023-07-01", want: "overdue"},
+		{name: "low titer answered by a booster", category: 3, titerOn: "2023-06-01", titer: iu(0.49), booster: "2023-06-20", event: "2025-02-01", want: "protected"},
+		{name: "booster on day 20 does not count", category: 3, booster: "2022-01-30", event: "2025-02-01", want: "overdue"},
+		{name: "booster on day 21 counts", category: 3, booster: "2022-01-31", event: "2025-02-01", want: "protected"},
+		{name: "booster at 3 years counts", category: 3, booster: "2025-01-10", event: "2025-02-01", want: "protected"},
+		{name: "titer taken after the event is not yet known", category: 3, titerOn: "2025-03-01", titer: iu(2), event: "2025-02-01", want: "overdue"},
+		{name: "category 1: titer 6 months old is due that day", category: 1, titerOn: "2025-01-10", titer: iu(1), event: "2025-07-10", want: "protected"},
+		{name: "category 1: titer 6 months and a day old", category: 1, titerOn: "2025-01-10", titer: iu(1), event: "2025-07-11", want: "overdue"},
+		{name: "category 1: no titer 6 months after the series", category: 1, event: "2022-07-11", want: "overdue"},
+		{name: "category 2: titer 24 months old", category: 2, titerOn: "2025-01-10", titer: iu(1), event: "2027-01-10", want: "protected"},
+		{name: "category 2: titer 24 months and a day old", category: 2, titerOn: "2025-01-10", titer: iu(1), event: "2027-01-11", want: "overdue"},
+		{name: "category 2: low titer needs a booster", category: 2, titerOn: "2025-01-10", titer: iu(0.3), event: "2025-02-01", want: "overdue"},
+		{name: "category 4: primary series only", category: 4, event: "2031-01-01", want: "protected"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			lim := peopleLimits(t).Staff.Rabies
+			lim.RiskCategory = tt.category
+			s := &records.Staff{ID: "S1", RabiesTiterOn: pday(t, tt.titerOn), RabiesTiterIUmL: tt.titer, RabiesBoosterOn: pday(t, tt.booster)}
+			if tt.name != "no series recorded" {
+				s.RabiesPrimaryOn = pday(t, primary)
+			}
+			got, reason := rabiesStatus(s, pday(t, tt.event), lim)
+			if got != tt.want {
+				t.Errorf("status = %q (%s), want %q", got, reason, tt.want)
+			}
+			if (got == "protected") != (reason == "") {
+				t.Errorf("reason %q does not match status %q", reason, got)
+			}
+		})
+	}
+}
+
+func TestTrainedAt(t *testing.T) {
+	tests := []struct {
+		name        string
+		on, event   string
+		months      int
+		wantUntil   any
+		wantAfter   bool
+		wantTrained any
+	}{
+		// OSHA 29 CFR 1910.134(f)(2), annual fit test: a fit on 2025-01-10 covers 2026-01-10.
+		{name: "annual fit test", on: "2025-01-10", event: "2026-01-10", months: 12, wantUntil: "2026-01-10", wantTrained: "2025-01-10"},
+		// Facility choice: 12-month handling refresher, same reading of "older than 12 months".
+		{name: "trained the same day", on: "2026-03-01", event: "2026-03-01", months: 12, wantUntil: "2027-03-01", wantTrained: "2026-03-01"},
+		{name: "trained after the event", on: "2026-03-02", event: "2026-03-01", months: 12, wantUntil: nil, wantAfter: true, wantTrained: "2026-03-02"},
+		{name: "never trained", on: "", event: "2026-03-01", months: 12, wantUntil: nil, wantTrained: nil},
+		// time.AddDate normalisation: 31 Aug + 6 months is 3 March (2026 is not a leap year).
+		{name: "month end normalises", on: "2025-08-31", event: "2026-01-01", months: 6, wantUntil: "2026-03-03", wantTrained: "2025-08-31"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			got := trainedAt(pday(t, tt.on), tt.months, pday(t, tt.event))
+			want := map[string]any{"trained_on": tt.wantTrained, "trained_after_event": tt.wantAfter, "valid_until": tt.wantUntil}
+			if diff := cmp.Diff(want, got); diff != "" {
+				t.Errorf("trainedAt (-want +got):\n%s", diff)
+			}
+		})
+	}
+}
