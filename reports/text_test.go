@@ -100,7 +100,7 @@ type jsonContract struct {
 		Title    string   `json:"title"`
 		Source   string   `json:"source"`
 	} `json:"findings"`
-	Checks []checkContract `json:"checks"`
+	Checks       []checkContract `json:"checks"`
 	NotEvaluated []struct {
 		Check  string `json:"check"`
 		Reason string `json:"reason"`
