@@ -300,7 +300,7 @@ type rulePackage struct {
 	subjects []string
 }
 
-var checkIDPattern = regexp.MustCompile(`^[a-z][a-z0-9_]*\.[a-z][a-z0-9_]*\.[a-z][a-z0-9_]*$`)
+var checkIDPattern = regexp.MustCompile(`^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*){1,3}$`)
 
 // readMetadata finds the rule packages and their checks in the compiled
 // modules and validates their METADATA.
@@ -429,7 +429,7 @@ func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, stri
 	}
 	id, _ := raw.(string)
 	if !checkIDPattern.MatchString(id) {
-		at(a.Location, "custom.id %v is not a check id of the form domain.topic.problem", raw)
+		at(a.Location, "custom.id %v is not a check id of the form domain.topic.problem (or domain.problem)", raw)
 		return CheckInfo{}, false
 	}
 	info := CheckInfo{
@@ -537,7 +537,7 @@ func limitsStore(limits map[string]any) (storage.Store, error) {
 	}
 	// One JSON round trip turns typed YAML values into plain JSON values
 	// the store accepts; it happens once per run, not per evaluation.
-	b, err := json.Marshal(map[string]any{"limits": limits})
+	b, err := json.Marshal(map[string]any{"limits": stringKeys(limits)})
 	if err != nil {
 		return nil, fmt.Errorf("limits: %w", err)
 	}
@@ -546,6 +546,32 @@ func limitsStore(limits map[string]any) (storage.Store, error) {
 		return nil, fmt.Errorf("limits: %w", err)
 	}
 	return inmem.NewFromObjectWithOpts(data, inmem.OptRoundTripOnWrite(false), inmem.OptReturnASTValuesOnRead(true)), nil
+}
+
+// stringKeys turns YAML maps with non-string keys (a table keyed by wind
+// speed, say) into string-keyed maps, as Rego objects read from data are.
+func stringKeys(v any) any {
+	switch x := v.(type) {
+	case map[string]any:
+		out := make(map[string]any, len(x))
+		for k, e := range x {
+			out[k] = stringKeys(e)
+		}
+		return out
+	case map[any]any:
+		out := make(map[string]any, len(x))
+		for k, e := range x {
+			out[fmt.Sprint(k)] = stringKeys(e)
+		}
+		return out
+	case []any:
+		out := make([]any, len(x))
+		for i, e := range x {
+			out[i] = stringKeys(e)
+		}
+		return out
+	}
+	return v
 }
 
 // Evaluate runs every rule package that receives kind over each input (one
