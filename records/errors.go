@@ -64,3 +64,12 @@ func position(file string, line int, column, reason string) string {
 	b.WriteString(reason)
 	return b.String()
 }
+
+// String is one line of the accounting: "daily_care.csv: read 212, accepted 210, rejected 2".
+func (c FileCount) String() string {
+	s := c.File + ": read " + strconv.Itoa(c.Read) + ", accepted " + strconv.Itoa(c.Accepted) + ", rejected " + strconv.Itoa(c.Rejected)
+	if c.Failed != "" {
+		s += " (file not used: " + c.Failed + ")"
+	}
+	return s
+}

@@ -529,6 +529,9 @@ func TestFileLevel(t *testing.T) {
 			if !ok || got != tt.count {
 				t.Errorf("accounting = %+v (read: %v), want %+v", got, ok, tt.count)
 			}
+			if got.Failed != "" && !strings.HasSuffix(got.String(), "(file not used: "+got.Failed+")") {
+				t.Errorf("accounting line = %q, want the failure named", got.String())
+			}
 			warnings := []string{}
 			for _, w := range s.Warnings {
 				warnings = append(warnings, w.String())
