@@ -27,11 +27,12 @@ package welfare.cold
 
 lim := data.limits.cold
 
-wind_text(kmh) := sprintf("%v km/h", [kmh]) if kmh != null
+wind_text(kmh) := sprintf("wind %v km/h", [kmh]) if kmh != null
+
 else := "wind not recorded"
 
 # conditions describes the coldest reading of a run for a keeper.
-conditions(r) := sprintf("wind chill %d on %s: air %v °C, %s", [r.wind_chill_display, r.coldest_on, r.air_c, wind_text(r.wind_kmh)])
+conditions(r) := sprintf("coldest wind chill %d on %s (air %v °C, %s)", [r.wind_chill_display, r.coldest_on, r.air_c, wind_text(r.wind_kmh)])
 
 # METADATA
 # title: Too few water checks on a freezing day
@@ -71,12 +72,13 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("no bedding added in the %d days up to each of %d day(s) of hard cold (%s); %s", [lim.bedding_days, r.days, conditions(r), last_bedding(r)]),
+		"message": sprintf("no bedding added in the %d days up to each of %d day(s) with wind chill at or below %v; %s; %s", [lim.bedding_days, r.days, lim.bedding_wind_chill, conditions(r), last_bedding(r)]),
 		"evidence": r.evidence,
 	}
 }
 
 last_bedding(r) := sprintf("bedding last added %s", [r.last_bedding]) if r.last_bedding != null
+
 else := "no bedding added on record"
 
 # METADATA
@@ -97,7 +99,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("no nest box recorded for nest-box animals on %d day(s) with wind chill at or below %v (%s)", [r.days, lim.shelter_wind_chill, conditions(r)]),
+		"message": sprintf("no nest box recorded for nest-box animals on %d day(s) with wind chill at or below %v; %s", [r.days, lim.shelter_wind_chill, conditions(r)]),
 		"evidence": r.evidence,
 	}
 }
@@ -119,7 +121,7 @@ findings contains f if {
 		"check": "cold.work.over_limit",
 		"subject": input.id,
 		"on": s.on,
-		"message": sprintf("%v-min %s stint at %s from %s; the schedule allows %d min then a warm-up break (%s; %s)", [s.minutes, s.activity, s.site, s.started_at, s.step.max_work_min, s.step.text, reading_text(s.reading)]),
+		"message": sprintf("%v-min %s stint at %s from %s, longer than the %d min the work/warm-up schedule allows before a warm-up break (cell %s: %d warm-up breaks; %s; %s)", [s.minutes, s.activity, s.site, s.started_at, s.step.max_work_min, s.step.cell, s.step.breaks, where(s.step), reading_text(s.reading)]),
 		"evidence": [s.ref, s.reading.ref],
 	}
 }
@@ -140,12 +142,19 @@ findings contains f if {
 		"check": "cold.work.should_cease",
 		"subject": input.id,
 		"on": s.on,
-		"message": sprintf("%v-min non-emergency %s stint at %s from %s when non-emergency work should cease (%s; %s)", [s.minutes, s.activity, s.site, s.started_at, s.step.text, reading_text(s.reading)]),
+		"message": sprintf("%v-min non-emergency %s stint at %s from %s; the work/warm-up schedule says non-emergency work should cease (cell %s; %s; %s)", [s.minutes, s.activity, s.site, s.started_at, s.step.cell, where(s.step), reading_text(s.reading)]),
 		"evidence": [s.ref, s.reading.ref],
 	}
 }
 
 reading_text(r) := sprintf("reading %s: air %v °C, %s, wind chill %d", [r.at, r.air_c, wind_text(r.wind_kmh), r.wind_chill_display])
+
+# where names the schedule cell's row and column.
+where(step) := sprintf("row %v °C, %v km/h column%s", [step.row_warmest_c, step.column_kmh, light(step)])
+
+light(step) := ", one row colder for light work" if step.light_shift
+
+else := ""
 
 # METADATA
 # title: Frostbite weather
@@ -164,7 +173,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("wind chill at or below %v on %d day(s), down to %d: %s (%s)", [lim.frostbite_wind_chill, r.days, r.wind_chill_display, r.band, conditions(r)]),
+		"message": sprintf("wind chill at or below %v on %d day(s); %s: %s", [lim.frostbite_wind_chill, r.days, conditions(r), r.band]),
 		"evidence": [r.coldest_ref],
 	}
 }

@@ -79,7 +79,7 @@ test_bedding_stale_at_exactly_minus_20_fires if {
 	f.on == "2026-01-12"
 	f.until == "2026-01-13"
 	contains(f.message, "bedding last added 2026-01-02")
-	contains(f.message, "wind chill -20")
+	contains(f.message, "coldest wind chill -20 on 2026-01-13")
 }
 
 test_bedding_just_above_minus_20_is_quiet if {
@@ -135,7 +135,7 @@ test_stint_one_minute_over_fires if {
 	f.on == "2026-01-13"
 	f.evidence == ["outdoor_work.csv:7", "weather.csv:41"]
 	contains(f.message, "41-min")
-	contains(f.message, "allows 40 min")
+	contains(f.message, "longer than the 40 min")
 	contains(f.message, "wind chill -44")
 }
 

@@ -1,0 +1,496 @@
+package checker
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"io/fs"
+	"sort"
+	"testing"
+	"testing/fstest"
+	"time"
+
+	"github.com/google/go-cmp/cmp"
+
+	"welfare/checker/cold"
+	"welfare/records"
+	"welfare/rules"
+)
+
+// The cold-season scenario (invented): Birchfall's north fox shed SHED-N is
+// outdoor and read by the YARD weather site; N-01 has a nest box and two
+// water checks a day, N-02 has no nest box and one water check a day (its
+// second round writes not_checked). The shed's only bedding before the
+// period is a building round on 2026-01-04; N-01 gets bedding on 01-11.
+// The barn is indoor and is not judged. The readings are cells of
+// published tables so the day minima can be checked against them:
+//
+//	01-10 mild:  0 °C/10 km/h, 5 °C/5 km/h
+//	01-11 cold: −15 °C/30 km/h, −10 °C/20 km/h
+//	01-12 cold: −25 °C/20 km/h, −20 °C/50 km/h
+//	01-13 hard: −35 °C/8 km/h (06:00), −30 °C/40 km/h (09:00), −40 °C/10 km/h (12:00)
+//	01-14 no readings
+var coldZone = time.FixedZone("Birchfall", 2*3600)
+
+func coldAt(day string, hhmm string) time.Time {
+	t, err := time.ParseInLocation("2006-01-02 15:04", day+" "+hhmm, coldZone)
+	if err != nil {
+		panic(err) // test data only
+	}
+	return t
+}
+
+func coldDay(s string) records.Day {
+	d, err := records.ParseDay(s)
+	if err != nil {
+		panic(err) // test data only
+	}
+	return d
+}
+
+func fp(x float64) *float64 { return &x }
+
+type coldReading struct {
+	day, hhmm string
+	air       float64
+	wind      *float64
+}
+
+var coldReadings = []coldReading{
+	{"2026-01-10", "06:00", 0, fp(10)},   // weather.csv:2
+	{"2026-01-10", "14:00", 5, fp(5)},    // weather.csv:3
+	{"2026-01-11", "06:00", -15, fp(30)}, // weather.csv:4
+	{"2026-01-11", "12:00", -10, fp(20)}, // weather.csv:5
+	{"2026-01-12", "06:00", -25, fp(20)}, // weather.csv:6
+	{"2026-01-12", "12:00", -20, fp(50)}, // weather.csv:7
+	{"2026-01-13", "06:00", -35, fp(8)},  // weather.csv:8
+	{"2026-01-13", "09:00", -30, fp(40)}, // weather.csv:9
+	{"2026-01-13", "12:00", -40, fp(10)}, // weather.csv:10
+}
+
+type coldStint struct {
+	staff, day, from, to, activity string
+	emergency                      records.Bool
+}
+
+var coldStints = []coldStint{
+	{"K-ORVO", "2026-01-13", "06:10", "06:51", "", records.No},          // outdoor_work.csv:2, 41 min at −35/8
+	{"K-LISA", "2026-01-13", "06:10", "06:50", "moderate", records.No},  // outdoor_work.csv:3, 40 min at −35/8
+	{"K-LISA", "2026-01-13", "12:20", "12:35", "heavy", records.No},     // outdoor_work.csv:4, at −40/10
+	{"K-ORVO", "2026-01-13", "12:20", "13:30", "moderate", records.Yes}, // outdoor_work.csv:5, emergency
+}
+
+func coldSet() *records.Set {
+	set := &records.Set{
+		Facility: records.Facility{
+			Name: "Birchfall Fur Research Station", TimeZone: "Europe/Helsinki",
+			Buildings: []records.Building{
+				{ID: "SHED-N", Exposure: "outdoor", WeatherSite: "YARD"},
+				{ID: "BARN", Exposure: "indoor", WeatherSite: "YARD"},
+			},
+			WeatherSites: []string{"YARD"},
+		},
+		Location: coldZone,
+		Present: map[string]bool{"animals.csv": true, "enclosures.csv": true, "daily_care.csv": true,
+			"weather.csv": true, "outdoor_work.csv": true, "staff.csv": true},
+	}
+	for i, e := range []struct {
+		id, building string
+		nest         records.Bool
+	}{{"N-01", "SHED-N", records.Yes}, {"N-02", "SHED-N", records.No}, {"B-01", "BARN", records.No}} {
+		set.Enclosures = append(set.Enclosures, records.Enclosure{
+			Ref: records.Ref(fmt.Sprintf("enclosures.csv:%d", i+2)), ID: e.id, BuildingID: e.building,
+			Kind: "cage", FloorAreaM2: fp(1.2), HeightCm: 90, NestBox: e.nest, Platform: records.Yes,
+		})
+		set.Animals = append(set.Animals, records.Animal{
+			Ref: records.Ref(fmt.Sprintf("animals.csv:%d", i+2)), ID: fmt.Sprintf("VX-10%d", i+1),
+			Species: "vulpes_vulpes", Sex: "f", ArrivedOn: coldDay("2025-11-01"), EnclosureID: e.id, LifeStage: "adult",
+		})
+	}
+	for _, id := range []string{"K-ORVO", "K-LISA"} {
+		set.Staff = append(set.Staff, records.Staff{ID: id, Name: id, Role: "keeper"})
+	}
+	line := 2
+	round := func(day, hhmm, enc, building, water string, bedding records.Bool) {
+		set.Care = append(set.Care, records.CareRound{
+			Ref: records.Ref(fmt.Sprintf("daily_care.csv:%d", line)), At: coldAt(day, hhmm), Day: coldDay(day),
+			EnclosureID: enc, BuildingID: building, StaffID: "K-ORVO", Observed: records.Yes, Fed: records.Yes,
+			Water: water, BeddingAdded: bedding,
+		})
+		line++
+	}
+	for d := coldDay("2026-01-04"); d <= coldDay("2026-01-14"); d++ {
+		day := d.String()
+		bedShed, bedN01 := records.No, records.No
+		if day == "2026-01-04" {
+			bedShed = records.Yes
+		}
+		if day == "2026-01-11" {
+			bedN01 = records.Yes
+		}
+		round(day, "08:00", "", "SHED-N", "ok", bedShed)
+		round(day, "08:10", "", "BARN", "ok", records.Yes)
+		round(day, "16:00", "N-01", "", "frozen", bedN01)
+		round(day, "16:05", "N-02", "", "not_checked", records.No)
+	}
+	for i, r := range coldReadings {
+		set.Weather = append(set.Weather, records.Weather{
+			Ref: records.Ref(fmt.Sprintf("weather.csv:%d", i+2)), At: coldAt(r.day, r.hhmm), SiteID: "YARD",
+			AirTempC: r.air, WindKmh: r.wind,
+		})
+	}
+	for i, s := range coldStints {
+		set.Work = append(set.Work, records.OutdoorWork{
+			Ref: records.Ref(fmt.Sprintf("outdoor_work.csv:%d", i+2)), StaffID: s.staff,
+			StartedAt: coldAt(s.day, s.from), EndedAt: coldAt(s.day, s.to), SiteID: "YARD",
+			Activity: s.activity, Emergency: s.emergency,
+		})
+	}
+	return set
+}
+
+func coldLimits(t testing.TB) *rules.Limits {
+	t.Helper()
+	l, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
+	if err != nil {
+		t.Fatalf("LoadLimits: %v", err)
+	}
+	return l
+}
+
+var coldPeriod = Period{From: coldDay("2026-01-10"), To: coldDay("2026-01-14")}
+
+func coldFactsOf(t testing.TB, set *records.Set, p Period) *facts {
+	t.Helper()
+	f := newFacts(set, coldLimits(t), p)
+	f.coldFacts()
+	return f
+}
+
+func TestColdSiteDays(t *testing.T) {
+	f := coldFactsOf(t, coldSet(), coldPeriod)
+	wc := cold.WindChillC
+	want := []SiteDays{{Site: "YARD", Days: []DayCold{
+		{Day: coldDay("2026-01-10"), MinAirC: 0, MinWindChillC: wc(0, 10), Readings: 2},
+		{Day: coldDay("2026-01-11"), MinAirC: -15, MinWindChillC: wc(-15, 30), Readings: 2},
+		{Day: coldDay("2026-01-12"), MinAirC: -25, MinWindChillC: wc(-25, 20), Readings: 2},
+		{Day: coldDay("2026-01-13"), MinAirC: -40, MinWindChillC: wc(-40, 10), Readings: 3},
+		{Day: coldDay("2026-01-14"), Readings: 0},
+	}}}
+	if diff := cmp.Diff(want, f.weather); diff != "" {
+		t.Errorf("weather (-want +got):\n%s", diff)
+	}
+	// The day minima against the published Environment Canada wind chill
+	// table: (0,10)→−3, (−15,30)→−26, (−25,20)→−37 (its worked example;
+	// lower than (−20,50)→−35 the same day), (−40,10)→−51.
+	wantShown := []int{-3, -26, -37, -51}
+	var gotShown []int
+	for _, d := range f.weather[0].Days[:4] {
+		gotShown = append(gotShown, cold.Display(d.MinWindChillC))
+	}
+	if diff := cmp.Diff(wantShown, gotShown); diff != "" {
+		t.Errorf("displayed day minima (-want +got):\n%s", diff)
+	}
+}
+
+// coldest13 is the coldest moment of 2026-01-13: −40 °C, 10 km/h, wind chill
+// −51 (Environment Canada table), in the "2–5 min" band (ECCC: −48 to −54).
+func coldest13(from, until string, days int) map[string]any {
+	return map[string]any{
+		"from": from, "until": until, "days": days,
+		"min_wind_chill_c": cold.WindChillC(-40, 10), "wind_chill_display": -51,
+		"air_c": -40.0, "wind_kmh": 10.0, "coldest_on": "2026-01-13", "coldest_ref": "weather.csv:10",
+		"band": "exposed skin can freeze in 2–5 min",
+	}
+}
+
+func with(m map[string]any, kv ...any) map[string]any {
+	out := map[string]any{}
+	for k, v := range m {
+		out[k] = v
+	}
+	for i := 0; i+1 < len(kv); i += 2 {
+		out[kv[i].(string)] = kv[i+1]
+	}
+	return out
+}
+
+func TestColdSiteAndEnclosureFacts(t *testing.T) {
+	f := coldFactsOf(t, coldSet(), coldPeriod)
+	noWeather := []any{map[string]any{"from": "2026-01-14", "until": "2026-01-14", "days": 1}}
+	water := func(on string, air float64, airRef string) any {
+		return map[string]any{"on": on, "min_air_c": air, "checks": 1, "evidence": []any{"enclosures.csv:3", airRef}}
+	}
+	run := with(coldest13("2026-01-11", "2026-01-13", 3), "evidence", []any{"enclosures.csv:3", "weather.csv:10"})
+	tests := []struct {
+		kind, id string
+		want     any
+	}{
+		{"site", "YARD", map[string]any{
+			"readings_recorded": true,
+			// −25/20 → −37 on 01-12 and −40/10 → −51 on 01-13 are at or
+			// below −28; −15/30 → −26 on 01-11 is not (ECCC table and bands).
+			"frostbite":             []any{coldest13("2026-01-12", "2026-01-13", 2)},
+			"days_without_readings": noWeather,
+		}},
+		{"enclosure", "N-01", map[string]any{
+			// Two water checks a day (the building round and its own
+			// round; "frozen" is a recorded state), fresh bedding on 01-11
+			// and a nest box: nothing selected.
+			"exposure": "outdoor", "weather_site": "YARD", "nest_box": true,
+			"water": []any{}, "bedding_stale": []any{}, "shelter_missing": []any{},
+			"days_without_weather": noWeather,
+		}},
+		{"enclosure", "N-02", map[string]any{
+			"exposure": "outdoor", "weather_site": "YARD", "nest_box": false,
+			// Below 0 °C from 01-11; not_checked does not count.
+			"water": []any{
+				water("2026-01-11", -15, "weather.csv:4"),
+				water("2026-01-12", -25, "weather.csv:6"),
+				water("2026-01-13", -40, "weather.csv:10"),
+			},
+			// Last bedding 01-04: 01-11 is D−7, outside D−6…D.
+			"bedding_stale":        []any{with(run, "last_bedding", "2026-01-04")},
+			"shelter_missing":      []any{run},
+			"days_without_weather": noWeather,
+		}},
+		{"enclosure", "B-01", nil}, // indoor: no cold section
+	}
+	for _, tc := range tests {
+		t.Run(tc.kind+"/"+tc.id, func(t *testing.T) {
+			got := f.docs[tc.kind][tc.id]["cold"]
+			if diff := cmp.Diff(tc.want, got); diff != "" {
+				t.Errorf("cold section (-want +got):\n%s", diff)
+			}
+		})
+	}
+}
+
+func TestColdStintFacts(t *testing.T) {
+	f := coldFactsOf(t, coldSet(), coldPeriod)
+	// ACGIH TLV work/warm-up schedule, published example: −35 °C with an
+	// 8 km/h wind, moderate work → 40 min, 4 breaks.
+	limit := map[string]any{
+		"kind": "limit", "text": "max 40 min work, 4 warm-up breaks (row -35 °C, 8 km/h column)", "cell": "40/4",
+		"max_work_min": 40, "breaks": 4, "row_warmest_c": -35.0, "column_kmh": 8.0, "air_row_c": -35.0, "light_shift": false,
+	}
+	// ACGIH TLV table: −40 to −42 °C row, 16 km/h column (10 km/h wind) is C.
+	cease := map[string]any{
+		"kind": "cease", "text": "non-emergency work should cease (row -40 °C, 16 km/h column)", "cell": "C",
+		"max_work_min": nil, "breaks": nil, "row_warmest_c": -40.0, "column_kmh": 16.0, "air_row_c": -40.0, "light_shift": false,
+	}
+	at0600 := map[string]any{"ref": "weather.csv:8", "at": "2026-01-13 06:00", "air_c": -35.0, "wind_kmh": 8.0,
+		"wind_chill_c": cold.WindChillC(-35, 8), "wind_chill_display": -44, "hours_before_start": (10 * time.Minute).Hours()}
+	at1200 := map[string]any{"ref": "weather.csv:10", "at": "2026-01-13 12:00", "air_c": -40.0, "wind_kmh": 10.0,
+		"wind_chill_c": cold.WindChillC(-40, 10), "wind_chill_display": -51, "hours_before_start": (20 * time.Minute).Hours()}
+	stint := func(ref, from, to string, minutes float64, activity string, emergency bool, reading, step map[string]any) any {
+		return map[string]any{
+			"on": "2026-01-13", "ref": ref, "site": "YARD",
+			"started_at": "2026-01-13 " + from, "ended_at": "2026-01-13 " + to,
+			"minutes": minutes, "activity": activity, "emergency": emergency, "reading": reading, "step": step,
+		}
+	}
+	tests := []struct {
+		staff string
+		want  any
+	}{
+		{"K-ORVO", map[string]any{"stints": []any{
+			stint("outdoor_work.csv:2", "06:10", "06:51", 41, "moderate", false, at0600, limit),
+			stint("outdoor_work.csv:5", "12:20", "13:30", 70, "moderate", true, at1200, cease),
+		}}},
+		{"K-LISA", map[string]any{"stints": []any{
+			stint("outdoor_work.csv:3", "06:10", "06:50", 40, "moderate", false, at0600, limit),
+			stint("outdoor_work.csv:4", "12:20", "12:35", 15, "heavy", false, at1200, cease),
+		}}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.staff, func(t *testing.T) {
+			if diff := cmp.Diff(tc.want, f.docs["staff"][tc.staff]["cold"]); diff != "" {
+				t.Errorf("stints (-want +got):\n%s", diff)
+			}
+		})
+	}
+}
+
+// The checks.md lookup rule: the latest reading at or before the start
+// within 3 h (limits cold.reading_within_hours), else the nearest.
+func TestReadingInForce(t *testing.T) {
+	rs := []*records.Weather{
+		{Ref: "weather.csv:2", At: coldAt("2026-01-13", "06:00")},
+		{Ref: "weather.csv:3", At: coldAt("2026-01-13", "10:00")},
+		{Ref: "weather.csv:4", At: coldAt("2026-01-13", "20:00")},
+	}
+	tests := []struct {
+		name, at string
+		want     records.Ref
+	}{
+		{"at the reading", "06:00", "weather.csv:2"},
+		{"2 h after, the next as near", "08:00", "weather.csv:2"},
+		{"exactly 3 h after, the next nearer", "09:00", "weather.csv:2"},
+		{"3 h 1 min after: the nearest", "09:01", "weather.csv:3"},
+		{"4 h 30 min after, the next 5 h 30 min away", "14:30", "weather.csv:3"},
+		{"6 h after, the next 4 h away", "16:00", "weather.csv:4"},
+		{"before the first reading", "05:00", "weather.csv:2"},
+		{"after the last reading", "23:59", "weather.csv:4"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			w, ok := readingInForce(rs, coldAt("2026-01-13", tc.at), 3*time.Hour)
+			if !ok {
+				t.Fatalf("readingInForce(%s) found nothing", tc.at)
+			}
+			if diff := cmp.Diff(tc.want, w.Ref); diff != "" {
+				t.Errorf("reading (-want +got):\n%s", diff)
+			}
+		})
+	}
+	if _, ok := readingInForce(nil, coldAt("2026-01-13", "08:00"), 3*time.Hour); ok {
+		t.Error("readingInForce(no readings) found one")
+	}
+}
+
+// Bedding looks back before the period start: a period starting on a cold
+// 01-11 judges that day on the rounds of 01-05…01-11 (D−6…D).
+func TestColdBeddingLooksBeforePeriod(t *testing.T) {
+	tests := []struct {
+		name      string
+		beddingOn string
+		wantStale []any
+	}{
+		{"bedding on D-6 keeps D fresh", "2026-01-05", []any{}},
+		{"bedding on D-7 is stale", "2026-01-04", []any{"2026-01-11"}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			set := coldSet()
+			for i := range set.Care {
+				r := &set.Care[i]
+				if r.BuildingID == "SHED-N" {
+					r.BeddingAdded = records.No
+					if r.Day == coldDay(tc.beddingOn) {
+						r.BeddingAdded = records.Yes
+					}
+				}
+			}
+			f := coldFactsOf(t, set, Period{From: coldDay("2026-01-11"), To: coldDay("2026-01-11")})
+			got := []any{}
+			for _, r := range f.docs["enclosure"]["N-02"]["cold"].(map[string]any)["bedding_stale"].([]any) {
+				got = append(got, r.(map[string]any)["from"])
+			}
+			if diff := cmp.Diff(tc.wantStale, got); diff != "" {
+				t.Errorf("stale runs (-want +got):\n%s", diff)
+			}
+		})
+	}
+}
+
+// coldEngine compiles the shipped cold.rego alone: the other domains' files
+// are not under test here and are checked by their own tests.
+func coldEngine(t testing.TB, lim *rules.Limits) *Engine {
+	t.Helper()
+	data, err := lim.Data()
+	if err != nil {
+		t.Fatal(err)
+	}
+	src, err := fs.ReadFile(rules.FS(), "cold.rego")
+	if err != nil {
+		t.Fatal(err)
+	}
+	shipped := fstest.MapFS{"cold.rego": &fstest.MapFile{Data: src}}
+	e, err := NewEngine(context.Background(), []Source{{Name: "rules", FS: shipped}}, data, EngineOptions{})
+	if err != nil {
+		t.Fatalf("NewEngine(shipped rules): %v", err)
+	}
+	return e
+}
+
+func TestColdCheckEndToEnd(t *testing.T) {
+	lim := coldLimits(t)
+	eng := coldEngine(t, lim)
+	type row struct{ Check, Subject, On, Until string }
+	tests := []struct {
+		name   string
+		period Period
+		want   []row
+	}{
+		{"the cold week", coldPeriod, []row{
+			{"cold.bedding.stale", "N-02", "2026-01-11", "2026-01-13"},
+			{"cold.frostbite.risk", "YARD", "2026-01-12", "2026-01-13"},
+			{"cold.shelter.missing", "N-02", "2026-01-11", "2026-01-13"},
+			{"cold.water.checks_insufficient", "N-02", "2026-01-11", ""},
+			{"cold.water.checks_insufficient", "N-02", "2026-01-12", ""},
+			{"cold.water.checks_insufficient", "N-02", "2026-01-13", ""},
+			{"cold.work.over_limit", "K-ORVO", "2026-01-13", ""},
+			{"cold.work.should_cease", "K-LISA", "2026-01-13", ""},
+		}},
+		{"a clean mild day", Period{From: coldDay("2026-01-10"), To: coldDay("2026-01-10")}, []row{}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			res, err := Check(context.Background(), Config{Records: coldSet(), Limits: lim, Engine: eng, Period: tc.period, Only: []string{"cold"}})
+			if err != nil {
+				t.Fatalf("Check: %v", err)
+			}
+			got := []row{}
+			for _, f := range res.Findings {
+				got = append(got, row{f.Check, f.Subject, f.On.String(), f.Until.String()})
+			}
+			sort.Slice(got, func(i, j int) bool {
+				a, b := got[i], got[j]
+				if a.Check != b.Check {
+					return a.Check < b.Check
+				}
+				return a.On < b.On
+			})
+			if diff := cmp.Diff(tc.want, got); diff != "" {
+				t.Errorf("findings (-want +got):\n%s", diff)
+			}
+			if len(res.NotEvaluated) > 0 {
+				t.Errorf("not evaluated: %v", res.NotEvaluated)
+			}
+		})
+	}
+}
+
+// BenchmarkColdFacts10kEnclosures31Days: 10,000 occupied outdoor enclosures
+// in 100 sheds at one site, two rounds a day each, four readings a day,
+// a month of days.
+func BenchmarkColdFacts10kEnclosures31Days(b *testing.B) {
+	lim := coldLimits(b)
+	set := &records.Set{
+		Facility: records.Facility{Name: "bench", WeatherSites: []string{"YARD"}},
+		Location: coldZone,
+		Present:  map[string]bool{"daily_care.csv": true, "weather.csv": true},
+	}
+	from := coldDay("2026-01-01")
+	p := Period{From: from, To: from + 30}
+	for s := 0; s < 100; s++ {
+		set.Facility.Buildings = append(set.Facility.Buildings, records.Building{ID: fmt.Sprintf("S%03d", s), Exposure: "outdoor", WeatherSite: "YARD"})
+	}
+	for i := 0; i < 10000; i++ {
+		id := fmt.Sprintf("E%05d", i)
+		set.Enclosures = append(set.Enclosures, records.Enclosure{ID: id, BuildingID: fmt.Sprintf("S%03d", i%100), Kind: "cage", HeightCm: 90, NestBox: records.Bool(1 + i%2)})
+		set.Animals = append(set.Animals, records.Animal{ID: "A" + id, Species: "vulpes_vulpes", ArrivedOn: from - 60, EnclosureID: id, LifeStage: "adult"})
+	}
+	for d := p.From - 7; d <= p.To; d++ {
+		for i := range set.Enclosures {
+			e := &set.Enclosures[i]
+			for k, hh := range []int{8, 16} {
+				set.Care = append(set.Care, records.CareRound{
+					At: d.In(coldZone).Add(time.Duration(hh) * time.Hour), Day: d, EnclosureID: e.ID, StaffID: "K",
+					Observed: records.Yes, Fed: records.Yes, Water: []string{"ok", "not_checked"}[k], BeddingAdded: records.Bool(1 + int(d)%5/4),
+				})
+			}
+		}
+		for hh := 0; hh < 24; hh += 6 {
+			set.Weather = append(set.Weather, records.Weather{At: d.In(coldZone).Add(time.Duration(hh) * time.Hour), SiteID: "YARD", AirTempC: -30 + float64(int(d)%7*3), WindKmh: fp(float64(hh))})
+		}
+	}
+	f := newFacts(set, lim, p)
+	f.careIndex()
+	b.ResetTimer()
+	for b.Loop() {
+		f.docs = map[string]map[string]map[string]any{}
+		f.coldFacts()
+	}
+}
