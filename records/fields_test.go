@@ -2,9 +2,10 @@ package records
 
 import (
 	"math"
-	"reflect"
 	"testing"
 	"time"
+
+	"github.com/google/go-cmp/cmp"
 )
 
 func TestParseBool(t *testing.T) {
@@ -146,8 +147,8 @@ func TestParseList(t *testing.T) {
 	for _, tt := range tests {
 		t.Run(tt.in, func(t *testing.T) {
 			got := parseList(tt.in, func(s string) string { return s })
-			if !reflect.DeepEqual(got, tt.want) {
-				t.Errorf("parseList(%q) = %q, want %q", tt.in, got, tt.want)
+			if d := cmp.Diff(tt.want, got); d != "" {
+				t.Errorf("parseList(%q) (-want +got):\n%s", tt.in, d)
 			}
 		})
 	}

@@ -2,14 +2,14 @@ package records
 
 import (
 	"errors"
-	"fmt"
 	"io/fs"
 	"math"
-	"reflect"
 	"strings"
 	"testing"
 	"testing/fstest"
 	"time"
+
+	"github.com/google/go-cmp/cmp"
 )
 
 // The invented Birchfall Fur Research Station, small enough to read.
@@ -102,21 +102,6 @@ func problemLines(s *Set) []string {
 	return out
 }
 
-// diffLines reports want and got line by line when they differ (-want +got).
-func diffLines(want, got []string) string {
-	if reflect.DeepEqual(want, got) {
-		return ""
-	}
-	var b strings.Builder
-	for _, w := range want {
-		fmt.Fprintf(&b, "-%s\n", w)
-	}
-	for _, g := range got {
-		fmt.Fprintf(&b, "+%s\n", g)
-	}
-	return b.String()
-}
-
 func TestLoadBase(t *testing.T) {
 	s := mustLoad(t, folder(nil))
 	if len(s.Problems) != 0 || len(s.Warnings) != 0 {
@@ -139,12 +124,12 @@ func TestLoadBase(t *testing.T) {
 	if e[0].Area() != 1.2 || e[0].NestBox != Yes || e[0].Platform != Yes || e[1].Area() != 4.5 || e[1].Platform != No {
 		t.Errorf("enclosures = %+v / %+v", e[0], e[1])
 	}
-	if got := s.Staff[1].EuthanasiaMethods; !reflect.DeepEqual(got, []string{"barbiturate_overdose", "captive_bolt"}) {
-		t.Errorf("euthanasia methods = %q", got)
+	if d := cmp.Diff([]string{"barbiturate_overdose", "captive_bolt"}, s.Staff[1].EuthanasiaMethods); d != "" {
+		t.Errorf("euthanasia methods (-want +got):\n%s", d)
 	}
 	want := []FileCount{{File: animalsFile, Read: 2, Accepted: 2}, {File: enclosuresFile, Read: 2, Accepted: 2}, {File: staffFile, Read: 2, Accepted: 2}}
-	if !reflect.DeepEqual(s.Accounting, want) {
-		t.Errorf("accounting = %+v, want %+v", s.Accounting, want)
+	if d := cmp.Diff(want, s.Accounting); d != "" {
+		t.Errorf("accounting (-want +got):\n%s", d)
 	}
 	if !s.Present[facilityFile] || !s.Present[animalsFile] || s.Present[careFile] {
 		t.Errorf("present = %v", s.Present)
@@ -299,7 +284,7 @@ func TestRowProblems(t *testing.T) {
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			s := mustLoad(t, folder(tt.over))
-			if d := diffLines(tt.want, problemLines(s)); d != "" {
+			if d := cmp.Diff(tt.want, problemLines(s)); d != "" {
 				t.Errorf("problems (-want +got):\n%s", d)
 			}
 		})
@@ -340,7 +325,7 @@ func TestColdPlausibility(t *testing.T) {
 		`weather.csv:4: air_temp_c: 61 °C is outside the plausible range -80 … 60 °C`,
 		`weather.csv:5: wind_kmh: 260 km/h is outside the plausible range 0 … 250 km/h`,
 	}
-	if d := diffLines(want, problemLines(s)); d != "" {
+	if d := cmp.Diff(want, problemLines(s)); d != "" {
 		t.Errorf("problems (-want +got):\n%s", d)
 	}
 	if len(s.Weather) != 1 || s.Weather[0].AirTempC != -40 {
@@ -368,7 +353,7 @@ func TestUnitColumns(t *testing.T) {
 	}
 	s := mustLoad(t, folder(over))
 	want := []string{`weather.csv:3: air_temp_f: -130 °F (-90.0 °C) is outside the plausible range -80 … 60 °C`}
-	if d := diffLines(want, problemLines(s)); d != "" {
+	if d := cmp.Diff(want, problemLines(s)); d != "" {
 		t.Errorf("problems (-want +got):\n%s", d)
 	}
 	near := func(name string, got, want float64) {
@@ -522,12 +507,15 @@ func TestFileLevel(t *testing.T) {
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			s := mustLoad(t, folder(tt.over))
-			if d := diffLines(tt.want, problemLines(s)); d != "" {
+			if d := cmp.Diff(tt.want, problemLines(s)); d != "" {
 				t.Errorf("problems (-want +got):\n%s", d)
 			}
 			got, ok := s.Count(tt.count.File)
-			if !ok || got != tt.count {
-				t.Errorf("accounting = %+v (read: %v), want %+v", got, ok, tt.count)
+			if !ok {
+				t.Errorf("%s not accounted", tt.count.File)
+			}
+			if d := cmp.Diff(tt.count, got); d != "" {
+				t.Errorf("accounting (-want +got):\n%s", d)
 			}
 			if got.Failed != "" && !strings.HasSuffix(got.String(), "(file not used: "+got.Failed+")") {
 				t.Errorf("accounting line = %q, want the failure named", got.String())
@@ -539,7 +527,7 @@ func TestFileLevel(t *testing.T) {
 			if tt.warnings == nil {
 				tt.warnings = []string{}
 			}
-			if d := diffLines(tt.warnings, warnings); d != "" {
+			if d := cmp.Diff(tt.warnings, warnings); d != "" {
 				t.Errorf("warnings (-want +got):\n%s", d)
 			}
 		})
@@ -686,7 +674,7 @@ func TestCrossRecord(t *testing.T) {
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			s := mustLoad(t, folder(tt.over))
-			if d := diffLines(tt.want, problemLines(s)); d != "" {
+			if d := cmp.Diff(tt.want, problemLines(s)); d != "" {
 				t.Errorf("problems (-want +got):\n%s", d)
 			}
 		})
@@ -781,7 +769,7 @@ func TestLoadErrors(t *testing.T) {
 func TestProblemDayAndValue(t *testing.T) {
 	s := mustLoad(t, folder(map[string]string{careFile: "checked_at,enclosure_id,staff_id,observed,water\n2026-01-15T07:00,E1,K1,yes, frozn \n"}))
 	want := Problem{File: careFile, Line: 2, Column: "water", Value: " frozn ", Reason: `"frozn" is not one of ok, low, empty, frozen, not_checked`, Day: MakeDay(2026, 1, 15)}
-	if len(s.Problems) != 1 || s.Problems[0] != want {
-		t.Errorf("problems = %+v, want %+v", s.Problems, want)
+	if d := cmp.Diff([]Problem{want}, s.Problems); d != "" {
+		t.Errorf("problems (-want +got):\n%s", d)
 	}
 }
