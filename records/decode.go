@@ -280,15 +280,21 @@ type decoder struct {
 	// verdicts memoises, per column, the validation reason of each distinct
 	// cell ("" = valid): validation is a pure function of the cell, and a
 	// million rows repeat a few hundred values.
-	verdicts []map[string]string
+	verdicts []map[string]verdict
+}
+
+// verdict is a validated cell: the reason it is invalid ("" when valid) and,
+// for text fields, the shared copy of its value.
+type verdict struct {
+	val, reason string
 }
 
 func newDecoder(p *plan, loc *time.Location, file string) *decoder {
 	d := &decoder{p: p, loc: loc, strs: map[string]string{}, failed: make([]bool, len(p.rt.fields)), refBase: file + ":"}
-	d.verdicts = make([]map[string]string, len(p.cols))
+	d.verdicts = make([]map[string]verdict, len(p.cols))
 	for ci, c := range p.cols {
 		if c.field >= 0 && p.rt.fields[c.field].vtag != "" {
-			d.verdicts[ci] = map[string]string{}
+			d.verdicts[ci] = map[string]verdict{}
 		}
 	}
 	return d
@@ -345,9 +351,16 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 			continue
 		}
 		fv := rv.Field(f.index)
-		reason := d.set(fv, f, col, cell)
-		if reason == "" && d.verdicts[ci] != nil {
-			reason = d.verdict(ci, fv, f, cell)
+		var reason string
+		if v, ok := d.verdicts[ci][cell]; ok && f.kind == kString {
+			// A repeated id or code: its shared copy and its verdict in one lookup.
+			fv.SetString(v.val)
+			reason = v.reason
+		} else {
+			reason = d.set(fv, f, col, cell)
+			if reason == "" && d.verdicts[ci] != nil {
+				reason = d.verdict(ci, fv, f, cell)
+			}
 		}
 		if reason != "" {
 			d.failed[col.field] = true

@@ -33,8 +33,8 @@ var validate = sync.OnceValue(func() *validator.Validate {
 // per distinct cell of the column.
 func (d *decoder) verdict(ci int, fv reflect.Value, f *field, cell string) string {
 	m := d.verdicts[ci]
-	if reason, ok := m[cell]; ok {
-		return reason
+	if v, ok := m[cell]; ok {
+		return v.reason
 	}
 	reason := ""
 	if err := validate().Var(fv.Interface(), f.vtag); err != nil {
@@ -46,7 +46,11 @@ func (d *decoder) verdict(ci int, fv reflect.Value, f *field, cell string) strin
 		}
 	}
 	if len(m) < 1<<16 {
-		m[strings.Clone(cell)] = reason
+		v := verdict{reason: reason}
+		if fv.Kind() == reflect.String {
+			v.val = fv.String()
+		}
+		m[strings.Clone(cell)] = v
 	}
 	return reason
 }
