@@ -88,7 +88,10 @@ func sampleResult(n int) *checker.Result {
 			{File: "cold_work.csv", Read: 96, Accepted: 96},
 			{File: "culls.csv", Read: 0, Accepted: 0, Rejected: 0, Failed: "missing required column \"method\""},
 		},
-		Warnings: []records.Warning{{File: "care_rounds.csv", Column: "keeper_mood", Message: "unknown column; its values were not read"}},
+		Warnings: []records.Warning{
+			{File: "care_rounds.csv", Column: "keeper_mood", Message: "unknown column; its values were not read"},
+			{File: "handling.csv", Column: "sedative_dose_µg_kg", Message: "unknown column; its values were not read"},
+		},
 		NotEvaluated: []checker.Skipped{
 			{Check: "ppe.damaged.used", Reason: "ppe_checks.csv is absent"},
 			{Check: "staff.respirator.fit_overdue", Reason: "no handling row lists a respirator and staff.yaml has no respirator_fit_on dates"},

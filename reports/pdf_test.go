@@ -128,7 +128,7 @@ func TestWritePDFContent(t *testing.T) {
 		"not used: missing required column \"method\"",
 		// Summary
 		"Findings by domain and severity", "Checks not evaluated (2)", "ppe_checks.csv is absent",
-		"on 689 of 744 occupied enclosure-days (92.6 %)", "keeper_mood",
+		"on 689 of 744 occupied enclosure-days (92.6 %)", "keeper_mood", "sedative_dose_µg_kg",
 		// Cold season
 		"Cold season", "Weather site north-yard", "−20: bedding, shelter", "−28: frostbite risk",
 		"−28 to −39: exposed skin can freeze in 10–30 min", "Days without readings: 1",
@@ -200,5 +200,54 @@ func TestWritePDFContent(t *testing.T) {
 		if diff := cmp.Diff(string(want), string(got)); diff != "" {
 			t.Errorf("attached %s differs from the writer's output (-want +got):\n%s", name, diff)
 		}
+	}
+}
+
+func TestWritePDFSparse(t *testing.T) {
+	// No weather, no findings, no limits: the sections say so rather than
+	// vanish, and the cautions and sign-off are still there.
+	r := &checker.Result{Facility: "Birchfall Fur Research Station", Period: sampleResult(0).Period,
+		Fingerprint: "ab", NotEvaluated: []checker.Skipped{{Check: "cold.frostbite.risk", Reason: "weather.csv is absent"}}}
+	dir := t.TempDir()
+	file := filepath.Join(dir, "audit.pdf")
+	if err := os.WriteFile(file, writePDF(t, r, sampleOptions()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	flat := strings.Join(strings.Fields(run(t, "pdftotext", "-raw", file, "-")), " ")
+	for _, w := range []string{"No findings in the period.", "1 check not evaluated; see the summary.", "weather.csv is absent",
+		"No limits were reported with this result.", "No occupied enclosure-days", "Conscious foxes and mink bite",
+		"Chair, animal-care committee", "Fingerprint ab "} {
+		if !strings.Contains(flat, w) {
+			t.Errorf("sparse PDF lacks %q", w)
+		}
+	}
+	if strings.Contains(flat, "Cold season") {
+		t.Errorf("sparse PDF has a cold-season section without weather")
+	}
+}
+
+func TestWritePDFMaxPerCheck(t *testing.T) {
+	r := sampleResult(320)
+	tests := []struct {
+		name string
+		max  int
+		more bool
+	}{
+		{"default lists 25 per check", 0, true},
+		{"negative lists every finding", -1, false},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			opt := sampleOptions()
+			opt.MaxPerCheck = tt.max
+			file := filepath.Join(t.TempDir(), "audit.pdf")
+			if err := os.WriteFile(file, writePDF(t, r, opt), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			flat := strings.Join(strings.Fields(run(t, "pdftotext", "-raw", file, "-")), " ")
+			if got := strings.Contains(flat, "more care.observation.missed findings in the attached"); got != tt.more {
+				t.Errorf("\"N more\" note present = %v, want %v", got, tt.more)
+			}
+		})
 	}
 }

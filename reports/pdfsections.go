@@ -178,7 +178,7 @@ func (d *doc) findings() {
 		d.pdf.Ln(3)
 		d.para("No findings in the period.", "B", 11)
 		if len(r.NotEvaluated) > 0 {
-			d.para(fmt.Sprintf("%d checks were not evaluated; see the summary.", len(r.NotEvaluated)), "", 10)
+			d.para(fmt.Sprintf("%s not evaluated; see the summary.", plural(len(r.NotEvaluated), "check")), "", 10)
 		}
 		return
 	}
@@ -222,7 +222,7 @@ func (d *doc) checkFindings(c checkGroup) {
 	if c.title != "" {
 		head += " — " + c.title
 	}
-	meta := fmt.Sprintf("%d findings (%s). Source: %s", len(c.findings), strings.Join(parts, ", "), orNone(c.source))
+	meta := fmt.Sprintf("%s (%s). Source: %s", plural(len(c.findings), "finding"), strings.Join(parts, ", "), orNone(c.source))
 
 	first := findingCells(c.findings[0])
 	d.font(sans, "B", 10)
@@ -398,4 +398,12 @@ func (d *doc) signOff() {
 		}
 		p.SetXY(margin, y+blockH)
 	}
+}
+
+// plural is "1 finding" or "3 findings".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return itoa(n) + " " + noun + "s"
 }
