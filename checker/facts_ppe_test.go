@@ -1,0 +1,43 @@
+package checker
+
+import (
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+)
+
+func TestPPEFacts(t *testing.T) {
+	set := peopleSet(t)
+	// A second check of G1 on the same day as its first: the later row is
+	// the latest word. A check after the day of use is not yet known.
+	set.PPEChecks = append(set.PPEChecks,
+		set.PPEChecks[0],
+	)
+	set.PPEChecks[2].Ref, set.PPEChecks[2].Condition, set.PPEChecks[2].Action = "ppe_checks.csv:4", "worn", "kept"
+	set.PPEChecks = append(set.PPEChecks, set.PPEChecks[0])
+	set.PPEChecks[3].Ref, set.PPEChecks[3].CheckedOn = "ppe_checks.csv:5", pday(t, "2026-01-20")
+	f := newFacts(set, peopleLimits(t), peoplePeriod)
+	f.ppeFacts()
+
+	lastG1 := func(days int) map[string]any {
+		return map[string]any{"on": "2026-01-05", "ref": "ppe_checks.csv:4", "condition": "worn", "action": "kept", "days_before": days}
+	}
+	want := map[string]any{
+		"G1": map[string]any{"uses": []any{
+			map[string]any{"on": "2026-01-10", "refs": []any{"handling.csv:2"}, "kind": "glove", "last_check": lastG1(5)},
+			map[string]any{"on": "2026-01-11", "refs": []any{"handling.csv:3"}, "kind": "glove", "last_check": lastG1(6)},
+			map[string]any{"on": "2026-01-12", "refs": []any{"handling.csv:4"}, "kind": "glove", "last_check": lastG1(7)},
+		}},
+		"G2": map[string]any{"uses": []any{
+			map[string]any{"on": "2026-01-14", "refs": []any{"handling.csv:5"}, "kind": "gauntlet", "last_check": map[string]any{
+				"on": "2026-01-13", "ref": "ppe_checks.csv:3", "condition": "damaged", "action": nil, "days_before": 1}},
+		}},
+	}
+	got := map[string]any{}
+	for id, d := range f.docs["item"] {
+		got[id] = d["ppe"]
+	}
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("ppe facts (-want +got):\n%s", diff)
+	}
+}
