@@ -5,7 +5,9 @@ import (
 	"context"
 	"fmt"
 	"io/fs"
+	"os"
 	"sort"
+	"strings"
 	"testing"
 	"testing/fstest"
 	"time"
@@ -492,5 +494,61 @@ func BenchmarkColdFacts10kEnclosures31Days(b *testing.B) {
 	for b.Loop() {
 		f.docs = map[string]map[string]map[string]any{}
 		f.coldFacts()
+	}
+}
+
+// The demo's answer key lists every planted finding; the cold checks must
+// find exactly its cold rows over the demo period with the shipped limits.
+func TestColdDemoMatchesAnswerKey(t *testing.T) {
+	key, err := os.ReadFile("../testdata/demo/PLANTED.md")
+	if err != nil {
+		t.Fatalf("reading the demo answer key: %v", err)
+	}
+	type row struct{ Check, Subject, On, Until string }
+	want := []row{}
+	for _, line := range strings.Split(string(key), "\n") {
+		cells := strings.Split(line, "|")
+		if len(cells) != 6 || !strings.HasPrefix(strings.TrimSpace(cells[1]), "cold.") {
+			continue
+		}
+		want = append(want, row{strings.TrimSpace(cells[1]), strings.TrimSpace(cells[2]), strings.TrimSpace(cells[3]), strings.TrimSpace(cells[4])})
+	}
+	if len(want) == 0 {
+		t.Fatal("the answer key lists no cold findings")
+	}
+	lim := coldLimits(t)
+	var species []string
+	for code := range lim.Species {
+		species = append(species, code)
+	}
+	set, err := records.Load(os.DirFS("../testdata/demo/records"), records.Options{Species: species})
+	if err != nil {
+		t.Fatalf("loading the demo: %v", err)
+	}
+	period := Period{From: coldDay("2026-01-01"), To: coldDay("2026-01-31")}
+	res, err := Check(context.Background(), Config{Records: set, Limits: lim, Engine: coldEngine(t, lim), Period: period, Only: []string{"cold"}})
+	if err != nil {
+		t.Fatalf("Check: %v", err)
+	}
+	got := []row{}
+	for _, f := range res.Findings {
+		got = append(got, row{f.Check, f.Subject, f.On.String(), f.Until.String()})
+	}
+	less := func(rs []row) func(i, j int) bool {
+		return func(i, j int) bool {
+			a, b := rs[i], rs[j]
+			if a.Check != b.Check {
+				return a.Check < b.Check
+			}
+			if a.Subject != b.Subject {
+				return a.Subject < b.Subject
+			}
+			return a.On < b.On
+		}
+	}
+	sort.Slice(want, less(want))
+	sort.Slice(got, less(got))
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("cold findings on the demo (-answer key +got):\n%s", diff)
 	}
 }
