@@ -593,6 +593,20 @@ func TestCrossRecord(t *testing.T) {
 			},
 		},
 		{
+			// A rejected row before them shifts the kept rows; the overlap
+			// check must still compare against the right earlier stay.
+			name: "housing overlap after a rejected row",
+			over: map[string]string{housingFile: "animal_id,enclosure_id,moved_in_on,moved_out_on\n" +
+				"A9,E1,2025-01-01,\n" +
+				"A1,E1,2025-01-01,2025-03-01\n" +
+				"A2,E2,2026-01-01,2026-02-01\n" +
+				"A1,E2,2025-02-01,2025-02-15\n"},
+			want: []string{
+				`housing.csv:2: animal_id: "A9" is not in animals.csv`,
+				`housing.csv:5: moved_in_on: stay 2025-02-01 … 2025-02-15 overlaps the stay 2025-01-01 … 2025-03-01 at housing.csv:3`,
+			},
+		},
+		{
 			name: "care round references",
 			over: map[string]string{careFile: careHead +
 				"2026-01-15T07:00,E1,,K1,yes,no,\n" +

@@ -195,18 +195,20 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 
 	// Housing: references, then no two stays of one animal overlap. A
 	// stay is [moved_in_on, moved_out_on), open-ended when still there.
-	stays := map[string][]*Housing{}
+	// Copies, not pointers: keep compacts l.rows while it runs.
+	stays := map[string][]Housing{}
 	ld.housing.keep(func(h *Housing) *cellError {
 		if ce := ld.housing.refs(ref{"AnimalID", h.AnimalID, animals}, ref{"EnclosureID", h.EnclosureID, enclosures}); ce != nil {
 			return ce
 		}
-		for _, o := range stays[h.AnimalID] {
+		for i := range stays[h.AnimalID] {
+			o := &stays[h.AnimalID][i]
 			if overlaps(h, o) {
 				return ld.housing.cellErr("MovedInOn", h.MovedInOn.String(),
 					fmt.Sprintf("stay %s overlaps the stay %s at %s", stay(h), stay(o), o.Ref))
 			}
 		}
-		stays[h.AnimalID] = append(stays[h.AnimalID], h)
+		stays[h.AnimalID] = append(stays[h.AnimalID], *h)
 		return nil
 	})
 
