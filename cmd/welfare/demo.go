@@ -1,0 +1,58 @@
+package main
+
+import (
+	"context"
+	"flag"
+	"fmt"
+	"io"
+	"path/filepath"
+
+	"welfare/records/demo"
+)
+
+type demoOpts struct{ generatedAt string }
+
+func demoFlags() (*flag.FlagSet, *demoOpts) {
+	o := &demoOpts{}
+	fs := flag.NewFlagSet("demo", flag.ContinueOnError)
+	fs.StringVar(&o.generatedAt, "generated-at", "2026-02-02T08:00:00Z", "report generation `TIME` printed on the demo report")
+	return fs, o
+}
+
+// runDemo writes the invented station's records and checks them as a
+// veterinarian would, writing every report beside them. The demo's findings
+// are planted, so they do not make the exit status fail.
+func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error {
+	fs, o := demoFlags()
+	if err := parseFlags(fs, args, stdout); err != nil {
+		return err
+	}
+	if fs.NArg() > 1 {
+		return usagef("demo takes at most one folder")
+	}
+	dir := "welfare-demo"
+	if fs.NArg() == 1 {
+		dir = fs.Arg(0)
+	}
+	recs := filepath.Join(dir, "records")
+	if err := demo.WriteTo(recs); err != nil {
+		return err
+	}
+	fmt.Fprintf(stdout, "Demo records (an invented station) written to %s\n\n", recs)
+	co := &checkOpts{
+		from:        "2026-01-01",
+		to:          "2026-01-31",
+		failOn:      "never",
+		maxPerCheck: 3,
+		jsonOut:     filepath.Join(dir, "findings.json"),
+		csvOut:      filepath.Join(dir, "findings.csv"),
+		pdfOut:      filepath.Join(dir, "audit.pdf"),
+		inspector:   "Demo inspector (invented)",
+		generatedAt: o.generatedAt,
+	}
+	if err := checkFolder(ctx, recs, co, stdout, stderr); err != nil {
+		return err
+	}
+	fmt.Fprintf(stdout, "\nTry: welfare check %s --on 2026-01-15 --only cold\n", recs)
+	return nil
+}

@@ -1,0 +1,214 @@
+package main
+
+import (
+	"bufio"
+	"bytes"
+	"context"
+	"encoding/json"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"runtime"
+	"sort"
+	"strings"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+)
+
+const demoRecords = "../../testdata/demo/records"
+
+// runMain runs the program in process and returns its exit code and output.
+func runMain(t *testing.T, args ...string) (code int, stdout, stderr string) {
+	t.Helper()
+	var out, errOut bytes.Buffer
+	err := run(context.Background(), args, &out, &errOut)
+	return exitCode(err, &errOut), out.String(), errOut.String()
+}
+
+// planted reads the answer key: one "check|subject|on|until" per expected finding.
+func planted(t *testing.T) []string {
+	t.Helper()
+	f, err := os.Open("../../testdata/demo/PLANTED.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	var out []string
+	sc := bufio.NewScanner(f)
+	inTable := false
+	for sc.Scan() {
+		line := strings.TrimSpace(sc.Text())
+		if strings.HasPrefix(line, "| check |") {
+			inTable = true
+			continue
+		}
+		if !inTable || strings.HasPrefix(line, "|---") {
+			continue
+		}
+		if !strings.HasPrefix(line, "|") {
+			if len(out) > 0 {
+				break
+			}
+			continue
+		}
+		cells := strings.Split(strings.Trim(line, "|"), "|")
+		for i := range cells {
+			cells[i] = strings.TrimSpace(cells[i])
+		}
+		out = append(out, strings.Join(cells[:4], "|"))
+	}
+	if len(out) == 0 {
+		t.Fatal("PLANTED.md has no table rows")
+	}
+	sort.Strings(out)
+	return out
+}
+
+// The end-to-end test of the main job: every planted problem of the demo is
+// found, nothing else is, and the exit code follows --fail-on.
+func TestCheckDemoFindsExactlyThePlantedProblems(t *testing.T) {
+	dir := t.TempDir()
+	jsonPath := filepath.Join(dir, "f.json")
+	code, stdout, stderr := runMain(t, "check", "--from", "2026-01-01", "--to", "2026-01-31", "--json", jsonPath, demoRecords)
+	if code != exitFindings {
+		t.Fatalf("exit code = %d, want %d (the demo has significant findings)\nstderr: %s", code, exitFindings, stderr)
+	}
+	if !strings.Contains(stdout, "Birchfall Fur Research Station") {
+		t.Errorf("summary does not name the facility:\n%s", stdout)
+	}
+	b, err := os.ReadFile(jsonPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Findings []struct {
+			Check, Subject, On, Until string
+		}
+		Accounting []struct {
+			File                     string
+			Read, Accepted, Rejected int
+		}
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, f := range doc.Findings {
+		got = append(got, strings.Join([]string{f.Check, f.Subject, f.On, f.Until}, "|"))
+	}
+	sort.Strings(got)
+	if diff := cmp.Diff(planted(t), got); diff != "" {
+		t.Errorf("findings differ from testdata/demo/PLANTED.md (-planted +found):\n%s", diff)
+	}
+	for _, a := range doc.Accounting {
+		if a.Read != a.Accepted+a.Rejected {
+			t.Errorf("%s: read %d != accepted %d + rejected %d", a.File, a.Read, a.Accepted, a.Rejected)
+		}
+	}
+}
+
+func TestExitCodes(t *testing.T) {
+	tests := []struct {
+		name string
+		args []string
+		want int
+	}{
+		{"no command", nil, exitUsage},
+		{"unknown command", []string{"inspect"}, exitUsage},
+		{"help", []string{"help"}, exitOK},
+		{"help for check", []string{"help", "check"}, exitOK},
+		{"-h on a subcommand", []string{"check", "-h"}, exitOK},
+		{"unknown flag", []string{"check", "--colour", demoRecords}, exitUsage},
+		{"missing folder", []string{"check", "/nonexistent/records"}, exitUsage},
+		{"bad --fail-on", []string{"check", "--fail-on", "severe", demoRecords}, exitUsage},
+		{"bad --only", []string{"check", "--only", "noise", demoRecords}, exitUsage},
+		{"bad day", []string{"check", "--from", "2026-13-01", demoRecords}, exitUsage},
+		{"fail-on never", []string{"check", "--fail-on", "never", demoRecords}, exitOK},
+		{"validate with rejected rows", []string{"validate", demoRecords}, exitFindings},
+		{"rules list", []string{"rules", "list"}, exitOK},
+		{"shipped rule tests pass", []string{"rules", "test"}, exitOK},
+		{"limits show", []string{"limits"}, exitOK},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			code, _, stderr := runMain(t, tc.args...)
+			if code != tc.want {
+				t.Errorf("welfare %s: exit %d, want %d\nstderr: %s", strings.Join(tc.args, " "), code, tc.want, stderr)
+			}
+		})
+	}
+}
+
+func TestValidatePrintsPositionedProblems(t *testing.T) {
+	_, stdout, _ := runMain(t, "validate", demoRecords)
+	for _, want := range []string{
+		"daily_care.csv:88: water:", // a planted typo, named with file, line and column
+		"total",
+	} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("validate output lacks %q:\n%s", want, stdout)
+		}
+	}
+}
+
+func TestBadRulesExit2WithPosition(t *testing.T) {
+	dir := t.TempDir()
+	bad := "# METADATA\n# scope: package\n# custom:\n#   subjects: [animal]\npackage welfare.extra\n\nfindings contains f if {\n\tf := input.x +\n}\n"
+	if err := os.WriteFile(filepath.Join(dir, "extra.rego"), []byte(bad), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, _, stderr := runMain(t, "check", "--rules", dir, demoRecords)
+	if code != exitUsage {
+		t.Fatalf("exit %d, want %d", code, exitUsage)
+	}
+	if !strings.Contains(stderr, "extra.rego:") {
+		t.Errorf("stderr does not position the error in extra.rego:\n%s", stderr)
+	}
+}
+
+func TestMorningView(t *testing.T) {
+	// 2026-01-29 stays above freezing all day in the demo; 2026-01-08 is in
+	// the cold spell with a keeper working in cease-work conditions.
+	code, stdout, stderr := runMain(t, "check", "--on", "2026-01-29", "--only", "cold", demoRecords)
+	if code != exitOK || !strings.Contains(stdout, "All clear") {
+		t.Errorf("mild day: exit %d, want 0 and an all-clear\n%s%s", code, stdout, stderr)
+	}
+	code, stdout, stderr = runMain(t, "check", "--on", "2026-01-08", "--only", "cold", demoRecords)
+	if code != exitFindings || strings.Contains(stdout, "All clear") {
+		t.Errorf("coldest days: exit %d, want 1 and problems listed\n%s%s", code, stdout, stderr)
+	}
+}
+
+func TestDemoWritesReports(t *testing.T) {
+	dir := t.TempDir()
+	code, stdout, stderr := runMain(t, "demo", dir)
+	if code != exitOK {
+		t.Fatalf("demo exit %d\n%s%s", code, stdout, stderr)
+	}
+	for _, f := range []string{"records/animals.csv", "audit.pdf", "findings.json", "findings.csv"} {
+		if st, err := os.Stat(filepath.Join(dir, f)); err != nil || st.Size() == 0 {
+			t.Errorf("demo did not write %s: %v", f, err)
+		}
+	}
+}
+
+// The real binary, built and run once, as a user would.
+func TestBinary(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the binary")
+	}
+	exe := filepath.Join(t.TempDir(), "welfare")
+	if runtime.GOOS == "windows" {
+		exe += ".exe"
+	}
+	if out, err := exec.Command("go", "build", "-o", exe, ".").CombinedOutput(); err != nil {
+		t.Fatalf("go build: %v\n%s", err, out)
+	}
+	cmd := exec.Command(exe, "check", "--fail-on", "significant", demoRecords)
+	out, err := cmd.CombinedOutput()
+	ee, ok := err.(*exec.ExitError)
+	if !ok || ee.ExitCode() != exitFindings {
+		t.Fatalf("binary check: %v, want exit %d\n%s", err, exitFindings, out)
+	}
+}
