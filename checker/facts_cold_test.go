@@ -4,12 +4,10 @@ import (
 	"bytes"
 	"context"
 	"fmt"
-	"io/fs"
 	"os"
 	"sort"
 	"strings"
 	"testing"
-	"testing/fstest"
 	"time"
 
 	"github.com/google/go-cmp/cmp"
@@ -386,20 +384,15 @@ func TestColdBeddingLooksBeforePeriod(t *testing.T) {
 	}
 }
 
-// coldEngine compiles the shipped cold.rego alone: the other domains' files
-// are not under test here and are checked by their own tests.
+// coldEngine compiles the shipped rules; the tests keep the cold domain
+// with Config.Only, as `--only cold` does.
 func coldEngine(t testing.TB, lim *rules.Limits) *Engine {
 	t.Helper()
 	data, err := lim.Data()
 	if err != nil {
 		t.Fatal(err)
 	}
-	src, err := fs.ReadFile(rules.FS(), "cold.rego")
-	if err != nil {
-		t.Fatal(err)
-	}
-	shipped := fstest.MapFS{"cold.rego": &fstest.MapFile{Data: src}}
-	e, err := NewEngine(context.Background(), []Source{{Name: "rules", FS: shipped}}, data, EngineOptions{})
+	e, err := NewEngine(context.Background(), []Source{{Name: "rules", FS: rules.FS()}}, data, EngineOptions{})
 	if err != nil {
 		t.Fatalf("NewEngine(shipped rules): %v", err)
 	}
@@ -454,15 +447,15 @@ func TestColdCheckEndToEnd(t *testing.T) {
 	}
 }
 
-// BenchmarkColdFacts10kEnclosures31Days: 10,000 occupied outdoor enclosures
-// in 100 sheds at one site, two rounds a day each, four readings a day,
-// a month of days.
-func BenchmarkColdFacts10kEnclosures31Days(b *testing.B) {
-	lim := coldLimits(b)
+// coldBenchSet: 10,000 occupied outdoor enclosures in 100 sheds at one
+// site, two rounds a day each (one without a water state, so every freezing
+// day is selected), bedding every fifth day, four readings a day between
+// −30 and −12 °C, a month of days.
+func coldBenchSet() (*records.Set, Period) {
 	set := &records.Set{
 		Facility: records.Facility{Name: "bench", WeatherSites: []string{"YARD"}},
 		Location: coldZone,
-		Present:  map[string]bool{"daily_care.csv": true, "weather.csv": true},
+		Present:  map[string]bool{"daily_care.csv": true, "weather.csv": true, "animals.csv": true, "enclosures.csv": true},
 	}
 	from := coldDay("2026-01-01")
 	p := Period{From: from, To: from + 30}
@@ -471,29 +464,51 @@ func BenchmarkColdFacts10kEnclosures31Days(b *testing.B) {
 	}
 	for i := 0; i < 10000; i++ {
 		id := fmt.Sprintf("E%05d", i)
-		set.Enclosures = append(set.Enclosures, records.Enclosure{ID: id, BuildingID: fmt.Sprintf("S%03d", i%100), Kind: "cage", HeightCm: 90, NestBox: records.Bool(1 + i%2)})
-		set.Animals = append(set.Animals, records.Animal{ID: "A" + id, Species: "vulpes_vulpes", ArrivedOn: from - 60, EnclosureID: id, LifeStage: "adult"})
+		set.Enclosures = append(set.Enclosures, records.Enclosure{Ref: records.Ref(fmt.Sprintf("enclosures.csv:%d", i+2)), ID: id, BuildingID: fmt.Sprintf("S%03d", i%100), Kind: "cage", HeightCm: 90, NestBox: records.Bool(1 + i%2)})
+		set.Animals = append(set.Animals, records.Animal{Ref: records.Ref(fmt.Sprintf("animals.csv:%d", i+2)), ID: "A" + id, Species: "vulpes_vulpes", ArrivedOn: from - 60, EnclosureID: id, LifeStage: "adult"})
 	}
 	for d := p.From - 7; d <= p.To; d++ {
 		for i := range set.Enclosures {
 			e := &set.Enclosures[i]
 			for k, hh := range []int{8, 16} {
 				set.Care = append(set.Care, records.CareRound{
-					At: d.In(coldZone).Add(time.Duration(hh) * time.Hour), Day: d, EnclosureID: e.ID, StaffID: "K",
+					Ref: records.Ref(fmt.Sprintf("daily_care.csv:%d", len(set.Care)+2)), At: d.In(coldZone).Add(time.Duration(hh) * time.Hour), Day: d, EnclosureID: e.ID, StaffID: "K",
 					Observed: records.Yes, Fed: records.Yes, Water: []string{"ok", "not_checked"}[k], BeddingAdded: records.Bool(1 + int(d)%5/4),
 				})
 			}
 		}
 		for hh := 0; hh < 24; hh += 6 {
-			set.Weather = append(set.Weather, records.Weather{At: d.In(coldZone).Add(time.Duration(hh) * time.Hour), SiteID: "YARD", AirTempC: -30 + float64(int(d)%7*3), WindKmh: fp(float64(hh))})
+			set.Weather = append(set.Weather, records.Weather{Ref: records.Ref(fmt.Sprintf("weather.csv:%d", len(set.Weather)+2)), At: d.In(coldZone).Add(time.Duration(hh) * time.Hour), SiteID: "YARD", AirTempC: -30 + float64(int(d)%7*3), WindKmh: fp(float64(hh))})
 		}
 	}
-	f := newFacts(set, lim, p)
+	return set, p
+}
+
+// BenchmarkColdFacts10kEnclosures31Days times the cold facts alone.
+func BenchmarkColdFacts10kEnclosures31Days(b *testing.B) {
+	set, p := coldBenchSet()
+	f := newFacts(set, coldLimits(b), p)
 	f.careIndex()
 	b.ResetTimer()
 	for b.Loop() {
 		f.docs = map[string]map[string]map[string]any{}
 		f.coldFacts()
+	}
+}
+
+// BenchmarkColdCheck10kEnclosures31Days times a whole `--only cold` check:
+// every domain's facts and the rules, with about 320,000 findings.
+func BenchmarkColdCheck10kEnclosures31Days(b *testing.B) {
+	set, p := coldBenchSet()
+	lim := coldLimits(b)
+	eng := coldEngine(b, lim)
+	b.ResetTimer()
+	for b.Loop() {
+		res, err := Check(context.Background(), Config{Records: set, Limits: lim, Engine: eng, Period: p, Only: []string{"cold"}})
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.ReportMetric(float64(len(res.Findings)), "findings")
 	}
 }
 
