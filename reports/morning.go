@@ -16,9 +16,9 @@ import (
 
 // MorningCaution ends every morning view: the figures describe exposed skin
 // and records, not the animals themselves.
-const MorningCaution = "Caution: cold injury is a risk to keepers and animals: follow the work/warm-up schedule " +
-	"and warm up before skin numbs. This is a records check, not a veterinary judgement: defer to the " +
-	"attending veterinarian, the animal-care committee and local law."
+const MorningCaution = "Caution: cold injury: keep outdoor work to the work/warm-up schedule. " +
+	"This is a records check, not a veterinary judgement: defer to the attending veterinarian, " +
+	"the animal-care committee and local law."
 
 // WriteMorning writes the one-screen answer for one morning: the day's
 // lowest air temperature and wind chill at each weather site with its

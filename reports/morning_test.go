@@ -150,3 +150,14 @@ All clear: no problems recorded for 2026-01-10.
 		t.Errorf("morning view (-want +got):\n%s", diff)
 	}
 }
+
+// The caution is part of every morning view; its words are the ones the
+// project's rules ask for, so a rewording must be deliberate.
+func TestMorningCautionWording(t *testing.T) {
+	for _, must := range []string{"cold injury", "work/warm-up schedule", "not a veterinary judgement",
+		"attending veterinarian", "animal-care committee", "local law"} {
+		if !bytes.Contains([]byte(reports.MorningCaution), []byte(must)) {
+			t.Errorf("MorningCaution lacks %q", must)
+		}
+	}
+}
