@@ -57,8 +57,8 @@ type Space struct {
 type Euthanasia struct {
 	Acceptable []string `yaml:"acceptable" json:"acceptable" validate:"dive,code"`
 	// Conditional methods are acceptable only when their conditions are met.
-	Conditional map[string]MethodConditions `yaml:"conditional" json:"conditional" validate:"dive,keys,code,endkeys"`
-	Unacceptable []string `yaml:"unacceptable" json:"unacceptable" validate:"dive,code"`
+	Conditional  map[string]MethodConditions `yaml:"conditional" json:"conditional" validate:"dive,keys,code,endkeys"`
+	Unacceptable []string                    `yaml:"unacceptable" json:"unacceptable" validate:"dive,code"`
 }
 
 // MethodConditions are what a conditionally acceptable method needs.
@@ -89,8 +89,8 @@ type Care struct {
 
 // Handling holds the handling-event limits.
 type Handling struct {
-	AcceptedGloves     []string `yaml:"accepted_gloves" json:"accepted_gloves" validate:"min=1,dive,code"`
-	MinGloveMm         float64  `yaml:"min_glove_thickness_mm" json:"min_glove_thickness_mm" validate:"gte=0"`
+	AcceptedGloves       []string `yaml:"accepted_gloves" json:"accepted_gloves" validate:"min=1,dive,code"`
+	MinGloveMm           float64  `yaml:"min_glove_thickness_mm" json:"min_glove_thickness_mm" validate:"gte=0"`
 	UnconsciousRestraint []string `yaml:"unconscious_restraint" json:"unconscious_restraint" validate:"dive,code"`
 	// RequiredPPE by purpose; the key "default" applies to every purpose not listed.
 	RequiredPPE map[string][]string `yaml:"required_ppe" json:"required_ppe" validate:"dive,keys,code,endkeys,dive,code"`
