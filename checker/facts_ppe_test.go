@@ -4,6 +4,8 @@ import (
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
+
+	"welfare/records"
 )
 
 func TestPPEFacts(t *testing.T) {
@@ -39,5 +41,21 @@ func TestPPEFacts(t *testing.T) {
 	}
 	if diff := cmp.Diff(want, got); diff != "" {
 		t.Errorf("ppe facts (-want +got):\n%s", diff)
+	}
+}
+
+func TestPPECheckOnTheDayOfUse(t *testing.T) {
+	// The inspection window runs "up to and including the day of use"
+	// (facility choice, 7 days): a check that day is the latest word, and
+	// here it replaced a damaged glove.
+	set := peopleSet(t)
+	set.PPEChecks = append(set.PPEChecks,
+		records.PPECheck{Ref: "ppe_checks.csv:4", CheckedOn: pday(t, "2026-01-14"), ItemID: "G2", Item: "gauntlet", Condition: "damaged", Action: "replaced"})
+	f := newFacts(set, peopleLimits(t), peoplePeriod)
+	f.ppeFacts()
+	uses := f.docs["item"]["G2"]["ppe"].(map[string]any)["uses"].([]any)
+	want := map[string]any{"on": "2026-01-14", "ref": "ppe_checks.csv:4", "condition": "damaged", "action": "replaced", "days_before": 0}
+	if diff := cmp.Diff(want, uses[0].(map[string]any)["last_check"]); diff != "" {
+		t.Errorf("last check (-want +got):\n%s", diff)
 	}
 }

@@ -133,3 +133,52 @@ func TestTrainedAt(t *testing.T) {
 		})
 	}
 }
+
+func TestStaffFacts(t *testing.T) {
+	set := peopleSet(t)
+	// A second handling by S2 on the same day: one day entry, both rows.
+	extra := set.Handling[2]
+	extra.Ref, extra.AnimalID = "handling.csv:8", "M1"
+	set.Handling = append(set.Handling, extra)
+	f := newFacts(set, peopleLimits(t), peoplePeriod)
+	f.staffFacts()
+
+	s2 := f.docs["staff"]["S2"]["staff"].(map[string]any)
+	want := map[string]any{
+		"ref": "staff.csv:3", "name": "Oskar Lind", "active_from": "2025-01-01", "active_to": "2026-01-05",
+		"handled": []any{map[string]any{
+			"on": "2026-01-12", "refs": []any{"handling.csv:4", "handling.csv:8"},
+			"training": map[string]any{"trained_on": nil, "trained_after_event": false, "valid_until": nil},
+			// Only the fox is a rabies-risk species (limits: mink rabies_risk false).
+			"rabies": map[string]any{"refs": []any{"handling.csv:4"}, "status": "unprotected",
+				"reason": "no rabies pre-exposure series recorded", "category": 3, "primary_on": nil},
+			"respirator": nil,
+		}},
+		"culled": []any{},
+		"outside_active": []any{
+			map[string]any{"on": "2026-01-06", "refs": []any{"daily_care.csv:2"}},
+			map[string]any{"on": "2026-01-12", "refs": []any{"handling.csv:4", "handling.csv:8"}},
+		},
+	}
+	if diff := cmp.Diff(want, s2); diff != "" {
+		t.Errorf("S2 staff facts (-want +got):\n%s", diff)
+	}
+
+	s3 := f.docs["staff"]["S3"]["staff"].(map[string]any)
+	wantCulled := []any{
+		map[string]any{"on": "2026-01-20", "refs": []any{"culls.csv:2"}, "methods": []any{"barbiturate_overdose"}, "untrained_methods": []any{},
+			"trained_on": "2025-06-01", "trained_after_event": false, "valid_until": "2026-06-01"},
+		map[string]any{"on": "2026-01-21", "refs": []any{"culls.csv:3"}, "methods": []any{"penetrating_captive_bolt"}, "untrained_methods": []any{"penetrating_captive_bolt"},
+			"trained_on": "2025-06-01", "trained_after_event": false, "valid_until": "2026-06-01"},
+	}
+	if diff := cmp.Diff(wantCulled, s3["culled"]); diff != "" {
+		t.Errorf("S3 culls (-want +got):\n%s", diff)
+	}
+	// S1 wore a respirator on 10 and 11 January: fit test 2025-01-10 covers until 2026-01-10 (OSHA annual).
+	s1 := f.docs["staff"]["S1"]["staff"].(map[string]any)["handled"].([]any)
+	gotResp := s1[0].(map[string]any)["respirator"]
+	wantResp := map[string]any{"refs": []any{"handling.csv:2"}, "fit_on": "2025-01-10", "fit_after_event": false, "valid_until": "2026-01-10"}
+	if diff := cmp.Diff(wantResp, gotResp); diff != "" {
+		t.Errorf("S1 respirator (-want +got):\n%s", diff)
+	}
+}

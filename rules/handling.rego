@@ -15,10 +15,17 @@ package welfare.handling
 
 lim := data.limits.handling
 
-# The animal could bite: its species is a bite risk and the restraint left it conscious.
+# The animal could bite: its species is a bite risk and the restraint left it
+# conscious. Computed once per animal: an animal may have hundreds of handlings.
+bite_risk if data.limits.species[input.species].bite_risk
+
+unconscious := {r | some r in lim.unconscious_restraint}
+
+accepted := {g | some g in lim.accepted_gloves}
+
 conscious_bite_risk(e) if {
-	data.limits.species[input.species].bite_risk
-	not e.restraint in lim.unconscious_restraint
+	bite_risk
+	not unconscious[e.restraint]
 }
 
 shown(x) := "(none recorded)" if x == null
@@ -36,7 +43,7 @@ else := x
 findings contains f if {
 	some e in input.handling
 	conscious_bite_risk(e)
-	not e.glove in lim.accepted_gloves
+	not accepted[e.glove]
 	f := {
 		"check": "handling.glove.inadequate",
 		"subject": input.id,
@@ -49,7 +56,7 @@ findings contains f if {
 findings contains f if {
 	some e in input.handling
 	conscious_bite_risk(e)
-	e.glove in lim.accepted_gloves
+	accepted[e.glove]
 	e.glove_thickness_mm != null
 	e.glove_thickness_mm < lim.min_glove_thickness_mm
 	f := {
@@ -61,7 +68,11 @@ findings contains f if {
 	}
 }
 
-required_ppe(purpose) := object.get(lim.required_ppe, purpose, object.get(lim.required_ppe, "default", []))
+# The items each purpose handled requires, looked up once per purpose.
+required_ppe := {p: r |
+	some p in {e.purpose | some e in input.handling}
+	r := object.get(lim.required_ppe, p, object.get(lim.required_ppe, "default", []))
+}
 
 # METADATA
 # title: Protective clothing missing
@@ -73,7 +84,7 @@ required_ppe(purpose) := object.get(lim.required_ppe, purpose, object.get(lim.re
 #   needs: [handling.csv]
 findings contains f if {
 	some e in input.handling
-	missing := [p | some p in required_ppe(e.purpose); not p in e.ppe]
+	missing := [p | some p in required_ppe[e.purpose]; not p in e.ppe]
 	count(missing) > 0
 	f := {
 		"check": "handling.ppe.missing",
@@ -106,8 +117,16 @@ findings contains f if {
 	}
 }
 
-wounded(e) if e.bite
-wounded(e) if e.scratch
+# The handlings that left a bite or scratch, found once for both wound checks.
+wounds contains e if {
+	some e in input.handling
+	e.bite
+}
+
+wounds contains e if {
+	some e in input.handling
+	e.scratch
+}
 
 injury(e) := "bite" if e.bite
 
@@ -122,8 +141,7 @@ else := "scratch"
 #   source: "WHO rabies position paper (2018): immediate thorough washing of the wound with soap and water"
 #   needs: [handling.csv]
 findings contains f if {
-	some e in input.handling
-	wounded(e)
+	some e in wounds
 	not e.wound_washed
 	f := {
 		"check": "handling.bite.not_washed",
@@ -153,8 +171,7 @@ else := sprintf("reported %.1f h after the handling", [e.reported_after_hours])
 #   source: "common practice: prompt medical assessment for rabies post-exposure prophylaxis"
 #   needs: [handling.csv]
 findings contains f if {
-	some e in input.handling
-	wounded(e)
+	some e in wounds
 	not reported_in_time(e)
 	f := {
 		"check": "handling.bite.not_reported",
