@@ -101,6 +101,17 @@ var peopleDomains = []string{"handling", "staff", "ppe", "protocol", "cull"}
 
 func peopleCheck(t testing.TB, set *records.Set, lim *rules.Limits) []string {
 	t.Helper()
+	got := []string{}
+	for _, f := range peopleFindings(t, set, lim, peoplePeriod) {
+		got = append(got, f.Check+" "+f.Subject+" "+f.On.String()+" "+string(f.Severity))
+	}
+	sort.Strings(got)
+	return got
+}
+
+// peopleFindings runs the shipped rules of these domains over set.
+func peopleFindings(t testing.TB, set *records.Set, lim *rules.Limits, p Period) []Finding {
+	t.Helper()
 	ctx := context.Background()
 	data, err := lim.Data()
 	if err != nil {
@@ -110,16 +121,11 @@ func peopleCheck(t testing.TB, set *records.Set, lim *rules.Limits) []string {
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := Check(ctx, Config{Records: set, Limits: lim, Engine: eng, Period: peoplePeriod, Only: peopleDomains})
+	res, err := Check(ctx, Config{Records: set, Limits: lim, Engine: eng, Period: p, Only: peopleDomains})
 	if err != nil {
 		t.Fatal(err)
 	}
-	got := []string{}
-	for _, f := range res.Findings {
-		got = append(got, f.Check+" "+f.Subject+" "+f.On.String()+" "+string(f.Severity))
-	}
-	sort.Strings(got)
-	return got
+	return res.Findings
 }
 
 func TestPeopleChecksEndToEnd(t *testing.T) {

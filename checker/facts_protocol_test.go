@@ -1,6 +1,9 @@
 package checker
 
 import (
+	"os"
+	"sort"
+	"strings"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
@@ -89,5 +92,43 @@ func TestHeldUnderCount(t *testing.T) {
 				t.Errorf("count %v, exceeded_on %v; want %v, %v", got["count"], got["exceeded_on"], tt.wantCount, tt.wantExceeded)
 			}
 		})
+	}
+}
+
+// TestPeopleDemoPlanted checks the handling, staff, PPE, protocol and cull
+// findings on the invented Birchfall demo against its answer key,
+// testdata/demo/PLANTED.md: every planted finding, nothing else.
+func TestPeopleDemoPlanted(t *testing.T) {
+	key, err := os.ReadFile("../testdata/demo/PLANTED.md")
+	if err != nil {
+		t.Skipf("no demo answer key: %v", err)
+	}
+	lim := peopleLimits(t)
+	set, err := records.Load(os.DirFS("../testdata/demo/records"), records.Options{Species: lim.SpeciesCodes()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []string{}
+	for _, line := range strings.Split(string(key), "\n") {
+		cells := strings.Split(line, "|")
+		if len(cells) < 5 {
+			continue
+		}
+		check := strings.TrimSpace(cells[1])
+		if contains(peopleDomains, strings.SplitN(check, ".", 2)[0]) {
+			want = append(want, check+" "+strings.TrimSpace(cells[2])+" "+strings.TrimSpace(cells[3]))
+		}
+	}
+	if len(want) == 0 {
+		t.Fatal("the answer key lists no finding of these domains")
+	}
+	sort.Strings(want)
+	got := []string{}
+	for _, f := range peopleFindings(t, set, lim, Period{From: pday(t, "2026-01-01"), To: pday(t, "2026-01-31")}) {
+		got = append(got, f.Check+" "+f.Subject+" "+f.On.String())
+	}
+	sort.Strings(got)
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("demo findings (-want +got):\n%s", diff)
 	}
 }
