@@ -11,6 +11,10 @@ import (
 // sourceTag finds a value's source tag in its comment: [P] ..., [C], [F], [M].
 var sourceTag = regexp.MustCompile(`\[[PCFM]\].*`)
 
+// sameTag is a comment that points at the source above it ("[P] same: 1.2
+// m² for two"); a report line stands alone, so it gets the source spelt out.
+var sameTag = regexp.MustCompile(`^\[[PCFM]\] same\b(:?)(.*)$`)
+
 // limitLines flattens a limits file into one line per value, each with the
 // source its comment gives (or the nearest enclosing key's, for values in a
 // block whose heading carries the source). Unparseable text gives none: the
@@ -21,13 +25,30 @@ func limitLines(src []byte) []LimitLine {
 		return nil
 	}
 	var out []LimitLine
+	prev := "" // the last source written out in full, for "[P] same ..."
+	resolve := func(src string) string {
+		m := sameTag.FindStringSubmatch(src)
+		if m == nil {
+			if src != "" {
+				prev = src
+			}
+			return src
+		}
+		if prev == "" {
+			return src
+		}
+		if m[1] == ":" {
+			return prev + ";" + m[2]
+		}
+		return strings.TrimSpace(prev + m[2])
+	}
 	var walk func(n *yaml.Node, key, inherited string)
 	walk = func(n *yaml.Node, key, inherited string) {
 		switch n.Kind {
 		case yaml.MappingNode:
 			for i := 0; i+1 < len(n.Content); i += 2 {
 				k, v := n.Content[i], n.Content[i+1]
-				src := tagOf(k.LineComment, v.LineComment)
+				src := resolve(tagOf(k.LineComment, v.LineComment))
 				if src == "" {
 					src = inherited
 				}
