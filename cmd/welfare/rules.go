@@ -57,11 +57,11 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		printChecks(stdout, engine.Checks(), lim.limits.Severity)
 		return nil
 	case "test":
-		passed, failed, err := checker.RunTests(ctx, sources, lim.data, stdout, o.verbose)
+		// RunTests prints each test and the closing "N passed, M failed".
+		_, failed, err := checker.RunTests(ctx, sources, lim.data, stdout, o.verbose)
 		if err != nil {
 			return err
 		}
-		fmt.Fprintf(stdout, "%d passed, %d failed\n", passed, failed)
 		if failed > 0 {
 			return errFindings
 		}

@@ -5,7 +5,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"text/tabwriter"
 
 	"welfare/records"
 )
@@ -47,15 +46,20 @@ func runValidate(_ context.Context, args []string, stdout, stderr io.Writer) err
 
 // printAccounting writes the per-file table: read = accepted + rejected.
 func printAccounting(w io.Writer, set *records.Set) {
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "file\tread\taccepted\trejected\t")
+	width := len("total")
+	for _, c := range set.Accounting {
+		width = max(width, len(c.File))
+	}
+	row := func(name string, read, acc, rej any, note string) {
+		fmt.Fprintf(w, "%-*s  %8v  %8v  %8v  %s\n", width, name, read, acc, rej, note)
+	}
+	row("file", "read", "accepted", "rejected", "")
 	var read, acc, rej int
 	for _, c := range set.Accounting {
-		fmt.Fprintf(tw, "%s\t%d\t%d\t%d\t%s\n", c.File, c.Read, c.Accepted, c.Rejected, c.Failed)
+		row(c.File, c.Read, c.Accepted, c.Rejected, c.Failed)
 		read, acc, rej = read+c.Read, acc+c.Accepted, rej+c.Rejected
 	}
-	fmt.Fprintf(tw, "total\t%d\t%d\t%d\t\n", read, acc, rej)
-	tw.Flush()
+	row("total", read, acc, rej, "")
 }
 
 func printProblems(w io.Writer, set *records.Set) {
