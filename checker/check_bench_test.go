@@ -36,7 +36,7 @@ func yearOfCages(b *testing.B, n int) (*records.Set, Period, int) {
 	area, length := 100.0, 100.0
 	for k := 0; k < 4; k++ {
 		set.Staff = append(set.Staff, records.Staff{ID: fmt.Sprintf("K%d", k), Name: "Keeper", Role: "keeper",
-			HandlingTrainedOn: from - 30, RabiesPrimaryOn: from - 30, Ref: records.Ref(fmt.Sprintf("staff.csv:%d", k+2))})
+			HandlingTrainedOn: from, RabiesPrimaryOn: from - 30, Ref: records.Ref(fmt.Sprintf("staff.csv:%d", k+2))})
 	}
 	for i := 0; i < n; i++ {
 		id := fmt.Sprintf("C%05d", i)
