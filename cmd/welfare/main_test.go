@@ -168,13 +168,13 @@ func TestBadRulesExit2WithPosition(t *testing.T) {
 }
 
 func TestMorningView(t *testing.T) {
-	// 2026-01-29 stays above freezing all day in the demo; 2026-01-08 is in
-	// the cold spell with a keeper working in cease-work conditions.
+	// 2026-01-29 stays above freezing all day in the demo; 2026-01-10 is its
+	// coldest windy day (wind chill -50, a fox cage without a nest box).
 	code, stdout, stderr := runMain(t, "check", "--on", "2026-01-29", "--only", "cold", demoRecords)
 	if code != exitOK || !strings.Contains(stdout, "All clear") {
 		t.Errorf("mild day: exit %d, want 0 and an all-clear\n%s%s", code, stdout, stderr)
 	}
-	code, stdout, stderr = runMain(t, "check", "--on", "2026-01-08", "--only", "cold", demoRecords)
+	code, stdout, stderr = runMain(t, "check", "--on", "2026-01-10", "--only", "cold", demoRecords)
 	if code != exitFindings || strings.Contains(stdout, "All clear") {
 		t.Errorf("coldest days: exit %d, want 1 and problems listed\n%s%s", code, stdout, stderr)
 	}
