@@ -60,11 +60,14 @@ func limitLines(src []byte) []LimitLine {
 					walk(v, child, src)
 					continue
 				}
+				if v.Kind == yaml.SequenceNode && len(v.Content) > 0 && v.Content[0].Kind == yaml.MappingNode {
+					// A table (the work/warm-up rows): one line per row reads better than one blob.
+					for i, row := range v.Content {
+						out = append(out, LimitLine{Key: fmt.Sprintf("%s[%d]", child, i), Value: flat(row), Source: src})
+					}
+					continue
+				}
 				out = append(out, LimitLine{Key: child, Value: flat(v), Source: src})
-			}
-		case yaml.SequenceNode:
-			for i, c := range n.Content {
-				walk(c, fmt.Sprintf("%s[%d]", key, i), inherited)
 			}
 		}
 	}

@@ -20,6 +20,11 @@ species:
       acceptable: [barbiturate_overdose]
       conditional:
         gunshot: {note: "trained operator"}
+cold:
+  work_warmup:               # [P] ACGIH TLV
+    rows:
+      - {warmest_c: -26, cells: [N, 40/4]}
+      - {warmest_c: -29, cells: [C, C]}
 `)
 	want := []LimitLine{
 		{Key: "care.significant_run_days", Value: "2", Source: "[C] two in a row"},
@@ -28,6 +33,8 @@ species:
 		{Key: "species.vulpes_vulpes.nest_box", Value: "true", Source: "[P] Council of Europe (1999) [M]"},
 		{Key: "species.vulpes_vulpes.euthanasia.acceptable", Value: "[barbiturate_overdose]", Source: "[M] AVMA 2020"},
 		{Key: "species.vulpes_vulpes.euthanasia.conditional.gunshot", Value: "{note: trained operator}", Source: "[M] AVMA 2020"},
+		{Key: "cold.work_warmup.rows[0]", Value: "{warmest_c: -26, cells: [N, 40/4]}", Source: "[P] ACGIH TLV"},
+		{Key: "cold.work_warmup.rows[1]", Value: "{warmest_c: -29, cells: [C, C]}", Source: "[P] ACGIH TLV"},
 	}
 	if diff := cmp.Diff(want, limitLines(src)); diff != "" {
 		t.Errorf("limitLines (-want +got):\n%s", diff)
