@@ -95,7 +95,11 @@ func WriteMorning(w io.Writer, r *checker.Result, day records.Day) error {
 		}
 		p("\n")
 	}
-	if len(today) == 0 {
+	switch {
+	case len(today) == 0 && len(r.NotEvaluated) > 0:
+		// An all-clear over checks that could not run would be false comfort.
+		p("No problems found by the checks that ran for %s, but %d check(s) could not run: this is not an all-clear.\n\n", date, len(r.NotEvaluated))
+	case len(today) == 0:
 		p("All clear: no problems recorded for %s.\n\n", date)
 	}
 	p("%s\n", MorningCaution)

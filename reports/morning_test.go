@@ -143,7 +143,7 @@ Weather (lowest of the day's readings):
 Not checked (records missing):
   cold.frostbite.risk: no weather.csv in the records folder
 
-All clear: no problems recorded for 2026-01-10.
+No problems found by the checks that ran for 2026-01-10, but 1 check(s) could not run: this is not an all-clear.
 
 ` + reports.MorningCaution + "\n"
 	if diff := cmp.Diff(want, b.String()); diff != "" {
