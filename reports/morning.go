@@ -40,10 +40,12 @@ func WriteMorning(w io.Writer, r *checker.Result, day records.Day) error {
 	if len(r.Weather) == 0 {
 		p("  no weather sites in the records\n")
 	}
+	unread := 0 // sites without a reading that day: their checks were not judged
 	for _, s := range r.Weather {
 		dc, ok := morningDay(s, day)
 		if !ok {
 			p("  %s: no readings on %s; checks that need the weather were not judged for that day\n", s.Site, date)
+			unread++
 			continue
 		}
 		band := cold.Band(dc.MinWindChillC)
@@ -96,6 +98,8 @@ func WriteMorning(w io.Writer, r *checker.Result, day records.Day) error {
 		p("\n")
 	}
 	switch {
+	case len(today) == 0 && unread > 0:
+		p("No problems found for %s, but %d weather site(s) had no reading that day: this is not an all-clear. Record this morning's readings and check again.\n\n", date, unread)
 	case len(today) == 0 && len(r.NotEvaluated) > 0:
 		// An all-clear over checks that could not run would be false comfort.
 		p("No problems found by the checks that ran for %s, but %d check(s) could not run: this is not an all-clear.\n\n", date, len(r.NotEvaluated))

@@ -2,6 +2,7 @@ package reports_test
 
 import (
 	"bytes"
+	"strings"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
@@ -159,5 +160,23 @@ func TestMorningCautionWording(t *testing.T) {
 		if !bytes.Contains([]byte(reports.MorningCaution), []byte(must)) {
 			t.Errorf("MorningCaution lacks %q", must)
 		}
+	}
+}
+
+// A day with no weather reading is not an all-clear: the cold checks that
+// need the weather were not judged.
+func TestWriteMorningNoReadingIsNoAllClear(t *testing.T) {
+	day := morningDay(t, "2026-01-10")
+	r := &checker.Result{
+		Facility: "Birchfall Fur Research Station",
+		Weather:  []checker.SiteDays{{Site: "MAST", Days: []checker.DayCold{{Day: day, Readings: 0}}}},
+	}
+	var b bytes.Buffer
+	if err := reports.WriteMorning(&b, r, day); err != nil {
+		t.Fatal(err)
+	}
+	got := b.String()
+	if strings.Contains(got, "All clear") || !strings.Contains(got, "this is not an all-clear") {
+		t.Errorf("a day without readings read as all clear:\n%s", got)
 	}
 }
