@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"welfare/checker"
+	"welfare/records"
 )
 
 // TextOptions shapes the terminal summary.
@@ -78,7 +79,7 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 				p("\n%s  %s  %s  %s\n", strings.ToUpper(string(f.Severity)), f.Check, orNone(f.Subject), dates(f))
 				p("  %s\n", oneLine(f.Message))
 				if len(f.Evidence) > 0 {
-					p("  evidence: %s\n", refsString(f.Evidence, "; "))
+					p("  evidence: %s\n", shortRefs(f.Evidence, textMaxEvidence))
 				}
 			}
 			if more := j - i - shown; more > 0 {
@@ -159,4 +160,16 @@ func orNone(s string) string {
 // oneLine folds line breaks so one finding stays one block in the terminal.
 func oneLine(s string) string {
 	return strings.Join(strings.Fields(strings.ReplaceAll(s, "\r", " ")), " ")
+}
+
+// textMaxEvidence caps the refs printed per finding on a terminal; the JSON
+// and CSV files carry them all.
+const textMaxEvidence = 8
+
+// shortRefs joins the first max refs and says how many more there are.
+func shortRefs(refs []records.Ref, max int) string {
+	if len(refs) <= max {
+		return refsString(refs, "; ")
+	}
+	return fmt.Sprintf("%s; … and %d more", refsString(refs[:max], "; "), len(refs)-max)
 }
