@@ -14,6 +14,8 @@ import (
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
+
+	"welfare/rules"
 )
 
 const demoRecords = "../../testdata/demo/records"
@@ -220,5 +222,113 @@ func TestBinary(t *testing.T) {
 	ee, ok := err.(*exec.ExitError)
 	if !ok || ee.ExitCode() != exitFindings {
 		t.Fatalf("binary check: %v, want exit %d\n%s", err, exitFindings, out)
+	}
+}
+
+// A committee adds its own package without touching Go: it is evaluated
+// with the shipped rules, selectable with --only, and its tests run with
+// `rules test DIR`.
+func TestCommitteeRulesPackage(t *testing.T) {
+	dir := t.TempDir()
+	policy := `# METADATA
+# title: House standard
+# description: Our committee's own space standard.
+# scope: package
+# custom:
+#   subjects: [enclosure]
+package welfare.house
+
+# METADATA
+# title: Cage below the house standard
+# description: Occupied cages under 1.0 m² (a facility choice stricter than the national minimum).
+# custom:
+#   id: house.space.below_standard
+#   severity: minor
+#   source: facility choice
+#   runs: true
+findings contains f if {
+	some s in input.occupancy
+	input.area_m2 < 1.0
+	f := {"check": "house.space.below_standard", "subject": input.id, "on": s.from, "until": s.until,
+		"message": sprintf("%v m² is below our 1.0 m² standard", [input.area_m2]), "evidence": s.evidence}
+}
+`
+	test := `package welfare.house_test
+
+import data.welfare.house
+
+test_small_cage_fires if {
+	count(house.findings) == 1 with input as {"id": "X", "area_m2": 0.9, "occupancy": [{"from": "2026-01-01", "until": "2026-01-02", "evidence": []}]}
+}
+`
+	for name, body := range map[string]string{"house.rego": policy, "house_test.rego": test} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	jsonPath := filepath.Join(t.TempDir(), "f.json")
+	code, _, stderr := runMain(t, "check", "--rules", dir, "--only", "house", "--fail-on", "minor",
+		"--from", "2026-01-01", "--to", "2026-01-31", "--json", jsonPath, demoRecords)
+	if code != exitFindings {
+		t.Fatalf("exit %d, want %d\n%s", code, exitFindings, stderr)
+	}
+	b, err := os.ReadFile(jsonPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Findings []struct{ Check, Source string }
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Findings) == 0 {
+		t.Fatal("the committee's check found nothing; the demo's mink cages are under 1.0 m²")
+	}
+	for _, f := range doc.Findings {
+		if f.Check != "house.space.below_standard" || f.Source != "facility choice" {
+			t.Errorf("--only house let through %s (source %q)", f.Check, f.Source)
+		}
+	}
+	if code, out, stderr := runMain(t, "rules", "test", dir); code != exitOK || !strings.Contains(out, "test_small_cage_fires") {
+		t.Errorf("rules test DIR: exit %d\n%s%s", code, out, stderr)
+	}
+}
+
+// A committee's limits file overrides a check's severity, or turns it off.
+func TestLimitsSeverityOverride(t *testing.T) {
+	lim := strings.Replace(string(rules.DefaultLimits()), "severity: {}",
+		"severity:\n  enclosure.nest_box.missing: significant\n  cold.frostbite.risk: \"off\"", 1)
+	limPath := filepath.Join(t.TempDir(), "limits.yaml")
+	if err := os.WriteFile(limPath, []byte(lim), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	jsonPath := filepath.Join(t.TempDir(), "f.json")
+	code, _, stderr := runMain(t, "check", "--limits", limPath, "--only", "enclosure,cold", "--fail-on", "never",
+		"--from", "2026-01-01", "--to", "2026-01-31", "--json", jsonPath, demoRecords)
+	if code != exitOK {
+		t.Fatalf("exit %d\n%s", code, stderr)
+	}
+	b, _ := os.ReadFile(jsonPath)
+	var doc struct {
+		Findings []struct{ Check, Severity string }
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	nest := 0
+	for _, f := range doc.Findings {
+		switch f.Check {
+		case "enclosure.nest_box.missing":
+			nest++
+			if f.Severity != "significant" {
+				t.Errorf("nest box finding is %s, want the override significant", f.Severity)
+			}
+		case "cold.frostbite.risk":
+			t.Error("cold.frostbite.risk was turned off but still reported")
+		}
+	}
+	if nest == 0 {
+		t.Error("the planted nest-box finding is missing")
 	}
 }
