@@ -25,6 +25,9 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"welfare/checker/cold"
+	"welfare/rules"
 )
 
 var update = flag.Bool("update", false, "rewrite the demo records and testdata/demo/PLANTED.md")
@@ -128,16 +131,6 @@ func perDay(check, subject string, bad func(d int) bool) []finding {
 
 // ---- weather
 
-// windChill is the 2001 North American wind chill index (°C, km/h); the air
-// temperature stands where the index is not defined.
-func windChill(t, v float64) float64 {
-	if t > 10 || v <= 4.8 {
-		return t
-	}
-	p := math.Pow(v, 0.16)
-	return 13.12 + 0.6215*t - 11.37*p + 0.3965*t*p
-}
-
 type reading struct {
 	at   time.Time
 	air  float64 // rounded to 0.1 as written
@@ -167,55 +160,37 @@ var (
 	windShape    = [8]float64{0.8, 0.55, 0.9, 1.1, 1.3, 1.2, 1.0, 0.9}
 )
 
-// ---- ACGIH work/warm-up schedule (4-hour shift), copied from
-// /work/shared/references.md: rows by warmest air °C, columns 0/8/16/24/32 km/h.
+// ---- the work/warm-up schedule
 
-var warmup = []struct {
-	warmest int
-	cells   [5]string
-}{
-	{-26, [5]string{"N", "N", "75", "55", "40"}},
-	{-29, [5]string{"N", "75", "55", "40", "30"}},
-	{-32, [5]string{"75", "55", "40", "30", "C"}},
-	{-35, [5]string{"55", "40", "30", "C", "C"}},
-	{-38, [5]string{"40", "30", "C", "C", "C"}},
-	{-40, [5]string{"30", "C", "C", "C", "C"}},
-	{-43, [5]string{"C", "C", "C", "C", "C"}},
-}
+// schedule is the shipped ACGIH work/warm-up schedule: the demo places its
+// cold-work problems against the same table (and the same lookup) the
+// checker uses, so the two cannot drift apart.
+var schedule = func() *cold.Schedule {
+	lim, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
+	if err != nil {
+		panic(err) // the shipped limits are tested in package rules
+	}
+	s, err := cold.NewSchedule(lim.Cold.WorkWarmup)
+	if err != nil {
+		panic(err)
+	}
+	return s
+}()
 
 // workLimit returns the maximum work period in minutes (0 = no limit) and
-// whether non-emergency work should cease. Light work reads one row colder.
+// whether non-emergency work should cease.
 func workLimit(air, wind float64, light bool) (limit int, cease bool) {
-	r := int(math.Floor(air))
-	row := -1
-	for i, w := range warmup {
-		if w.warmest >= r {
-			row = i
-		}
-	}
+	activity := "moderate"
 	if light {
-		row++
+		activity = "light"
 	}
-	if row < 0 {
-		return 0, false
-	}
-	row = min(row, len(warmup)-1)
-	col := 4
-	for i, c := range []float64{0, 8, 16, 24, 32} {
-		if c >= wind {
-			col = i
-			break
-		}
-	}
-	switch cell := warmup[row].cells[col]; cell {
-	case "N":
-		return 0, false
-	case "C":
+	switch st := schedule.Lookup(air, wind, activity); st.Kind {
+	case cold.Limit:
+		return st.MaxWorkMin, false
+	case cold.Cease:
 		return 0, true
-	default:
-		n, _ := strconv.Atoi(cell)
-		return n, false
 	}
+	return 0, false
 }
 
 // ---- the station
@@ -478,7 +453,7 @@ func (s *scenario) buildWeather(rng *rand.Rand) {
 			wind := math.Max(0, math.Round(p.wind*windShape[i])+float64(rng.IntN(5)-2))
 			s.readings = append(s.readings, reading{at(d, h, 0), air, wind})
 			s.minAir[d] = math.Min(s.minAir[d], air)
-			s.minWC[d] = math.Min(s.minWC[d], windChill(air, wind))
+			s.minWC[d] = math.Min(s.minWC[d], cold.WindChillC(air, wind))
 		}
 	}
 }
