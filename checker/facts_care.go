@@ -89,7 +89,8 @@ func (f *facts) careFacts() {
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		unobserved, unfed := []any{}, []any{}
-		var obsRun, fedRun run
+		var obsRun, fedRun dayRun
+		fedEvery := 0 // the smallest "fed every N days" over the current unfed run
 		for _, s := range f.segments[e.ID] {
 			every := 0
 			for _, o := range s.Occupants {
@@ -103,19 +104,23 @@ func (f *facts) careFacts() {
 				if dc.observed && dc.fed {
 					f.coverage.CompleteDays++
 				}
-				if x := obsRun.step(d, !dc.observed, 0); x != nil {
-					unobserved = append(unobserved, x)
+				if from, to, done := obsRun.step(d, !dc.observed); done {
+					unobserved = append(unobserved, spanRun(from, to))
 				}
-				if x := fedRun.step(d, !dc.fed, every); x != nil {
-					unfed = append(unfed, x)
+				if from, to, done := fedRun.step(d, !dc.fed); done {
+					unfed = append(unfed, unfedRun(from, to, fedEvery))
+					fedEvery = 0
+				}
+				if !dc.fed && every > 0 && (fedEvery == 0 || every < fedEvery) {
+					fedEvery = every
 				}
 			}
 		}
-		if x := obsRun.flush(); x != nil {
-			unobserved = append(unobserved, x)
+		if from, to, done := obsRun.flush(); done {
+			unobserved = append(unobserved, spanRun(from, to))
 		}
-		if x := fedRun.flush(); x != nil {
-			unfed = append(unfed, x)
+		if from, to, done := fedRun.flush(); done {
+			unfed = append(unfed, unfedRun(from, to, fedEvery))
 		}
 		d := f.doc("enclosure", e.ID)
 		d["care"] = map[string]any{
@@ -129,41 +134,14 @@ func (f *facts) careFacts() {
 	f.roundEvents()
 }
 
-// run tracks one run of consecutive problem days.
-type run struct {
-	from, to records.Day
-	minN     int // the smallest "every N days" seen over the run
-}
-
-// step extends the run with day d when bad, and returns the finished run
-// when a good day (or a gap in occupancy) ends it.
-func (r *run) step(d records.Day, bad bool, n int) map[string]any {
-	var done map[string]any
-	if r.from != 0 && (!bad || d != r.to+1) {
-		done = r.flush()
+// unfedRun is a run of unfed days with the day it became a finding: the
+// day the run reached the species' "fed every N days".
+func unfedRun(from, to records.Day, every int) map[string]any {
+	m := spanRun(from, to)
+	if every > 0 {
+		m["every_days"] = every
+		m["due_on"] = (from + records.Day(every) - 1).String()
 	}
-	if bad {
-		if r.from == 0 {
-			r.from, r.minN = d, n
-		}
-		r.to = d
-		if n > 0 && (r.minN == 0 || n < r.minN) {
-			r.minN = n
-		}
-	}
-	return done
-}
-
-func (r *run) flush() map[string]any {
-	if r.from == 0 {
-		return nil
-	}
-	m := map[string]any{"from": r.from.String(), "until": r.to.String(), "days": int(r.to-r.from) + 1}
-	if r.minN > 0 {
-		m["every_days"] = r.minN
-		m["due_on"] = (r.from + records.Day(r.minN) - 1).String()
-	}
-	*r = run{}
 	return m
 }
 

@@ -156,38 +156,6 @@ func (f *facts) coldSpan(s *siteWeather, from, to records.Day) map[string]any {
 	return m
 }
 
-// dayRun collects consecutive days; step returns the finished run (from, to)
-// when day d breaks it.
-type dayRun struct{ from, to records.Day }
-
-func (r *dayRun) step(d records.Day, bad bool) (from, to records.Day, done bool) {
-	if r.from != 0 && (!bad || d != r.to+1) {
-		from, to, done = r.from, r.to, true
-		*r = dayRun{}
-	}
-	if bad {
-		if r.from == 0 {
-			r.from = d
-		}
-		r.to = d
-	}
-	return from, to, done
-}
-
-func (r *dayRun) flush() (from, to records.Day, done bool) {
-	if r.from == 0 {
-		return 0, 0, false
-	}
-	from, to = r.from, r.to
-	*r = dayRun{}
-	return from, to, true
-}
-
-// spanRun is a plain run of days as a document value.
-func spanRun(from, to records.Day) map[string]any {
-	return map[string]any{"from": from.String(), "until": to.String(), "days": int(to-from) + 1}
-}
-
 // siteColdFacts adds a site's frostbite runs and its days without readings.
 func (f *facts) siteColdFacts(s *siteWeather) {
 	frost, missing := []any{}, []any{}
