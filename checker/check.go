@@ -3,7 +3,6 @@ package checker
 import (
 	"context"
 	"fmt"
-	"sort"
 	"strings"
 
 	"welfare/records"
@@ -105,7 +104,7 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 			res.Findings = append(res.Findings, fd)
 		}
 	}
-	orderBySeverity(res.Findings)
+	SortFindings(res.Findings)
 	if res.Findings == nil {
 		res.Findings = []Finding{}
 	}
@@ -119,27 +118,6 @@ var domainFacts = []func(*facts){
 	(*facts).enclosureFacts,
 	(*facts).careFacts,
 	(*facts).recordsFacts,
-}
-
-// orderBySeverity orders findings most severe first, then by domain, check,
-// subject and day: the order reports list them in.
-func orderBySeverity(fs []Finding) {
-	sort.SliceStable(fs, func(i, j int) bool {
-		a, b := fs[i], fs[j]
-		if a.Severity.Rank() != b.Severity.Rank() {
-			return a.Severity.Rank() > b.Severity.Rank()
-		}
-		if a.Domain != b.Domain {
-			return a.Domain < b.Domain
-		}
-		if a.Check != b.Check {
-			return a.Check < b.Check
-		}
-		if a.Subject != b.Subject {
-			return a.Subject < b.Subject
-		}
-		return a.On < b.On
-	})
 }
 
 // recordSpan is the first and last day of the facility's event records

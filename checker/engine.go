@@ -630,7 +630,7 @@ func (e *Engine) Evaluate(ctx context.Context, kind string, inputs []map[string]
 		all = append(all, r...)
 	}
 	all = collapseRuns(all, e.checks)
-	SortFindings(all)
+	slices.SortStableFunc(all, compareFindings)
 	return all, nil
 }
 
@@ -876,11 +876,16 @@ func runLastDay(f Finding) records.Day {
 	return f.On
 }
 
-// SortFindings puts findings in the report order: domain, check, subject,
-// first day, then last day, message and evidence so equal keys still come
-// out the same way every run.
+// SortFindings puts findings in the order reports list them: most severe
+// first, then domain, check, subject, first day, and last day, message and
+// evidence so equal keys still come out the same way every run.
 func SortFindings(fs []Finding) {
-	slices.SortStableFunc(fs, compareFindings)
+	slices.SortStableFunc(fs, func(a, b Finding) int {
+		if c := b.Severity.Rank() - a.Severity.Rank(); c != 0 {
+			return c
+		}
+		return compareFindings(a, b)
+	})
 }
 
 func compareFindings(a, b Finding) int {

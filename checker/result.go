@@ -12,7 +12,7 @@ type Result struct {
 	Fingerprint string              `json:"fingerprint"` // SHA-256 over the records, rules and limits used
 	Accounting  []records.FileCount `json:"accounting"`
 	Warnings    []records.Warning   `json:"warnings,omitempty"`
-	Findings    []Finding           `json:"findings"`
+	Findings    []Finding           `json:"findings"` // in SortFindings order
 	// Checks lists every check that was in force (evaluated or not), sorted by id.
 	Checks       []CheckInfo `json:"checks"`
 	NotEvaluated []Skipped   `json:"not_evaluated,omitempty"`

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 
@@ -64,16 +63,7 @@ func WriteMorning(w io.Writer, r *checker.Result, day records.Day) error {
 			today = append(today, f)
 		}
 	}
-	sort.SliceStable(today, func(i, j int) bool {
-		a, c := today[i], today[j]
-		if a.Severity.Rank() != c.Severity.Rank() {
-			return a.Severity.Rank() > c.Severity.Rank()
-		}
-		if a.Check != c.Check {
-			return a.Check < c.Check
-		}
-		return a.Subject < c.Subject
-	})
+	checker.SortFindings(today)
 
 	if len(today) > 0 {
 		p("Fix now (%d):\n", len(today))

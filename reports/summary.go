@@ -1,6 +1,7 @@
 package reports
 
 import (
+	"slices"
 	"sort"
 	"strings"
 
@@ -102,20 +103,15 @@ func (t tally) total() int {
 	return n
 }
 
-// bySeverity returns the findings most severe first, then by check id, then
-// in the checker's own (deterministic) order.
+// bySeverity returns the findings in the checker's report order (most
+// severe first), whatever order the result holds them in.
 func bySeverity(fs []checker.Finding) []*checker.Finding {
-	out := make([]*checker.Finding, len(fs))
-	for i := range fs {
-		out[i] = &fs[i]
+	sorted := slices.Clone(fs)
+	checker.SortFindings(sorted)
+	out := make([]*checker.Finding, len(sorted))
+	for i := range sorted {
+		out[i] = &sorted[i]
 	}
-	sort.SliceStable(out, func(i, j int) bool {
-		a, b := out[i], out[j]
-		if ra, rb := a.Severity.Rank(), b.Severity.Rank(); ra != rb {
-			return ra > rb
-		}
-		return a.Check < b.Check
-	})
 	return out
 }
 
