@@ -24,8 +24,10 @@ type facts struct {
 	protocols  map[string]*records.Protocol
 	// byBuilding lists each building's enclosure ids in file order.
 	byBuilding map[string][]string
-	// stays lists, per enclosure, the animals' stays clipped to the period.
+	// stays lists, per enclosure, the animals' stays clipped to the period;
+	// homes lists the same stays per animal, for "where was it that day".
 	stays map[string][]stay
+	homes map[string][]stay
 	// segments is each enclosure's occupancy over the period as runs of days
 	// with the same occupants and life stages (see occupancy.go).
 	segments map[string][]segment
@@ -44,9 +46,10 @@ type facts struct {
 // stay is one animal in one enclosure from From to To inclusive (To is
 // clipped to the period end when the stay is open).
 type stay struct {
-	Animal   *records.Animal
-	From, To records.Day
-	Ref      records.Ref
+	Animal    *records.Animal
+	Enclosure string
+	From, To  records.Day
+	Ref       records.Ref
 }
 
 func newFacts(set *records.Set, lim *rules.Limits, p Period) *facts {
@@ -78,6 +81,12 @@ func newFacts(set *records.Set, lim *rules.Limits, p Period) *facts {
 		f.protocols[set.Protocols[i].ID] = &set.Protocols[i]
 	}
 	f.stays = f.buildStays()
+	f.homes = map[string][]stay{}
+	for _, ss := range f.stays {
+		for _, s := range ss {
+			f.homes[s.Animal.ID] = append(f.homes[s.Animal.ID], s)
+		}
+	}
 	f.segments = make(map[string][]segment, len(f.stays))
 	for id, ss := range f.stays {
 		f.segments[id] = f.occupancy(f.enclosures[id], ss)
@@ -104,6 +113,7 @@ func (f *facts) buildStays() map[string][]stay {
 		if s.From > s.To {
 			return
 		}
+		s.Enclosure = encID
 		out[encID] = append(out[encID], s)
 	}
 	if f.set.Present["housing.csv"] {

@@ -244,11 +244,9 @@ func (f *facts) handlingByAnimal() map[string][]*records.Handling {
 
 // enclosureOf is the enclosure an animal occupied on day d, or "".
 func (f *facts) enclosureOf(animalID string, d records.Day) string {
-	for id, ss := range f.stays {
-		for _, s := range ss {
-			if s.Animal.ID == animalID && s.From <= d && d <= s.To {
-				return id
-			}
+	for _, s := range f.homes[animalID] {
+		if s.From <= d && d <= s.To {
+			return s.Enclosure
 		}
 	}
 	return ""

@@ -54,3 +54,28 @@ func TestCareRuns(t *testing.T) {
 		t.Errorf("coverage = %+v, want %+v", f.coverage, want)
 	}
 }
+
+// A building round's health concern about a named animal lands on the
+// enclosure the animal occupied that day, after a move.
+func TestBuildingConcernFindsTheAnimalsEnclosure(t *testing.T) {
+	day := records.MakeDay(2026, time.January, 1)
+	set := &records.Set{
+		Animals:    []records.Animal{{ID: "RF-1", Species: "vulpes_vulpes", ArrivedOn: day - 100}},
+		Enclosures: []records.Enclosure{{ID: "S1-01", BuildingID: "S1"}, {ID: "S1-02", BuildingID: "S1"}},
+		Housing: []records.Housing{
+			{AnimalID: "RF-1", EnclosureID: "S1-01", MovedInOn: day - 100, MovedOutOn: day + 2},
+			{AnimalID: "RF-1", EnclosureID: "S1-02", MovedInOn: day + 2},
+		},
+		Care: []records.CareRound{{Ref: "daily_care.csv:9", At: (day + 3).In(time.UTC), Day: day + 3, BuildingID: "S1",
+			Observed: records.Yes, HealthConcern: records.Yes, ConcernAnimalID: "RF-1"}},
+		Present: map[string]bool{"housing.csv": true, "daily_care.csv": true},
+	}
+	f := newFacts(set, defaultLimits(t), Period{From: day, To: day + 5})
+	f.careFacts()
+	for enc, want := range map[string]int{"S1-01": 0, "S1-02": 1} {
+		got := len(f.docs["enclosure"][enc]["care"].(map[string]any)["concerns"].([]any))
+		if got != want {
+			t.Errorf("%s has %d concerns, want %d", enc, got, want)
+		}
+	}
+}
