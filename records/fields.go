@@ -220,9 +220,10 @@ func isID(s string) bool {
 	return true
 }
 
-// isCode reports whether s is lower snake_case: a lower-case letter, then
-// lower-case letters, digits and underscores.
-func isCode(s string) bool {
+// IsCode reports whether s is a code as records and limits write them:
+// lower snake_case, a lower-case letter, then lower-case letters, digits and
+// underscores.
+func IsCode(s string) bool {
 	if len(s) == 0 || s[0] < 'a' || s[0] > 'z' {
 		return false
 	}

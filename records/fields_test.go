@@ -178,8 +178,8 @@ func TestIDAndCode(t *testing.T) {
 			if got := isID(tt.in); got != tt.isID {
 				t.Errorf("isID(%q) = %v, want %v", tt.in, got, tt.isID)
 			}
-			if got := isCode(tt.in); got != tt.isCode {
-				t.Errorf("isCode(%q) = %v, want %v", tt.in, got, tt.isCode)
+			if got := IsCode(tt.in); got != tt.isCode {
+				t.Errorf("IsCode(%q) = %v, want %v", tt.in, got, tt.isCode)
 			}
 		})
 	}

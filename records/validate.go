@@ -25,7 +25,7 @@ var validate = sync.OnceValue(func() *validator.Validate {
 	})
 	// Registration fails only for an empty tag name or a nil function.
 	_ = v.RegisterValidation("id", func(fl validator.FieldLevel) bool { return isID(fl.Field().String()) })
-	_ = v.RegisterValidation("code", func(fl validator.FieldLevel) bool { return isCode(fl.Field().String()) })
+	_ = v.RegisterValidation("code", func(fl validator.FieldLevel) bool { return IsCode(fl.Field().String()) })
 	return v
 })
 

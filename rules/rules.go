@@ -3,7 +3,6 @@
 package rules
 
 import (
-	"bytes"
 	"embed"
 	"encoding/json"
 	"errors"
@@ -13,11 +12,11 @@ import (
 	"reflect"
 	"regexp"
 	"sort"
-	"strconv"
 	"strings"
 
 	"github.com/go-playground/validator/v10"
-	"go.yaml.in/yaml/v3"
+
+	"welfare/records"
 )
 
 //go:embed *.rego limits.yaml
@@ -37,104 +36,26 @@ func DefaultLimits() []byte {
 	return b
 }
 
-// LimitsError is a problem in a limits file, positioned by line when known.
-type LimitsError struct {
-	File   string
-	Line   int
-	Key    string
-	Reason string
-}
-
-func (e *LimitsError) Error() string {
-	var b strings.Builder
-	b.WriteString(e.File)
-	if e.Line > 0 {
-		fmt.Fprintf(&b, ":%d", e.Line)
-	}
-	b.WriteString(": ")
-	if e.Key != "" {
-		b.WriteString(e.Key + ": ")
-	}
-	b.WriteString(e.Reason)
-	return b.String()
-}
-
-var yamlLine = regexp.MustCompile(`line (\d+): (.*)`)
-
 // LoadLimits decodes and validates a limits file strictly: an unknown key,
-// a value of the wrong type or out of range is an error naming the file and,
-// where the decoder knows it, the line.
+// a value of the wrong type or out of range is a *records.LoadError naming
+// the file, the line and the key, as facility.yaml problems are.
 func LoadLimits(r io.Reader, name string) (*Limits, error) {
 	src, err := io.ReadAll(r)
 	if err != nil {
-		return nil, &LimitsError{File: name, Reason: err.Error()}
+		return nil, &records.LoadError{File: name, Reason: "cannot be read: " + err.Error(), Err: err}
 	}
 	var l Limits
-	dec := yaml.NewDecoder(bytes.NewReader(src))
-	dec.KnownFields(true)
-	if err := dec.Decode(&l); err != nil {
-		if errors.Is(err, io.EOF) {
-			return nil, &LimitsError{File: name, Reason: "the file is empty"}
-		}
-		return nil, yamlError(name, err)
+	doc, err := records.DecodeYAML(name, src, &l)
+	if err != nil {
+		return nil, err
 	}
-	if err := validateLimits(&l); err != nil {
-		le := err.(*LimitsError)
-		le.File = name
-		le.Line = lineOfKey(src, le.Key)
-		return nil, le
+	if key, reason := validateLimits(&l); reason != "" {
+		return nil, &records.LoadError{File: name, Line: records.KeyLine(doc, key), Column: key, Reason: reason}
 	}
 	return &l, nil
 }
 
-// yamlError turns a yaml.v3 error ("yaml: unmarshal errors:\n  line 3: ...")
-// into one positioned error per the first problem.
-func yamlError(name string, err error) error {
-	var te *yaml.TypeError
-	msg := err.Error()
-	if errors.As(err, &te) && len(te.Errors) > 0 {
-		msg = te.Errors[0]
-	}
-	if m := yamlLine.FindStringSubmatch(msg); m != nil {
-		n, _ := strconv.Atoi(m[1])
-		return &LimitsError{File: name, Line: n, Reason: m[2]}
-	}
-	return &LimitsError{File: name, Reason: strings.TrimPrefix(msg, "yaml: ")}
-}
-
-// lineOfKey finds the line of the last element of a dotted key path, for
-// errors found after decoding. It is a best effort: 0 when not found.
-func lineOfKey(src []byte, key string) int {
-	var root yaml.Node
-	if key == "" || yaml.Unmarshal(src, &root) != nil || len(root.Content) == 0 {
-		return 0
-	}
-	n := root.Content[0]
-	line := 0
-	for _, part := range strings.Split(key, ".") {
-		if i := strings.IndexByte(part, '['); i >= 0 {
-			part = part[:i]
-		}
-		found := false
-		if n.Kind == yaml.MappingNode {
-			for i := 0; i+1 < len(n.Content); i += 2 {
-				if n.Content[i].Value == part {
-					line = n.Content[i].Line
-					n = n.Content[i+1]
-					found = true
-					break
-				}
-			}
-		}
-		if !found {
-			break
-		}
-	}
-	return line
-}
-
 var (
-	codeRe    = regexp.MustCompile(`^[a-z][a-z0-9_]*$`)
 	checkIDRe = regexp.MustCompile(`^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*)+$`)
 	cellRe    = regexp.MustCompile(`^(N|C|[1-9][0-9]*/[0-9]+)$`)
 )
@@ -142,7 +63,7 @@ var (
 func newValidator() *validator.Validate {
 	v := validator.New(validator.WithRequiredStructEnabled())
 	v.RegisterTagNameFunc(func(f reflect.StructField) string { return yamlName(f.Tag.Get("yaml")) })
-	_ = v.RegisterValidation("code", func(fl validator.FieldLevel) bool { return codeRe.MatchString(fl.Field().String()) })
+	_ = v.RegisterValidation("code", func(fl validator.FieldLevel) bool { return records.IsCode(fl.Field().String()) })
 	_ = v.RegisterValidation("check_id", func(fl validator.FieldLevel) bool { return checkIDRe.MatchString(fl.Field().String()) })
 	_ = v.RegisterValidation("warmup_cell", func(fl validator.FieldLevel) bool { return cellRe.MatchString(fl.Field().String()) })
 	return v
@@ -156,34 +77,30 @@ func yamlName(tag string) string {
 	return name
 }
 
-func validateLimits(l *Limits) error {
+// validateLimits checks what the types cannot say, returning the dotted key
+// and the reason of the first problem ("" when the limits are sound).
+func validateLimits(l *Limits) (key, reason string) {
 	if err := newValidator().Struct(l); err != nil {
 		var ves validator.ValidationErrors
 		if errors.As(err, &ves) && len(ves) > 0 {
-			fe := ves[0]
-			// Namespace is "Limits.species[x].space.adult_m2"; drop the type name.
-			key := fe.Namespace()
-			if i := strings.IndexByte(key, '.'); i >= 0 {
-				key = key[i+1:]
-			}
-			return &LimitsError{Key: key, Reason: describe(fe)}
+			return records.YAMLPath(ves[0]), describe(ves[0])
 		}
-		return &LimitsError{Reason: err.Error()}
+		return "", err.Error()
 	}
 	ww := l.Cold.WorkWarmup
 	for i, row := range ww.Rows {
 		if len(row.Cells) != len(ww.WindColumnsKmh) {
-			return &LimitsError{Key: fmt.Sprintf("cold.work_warmup.rows[%d]", i),
-				Reason: fmt.Sprintf("row has %d cells for %d wind columns", len(row.Cells), len(ww.WindColumnsKmh))}
+			return fmt.Sprintf("cold.work_warmup.rows[%d]", i),
+				fmt.Sprintf("row has %d cells for %d wind columns", len(row.Cells), len(ww.WindColumnsKmh))
 		}
 		if i > 0 && row.WarmestC >= ww.Rows[i-1].WarmestC {
-			return &LimitsError{Key: fmt.Sprintf("cold.work_warmup.rows[%d]", i), Reason: "rows must run warmest first"}
+			return fmt.Sprintf("cold.work_warmup.rows[%d]", i), "rows must run warmest first"
 		}
 	}
 	if !sort.Float64sAreSorted(ww.WindColumnsKmh) {
-		return &LimitsError{Key: "cold.work_warmup.wind_columns_kmh", Reason: "wind columns must rise"}
+		return "cold.work_warmup.wind_columns_kmh", "wind columns must rise"
 	}
-	return nil
+	return "", ""
 }
 
 func describe(fe validator.FieldError) string {
