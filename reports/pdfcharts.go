@@ -3,10 +3,12 @@ package reports
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/jung-kurt/gofpdf"
 
 	"welfare/checker"
+	"welfare/checker/cold"
 	"welfare/records"
 )
 
@@ -146,23 +148,38 @@ func (d *doc) barChart() {
 	p.SetXY(margin, ly+7)
 }
 
-// hazardBand is one Environment and Climate Change Canada wind chill band.
+// hazardBand is one Environment and Climate Change Canada wind chill band
+// as the chart draws it: its edges in °C and its greyscale pattern.
 type hazardBand struct {
 	hi, lo float64 // °C, hi warmer
 	label  string
 	pat    pattern
 }
 
-// hazardBands: ECCC wind chill hazard bands (references.md); the lowest band
-// is open-ended and drawn to the bottom of the chart.
-var hazardBands = []hazardBand{
-	{0, -10, "0 to −9: low risk", pattern{grey: 255}},
-	{-10, -28, "−10 to −27: low risk; hypothermia with long exposure", pattern{grey: 244}},
-	{-28, -40, "−28 to −39: exposed skin can freeze in 10–30 min", pattern{grey: 226}},
-	{-40, -48, "−40 to −47: exposed skin can freeze in 5–10 min", pattern{grey: 214, hatch: 2.2}},
-	{-48, -55, "−48 to −54: exposed skin can freeze in 2–5 min", pattern{grey: 200, hatch: 1.2}},
-	{-55, math.Inf(-1), "−55 and colder: exposed skin can freeze in under 2 min", pattern{grey: 186, hatch: 1.4, cross: true}},
+// bandPatterns shade the bands from the mildest to the most severe, readable
+// in greyscale print; our own choice, not the published colours.
+var bandPatterns = []pattern{
+	{grey: 255}, {grey: 244}, {grey: 226}, {grey: 214, hatch: 2.2}, {grey: 200, hatch: 1.2}, {grey: 186, hatch: 1.4, cross: true},
 }
+
+// hazardBands are the published bands of checker/cold (the one place they
+// are written down), with the whole-degree edges the chart draws them at;
+// the coldest band is open-ended and drawn to the bottom of the chart.
+var hazardBands = func() []hazardBand {
+	var out []hazardBand
+	for _, b := range cold.Bands() {
+		if b.Level == 0 {
+			continue // above 0: no band to shade
+		}
+		lo := math.Inf(-1)
+		if b.ColdestC != math.MinInt {
+			lo = float64(b.ColdestC - 1)
+		}
+		label := strings.ReplaceAll(b.Range(), "-", "−") + ": " + b.Wording
+		out = append(out, hazardBand{hi: float64(b.WarmestC), lo: lo, label: label, pat: bandPatterns[b.Level-1]})
+	}
+	return out
+}()
 
 func (d *doc) coldSeason() {
 	r := d.r
