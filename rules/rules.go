@@ -109,6 +109,9 @@ func describe(fe validator.FieldError) string {
 	case "required":
 		return "is required"
 	case "min":
+		if fe.Param() == "1" {
+			return "needs at least one entry"
+		}
 		return "needs at least " + fe.Param() + " entries"
 	case "gte", "gt", "lte", "lt":
 		ops := map[string]string{"gte": "at least", "gt": "above", "lte": "at most", "lt": "below"}

@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"context"
 	"fmt"
 	"io/fs"
 	"os"
@@ -78,9 +77,4 @@ func loadRecords(dir string, lim *limitsIn) (fs.FS, *records.Set, error) {
 		return nil, nil, err
 	}
 	return fsys, set, nil
-}
-
-// newEngine compiles the rules with the limits as data.limits.
-func newEngine(ctx context.Context, sources []checker.Source, lim *limitsIn) (*checker.Engine, error) {
-	return checker.NewEngine(ctx, sources, lim.data, checker.EngineOptions{})
 }
