@@ -61,6 +61,8 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		Checks:      cfg.Engine.Checks(),
 		Care:        f.coverage,
 		Weather:     f.weather,
+		ColdLines: ColdLines{Bedding: cfg.Limits.Cold.BeddingWindChill, Shelter: cfg.Limits.Cold.ShelterWindChill,
+			Frostbite: cfg.Limits.Cold.FrostbiteWindChill},
 	}
 	if len(cfg.LimitsSource) > 0 {
 		res.Limits = limitLines(cfg.LimitsSource)

@@ -23,6 +23,14 @@ type Result struct {
 	Care CareCoverage `json:"care_coverage"`
 	// Weather is the daily cold summary per weather site, for the cold-season chart.
 	Weather []SiteDays `json:"-"`
+	// ColdLines are the wind chills the cold checks compared against (from
+	// the limits in force), for the chart's reference lines.
+	ColdLines ColdLines `json:"-"`
+}
+
+// ColdLines are the cold checks' wind chill thresholds (°C).
+type ColdLines struct {
+	Bedding, Shelter, Frostbite float64
 }
 
 // Period is the checked period, inclusive.

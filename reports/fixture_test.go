@@ -97,6 +97,8 @@ func sampleResult(n int) *checker.Result {
 			{Check: "staff.respirator.fit_overdue", Reason: "no handling row lists a respirator and staff.yaml has no respirator_fit_on dates"},
 		},
 		Care: checker.CareCoverage{OccupiedDays: 744, CompleteDays: 689},
+		// The shipped defaults (limits.yaml): bedding and shelter at -20, frostbite at -28 (ECCC).
+		ColdLines: checker.ColdLines{Bedding: -20, Shelter: -20, Frostbite: -28},
 		Limits: []checker.LimitLine{
 			{Key: "species.vulpes_vulpes.space.adult_m2", Value: "0.8", Source: "[P] Council of Europe fur-animal recommendation (1999)"},
 			{Key: "species.vulpes_vulpes.space.min_height_cm", Value: "70", Source: "[P] same"},

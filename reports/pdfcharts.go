@@ -1,8 +1,11 @@
 package reports
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"slices"
+	"strconv"
 	"strings"
 
 	"github.com/jung-kurt/gofpdf"
@@ -184,9 +187,14 @@ var hazardBands = func() []hazardBand {
 func (d *doc) coldSeason() {
 	r := d.r
 	d.heading("Cold season")
+	lines := coldLines(r.ColdLines)
+	var marks []string
+	for _, l := range lines {
+		marks = append(marks, fmt.Sprintf("%s (%s)", minus(l.v), l.what))
+	}
 	d.para("Daily minimum air temperature and minimum wind chill per weather site (°C), against the wind chill hazard bands "+
-		"of Environment and Climate Change Canada. The dashed lines mark −20 (the bedding and shelter checks) and −28 "+
-		"(frostbite risk: exposed skin can freeze in 10–30 minutes). Triangles under a chart mark days with cold-domain findings "+
+		"of Environment and Climate Change Canada. The dashed lines mark the wind chills the cold checks used: "+
+		strings.Join(marks, " and ")+". Triangles under a chart mark days with cold-domain findings "+
 		"for that site, its enclosures and staff, with their number.", "", 9)
 	for _, s := range r.Weather {
 		if len(s.Days) == 0 {
@@ -258,7 +266,7 @@ func (d *doc) coldChart(s checker.SiteDays) {
 		if coldest == nil || x.MinWindChillC < coldest.MinWindChillC {
 			coldest = x
 		}
-		if x.MinWindChillC <= -28 {
+		if x.MinWindChillC <= d.r.ColdLines.Frostbite {
 			below28++
 		}
 	}
@@ -276,7 +284,7 @@ func (d *doc) coldChart(s checker.SiteDays) {
 	yMin := math.Floor((lo-2)/5) * 5
 	yMax := math.Ceil((hi+1)/5) * 5
 
-	summary := fmt.Sprintf("Days with wind chill ≤ −28: %d. Days without readings: %d.", below28, missing)
+	summary := fmt.Sprintf("Days with wind chill ≤ %s: %d. Days without readings: %d.", minus(d.r.ColdLines.Frostbite), below28, missing)
 	if coldest != nil {
 		summary = fmt.Sprintf("Coldest wind chill %s on %s (air %s). ", celsius(coldest.MinWindChillC), coldest.Day, celsius(coldest.MinAirC)) + summary
 	}
@@ -338,25 +346,18 @@ func (d *doc) coldChart(s checker.SiteDays) {
 	p.SetXY(margin, y0-4.5)
 	p.CellFormat(leftW, 3, "°C", "", 0, "R", false, 0, "")
 
-	// The −20 and −28 lines, labelled in the right margin.
-	for _, l := range []struct {
-		v     float64
-		label string
-		dash  []float64
-	}{
-		{-20, "−20: bedding, shelter", []float64{2, 1}},
-		{-28, "−28: frostbite risk", []float64{0.6, 0.8}},
-	} {
+	// The cold checks' thresholds, labelled in the right margin.
+	for i, l := range coldLines(d.r.ColdLines) {
 		if l.v < yMin || l.v > yMax {
 			continue
 		}
 		p.SetLineWidth(0.4)
-		p.SetDashPattern(l.dash, 0)
+		p.SetDashPattern(lineDashes[i%len(lineDashes)], 0)
 		p.Line(x0, yOf(l.v), x0+plotW, yOf(l.v))
 		p.SetDashPattern([]float64{}, 0)
 		d.font(sans, "B", 7)
 		p.SetXY(x0+plotW+1, yOf(l.v)-1.7)
-		p.CellFormat(rightW-1, 3.4, l.label, "", 0, "L", false, 0, "")
+		p.CellFormat(rightW-1, 3.4, minus(l.v)+": "+l.what, "", 0, "L", false, 0, "")
 	}
 
 	// X ticks; labels far enough apart to stay legible.
@@ -437,4 +438,37 @@ func (d *doc) coldChart(s checker.SiteDays) {
 		p.CellFormat(contentW/2-9, 3.5, b.label, "", 0, "L", false, 0, "")
 	}
 	p.SetXY(margin, ky+3*5+4)
+}
+
+// coldLine is one reference line of the cold chart.
+type coldLine struct {
+	v    float64
+	what string
+}
+
+var lineDashes = [][]float64{{2, 1}, {0.6, 0.8}, {3, 1, 0.6, 1}}
+
+// coldLines are the thresholds of the limits in force, warmest first, with
+// checks that share a threshold on one line ("−20: bedding, shelter").
+func coldLines(c checker.ColdLines) []coldLine {
+	var out []coldLine
+	add := func(v float64, what string) {
+		for i := range out {
+			if out[i].v == v {
+				out[i].what += ", " + what
+				return
+			}
+		}
+		out = append(out, coldLine{v, what})
+	}
+	add(c.Bedding, "bedding")
+	add(c.Shelter, "shelter")
+	add(c.Frostbite, "frostbite risk")
+	slices.SortStableFunc(out, func(a, b coldLine) int { return cmp.Compare(b.v, a.v) })
+	return out
+}
+
+// minus writes a number with a true minus sign, as the report prints them.
+func minus(v float64) string {
+	return strings.ReplaceAll(strconv.FormatFloat(v, 'f', -1, 64), "-", "−")
 }
