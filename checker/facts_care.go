@@ -1,6 +1,7 @@
 package checker
 
 import (
+	"slices"
 	"sort"
 
 	"welfare/records"
@@ -199,7 +200,7 @@ func (f *facts) roundEvents() {
 		var best *records.Handling
 		for _, a := range animals {
 			for _, h := range byAnimal[a] {
-				if h.At.Before(r.At) || !contains(f.lim.Care.ConcernAnsweredBy, h.Purpose) {
+				if h.At.Before(r.At) || !slices.Contains(f.lim.Care.ConcernAnsweredBy, h.Purpose) {
 					continue
 				}
 				if best == nil || h.At.Before(best.At) {
@@ -255,15 +256,6 @@ func (f *facts) enclosureOf(animalID string, d records.Day) string {
 func appendTo(section any, key string, v any) {
 	m := section.(map[string]any)
 	m[key] = append(m[key].([]any), v)
-}
-
-func contains(xs []string, x string) bool {
-	for _, y := range xs {
-		if y == x {
-			return true
-		}
-	}
-	return false
 }
 
 func nilIfEmpty(s string) any {

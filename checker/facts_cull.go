@@ -1,6 +1,7 @@
 package checker
 
 import (
+	"slices"
 	"welfare/records"
 )
 
@@ -27,15 +28,15 @@ func (f *facts) cullFacts() {
 				cond = map[string]any{"sedation": mc.Sedation, "secondary_method": mc.SecondaryMethod, "note": nilIfEmpty(mc.Note)}
 			}
 			switch {
-			case contains(e.Acceptable, c.Method):
+			case slices.Contains(e.Acceptable, c.Method):
 				class = "acceptable"
-			case contains(e.Unacceptable, c.Method):
+			case slices.Contains(e.Unacceptable, c.Method):
 				class = "unacceptable"
 			}
 		}
 		signs := []string{}
 		for _, s := range c.Confirmation {
-			if !contains(signs, s) {
+			if !slices.Contains(signs, s) {
 				signs = append(signs, s)
 			}
 		}

@@ -1,6 +1,7 @@
 package checker
 
 import (
+	"slices"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
@@ -43,7 +44,7 @@ func TestCullFacts(t *testing.T) {
 			f.cullFacts()
 			conf := []string{}
 			for _, c := range tt.confirmation {
-				if !contains(conf, c) {
+				if !slices.Contains(conf, c) {
 					conf = append(conf, c)
 				}
 			}

@@ -2,6 +2,7 @@ package checker
 
 import (
 	"os"
+	"slices"
 	"sort"
 	"strings"
 	"testing"
@@ -115,7 +116,7 @@ func TestPeopleDemoPlanted(t *testing.T) {
 			continue
 		}
 		check := strings.TrimSpace(cells[1])
-		if contains(peopleDomains, strings.SplitN(check, ".", 2)[0]) {
+		if slices.Contains(peopleDomains, strings.SplitN(check, ".", 2)[0]) {
 			want = append(want, check+" "+strings.TrimSpace(cells[2])+" "+strings.TrimSpace(cells[3]))
 		}
 	}

@@ -2,6 +2,7 @@ package checker
 
 import (
 	"fmt"
+	"slices"
 	"sort"
 
 	"welfare/records"
@@ -64,7 +65,7 @@ func (f *facts) staffFacts() {
 		if a := f.animals[h.AnimalID]; a != nil && f.lim.Species[a.Species].RabiesRisk {
 			sd.rabies = append(sd.rabies, h.Ref)
 		}
-		if contains(h.PPE, "respirator") {
+		if slices.Contains(h.PPE, "respirator") {
 			sd.respirator = append(sd.respirator, h.Ref)
 		}
 		outside(s, d, h.Ref)
@@ -78,7 +79,7 @@ func (f *facts) staffFacts() {
 		}
 		sd := at(s, d)
 		sd.culls = append(sd.culls, c.Ref)
-		if !contains(sd.methods, c.Method) {
+		if !slices.Contains(sd.methods, c.Method) {
 			sd.methods = append(sd.methods, c.Method)
 		}
 		outside(s, d, c.Ref)
@@ -174,7 +175,7 @@ func (f *facts) handlerDay(s *records.Staff, sd *staffDay) map[string]any {
 func (f *facts) operatorDay(s *records.Staff, sd *staffDay) map[string]any {
 	untrained := []any{}
 	for _, m := range sd.methods {
-		if !contains(s.EuthanasiaMethods, m) {
+		if !slices.Contains(s.EuthanasiaMethods, m) {
 			untrained = append(untrained, m)
 		}
 	}
