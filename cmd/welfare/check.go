@@ -48,19 +48,20 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.generatedAt, "generated-at", "", "report generation `TIME` (RFC 3339; default now) — the same time gives a byte-identical PDF")
 	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never)")
 	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; all are in JSON, CSV and PDF)")
-	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", 5*time.Second, "time budget of one rule package on one subject")
+	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", 5*time.Second, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
 	return fs, o
 }
 
 func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs, o := checkFlags()
-	if err := parseFlags(fs, args, stdout); err != nil {
+	pos, err := parseArgs(fs, args)
+	if err != nil {
 		return err
 	}
-	if fs.NArg() != 1 {
-		return usagef("check needs one records folder")
+	if len(pos) != 1 {
+		return &usageError{cmd: "check", msg: countMsg("one records folder", pos)}
 	}
-	return checkFolder(ctx, fs.Arg(0), o, stdout, stderr)
+	return checkFolder(ctx, pos[0], o, stdout, stderr)
 }
 
 // checkFolder is the whole check: load, evaluate, write the reports, and

@@ -24,15 +24,16 @@ func demoFlags() (*flag.FlagSet, *demoOpts) {
 // are planted, so they do not make the exit status fail.
 func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs, o := demoFlags()
-	if err := parseFlags(fs, args, stdout); err != nil {
+	pos, err := parseArgs(fs, args)
+	if err != nil {
 		return err
 	}
-	if fs.NArg() > 1 {
-		return usagef("demo takes at most one folder")
+	if len(pos) > 1 {
+		return &usageError{cmd: "demo", msg: countMsg("at most one folder", pos)}
 	}
 	dir := "welfare-demo"
-	if fs.NArg() == 1 {
-		dir = fs.Arg(0)
+	if len(pos) == 1 {
+		dir = pos[0]
 	}
 	recs := filepath.Join(dir, "records")
 	if err := demo.WriteTo(recs); err != nil {

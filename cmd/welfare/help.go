@@ -1,99 +1,183 @@
 package main
 
 import (
-	"errors"
+	"context"
+	_ "embed"
 	"flag"
 	"fmt"
 	"io"
+	"sort"
 	"strings"
 )
 
-// errHelp is returned when -h was asked for: usage was printed, exit 0.
-var errHelp = errors.New("help shown")
+// usageDoc is the one source of the usage text: the overview, each
+// command's help and README's usage section are all printed from it.
+//
+//go:embed usage.txt
+var usageDoc string
 
-var commands = []struct{ name, usage, summary string }{
-	{"validate", "welfare validate [--limits FILE] RECORDS",
-		"Read a records folder, print the row accounting and every rejected row with file, line, column and reason."},
-	{"check", "welfare check [flags] RECORDS",
-		"Check the records against the rules and limits; print a summary and write JSON, CSV and PDF reports."},
-	{"demo", "welfare demo [DIR]",
-		"Write the built-in demo records (an invented station) to DIR (default welfare-demo) and check them."},
-	{"rules", "welfare rules list|test [--rules DIR]... [--rules-only]",
-		"List the checks in force with their sources, or run the rules' own tests."},
-	{"limits", "welfare limits [show | check FILE]",
-		"Print the default limits (to copy and edit), or validate a limits file."},
-	{"help", "welfare help [COMMAND]", "Show this help, or one command's flags."},
+// docSection is one "== NAME ==" section of usage.txt.
+type docSection struct {
+	name     string
+	synopsis string   // a command's first line
+	summary  string   // its first paragraph
+	body     string   // the rest of the text, examples taken out
+	examples []string // lines "  welfare …", indentation kept
+	text     string   // a non-command section, whole
 }
 
-func printHelp(w io.Writer) {
-	fmt.Fprint(w, `welfare checks the husbandry and welfare records of a facility keeping foxes,
-mink and similar carnivores against editable policy rules and the facility's own
-welfare limits, and writes an audit report for the attending veterinarian.
-
-Usage:
-`)
-	for _, c := range commands {
-		fmt.Fprintf(w, "  %-58s\n      %s\n", c.usage, c.summary)
-	}
-	fmt.Fprint(w, `
-Exit codes: 0 nothing at or above --fail-on; 1 findings at or above it (or rejected
-rows, for validate); 2 usage error, unreadable folder, or rules or limits that do
-not load.
-
-This is a records check, not a veterinary judgement: the attending veterinarian,
-the animal-care committee and local law decide.
-`)
-}
-
-func runHelp(args []string, stdout io.Writer) error {
-	if len(args) == 0 {
-		printHelp(stdout)
-		return nil
-	}
-	var fs *flag.FlagSet
-	switch args[0] {
-	case "check":
-		fs, _ = checkFlags()
-	case "validate":
-		fs, _ = validateFlags()
-	case "demo":
-		fs, _ = demoFlags()
-	case "rules":
-		fs, _ = rulesFlags("rules")
-	case "limits", "help":
-	default:
-		return usagef("no help for unknown command %q", args[0])
-	}
-	for _, c := range commands {
-		if c.name == args[0] {
-			fmt.Fprintf(stdout, "Usage: %s\n\n%s\n", c.usage, c.summary)
+// sections parses usage.txt, in the order written.
+func sections() []docSection {
+	var out []docSection
+	var cur *docSection
+	var lines []string
+	flush := func() {
+		if cur == nil {
+			return
 		}
-	}
-	if fs != nil {
-		fmt.Fprintln(stdout, "\nFlags:")
-		fs.SetOutput(stdout)
-		fs.PrintDefaults()
-	}
-	return nil
-}
-
-// parseFlags parses a subcommand's flags; -h prints its usage and stops.
-func parseFlags(fs *flag.FlagSet, args []string, stdout io.Writer) error {
-	fs.SetOutput(io.Discard)
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			for _, c := range commands {
-				if c.name == fs.Name() {
-					fmt.Fprintf(stdout, "Usage: %s\n\n%s\n\nFlags:\n", c.usage, c.summary)
+		text := strings.Trim(strings.Join(lines, "\n"), "\n")
+		cur.text = text
+		if _, isCmd := commands[cur.name]; isCmd {
+			first, rest, _ := strings.Cut(text, "\n")
+			cur.synopsis = first
+			summary, body, _ := strings.Cut(rest, "\n\n")
+			cur.summary = summary
+			var kept []string
+			for _, l := range strings.Split(body, "\n") {
+				if strings.HasPrefix(l, "  welfare ") {
+					cur.examples = append(cur.examples, l)
+				} else {
+					kept = append(kept, l)
 				}
 			}
-			fs.SetOutput(stdout)
-			fs.PrintDefaults()
-			return errHelp
+			cur.body = strings.Trim(strings.Join(kept, "\n"), "\n")
 		}
-		return usagef("%s: %v", fs.Name(), err)
+		out = append(out, *cur)
 	}
-	return nil
+	for _, l := range strings.Split(usageDoc, "\n") {
+		if strings.HasPrefix(l, "== ") && strings.HasSuffix(l, " ==") {
+			flush()
+			cur = &docSection{name: strings.TrimSuffix(strings.TrimPrefix(l, "== "), " ==")}
+			lines = nil
+			continue
+		}
+		lines = append(lines, l)
+	}
+	flush()
+	return out
+}
+
+func section(name string) (docSection, bool) {
+	for _, s := range sections() {
+		if s.name == name {
+			return s, true
+		}
+	}
+	return docSection{}, false
+}
+
+// overviewHelp is "welfare help": what the tool is, then usageText.
+func overviewHelp() string {
+	intro, _ := section("welfare")
+	return intro.text + "\n\n" + usageText()
+}
+
+// usageText is the commands, examples and exit codes; README.md's usage
+// section is exactly this text (tested).
+func usageText() string {
+	var b strings.Builder
+	b.WriteString("Usage:\n\n")
+	var examples []string
+	for _, s := range sections() {
+		if s.synopsis == "" {
+			continue
+		}
+		fmt.Fprintf(&b, "  %s\n", s.synopsis)
+		for _, l := range strings.Split(s.summary, "\n") {
+			fmt.Fprintf(&b, "      %s\n", l)
+		}
+		examples = append(examples, s.examples...)
+	}
+	args, _ := section("arguments")
+	exit, _ := section("exit")
+	fmt.Fprintf(&b, "\n%s\n\nExamples:\n\n%s\n\n%s\n", args.text, strings.Join(examples, "\n"), exit.text)
+	return b.String()
+}
+
+// commandHelp is "welfare help NAME" and "welfare NAME -h".
+func commandHelp(name string) string {
+	s, _ := section(name)
+	var b strings.Builder
+	fmt.Fprintf(&b, "Usage: %s\n\n%s\n", s.synopsis, s.summary)
+	if s.body != "" {
+		fmt.Fprintf(&b, "\n%s\n", s.body)
+	}
+	if c := commands[name]; c.flags != nil {
+		if fs := c.flags(); hasFlags(fs) {
+			b.WriteString("\nFlags:\n")
+			printFlags(&b, fs)
+		}
+	}
+	if len(s.examples) > 0 {
+		fmt.Fprintf(&b, "\nExamples:\n%s\n", strings.Join(s.examples, "\n"))
+	}
+	args, _ := section("arguments")
+	fmt.Fprintf(&b, "\n%s\n", args.text)
+	return b.String()
+}
+
+func hasFlags(fs *flag.FlagSet) bool {
+	n := 0
+	fs.VisitAll(func(*flag.Flag) { n++ })
+	return n > 0
+}
+
+// printFlags lists flags as users type them (--name VALUE), with their
+// descriptions and non-empty defaults.
+func printFlags(w io.Writer, fs *flag.FlagSet) {
+	var all []*flag.Flag
+	fs.VisitAll(func(f *flag.Flag) { all = append(all, f) })
+	sort.Slice(all, func(i, j int) bool { return all[i].Name < all[j].Name })
+	for _, f := range all {
+		name, usage := flag.UnquoteUsage(f)
+		dash := "--"
+		if len(f.Name) == 1 {
+			dash = "-"
+		}
+		line := "  " + dash + f.Name
+		if !isBool(f) && name != "" {
+			line += " " + name
+		}
+		fmt.Fprintf(w, "%s\n      %s", line, usage)
+		if f.DefValue != "" && f.DefValue != "false" && f.DefValue != "[]" && !strings.Contains(usage, "default") {
+			fmt.Fprintf(w, " (default %s)", f.DefValue)
+		}
+		fmt.Fprintln(w)
+	}
+}
+
+func helpFlags() *flag.FlagSet { return flag.NewFlagSet("help", flag.ContinueOnError) }
+
+func runHelp(_ context.Context, args []string, stdout, _ io.Writer) error {
+	pos, err := parseArgs(helpFlags(), args)
+	if err != nil {
+		return err
+	}
+	switch len(pos) {
+	case 0:
+		_, err := io.WriteString(stdout, overviewHelp())
+		return err
+	case 1:
+		if _, ok := commands[pos[0]]; !ok {
+			if s := closest(pos[0], commandNames()); s != "" {
+				return &usageError{cmd: "help", msg: fmt.Sprintf("no command %q (did you mean %q?)", pos[0], s)}
+			}
+			return &usageError{cmd: "help", msg: fmt.Sprintf("no command %q (commands: %s)", pos[0], strings.Join(commandNames(), ", "))}
+		}
+		_, err := io.WriteString(stdout, commandHelp(pos[0]))
+		return err
+	}
+	return &usageError{cmd: "help", msg: "help takes at most one command"}
 }
 
 // listFlag collects a repeatable flag.

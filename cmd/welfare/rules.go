@@ -17,9 +17,9 @@ type rulesOpts struct {
 	verbose   bool
 }
 
-func rulesFlags(name string) (*flag.FlagSet, *rulesOpts) {
+func rulesFlags() (*flag.FlagSet, *rulesOpts) {
 	o := &rulesOpts{}
-	fs := flag.NewFlagSet(name, flag.ContinueOnError)
+	fs := flag.NewFlagSet("rules", flag.ContinueOnError)
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
 	fs.BoolVar(&o.rulesOnly, "rules-only", false, "use only the --rules folders, not the built-in rules")
 	fs.StringVar(&o.limits, "limits", "", "limits `FILE` the rules read as data.limits (default: the built-in limits)")
@@ -30,16 +30,20 @@ func rulesFlags(name string) (*flag.FlagSet, *rulesOpts) {
 // runRules lists the checks in force, or runs the rules' own tests: what a
 // welfare committee does before it trusts an edited rule.
 func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) error {
-	if len(args) == 0 {
-		return usagef("rules needs list or test")
-	}
-	verb := args[0]
-	fs, o := rulesFlags("rules")
-	if err := parseFlags(fs, args[1:], stdout); err != nil {
+	fs, o := rulesFlags()
+	pos, err := parseArgs(fs, args)
+	if err != nil {
 		return err
 	}
+	if len(pos) == 0 {
+		return &usageError{cmd: "rules", msg: "needs list or test"}
+	}
+	verb := pos[0]
+	if verb != "list" && verb != "test" {
+		return &usageError{cmd: "rules", msg: unknownVerb(verb, "list", "test")}
+	}
 	// "welfare rules test DIR" reads naturally: a bare folder is a --rules folder.
-	o.rules = append(o.rules, fs.Args()...)
+	o.rules = append(o.rules, pos[1:]...)
 	lim, err := loadLimits(o.limits)
 	if err != nil {
 		return err
@@ -67,7 +71,7 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		}
 		return nil
 	}
-	return usagef("rules: unknown verb %q (list or test)", verb)
+	return nil
 }
 
 func printChecks(w io.Writer, checks []checker.CheckInfo, overrides map[string]string) {

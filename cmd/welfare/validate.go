@@ -22,17 +22,18 @@ func validateFlags() (*flag.FlagSet, *validateOpts) {
 // row was rejected so a record keeper can script "fix until clean".
 func runValidate(_ context.Context, args []string, stdout, stderr io.Writer) error {
 	fs, o := validateFlags()
-	if err := parseFlags(fs, args, stdout); err != nil {
+	pos, err := parseArgs(fs, args)
+	if err != nil {
 		return err
 	}
-	if fs.NArg() != 1 {
-		return usagef("validate needs one records folder")
+	if len(pos) != 1 {
+		return &usageError{cmd: "validate", msg: countMsg("one records folder", pos)}
 	}
 	lim, err := loadLimits(o.limits)
 	if err != nil {
 		return err
 	}
-	_, set, err := loadRecords(fs.Arg(0), lim)
+	_, set, err := loadRecords(pos[0], lim)
 	if err != nil {
 		return err
 	}
