@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"sort"
 	"strings"
+	"time"
 )
 
 // parseArgs parses a subcommand's command line with its FlagSet, letting
@@ -16,11 +17,11 @@ import (
 // errHelp. It returns the positional arguments in the order given.
 //
 // The standard flag package stops at the first positional argument, so the
-// arguments are first sorted into flags and positionals here, knowing from
-// the FlagSet which flags take a value, and then parsed by the FlagSet
-// itself so that every value is checked by its flag.
+// arguments are sorted into flags and positionals here, knowing from the
+// FlagSet which flags take a value; each value is set through its flag,
+// which checks it, and a bad one is refused in words, not Go's.
 func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
-	var flags, pos []string
+	var pos []string
 	for i := 0; i < len(args); i++ {
 		a := args[i]
 		if a == "--" {
@@ -39,19 +40,20 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 			}
 			return nil, &usageError{cmd: fs.Name(), msg: unknownFlag(fs, name)}
 		}
-		flags = append(flags, a)
-		if hasValue || isBool(f) {
-			continue
+		value := "true"
+		switch {
+		case hasValue:
+			_, value, _ = strings.Cut(a, "=")
+		case !isBool(f):
+			if i+1 == len(args) {
+				return nil, &usageError{cmd: fs.Name(), msg: fmt.Sprintf("flag --%s needs a value (--%s %s)", name, name, valueName(f))}
+			}
+			i++
+			value = args[i]
 		}
-		if i+1 == len(args) {
-			return nil, &usageError{cmd: fs.Name(), msg: fmt.Sprintf("flag --%s needs a value (--%s %s)", name, name, valueName(f))}
+		if err := fs.Set(name, value); err != nil {
+			return nil, &usageError{cmd: fs.Name(), msg: badValue(f, value, err)}
 		}
-		i++
-		flags = append(flags, args[i])
-	}
-	fs.SetOutput(discard{})
-	if err := fs.Parse(flags); err != nil {
-		return nil, &usageError{cmd: fs.Name(), msg: strings.TrimPrefix(err.Error(), "invalid value ")}
 	}
 	return pos, nil
 }
@@ -61,9 +63,26 @@ type helpRequested struct{ text string }
 
 func (h helpRequested) Error() string { return "help requested" }
 
-type discard struct{}
-
-func (discard) Write(p []byte) (int, error) { return len(p), nil }
+// badValue says what a flag's value should have been.
+func badValue(f *flag.Flag, value string, err error) string {
+	want := ""
+	if g, ok := f.Value.(flag.Getter); ok {
+		switch g.Get().(type) {
+		case bool:
+			want = "true or false"
+		case int, int64, uint, uint64:
+			want = "a whole number"
+		case float64:
+			want = "a number"
+		case time.Duration:
+			want = "a duration such as 30s, 5m or 1h"
+		}
+	}
+	if want == "" {
+		return fmt.Sprintf("--%s %q: %v", f.Name, value, err)
+	}
+	return fmt.Sprintf("--%s %q: want %s", f.Name, value, want)
+}
 
 func isBool(f *flag.Flag) bool {
 	b, ok := f.Value.(interface{ IsBoolFlag() bool })

@@ -1,12 +1,10 @@
 package main
 
 import (
-	"bufio"
 	"context"
 	"flag"
 	"fmt"
 	"io"
-	"os"
 	"strings"
 	"time"
 
@@ -67,6 +65,9 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 // checkFolder is the whole check: load, evaluate, write the reports, and
 // turn the findings into the exit status.
 func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr io.Writer) error {
+	if err := checkOutputs(o); err != nil {
+		return err
+	}
 	failRank, err := failOnRank(o.failOn)
 	if err != nil {
 		return err
@@ -135,7 +136,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		if out.path == "" {
 			continue
 		}
-		if err := writeFile(out.path, out.write); err != nil {
+		if err := writeFile(ctx, out.path, out.write); err != nil {
 			return err
 		}
 		fmt.Fprintf(stderr, "wrote %s\n", out.path)
@@ -146,25 +147,6 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		}
 	}
 	return nil
-}
-
-// writeFile writes through a buffer and reports the first error, including
-// the one a full disk gives only at Close.
-func writeFile(path string, write func(io.Writer) error) error {
-	f, err := os.Create(path)
-	if err != nil {
-		return err
-	}
-	bw := bufio.NewWriter(f)
-	if err := write(bw); err != nil {
-		f.Close()
-		return fmt.Errorf("%s: %w", path, err)
-	}
-	if err := bw.Flush(); err != nil {
-		f.Close()
-		return fmt.Errorf("%s: %w", path, err)
-	}
-	return f.Close()
 }
 
 // siteOf maps the subjects of cold findings to the weather site whose
