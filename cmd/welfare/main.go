@@ -117,11 +117,13 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	if errors.As(err, &h) {
 		_, err = io.WriteString(out, h.text)
 	}
-	if ctx.Err() != nil && err != nil && !errors.Is(err, errFindings) {
-		// Whatever step noticed the cancellation, and however it put it.
+	if ctx.Err() != nil {
+		// Whatever step noticed the cancellation, and however it put it (or
+		// none did, and the results may be partial): no file was renamed
+		// into place after it, and the run does not claim to be complete.
 		return errInterrupted
 	}
-	if out.err != nil && (err == nil || errors.Is(err, errFindings)) {
+	if out.err != nil && (err == nil || errors.Is(err, errFindings) || errors.Is(err, out.err)) {
 		return fmt.Errorf("writing to standard output: %w", out.err)
 	}
 	return err
