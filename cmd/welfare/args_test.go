@@ -186,7 +186,7 @@ func TestCommandLineMistakes(t *testing.T) {
 		{[]string{"limits", "--pdf", "x"},
 			"welfare limits: unknown flag --pdf (limits takes no flags)\nRun 'welfare help limits' for usage.\n"},
 		{[]string{"help", "chekc"},
-			"welfare help: no command \"chekc\" (did you mean \"check\"?)\nRun 'welfare help help' for usage.\n"},
+			"welfare: help: no command \"chekc\" (did you mean \"check\"?)\nRun 'welfare help' for usage.\n"},
 	}
 	for _, tc := range tests {
 		t.Run(strings.Join(tc.args, " "), func(t *testing.T) {

@@ -170,14 +170,14 @@ func runHelp(_ context.Context, args []string, stdout, _ io.Writer) error {
 	case 1:
 		if _, ok := commands[pos[0]]; !ok {
 			if s := closest(pos[0], commandNames()); s != "" {
-				return &usageError{cmd: "help", msg: fmt.Sprintf("no command %q (did you mean %q?)", pos[0], s)}
+				return usagef("help: no command %q (did you mean %q?)", pos[0], s)
 			}
-			return &usageError{cmd: "help", msg: fmt.Sprintf("no command %q (commands: %s)", pos[0], strings.Join(commandNames(), ", "))}
+			return usagef("help: no command %q (commands: %s)", pos[0], strings.Join(commandNames(), ", "))
 		}
 		_, err := io.WriteString(stdout, commandHelp(pos[0]))
 		return err
 	}
-	return &usageError{cmd: "help", msg: "help takes at most one command"}
+	return usagef("help takes at most one command")
 }
 
 // listFlag collects a repeatable flag.

@@ -3,6 +3,7 @@ package main
 import (
 	"flag"
 	"os"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -110,6 +111,31 @@ func TestHelpAndDashHAgree(t *testing.T) {
 		code, got, _ := runMain(t, args...)
 		if code != exitOK || got != overviewHelp() {
 			t.Errorf("welfare %s: exit %d, want 0 and the overview", strings.Join(args, " "), code)
+		}
+	}
+}
+
+// The flags usage.txt shows for a command (in its synopsis and examples)
+// are flags its FlagSet defines, so the text and the parser cannot drift.
+func TestUsageFlagsExist(t *testing.T) {
+	flagRef := regexp.MustCompile(`(?:^|[\s\[])(--?[a-z][a-z-]*)`)
+	for _, s := range sections() {
+		c, ok := commands[s.name]
+		if !ok {
+			continue
+		}
+		text := s.synopsis
+		for _, e := range s.examples {
+			text += "\n" + commentTail.ReplaceAllString(e, "")
+		}
+		for _, m := range flagRef.FindAllStringSubmatch(text, -1) {
+			name := strings.TrimLeft(m[1], "-")
+			if name == "h" || name == "help" {
+				continue
+			}
+			if c.flags == nil || c.flags().Lookup(name) == nil {
+				t.Errorf("usage.txt shows %s for %q, which has no such flag", m[1], s.name)
+			}
 		}
 	}
 }

@@ -20,14 +20,14 @@ func checkOutputs(o *checkOpts) error {
 			continue
 		}
 		if err := checkOutputPath(out.path); err != nil {
-			return usagef("--%s %s: %v", out.flag, out.path, err)
+			return &usageError{cmd: "check", msg: fmt.Sprintf("--%s %s: %v", out.flag, out.path, err)}
 		}
 		abs, err := filepath.Abs(out.path)
 		if err != nil {
-			return usagef("--%s %s: %v", out.flag, out.path, err)
+			return &usageError{cmd: "check", msg: fmt.Sprintf("--%s %s: %v", out.flag, out.path, err)}
 		}
 		if other, ok := seen[abs]; ok {
-			return usagef("--%s and --%s both name %s: give each report its own file", other, out.flag, out.path)
+			return &usageError{cmd: "check", msg: fmt.Sprintf("--%s and --%s both name %s: give each report its own file", other, out.flag, out.path)}
 		}
 		seen[abs] = out.flag
 	}

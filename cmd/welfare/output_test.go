@@ -7,6 +7,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -33,17 +34,17 @@ func TestOutputPathsRefusedBeforeWork(t *testing.T) {
 		want string
 	}{
 		{"folder missing", []string{"check", demoRecords, "--pdf", missing},
-			"welfare: --pdf " + missing + ": folder " + filepath.Dir(missing) + " does not exist\n"},
+			"welfare check: --pdf " + missing + ": folder " + filepath.Dir(missing) + " does not exist\n"},
 		{"path is a folder", []string{"check", "--json", folder, demoRecords},
-			"welfare: --json " + folder + ": is a folder; give a file name inside it\n"},
+			"welfare check: --json " + folder + ": is a folder; give a file name inside it\n"},
 		{"parent is a file", []string{"check", demoRecords, "--csv", filepath.Join(notFolder, "f.csv")},
-			"welfare: --csv " + filepath.Join(notFolder, "f.csv") + ": " + notFolder + " is not a folder\n"},
+			"welfare check: --csv " + filepath.Join(notFolder, "f.csv") + ": " + notFolder + " is not a folder\n"},
 		{"two outputs on one path", []string{"check", demoRecords, "--json", same, "--csv", same},
-			"welfare: --json and --csv both name " + same + ": give each report its own file\n"},
+			"welfare check: --json and --csv both name " + same + ": give each report its own file\n"},
 		// A folder that does not exist is refused even when the records
 		// folder does not exist either: the outputs are checked first.
 		{"before the records are read", []string{"check", "/nonexistent/records", "--pdf", missing},
-			"welfare: --pdf " + missing + ": folder " + filepath.Dir(missing) + " does not exist\n"},
+			"welfare check: --pdf " + missing + ": folder " + filepath.Dir(missing) + " does not exist\n"},
 	}
 	if os.Geteuid() != 0 { // root writes anywhere
 		ro := filepath.Join(tmp, "read-only")
@@ -55,7 +56,15 @@ func TestOutputPathsRefusedBeforeWork(t *testing.T) {
 			args []string
 			want string
 		}{"folder not writable", []string{"check", demoRecords, "--pdf", filepath.Join(ro, "a.pdf")},
-			"welfare: --pdf " + filepath.Join(ro, "a.pdf") + ": cannot write in folder " + ro + "\n"})
+			"welfare check: --pdf " + filepath.Join(ro, "a.pdf") + ": cannot write in folder " + ro + "\n"})
+	}
+	if runtime.GOOS == "linux" { // /proc takes no new file, even from root
+		tests = append(tests, struct {
+			name string
+			args []string
+			want string
+		}{"folder not writable, even by root", []string{"check", demoRecords, "--pdf", "/proc/a.pdf"},
+			"welfare check: --pdf /proc/a.pdf: cannot write in folder /proc\n"})
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -66,7 +75,7 @@ func TestOutputPathsRefusedBeforeWork(t *testing.T) {
 			if stdout != "" {
 				t.Errorf("work was done before the refusal; stdout:\n%s", stdout)
 			}
-			want := tc.want + "Run 'welfare help' for usage.\n"
+			want := tc.want + "Run 'welfare help check' for usage.\n"
 			if diff := cmp.Diff(want, stderr); diff != "" {
 				t.Errorf("stderr (-want +got):\n%s", diff)
 			}
