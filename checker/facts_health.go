@@ -37,12 +37,12 @@ func (f *facts) healthDoc(a *records.Animal) map[string]any {
 	return d
 }
 
-func appendList(d map[string]any, key string, v any) {
+func appendHealth(d map[string]any, key string, v any) {
 	list, _ := d[key].([]any)
 	d[key] = append(list, v)
 }
 
-func stamp(t time.Time) string { return t.Format("2006-01-02 15:04") }
+func minuteStamp(t time.Time) string { return t.Format("2006-01-02 15:04") }
 
 // deathFacts: each death row of the animal (an animal dies once), with the
 // delay to the veterinarian's notification; and every animal recorded as
@@ -57,12 +57,12 @@ func (f *facts) deathFacts() {
 		day := records.DayOf(dr.FoundDeadAt)
 		var notified, hours any
 		if !dr.VetNotifiedAt.IsZero() {
-			notified = stamp(dr.VetNotifiedAt)
+			notified = minuteStamp(dr.VetNotifiedAt)
 			hours = dr.VetNotifiedAt.Sub(dr.FoundDeadAt).Hours()
 		}
-		appendList(f.healthDoc(a), "deaths", map[string]any{
+		appendHealth(f.healthDoc(a), "deaths", map[string]any{
 			"on":              day.String(),
-			"at":              stamp(dr.FoundDeadAt),
+			"at":              minuteStamp(dr.FoundDeadAt),
 			"ref":             string(dr.Ref),
 			"in_period":       f.inPeriod(day),
 			"found_by":        dr.FoundBy,
@@ -115,14 +115,14 @@ func (f *facts) observationFacts() {
 		in := f.inPeriod(day)
 		if o.MassKg != nil {
 			d := f.healthDoc(a)
-			appendList(d, "weights", map[string]any{
-				"n": seq[a.ID], "on": day.String(), "day": int(day), "at": stamp(o.At),
+			appendHealth(d, "weights", map[string]any{
+				"n": seq[a.ID], "on": day.String(), "day": int(day), "at": minuteStamp(o.At),
 				"kg": *o.MassKg, "ref": string(o.Ref), "in_period": in,
 			})
 			seq[a.ID]++
 		}
 		if o.BodyCondition != nil && in {
-			appendList(f.healthDoc(a), "conditions", map[string]any{
+			appendHealth(f.healthDoc(a), "conditions", map[string]any{
 				"on": day.String(), "score": *o.BodyCondition, "ref": string(o.Ref),
 			})
 		}
@@ -150,8 +150,8 @@ func (f *facts) observationFacts() {
 		if best != nil {
 			firstCase = map[string]any{"id": best.CaseID, "days": int(best.OpenedOn - day), "ref": string(best.Ref)}
 		}
-		appendList(f.healthDoc(a), "signs", map[string]any{
-			"on": day.String(), "day": int(day), "at": stamp(o.At), "ref": string(o.Ref), "in_period": in,
+		appendHealth(f.healthDoc(a), "signs", map[string]any{
+			"on": day.String(), "day": int(day), "at": minuteStamp(o.At), "ref": string(o.Ref), "in_period": in,
 			"signs": strs(o.Signs), "vet_informed": o.VetInformed.IsYes(),
 			"answers": answers, "case": firstCase,
 		})
@@ -218,7 +218,7 @@ func (f *facts) caseFacts() {
 				"next_day": int(next), "next": nextBy,
 			})
 		}
-		appendList(f.healthDoc(a), "cases", map[string]any{
+		appendHealth(f.healthDoc(a), "cases", map[string]any{
 			"id": t.CaseID, "ref": string(t.Ref), "opened_on": t.OpenedOn.String(),
 			"closed_on": dayOrNull(t.ClosedOn), "outcome": nilIfEmpty(t.Outcome), "diagnosis": t.Diagnosis,
 			"period_from_day": int(f.period.From), "period_until_day": int(f.period.To),
@@ -392,7 +392,7 @@ func (f *facts) litterFacts() {
 		if l.Weaned != nil {
 			weaned = *l.Weaned
 		}
-		appendList(d, "litters", map[string]any{
+		appendHealth(d, "litters", map[string]any{
 			"id": l.ID, "ref": string(l.Ref), "species": a.Species,
 			"whelped_on": l.WhelpedOn.String(), "weaned_on": l.WeanedOn.String(),
 			"age_days": int(l.WeanedOn - l.WhelpedOn),

@@ -64,11 +64,11 @@ func loadHealth(t *testing.T, lim *rules.Limits, over map[string]string) *record
 	return set
 }
 
-var january = Period{From: records.MakeDay(2026, 1, 1), To: records.MakeDay(2026, 1, 31)}
+var healthJanuary = Period{From: records.MakeDay(2026, 1, 1), To: records.MakeDay(2026, 1, 31)}
 
 func TestHealthFacts(t *testing.T) {
 	lim := defaultLimits(t)
-	f := newFacts(loadHealth(t, lim, nil), lim, january)
+	f := newFacts(loadHealth(t, lim, nil), lim, healthJanuary)
 	f.healthFacts()
 
 	// Mortality, worked by hand: S1 in January (31 days). A1 all month = 31 animal-days;
@@ -141,9 +141,9 @@ func TestHealthFacts(t *testing.T) {
 	}
 }
 
-// checkWith runs the shipped rules over the folder with the limits read
+// checkHealthWith runs the shipped rules over the folder with the limits read
 // from a limits file, as `welfare check --limits FILE` does.
-func checkWith(t *testing.T, limitsText string, over map[string]string, only ...string) []Finding {
+func checkHealthWith(t *testing.T, limitsText string, over map[string]string, only ...string) []Finding {
 	t.Helper()
 	path := filepath.Join(t.TempDir(), "limits.yaml")
 	if err := os.WriteFile(path, []byte(limitsText), 0o644); err != nil {
@@ -167,20 +167,20 @@ func checkWith(t *testing.T, limitsText string, over map[string]string, only ...
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := Check(ctx, Config{Records: loadHealth(t, lim, over), Limits: lim, Engine: engine, Period: january, Only: only})
+	res, err := Check(ctx, Config{Records: loadHealth(t, lim, over), Limits: lim, Engine: engine, Period: healthJanuary, Only: only})
 	if err != nil {
 		t.Fatal(err)
 	}
 	return res.Findings
 }
 
-type short struct{ Check, Subject, On string }
+type healthShort struct{ Check, Subject, On string }
 
-func shorten(fs []Finding, prefix string) []short {
-	out := []short{}
+func shortHealth(fs []Finding, prefix string) []healthShort {
+	out := []healthShort{}
 	for _, f := range fs {
 		if strings.HasPrefix(f.Check, prefix) {
-			out = append(out, short{f.Check, f.Subject, f.On.String()})
+			out = append(out, healthShort{f.Check, f.Subject, f.On.String()})
 		}
 	}
 	return out
@@ -195,17 +195,17 @@ func TestWeightLossLimitFromFile(t *testing.T) {
 	}
 	tests := []struct {
 		name, pct string
-		want      []short
+		want      []healthShort
 	}{
-		{"shipped 10 %", "10", []short{{"health.weight.loss", "A1", "2026-01-19"}}},
-		{"exactly the loss, 11.4 %", "11.4", []short{{"health.weight.loss", "A1", "2026-01-19"}}},
-		{"raised to 12 %", "12", []short{}},
-		{"lowered to 5 %: Jan 5 is 7.1 % below Dec 20 too", "5", []short{{"health.weight.loss", "A1", "2026-01-05"}, {"health.weight.loss", "A1", "2026-01-19"}}},
+		{"shipped 10 %", "10", []healthShort{{"health.weight.loss", "A1", "2026-01-19"}}},
+		{"exactly the loss, 11.4 %", "11.4", []healthShort{{"health.weight.loss", "A1", "2026-01-19"}}},
+		{"raised to 12 %", "12", []healthShort{}},
+		{"lowered to 5 %: Jan 5 is 7.1 % below Dec 20 too", "5", []healthShort{{"health.weight.loss", "A1", "2026-01-05"}, {"health.weight.loss", "A1", "2026-01-19"}}},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			text := strings.Replace(shipped, "weight_loss_pct: 10 ", "weight_loss_pct: "+tt.pct+" ", 1)
-			got := shorten(checkWith(t, text, nil, "health"), "health.weight.")
+			got := shortHealth(checkHealthWith(t, text, nil, "health"), "health.weight.")
 			if diff := cmp.Diff(tt.want, got); diff != "" {
 				t.Errorf("findings (-want +got):\n%s", diff)
 			}
@@ -215,8 +215,8 @@ func TestWeightLossLimitFromFile(t *testing.T) {
 
 // Every health finding of the small shed, end to end through the rules.
 func TestHealthFindings(t *testing.T) {
-	got := shorten(checkWith(t, string(rules.DefaultLimits()), nil), "")
-	want := []short{
+	got := shortHealth(checkHealthWith(t, string(rules.DefaultLimits()), nil), "")
+	want := []healthShort{
 		// C-1: vet exam Jan 9, next review Jan 20: Jan 17 is the first day more than 7 days after;
 		// reviewed_on Jan 20 and none after: Jan 28.
 		{"health.case.unreviewed", "C-1", "2026-01-17"},
@@ -234,7 +234,7 @@ func TestHealthFindings(t *testing.T) {
 		// A2's death matches animals.csv; A3 died with no left_on in animals.csv.
 		{"records.death.mismatch", "A3", "2026-01-13"},
 	}
-	var kept []short
+	var kept []healthShort
 	for _, s := range got {
 		if strings.HasPrefix(s.Check, "health.") || strings.HasPrefix(s.Check, "records.death") {
 			kept = append(kept, s)
@@ -247,6 +247,17 @@ func TestHealthFindings(t *testing.T) {
 		return kept[i].On < kept[j].On
 	})
 	if diff := cmp.Diff(want, kept); diff != "" {
+		t.Errorf("findings (-want +got):\n%s", diff)
+	}
+}
+
+// An observation after the animal's death is a record-keeping finding like
+// any other event after departure.
+func TestObservationAfterDeath(t *testing.T) {
+	obs := "observed_at,animal_id,staff_id,mass_kg\n2026-01-07T09:00,A2,K1,6.1\n2026-01-06T06:00,A2,K1,6.0\n"
+	got := shortHealth(checkHealthWith(t, string(rules.DefaultLimits()), map[string]string{"observations.csv": obs}, "records"), "records.event.")
+	want := []healthShort{{"records.event.after_departure", "A2", "2026-01-07"}}
+	if diff := cmp.Diff(want, got); diff != "" {
 		t.Errorf("findings (-want +got):\n%s", diff)
 	}
 }

@@ -37,7 +37,7 @@ else := input.period.from
 
 # METADATA
 # title: Event outside the animal's stay
-# description: A handling, cull or health-concern row names an animal on a day before it arrived or after it left.
+# description: A handling, cull, health-concern or observation row names an animal on a day before it arrived or after it left (a death's day is its last).
 # custom:
 #   id: records.event.after_departure
 #   severity: significant

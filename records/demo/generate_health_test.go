@@ -32,7 +32,7 @@ func init() {
 // PLANTED.md says why.
 var unplanted = map[string]bool{}
 
-type death struct {
+type deathRow struct {
 	at                    time.Time
 	animal, by, cause     string
 	notified              time.Time // zero: not recorded
@@ -40,7 +40,7 @@ type death struct {
 	disposal              string
 }
 
-type observation struct {
+type obsRow struct {
 	at                time.Time
 	animal, staff     string
 	massKg            float64 // 0: not weighed
@@ -59,25 +59,25 @@ type litterRow struct {
 	weaned           int
 }
 
-type health struct {
-	deaths  []death
-	obs     []observation
+type healthRecords struct {
+	deaths  []deathRow
+	obs     []obsRow
 	cases   []vetCase
 	litters []litterRow
 }
 
 // dec is a December 2025 day, before the period (weighings the January
 // weighings are compared with).
-func dec(d, h, m int) time.Time { return time.Date(2025, 12, d, h, m, 0, 0, time.UTC) }
+func decAt(d, h, m int) time.Time { return time.Date(2025, 12, d, h, m, 0, 0, time.UTC) }
 
 // buildHealth records the January deaths on the animals (their left_on is
 // their last day, so the rounds and evaluators see the cage empty after it)
 // and returns the health records.
-func (s *scenario) buildHealth() *health {
-	h := &health{}
+func (s *scenario) buildHealth() *healthRecords {
+	h := &healthRecords{}
 	// Deaths. Two red foxes in shed S4 (one of cold in the hard spell, one
 	// unexplained) and a mink whose death the veterinarian heard of late.
-	h.deaths = []death{
+	h.deaths = []deathRow{
 		{at: at(7, 7, 45), animal: "RF-414", by: "ST-04", cause: "cold", notified: at(7, 9, 15), necropsy: "no", disposal: "rendering"},
 		{at: at(18, 7, 35), animal: "RF-419", by: "ST-05", cause: "", notified: at(18, 8, 30), necropsy: "no", disposal: "rendering"},
 		{at: at(24, 7, 20), animal: "NV-03", by: "ST-07", cause: "disease", notified: at(25, 15, 0), necropsy: "yes", necropsyRef: "NX-26-004", disposal: "incineration"},
@@ -90,7 +90,7 @@ func (s *scenario) buildHealth() *health {
 	// Shed S4 is weighed and condition-scored on Dec 29 and Jan 26.
 	for c := 1; c <= 24; c++ {
 		a := s.animalByID(fmt.Sprintf("RF-4%02d", c))
-		h.obs = append(h.obs, observation{at: dec(29, 10, c*3), animal: a.id, staff: "ST-04", massKg: a.mass, condition: 3})
+		h.obs = append(h.obs, obsRow{at: decAt(29, 10, c*3), animal: a.id, staff: "ST-04", massKg: a.mass, condition: 3})
 		if s.enclosureOn(a, 26) == "" {
 			continue
 		}
@@ -98,18 +98,18 @@ func (s *scenario) buildHealth() *health {
 		if a.id == "RF-416" {
 			kg, bcs, notes = 6.5, 2, "thin over the hips"
 		}
-		h.obs = append(h.obs, observation{at: at(26, 10, c*3), animal: a.id, staff: "ST-04", massKg: kg, condition: bcs, notes: notes})
+		h.obs = append(h.obs, obsRow{at: at(26, 10, c*3), animal: a.id, staff: "ST-04", massKg: kg, condition: bcs, notes: notes})
 	}
 
 	// Clinical signs.
 	h.obs = append(h.obs,
-		observation{at: at(5, 16, 0), animal: "RF-405", staff: "ST-04", signs: "wound", vet: "yes", notes: "bite wound right ear after a fence fight"},
-		observation{at: at(10, 8, 40), animal: "RF-422", staff: "ST-05", signs: "lameness", vet: "no", notes: "holding up left hind"},
-		observation{at: at(19, 8, 15), animal: "RF-317", staff: "ST-04", signs: "lameness", vet: "yes", notes: "limping, left fore"},
+		obsRow{at: at(5, 16, 0), animal: "RF-405", staff: "ST-04", signs: "wound", vet: "yes", notes: "bite wound right ear after a fence fight"},
+		obsRow{at: at(10, 8, 40), animal: "RF-422", staff: "ST-05", signs: "lameness", vet: "no", notes: "holding up left hind"},
+		obsRow{at: at(19, 8, 15), animal: "RF-317", staff: "ST-04", signs: "lameness", vet: "yes", notes: "limping, left fore"},
 	)
 	// NV-07 chews its tail fur: seen four times in January.
 	for _, d := range []int{2, 14, 24, 30} {
-		h.obs = append(h.obs, observation{at: at(d, 14, 30), animal: "NV-07", staff: "ST-07", signs: "fur_chewing", notes: "tail tip chewed"})
+		h.obs = append(h.obs, obsRow{at: at(d, 14, 30), animal: "NV-07", staff: "ST-07", signs: "fur_chewing", notes: "tail tip chewed"})
 	}
 
 	h.cases = []vetCase{
@@ -127,7 +127,7 @@ func (s *scenario) buildHealth() *health {
 }
 
 // writeHealthTables writes the health files and plants their findings.
-func (s *scenario) writeHealthTables(h *health) error {
+func (s *scenario) writeHealthTables(h *healthRecords) error {
 	lim, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
 	if err != nil {
 		return err
@@ -203,7 +203,7 @@ func (s *scenario) writeHealthTables(h *health) error {
 // from the scenario (an animal counts on every day it is present, its last
 // day included) and plants health.mortality.high where the default limits
 // are crossed, with the arithmetic written out.
-func (s *scenario) plantMortality(h *health, lim *rules.Limits) {
+func (s *scenario) plantMortality(h *healthRecords, lim *rules.Limits) {
 	deaths := map[string][]string{}
 	for _, d := range h.deaths {
 		b := s.buildingOf(s.enclosureOn(s.animalByID(d.animal), d.at.Day())).id
