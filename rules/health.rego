@@ -185,8 +185,8 @@ answered(s) if {
 }
 
 answered(s) if {
-	s["case"] != null
-	s["case"].days <= lim.signs_case_days
+	s.case != null
+	s.case.days <= lim.signs_case_days
 }
 
 # METADATA

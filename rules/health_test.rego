@@ -20,10 +20,13 @@ test_nothing_recorded_is_quiet if {
 
 # ---- deaths: notify_vet_within_hours 24 [C]
 
-death(extra) := object.union({
-	"on": "2026-01-13", "at": "2026-01-13 07:40", "ref": "deaths.csv:2", "in_period": true, "found_by": "ST-01",
-	"cause": "cold", "vet_notified_at": "2026-01-14 07:40", "notify_hours": 24, "necropsy": false, "necropsy_ref": null,
-}, extra)
+death(extra) := object.union(
+	{
+		"on": "2026-01-13", "at": "2026-01-13 07:40", "ref": "deaths.csv:2", "in_period": true, "found_by": "ST-01",
+		"cause": "cold", "vet_notified_at": "2026-01-14 07:40", "notify_hours": 24, "necropsy": false, "necropsy_ref": null,
+	},
+	extra,
+)
 
 test_vet_told_at_exactly_24_h_is_in_time if {
 	count(health.findings) == 0 with input as animal({"deaths": [death({})]})
@@ -218,8 +221,10 @@ test_mortality_worked_by_hand if {
 	# one culled on Jan 9 (9 days, the leaving day counts), two found dead on Jan 6 and Jan 13
 	# (6 + 13 days): 651 + 9 + 6 + 13 = 679 animal-days; mean daily population 679 / 31 = 21.90.
 	# 2 deaths / 21.90 = 9.13 %, above 2 %, and 2 >= min_deaths 2: a finding.
-	m := {"building": "S1", "month": "2026-01", "on": "2026-01-01", "deaths": 2, "animal_days": 679, "days_in_month": 31,
-		"death_list": [{"animal": "RF-105", "on": "2026-01-06", "ref": "deaths.csv:2"}, {"animal": "RF-118", "on": "2026-01-13", "ref": "deaths.csv:3"}]}
+	m := {
+		"building": "S1", "month": "2026-01", "on": "2026-01-01", "deaths": 2, "animal_days": 679, "days_in_month": 31,
+		"death_list": [{"animal": "RF-105", "on": "2026-01-06", "ref": "deaths.csv:2"}, {"animal": "RF-118", "on": "2026-01-13", "ref": "deaths.csv:3"}],
+	}
 	fs := health.findings with input as facility([m])
 	some f in fs
 	f.check == "health.mortality.high"
