@@ -35,6 +35,11 @@ type facts struct {
 	// Built on first use by the domains that need them.
 	care     *careDays
 	handling map[string][]*records.Handling
+	// residences: every animal's stays over all time (facts_health.go).
+	residences []residence
+
+	// deathDay is each animal's death (deaths.csv): its last day, as left_on is.
+	deathDay map[string]records.Day
 
 	docs map[string]map[string]map[string]any // kind -> subject id -> document
 
@@ -80,6 +85,10 @@ func newFacts(set *records.Set, lim *rules.Limits, p Period) *facts {
 	for i := range set.Protocols {
 		f.protocols[set.Protocols[i].ID] = &set.Protocols[i]
 	}
+	f.deathDay = make(map[string]records.Day, len(set.Deaths))
+	for i := range set.Deaths {
+		f.deathDay[set.Deaths[i].AnimalID] = records.DayOf(set.Deaths[i].FoundDeadAt)
+	}
 	f.stays = f.buildStays()
 	f.homes = map[string][]stay{}
 	for _, ss := range f.stays {
@@ -103,6 +112,10 @@ func (f *facts) buildStays() map[string][]stay {
 		// A stay ends at the animal's departure even if housing says otherwise.
 		if a := s.Animal; !a.LeftOn.IsZero() && (s.To.IsZero() || s.To > a.LeftOn) {
 			s.To = a.LeftOn
+		}
+		// A death ends the stay too, even when animals.csv was not updated.
+		if dd, ok := f.deathDay[s.Animal.ID]; ok && (s.To.IsZero() || s.To > dd) {
+			s.To = dd
 		}
 		if s.To.IsZero() || s.To > f.period.To {
 			s.To = f.period.To

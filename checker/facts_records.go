@@ -37,6 +37,10 @@ func (f *facts) recordsFacts() {
 		c := &f.set.Culls[i]
 		events = append(events, event{c.AnimalID, "cull", records.DayOf(c.At), c.Ref})
 	}
+	for i := range f.set.Observations {
+		o := &f.set.Observations[i]
+		events = append(events, event{o.AnimalID, "observation", records.DayOf(o.At), o.Ref})
+	}
 	for i := range f.set.Care {
 		r := &f.set.Care[i]
 		if r.ConcernAnimalID != "" {

@@ -27,23 +27,28 @@ type Options struct {
 // The record files in the order records.md documents them; accounting and
 // problems follow this order.
 const (
-	animalsFile    = "animals.csv"
-	enclosuresFile = "enclosures.csv"
-	housingFile    = "housing.csv"
-	staffFile      = "staff.csv"
-	protocolsFile  = "protocols.csv"
-	careFile       = "daily_care.csv"
-	handlingFile   = "handling.csv"
-	ppeFile        = "ppe_checks.csv"
-	weatherFile    = "weather.csv"
-	workFile       = "outdoor_work.csv"
-	cullsFile      = "culls.csv"
+	animalsFile      = "animals.csv"
+	enclosuresFile   = "enclosures.csv"
+	housingFile      = "housing.csv"
+	staffFile        = "staff.csv"
+	protocolsFile    = "protocols.csv"
+	careFile         = "daily_care.csv"
+	handlingFile     = "handling.csv"
+	ppeFile          = "ppe_checks.csv"
+	weatherFile      = "weather.csv"
+	workFile         = "outdoor_work.csv"
+	cullsFile        = "culls.csv"
+	deathsFile       = "deaths.csv"
+	observationsFile = "observations.csv"
+	treatmentsFile   = "treatments.csv"
+	littersFile      = "litters.csv"
 )
 
 // Files lists the record files a folder may hold, facility.yaml first, then
 // the CSV files in the order of the records contract.
 var Files = []string{facilityFile, animalsFile, enclosuresFile, housingFile, staffFile, protocolsFile,
-	careFile, handlingFile, ppeFile, weatherFile, workFile, cullsFile}
+	careFile, handlingFile, ppeFile, weatherFile, workFile, cullsFile,
+	deathsFile, observationsFile, treatmentsFile, littersFile}
 
 func fileOrder(name string) int {
 	if i := slices.Index(Files, name); i >= 0 {
@@ -493,6 +498,10 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	wg.Go(func() { ld.weather = loadFile(fsys, weatherSpec, e) })
 	wg.Go(func() { ld.work = loadFile(fsys, workSpec, e) })
 	wg.Go(func() { ld.culls = loadFile(fsys, cullSpec, e) })
+	wg.Go(func() { ld.deaths = loadFile(fsys, deathSpec, e) })
+	wg.Go(func() { ld.observations = loadFile(fsys, observationSpec, e) })
+	wg.Go(func() { ld.treatments = loadFile(fsys, treatmentSpec, e) })
+	wg.Go(func() { ld.litters = loadFile(fsys, litterSpec, e) })
 	wg.Wait()
 
 	ld.crossCheck(&fac)
@@ -508,9 +517,14 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	collect(s, ld.weather)
 	collect(s, ld.work)
 	collect(s, ld.culls)
+	collect(s, ld.deaths)
+	collect(s, ld.observations)
+	collect(s, ld.treatments)
+	collect(s, ld.litters)
 	s.Animals, s.Enclosures, s.Housing = ld.animals.rows, ld.enclosures.rows, ld.housing.rows
 	s.Staff, s.Protocols, s.Care, s.Handling = ld.staff.rows, ld.protocols.rows, ld.care.rows, ld.handling.rows
 	s.PPEChecks, s.Weather, s.Work, s.Culls = ld.ppe.rows, ld.weather.rows, ld.work.rows, ld.culls.rows
+	s.Deaths, s.Observations, s.Treatments, s.Litters = ld.deaths.rows, ld.observations.rows, ld.treatments.rows, ld.litters.rows
 	s.Problems = append(s.Problems, ld.extra...)
 	sort.SliceStable(s.Problems, func(i, j int) bool {
 		a, b := s.Problems[i], s.Problems[j]

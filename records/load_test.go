@@ -70,6 +70,8 @@ func mustLoad(t *testing.T, fsys fs.FS) *Set {
 		staffFile: len(s.Staff), protocolsFile: len(s.Protocols), careFile: len(s.Care),
 		handlingFile: len(s.Handling), ppeFile: len(s.PPEChecks), weatherFile: len(s.Weather),
 		workFile: len(s.Work), cullsFile: len(s.Culls),
+		deathsFile: len(s.Deaths), observationsFile: len(s.Observations), treatmentsFile: len(s.Treatments),
+		littersFile: len(s.Litters),
 	}
 	rowProblems := map[string]int{}
 	for _, p := range s.Problems {

@@ -7,18 +7,22 @@ import (
 
 // loadedSet holds every file between reading and the cross-record rules.
 type loadedSet struct {
-	animals    *loaded[Animal]
-	enclosures *loaded[Enclosure]
-	housing    *loaded[Housing]
-	staff      *loaded[Staff]
-	protocols  *loaded[Protocol]
-	care       *loaded[CareRound]
-	handling   *loaded[Handling]
-	ppe        *loaded[PPECheck]
-	weather    *loaded[Weather]
-	work       *loaded[OutdoorWork]
-	culls      *loaded[Cull]
-	extra      []Problem // file-level problems that belong to no file read (a missing staff.csv)
+	animals      *loaded[Animal]
+	enclosures   *loaded[Enclosure]
+	housing      *loaded[Housing]
+	staff        *loaded[Staff]
+	protocols    *loaded[Protocol]
+	care         *loaded[CareRound]
+	handling     *loaded[Handling]
+	ppe          *loaded[PPECheck]
+	weather      *loaded[Weather]
+	work         *loaded[OutdoorWork]
+	culls        *loaded[Cull]
+	deaths       *loaded[Death]
+	observations *loaded[Observation]
+	treatments   *loaded[Treatment]
+	litters      *loaded[Litter]
+	extra        []Problem // file-level problems that belong to no file read (a missing staff.csv)
 }
 
 // index is the set of accepted ids of one file, with what is known about
@@ -143,6 +147,14 @@ func rowRef(r any) Ref {
 		return r.Ref
 	case *Cull:
 		return r.Ref
+	case *Death:
+		return r.Ref
+	case *Observation:
+		return r.Ref
+	case *Treatment:
+		return r.Ref
+	case *Litter:
+		return r.Ref
 	}
 	return ""
 }
@@ -246,6 +258,7 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 	ld.culls.keep(func(c *Cull) *cellError {
 		return ld.culls.refs(ref{"AnimalID", c.AnimalID, animals}, ref{"StaffID", c.StaffID, staff}, protoRef("ProtocolID", c.ProtocolID))
 	})
+	ld.crossCheckHealth(animals, staff)
 }
 
 // staffRequired reports a missing staff.csv when any accepted row names a
@@ -261,6 +274,7 @@ func (ld *loadedSet) staffRequired() {
 		}
 	}
 	n += len(ld.care.rows) + len(ld.handling.rows) + len(ld.work.rows) + len(ld.culls.rows)
+	n += len(ld.deaths.rows) + len(ld.observations.rows) + len(ld.treatments.rows)
 	if n > 0 {
 		rows := "rows name"
 		if n == 1 {

@@ -35,19 +35,23 @@ func (b Bool) String() string {
 // Set is one facility's records after loading: every accepted row, every
 // rejected row's problem, and the per-file accounting.
 type Set struct {
-	Facility   Facility
-	Location   *time.Location // the facility's time zone
-	Animals    []Animal
-	Enclosures []Enclosure
-	Housing    []Housing
-	Staff      []Staff
-	Protocols  []Protocol
-	Care       []CareRound
-	Handling   []Handling
-	PPEChecks  []PPECheck
-	Weather    []Weather
-	Work       []OutdoorWork
-	Culls      []Cull
+	Facility     Facility
+	Location     *time.Location // the facility's time zone
+	Animals      []Animal
+	Enclosures   []Enclosure
+	Housing      []Housing
+	Staff        []Staff
+	Protocols    []Protocol
+	Care         []CareRound
+	Handling     []Handling
+	PPEChecks    []PPECheck
+	Weather      []Weather
+	Work         []OutdoorWork
+	Culls        []Cull
+	Deaths       []Death
+	Observations []Observation
+	Treatments   []Treatment
+	Litters      []Litter
 
 	// Present names the record files that exist in the folder (even when
 	// empty), so a check can tell "not evaluated" from "passed".
@@ -276,4 +280,56 @@ type Warning struct {
 	File    string `json:"file"`
 	Column  string `json:"column,omitempty"`
 	Message string `json:"message"`
+}
+
+// Death is a row of deaths.csv: an animal that died or was found dead (not a cull).
+type Death struct {
+	Ref            Ref
+	AnimalID       string    `csv:"animal_id,required" validate:"required,id"`
+	FoundDeadAt    time.Time `csv:"found_dead_at,required"`
+	FoundBy        string    `csv:"found_by,required" validate:"required,id"`
+	SuspectedCause string    `csv:"suspected_cause" validate:"omitempty,oneof=unknown injury disease cold heat whelping fight other"` // empty: unknown
+	VetNotifiedAt  time.Time `csv:"vet_notified_at"`                                                                                  // zero: not recorded
+	Necropsy       Bool      `csv:"necropsy"`
+	NecropsyRef    string    `csv:"necropsy_ref"`
+	Disposal       string    `csv:"disposal" validate:"omitempty,oneof=rendering incineration burial necropsy other"`
+}
+
+// Observation is a row of observations.csv: a clinical or welfare
+// observation of one animal, in SI units.
+type Observation struct {
+	Ref           Ref
+	At            time.Time `csv:"observed_at,required"`
+	AnimalID      string    `csv:"animal_id,required" validate:"required,id"`
+	StaffID       string    `csv:"staff_id,required" validate:"required,id"`
+	MassKg        *float64  `csv:"mass,unit=mass" validate:"omitempty,gt=0,lte=200"`
+	BodyCondition *int      `csv:"body_condition" validate:"omitempty,gte=1,lte=5"`
+	Signs         []string  `csv:"signs" validate:"dive,oneof=wound lameness eye_lesion skin_lesion fur_loss fur_chewing tail_biting stereotypy diarrhoea nasal_discharge lethargy inappetence other"`
+	VetInformed   Bool      `csv:"vet_informed"`
+	Notes         string    `csv:"notes"`
+}
+
+// Treatment is a row of treatments.csv: one veterinary case.
+type Treatment struct {
+	Ref          Ref
+	CaseID       string `csv:"case_id,required" validate:"required,id"`
+	AnimalID     string `csv:"animal_id,required" validate:"required,id"`
+	OpenedOn     Day    `csv:"opened_on,required" validate:"required"`
+	Diagnosis    string `csv:"diagnosis,required" validate:"required"`
+	PrescribedBy string `csv:"prescribed_by,required" validate:"required,id"`
+	ReviewedOn   Day    `csv:"reviewed_on"` // latest review by a veterinarian
+	ClosedOn     Day    `csv:"closed_on"`   // zero: open
+	Outcome      string `csv:"outcome" validate:"omitempty,oneof=recovered chronic died culled transferred"`
+}
+
+// Litter is a row of litters.csv.
+type Litter struct {
+	Ref       Ref
+	ID        string `csv:"litter_id,required" validate:"required,id"`
+	DamID     string `csv:"dam_id,required" validate:"required,id"`
+	WhelpedOn Day    `csv:"whelped_on,required" validate:"required"`
+	Born      int    `csv:"born,required" validate:"gte=0,lte=100"`
+	BornAlive *int   `csv:"born_alive" validate:"omitempty,gte=0,lte=100"`
+	WeanedOn  Day    `csv:"weaned_on"`
+	Weaned    *int   `csv:"weaned" validate:"omitempty,gte=0,lte=100"`
 }

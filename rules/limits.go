@@ -22,6 +22,8 @@ type Limits struct {
 	Protocol  ProtoLim  `yaml:"protocol" json:"protocol"`
 	Cold      Cold      `yaml:"cold" json:"cold"`
 	Juveniles Juveniles `yaml:"juveniles" json:"juveniles"`
+	Health    HealthLim `yaml:"health" json:"health"`
+	Litter    LitterLim `yaml:"litter" json:"litter"`
 }
 
 // Species is one species profile.
@@ -168,4 +170,49 @@ type WorkWarmup struct {
 type WarmupRow struct {
 	WarmestC float64  `yaml:"warmest_c" json:"warmest_c"`
 	Cells    []string `yaml:"cells" json:"cells" validate:"min=1,dive,warmup_cell"`
+}
+
+// HealthLim holds the limits of the health checks (deaths, weights, body
+// condition, signs, behaviour, veterinary cases, mortality).
+type HealthLim struct {
+	// A death must be notified to the attending veterinarian within this many hours.
+	NotifyVetWithinHours float64 `yaml:"notify_vet_within_hours" json:"notify_vet_within_hours" validate:"gt=0"`
+	// A mass at least WeightLossPct below the highest of the preceding
+	// WeightLossDays is a finding; significant at WeightLossSignificantPct.
+	WeightLossPct            float64 `yaml:"weight_loss_pct" json:"weight_loss_pct" validate:"gt=0,lt=100"`
+	WeightLossSignificantPct float64 `yaml:"weight_loss_significant_pct" json:"weight_loss_significant_pct" validate:"gt=0,lt=100"`
+	WeightLossDays           int     `yaml:"weight_loss_days" json:"weight_loss_days" validate:"gte=1"`
+	// Body condition (1-5) at or below ConditionPoorMax is poor; at or below
+	// ConditionSevereMax significant.
+	ConditionPoorMax   int `yaml:"condition_poor_max" json:"condition_poor_max" validate:"gte=1,lte=5"`
+	ConditionSevereMax int `yaml:"condition_severe_max" json:"condition_severe_max" validate:"gte=1,lte=5"`
+	// Signs that need a veterinarian, the handling purposes that answer them,
+	// within how many hours, or a case opened within how many days.
+	NeedsVet         []string `yaml:"needs_vet" json:"needs_vet" validate:"dive,code"`
+	SignsAnsweredBy  []string `yaml:"signs_answered_by" json:"signs_answered_by" validate:"dive,code"`
+	SignsAnswerHours float64  `yaml:"signs_answer_hours" json:"signs_answer_hours" validate:"gt=0"`
+	SignsCaseDays    int      `yaml:"signs_case_days" json:"signs_case_days" validate:"gte=0"`
+	// Abnormal behaviour: BehaviourCount observations with one of
+	// BehaviourSigns within BehaviourDays.
+	BehaviourSigns []string `yaml:"behaviour_signs" json:"behaviour_signs" validate:"min=1,dive,code"`
+	BehaviourCount int      `yaml:"behaviour_count" json:"behaviour_count" validate:"gte=1"`
+	BehaviourDays  int      `yaml:"behaviour_days" json:"behaviour_days" validate:"gte=1"`
+	// An open case needs a veterinarian's review at least every CaseReviewDays.
+	CaseReviewDays int          `yaml:"case_review_days" json:"case_review_days" validate:"gte=1"`
+	Mortality      MortalityLim `yaml:"mortality" json:"mortality"`
+}
+
+// MortalityLim: a building's deaths in a calendar month are high when at
+// least MinDeaths and above MonthlyPct of its mean daily population.
+type MortalityLim struct {
+	MinDeaths  int     `yaml:"min_deaths" json:"min_deaths" validate:"gte=1"`
+	MonthlyPct float64 `yaml:"monthly_pct" json:"monthly_pct" validate:"gt=0"`
+}
+
+// LitterLim holds the breeding limits.
+type LitterLim struct {
+	// MinWeaningDays by species code: young are not separated from the dam earlier.
+	MinWeaningDays map[string]int `yaml:"min_weaning_days" json:"min_weaning_days" validate:"dive,keys,code,endkeys,gte=1"`
+	// LitterLossPct: (born - weaned) / born above this is a finding.
+	LitterLossPct float64 `yaml:"litter_loss_pct" json:"litter_loss_pct" validate:"gt=0,lte=100"`
 }

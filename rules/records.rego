@@ -5,7 +5,9 @@
 #   whose bookkeeping does not match the animal's departure.
 #   Input (facility): {id, period: {from, until}, rejected: [{ref, file, line, column, value, reason, on, message}]}.
 #   Input (animal): {id, ref, species, arrived_on, left_on, left_reason, culls_recorded,
-#   outside_stay: [{on, what, ref}], culls: [{on, ref}]}.
+#   outside_stay: [{on, what, ref}], culls: [{on, ref}],
+#   deaths_recorded, left_in_period, deaths: [{on, ref, in_period, ...}]} (the death keys only on
+#   animals with health records or recorded as died in the period; see health.rego).
 # scope: package
 # custom:
 #   subjects: [facility, animal]
@@ -35,7 +37,7 @@ else := input.period.from
 
 # METADATA
 # title: Event outside the animal's stay
-# description: A handling, cull or health-concern row names an animal on a day before it arrived or after it left.
+# description: A handling, cull, health-concern or observation row names an animal on a day before it arrived or after it left (a death's day is its last).
 # custom:
 #   id: records.event.after_departure
 #   severity: significant
@@ -94,3 +96,43 @@ departure_matches(c) if {
 
 shown(x) := "(empty)" if x == null
 else := x
+
+# METADATA
+# title: Death and departure records disagree
+# description: A deaths.csv row whose animal's left_reason is not died or whose left_on is not the death's date; or the animal is recorded as died in the period with no deaths row (when deaths.csv is present).
+# custom:
+#   id: records.death.mismatch
+#   severity: minor
+#   source: common practice
+#   needs: [deaths.csv]
+findings contains f if {
+	some d in object.get(input, "deaths", [])
+	d.in_period
+	not death_matches(d)
+	f := {
+		"check": "records.death.mismatch",
+		"subject": input.id,
+		"on": d.on,
+		"message": sprintf("found dead on %s, but animals.csv says left_on %s, left_reason %s", [d.on, shown(input.left_on), shown(input.left_reason)]),
+		"evidence": [d.ref, input.ref],
+	}
+}
+
+findings contains f if {
+	object.get(input, "deaths_recorded", false)
+	object.get(input, "left_in_period", false)
+	input.left_reason == "died"
+	count(object.get(input, "deaths", [])) == 0
+	f := {
+		"check": "records.death.mismatch",
+		"subject": input.id,
+		"on": input.left_on,
+		"message": sprintf("animals.csv says died on %s, but deaths.csv has no row for this animal", [input.left_on]),
+		"evidence": [input.ref],
+	}
+}
+
+death_matches(d) if {
+	input.left_reason == "died"
+	input.left_on == d.on
+}

@@ -47,3 +47,31 @@ test_event_after_departure_fires if {
 	f.check == "records.event.after_departure"
 	f.evidence == ["handling.csv:40", "animals.csv:2"]
 }
+
+died := object.union(animal, {"left_on": "2026-01-13", "left_reason": "died", "culls": [], "deaths_recorded": true, "left_in_period": true, "deaths": [{"on": "2026-01-13", "ref": "deaths.csv:2", "in_period": true}]})
+
+test_matching_death_is_quiet if {
+	count(records.findings) == 0 with input as died
+}
+
+test_death_of_an_animal_recorded_as_culled_fires if {
+	some f in records.findings with input as object.union(died, {"left_reason": "culled", "culls": [{"on": "2026-01-13", "ref": "culls.csv:2"}]})
+	f.check == "records.death.mismatch"
+	f.evidence == ["deaths.csv:2", "animals.csv:2"]
+}
+
+test_death_on_another_day_fires if {
+	some f in records.findings with input as object.union(died, {"left_on": "2026-01-14"})
+	f.check == "records.death.mismatch"
+	f.on == "2026-01-13"
+}
+
+test_died_without_death_row_fires if {
+	some f in records.findings with input as object.union(died, {"deaths": []})
+	f.check == "records.death.mismatch"
+	f.on == "2026-01-13"
+}
+
+test_died_without_deaths_file_is_not_judged if {
+	count(records.findings) == 0 with input as object.union(died, {"deaths": [], "deaths_recorded": false})
+}

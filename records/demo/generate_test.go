@@ -333,11 +333,15 @@ func generate() (*scenario, error) {
 	s := &scenario{how: map[string][]string{}}
 	rng := rand.New(rand.NewPCG(20260101, 42)) // fixed seed: the demo must be reproducible
 	s.buildStation()
+	h := s.buildHealth()
 	s.buildWeather(rng)
 	s.buildStaff()
 	s.buildRounds()
 	s.buildStints()
 	if err := s.writeTables(); err != nil {
+		return nil, err
+	}
+	if err := s.writeHealthTables(h); err != nil {
 		return nil, err
 	}
 	s.evaluate()
