@@ -43,7 +43,8 @@ const (
 // Files lists the record files a folder may hold, facility.yaml first, then
 // the CSV files in the order of the records contract.
 var Files = []string{facilityFile, animalsFile, enclosuresFile, housingFile, staffFile, protocolsFile,
-	careFile, handlingFile, ppeFile, weatherFile, workFile, cullsFile}
+	careFile, handlingFile, ppeFile, weatherFile, workFile, cullsFile,
+	environmentFile}
 
 func fileOrder(name string) int {
 	if i := slices.Index(Files, name); i >= 0 {
@@ -493,6 +494,7 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	wg.Go(func() { ld.weather = loadFile(fsys, weatherSpec, e) })
 	wg.Go(func() { ld.work = loadFile(fsys, workSpec, e) })
 	wg.Go(func() { ld.culls = loadFile(fsys, cullSpec, e) })
+	wg.Go(func() { ld.environment = loadFile(fsys, environmentSpec, e) })
 	wg.Wait()
 
 	ld.crossCheck(&fac)
@@ -508,6 +510,8 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	collect(s, ld.weather)
 	collect(s, ld.work)
 	collect(s, ld.culls)
+	collect(s, ld.environment)
+	s.Environment = ld.environment.rows
 	s.Animals, s.Enclosures, s.Housing = ld.animals.rows, ld.enclosures.rows, ld.housing.rows
 	s.Staff, s.Protocols, s.Care, s.Handling = ld.staff.rows, ld.protocols.rows, ld.care.rows, ld.handling.rows
 	s.PPEChecks, s.Weather, s.Work, s.Culls = ld.ppe.rows, ld.weather.rows, ld.work.rows, ld.culls.rows
@@ -528,6 +532,12 @@ func collect[T any](s *Set, l *loaded[T]) {
 		return
 	}
 	s.Present[l.spec.name] = true
+	if l.plan != nil {
+		if s.Columns == nil {
+			s.Columns = map[string][]string{}
+		}
+		s.Columns[l.spec.name] = l.plan.columns()
+	}
 	s.Accounting = append(s.Accounting, l.count)
 	s.Problems = append(s.Problems, l.problems...)
 	s.Warnings = append(s.Warnings, l.warnings...)

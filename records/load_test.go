@@ -71,6 +71,7 @@ func mustLoad(t *testing.T, fsys fs.FS) *Set {
 		handlingFile: len(s.Handling), ppeFile: len(s.PPEChecks), weatherFile: len(s.Weather),
 		workFile: len(s.Work), cullsFile: len(s.Culls),
 	}
+	lens[environmentFile] = len(s.Environment)
 	rowProblems := map[string]int{}
 	for _, p := range s.Problems {
 		if p.Line > 1 {

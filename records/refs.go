@@ -19,6 +19,8 @@ type loadedSet struct {
 	work       *loaded[OutdoorWork]
 	culls      *loaded[Cull]
 	extra      []Problem // file-level problems that belong to no file read (a missing staff.csv)
+
+	environment *loaded[EnvironmentReading]
 }
 
 // index is the set of accepted ids of one file, with what is known about
@@ -143,6 +145,8 @@ func rowRef(r any) Ref {
 		return r.Ref
 	case *Cull:
 		return r.Ref
+	case interface{ rowRef() Ref }:
+		return r.rowRef()
 	}
 	return ""
 }
@@ -246,6 +250,7 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 	ld.culls.keep(func(c *Cull) *cellError {
 		return ld.culls.refs(ref{"AnimalID", c.AnimalID, animals}, ref{"StaffID", c.StaffID, staff}, protoRef("ProtocolID", c.ProtocolID))
 	})
+	ld.environmentRefs(buildings)
 }
 
 // staffRequired reports a missing staff.csv when any accepted row names a
