@@ -128,6 +128,7 @@ func (f *facts) siteHeatFacts(byDay map[string][]heatDay) {
 				days = append(days, heatDayDoc(f.period.From+records.Day(i), hd))
 			}
 		}
+		annotateHeatRuns(days, f.lim.Heat.DangerHeatIndexC)
 		f.doc("site", id)["heat"] = map[string]any{
 			"readings_recorded": f.set.Present["weather.csv"],
 			"days":              days,
@@ -163,6 +164,7 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay) {
 				days = append(days, m)
 			}
 		}
+		annotateHeatRuns(days, hot)
 		f.doc("enclosure", e.ID)["heat"] = map[string]any{
 			"exposure":       b.Exposure,
 			"weather_site":   nilIfEmpty(b.WeatherSite),
@@ -170,5 +172,51 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay) {
 			"shade_recorded": e.Shade != records.NotRecorded,
 			"hot_days":       days,
 		}
+	}
+}
+
+// annotateHeatRuns gives every day whose maximum heat index reaches limit
+// the figures of its run of consecutive such days ("run"; null on other
+// days): the run's hottest day and the days in it without humidity. A run
+// finding keeps its first day's message, so the message must speak for the
+// whole run.
+func annotateHeatRuns(days []any, limit float64) {
+	in := func(i int) bool { return days[i].(map[string]any)["max_heat_index_c"].(float64) >= limit }
+	day := func(i int) records.Day {
+		d, _ := records.ParseDay(days[i].(map[string]any)["on"].(string))
+		return d
+	}
+	for i := 0; i < len(days); i++ {
+		if !in(i) {
+			days[i].(map[string]any)["run"] = nil
+			continue
+		}
+		j := i
+		for j+1 < len(days) && in(j+1) && day(j+1) == day(j)+1 {
+			j++
+		}
+		hottest := days[i].(map[string]any)
+		noHumidity := []any{}
+		for k := i; k <= j; k++ {
+			m := days[k].(map[string]any)
+			if m["max_heat_index_c"].(float64) > hottest["max_heat_index_c"].(float64) {
+				hottest = m
+			}
+			if !m["humidity_recorded"].(bool) {
+				noHumidity = append(noHumidity, m["on"])
+			}
+		}
+		run := map[string]any{
+			"from": days[i].(map[string]any)["on"], "until": days[j].(map[string]any)["on"], "days": j - i + 1,
+			"hottest_on": hottest["on"], "max_heat_index_c": hottest["max_heat_index_c"],
+			"max_heat_index_f": hottest["max_heat_index_f"], "band_wording": hottest["band_wording"],
+			"peak_at": hottest["peak_at"], "peak_air_c": hottest["peak_air_c"],
+			"peak_humidity_pct": hottest["peak_humidity_pct"], "humidity_recorded": hottest["humidity_recorded"],
+			"days_without_humidity": noHumidity,
+		}
+		for k := i; k <= j; k++ {
+			days[k].(map[string]any)["run"] = run
+		}
+		i = j
 	}
 }

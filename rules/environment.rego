@@ -36,7 +36,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": s.from,
 		"until": s.until,
-		"message": sprintf("air %s the %v–%v °C range for %s for %.1f h (%s to %s%s; peak %v °C); more than %v h in a row is too long", [s.direction, s.min_c, s.max_c, s.species, s.hours, s.started_at, s.ended_at, back(s), s.peak_c, lim.hours_outside]),
+		"message": sprintf("air %s the %v–%v °C range for %s for %v h (%s to %s%s; peak %v °C); more than %v h in a row is too long", [s.direction, s.min_c, s.max_c, s.species, round(s.hours * 10) / 10, s.started_at, s.ended_at, back(s), s.peak_c, lim.hours_outside]),
 		"evidence": s.evidence,
 	}
 }

@@ -10,7 +10,12 @@
 #   compare their figures against data.limits.heat again and word the messages.
 #   DAY = {on, readings, max_air_c, max_heat_index_c, max_heat_index_f, band (none, caution,
 #     extreme_caution, danger, extreme_danger), band_wording, peak_at, peak_air_c,
-#     peak_humidity_pct, humidity_recorded, readings_without_humidity, evidence}.
+#     peak_humidity_pct, humidity_recorded, readings_without_humidity, evidence, run}.
+#   run: null, or the figures of the day's run of consecutive days at or above the check's
+#     limit (danger_heat_index_c for sites, hot_day_c for enclosures): {from, until, days,
+#     hottest_on, max_heat_index_c, max_heat_index_f, band_wording, peak_at, peak_air_c,
+#     peak_humidity_pct, humidity_recorded, days_without_humidity: [day]}. A run finding keeps
+#     its first day's message, so messages describe the run.
 #   Input (site): {id, heat: {readings_recorded, days: [DAY]}} (every day with readings).
 #   Input (enclosure, outdoor or sheltered buildings only): {id, ref, ..., heat: {exposure,
 #     weather_site, shade, shade_recorded, hot_days: [DAY + water_checks]}} (occupied days whose
@@ -24,10 +29,26 @@ package welfare.heat
 
 lim := data.limits.heat
 
-# humidity_note says when the air temperature stood in for the heat index.
-humidity_note(d) := "" if d.humidity_recorded
+# run_text describes the hottest moment of a run of hot days, in the NWS band, and says on
+# which days the air temperature stood for the heat index because no humidity was recorded.
+run_text(r) := sprintf("hottest %s: heat index %v °C (%v °F), NWS %s, at %s (air %v °C, humidity %s)%s", [r.hottest_on, round(r.max_heat_index_c * 10) / 10, round(r.max_heat_index_f), r.band_wording, r.peak_at, r.peak_air_c, pct(r.peak_humidity_pct), humidity_note(r)])
 
-else := " (no humidity recorded at the hottest reading: the air temperature stands for the heat index)"
+# run_of is the day's run; a day given without one stands as a run of one day.
+run_of(d) := d.run if d.run != null
+
+else := {
+	"days": 1, "hottest_on": d.on, "max_heat_index_c": d.max_heat_index_c, "max_heat_index_f": d.max_heat_index_f,
+	"band_wording": d.band_wording, "peak_at": d.peak_at, "peak_air_c": d.peak_air_c,
+	"peak_humidity_pct": d.peak_humidity_pct, "days_without_humidity": no_humidity(d),
+}
+
+no_humidity(d) := [] if d.humidity_recorded
+
+else := [d.on]
+
+humidity_note(r) := "" if count(r.days_without_humidity) == 0
+
+else := sprintf("; no humidity recorded on %s: the air temperature stands for the heat index there", [concat(", ", r.days_without_humidity)])
 
 # METADATA
 # title: Too few water checks on a hot day
@@ -68,7 +89,7 @@ findings contains f if {
 		"check": "heat.shade.missing",
 		"subject": input.id,
 		"on": d.on,
-		"message": sprintf("%s on a day with heat index up to %.1f °C (%s, %s)%s; from %v °C outdoor animals need shade from direct sun", [shade_text(input.heat), d.max_heat_index_c, d.band_wording, d.peak_at, humidity_note(d), lim.hot_day_c]),
+		"message": sprintf("%s on %d day(s) with heat index at or above %v °C; %s; outdoor animals need shade from direct sun", [shade_text(input.heat), run_of(d).days, lim.hot_day_c, run_text(run_of(d))]),
 		"evidence": d.evidence,
 	}
 }
@@ -93,7 +114,7 @@ findings contains f if {
 		"check": "heat.danger",
 		"subject": input.id,
 		"on": d.on,
-		"message": sprintf("heat index up to %.1f °C (%.0f °F) at %s, NWS band %s (air %v °C, humidity %s)%s", [d.max_heat_index_c, d.max_heat_index_f, d.peak_at, d.band_wording, d.peak_air_c, pct(d.peak_humidity_pct), humidity_note(d)]),
+		"message": sprintf("heat index at or above %v °C on %d day(s); %s", [lim.danger_heat_index_c, run_of(d).days, run_text(run_of(d))]),
 		"evidence": d.evidence,
 	}
 }

@@ -10,8 +10,16 @@ day(air, hi) := {
 	"max_heat_index_f": (hi * 1.8) + 32, "band": "extreme_caution", "band_wording": "extreme caution",
 	"peak_at": "2026-07-14 15:00", "peak_air_c": air, "peak_humidity_pct": 55,
 	"humidity_recorded": true, "readings_without_humidity": 0,
-	"evidence": ["enclosures.csv:4", "weather.csv:120"],
+	"evidence": ["enclosures.csv:4", "weather.csv:120"], "run": null,
 }
+
+# in_run puts a day in a run of three days whose hottest day had no humidity recorded.
+in_run(d) := object.union(d, {"run": {
+	"from": "2026-07-14", "until": "2026-07-16", "days": 3, "hottest_on": "2026-07-16",
+	"max_heat_index_c": 35, "max_heat_index_f": 95, "band_wording": "extreme caution",
+	"peak_at": "2026-07-16 15:00", "peak_air_c": 35, "peak_humidity_pct": null, "humidity_recorded": false,
+	"days_without_humidity": ["2026-07-16"],
+}})
 
 hot_day(air, hi, checks) := object.union(day(air, hi), {"water_checks": checks})
 
@@ -47,8 +55,8 @@ test_two_water_checks_is_quiet if {
 test_no_shade_at_heat_index_exactly_25_fires if {
 	some f in heat.findings with input as enc({"hot_days": [hot_day(24.9, 25, 2)]})
 	f.check == "heat.shade.missing"
-	contains(f.message, "enclosure recorded without shade")
-	contains(f.message, "extreme caution")
+	contains(f.message, "enclosure recorded without shade on 1 day(s) with heat index at or above 25 °C")
+	contains(f.message, "NWS extreme caution")
 }
 
 test_no_shade_just_below_25_is_quiet if {
@@ -73,7 +81,18 @@ test_no_humidity_says_air_temperature_stands if {
 	d := object.union(hot_day(27, 27, 2), {"humidity_recorded": false, "peak_humidity_pct": null})
 	some f in heat.findings with input as enc({"hot_days": [d]})
 	f.check == "heat.shade.missing"
-	contains(f.message, "the air temperature stands for the heat index")
+	contains(f.message, "no humidity recorded on 2026-07-14: the air temperature stands for the heat index")
+}
+
+# A run finding keeps its first day's message: it names the run's hottest day and the days
+# without humidity even when the first day had humidity.
+test_run_message_speaks_for_the_run if {
+	some f in heat.findings with input as site([in_run(day(30, 33))])
+	f.check == "heat.danger"
+	contains(f.message, "on 3 day(s)")
+	contains(f.message, "hottest 2026-07-16: heat index 35 °C (95 °F), NWS extreme caution")
+	contains(f.message, "humidity not recorded")
+	contains(f.message, "no humidity recorded on 2026-07-16")
 }
 
 # Danger note: heat index from 32 °C (NWS extreme caution).
@@ -81,7 +100,7 @@ test_heat_index_exactly_32_fires if {
 	some f in heat.findings with input as site([day(30, 32)])
 	f.check == "heat.danger"
 	f.subject == "MAST"
-	contains(f.message, "NWS band extreme caution")
+	contains(f.message, "NWS extreme caution")
 	contains(f.message, "humidity 55 %")
 }
 

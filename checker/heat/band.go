@@ -21,7 +21,7 @@ type Band struct {
 // chart bands, 80/90/103/125 °F, and the °C figures NWS gives beside them
 // (27/32/39/52 °C).
 var bands = [...]Band{
-	{Level: 0, Label: "none", Wording: "below caution", FromC: math.Inf(-1), FromF: math.Inf(-1)},
+	{Level: 0, Label: "none", Wording: "below the caution band", FromC: math.Inf(-1), FromF: math.Inf(-1)},
 	{Level: 1, Label: "caution", Wording: "caution", FromC: 27, FromF: 80},
 	{Level: 2, Label: "extreme_caution", Wording: "extreme caution", FromC: 32, FromF: 90},
 	{Level: 3, Label: "danger", Wording: "danger", FromC: 39, FromF: 103},
