@@ -16,7 +16,7 @@ var commands = []struct{ name, usage, summary string }{
 		"Read a records folder, print the row accounting and every rejected row with file, line, column and reason."},
 	{"check", "welfare check [flags] RECORDS",
 		"Check the records against the rules and limits; print a summary and write JSON, CSV and PDF reports."},
-	{"demo", "welfare demo [DIR]",
+	{"demo", "welfare demo [--season winter|summer] [DIR]",
 		"Write the built-in demo records (an invented station) to DIR (default welfare-demo) and check them."},
 	{"rules", "welfare rules list|test [--rules DIR]... [--rules-only]",
 		"List the checks in force with their sources, or run the rules' own tests."},
