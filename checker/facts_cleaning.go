@@ -58,8 +58,8 @@ func (f *facts) cleaningFacts() {
 		e := &f.set.Enclosures[i]
 		var first records.Day
 		var days []records.Day
-		refOf := map[records.Day]records.Ref{}
-		for _, ix := range []*index{enc[e.ID], bld[e.BuildingID]} {
+		own, shared := enc[e.ID], bld[e.BuildingID]
+		for _, ix := range []*index{own, shared} {
 			if ix == nil {
 				continue
 			}
@@ -67,11 +67,19 @@ func (f *facts) cleaningFacts() {
 				first = ix.first
 			}
 			days = append(days, ix.cleaned...)
-			for d, r := range ix.ref {
-				if old, ok := refOf[d]; !ok || r < old {
-					refOf[d] = r
+		}
+		// refOf is the first round (by ref) that cleaned the enclosure on d.
+		refOf := func(d records.Day) records.Ref {
+			var best records.Ref
+			for _, ix := range []*index{own, shared} {
+				if ix == nil {
+					continue
+				}
+				if r, ok := ix.ref[d]; ok && (best == "" || r < best) {
+					best = r
 				}
 			}
+			return best
 		}
 		sort.Slice(days, func(i, j int) bool { return days[i] < days[j] })
 		gaps := []any{}
@@ -108,7 +116,7 @@ func (f *facts) cleaningFacts() {
 				if next == 0 {
 					break
 				}
-				from, fromRef, kind = next, refOf[next], "cleaned"
+				from, fromRef, kind = next, refOf(next), "cleaned"
 				for k < len(days) && days[k] == from {
 					k++
 				}
