@@ -26,8 +26,7 @@ func init() { domainFacts = append(domainFacts, (*facts).cleaningFacts) }
 func (f *facts) cleaningFacts() {
 	type index struct {
 		first   records.Day
-		cleaned []records.Day
-		ref     map[records.Day]records.Ref
+		cleaned []*records.CareRound // sorted by day, then ref
 	}
 	enc, bld := map[string]*index{}, map[string]*index{}
 	for i := range f.set.Care {
@@ -41,17 +40,22 @@ func (f *facts) cleaningFacts() {
 		}
 		ix := m[id]
 		if ix == nil {
-			ix = &index{ref: map[records.Day]records.Ref{}}
+			ix = &index{}
 			m[id] = ix
 		}
 		if ix.first == 0 || r.Day < ix.first {
 			ix.first = r.Day
 		}
 		if r.Cleaned.IsYes() {
-			ix.cleaned = append(ix.cleaned, r.Day)
-			if old, ok := ix.ref[r.Day]; !ok || r.Ref < old {
-				ix.ref[r.Day] = r.Ref
-			}
+			ix.cleaned = append(ix.cleaned, r)
+		}
+	}
+	for _, m := range []map[string]*index{enc, bld} {
+		for _, ix := range m {
+			sort.Slice(ix.cleaned, func(i, j int) bool {
+				a, b := ix.cleaned[i], ix.cleaned[j]
+				return a.Day < b.Day || (a.Day == b.Day && a.Ref < b.Ref)
+			})
 		}
 	}
 	for i := range f.set.Enclosures {
@@ -66,7 +70,9 @@ func (f *facts) cleaningFacts() {
 			if first == 0 || ix.first < first {
 				first = ix.first
 			}
-			days = append(days, ix.cleaned...)
+			for _, r := range ix.cleaned {
+				days = append(days, r.Day)
+			}
 		}
 		// refOf is the first round (by ref) that cleaned the enclosure on d.
 		refOf := func(d records.Day) records.Ref {
@@ -75,8 +81,9 @@ func (f *facts) cleaningFacts() {
 				if ix == nil {
 					continue
 				}
-				if r, ok := ix.ref[d]; ok && (best == "" || r < best) {
-					best = r
+				k := sort.Search(len(ix.cleaned), func(k int) bool { return ix.cleaned[k].Day >= d })
+				if k < len(ix.cleaned) && ix.cleaned[k].Day == d && (best == "" || ix.cleaned[k].Ref < best) {
+					best = ix.cleaned[k].Ref
 				}
 			}
 			return best
