@@ -93,7 +93,7 @@ func (f *facts) environmentFacts() {
 			if cur == nil || d != curDay {
 				cur, curDay = map[string]any{
 					"on": d.String(), "readings": 0, "humidity_pct": []any{}, "humidity_refs": []any{},
-					"max_ammonia_ppm": nil, "ammonia_ref": nil,
+					"min_humidity_pct": nil, "max_humidity_pct": nil, "max_ammonia_ppm": nil, "ammonia_ref": nil,
 				}, d
 				days = append(days, cur)
 			}
@@ -101,6 +101,12 @@ func (f *facts) environmentFacts() {
 			if r.HumidityPct != nil && b.Exposure == "indoor" {
 				cur["humidity_pct"] = append(cur["humidity_pct"].([]any), *r.HumidityPct)
 				cur["humidity_refs"] = append(cur["humidity_refs"].([]any), string(r.Ref))
+				if lo, ok := cur["min_humidity_pct"].(float64); !ok || *r.HumidityPct < lo {
+					cur["min_humidity_pct"] = *r.HumidityPct
+				}
+				if hi, ok := cur["max_humidity_pct"].(float64); !ok || *r.HumidityPct > hi {
+					cur["max_humidity_pct"] = *r.HumidityPct
+				}
 			}
 			if r.AmmoniaPpm != nil {
 				if m, ok := cur["max_ammonia_ppm"].(float64); !ok || *r.AmmoniaPpm > m {

@@ -5,7 +5,8 @@
 #   Input (building, indoor or sheltered): {id, ref, exposure, environment: {readings_recorded,
 #     temperature: [{species, min_c, max_c, from, until, started_at, ended_at, hours,
 #       back_in_range, direction, peak_c, evidence}],
-#     days: [{on, readings, humidity_pct: [number], humidity_refs: [ref],
+#     days: [{on, readings, humidity_pct: [number], humidity_refs: [ref], min_humidity_pct,
+#       max_humidity_pct (null when none recorded),
 #       max_ammonia_ppm (null when none recorded), ammonia_ref}]}}.
 #   temperature lists, for each species housed there with an indoor_temp_c range, the spells of
 #   consecutive readings outside the range while the species was housed there: from the first
