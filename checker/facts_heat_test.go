@@ -269,3 +269,66 @@ func TestCleaningNotEvaluatedWithoutColumn(t *testing.T) {
 		t.Errorf("not evaluated (-want +got):\n%s", diff)
 	}
 }
+
+func TestEnvironmentDays(t *testing.T) {
+	f := newFacts(summerSet(true), coldLimits(t), summerPeriod)
+	f.environmentFacts()
+	env := f.docs["building"]["KB"]["environment"].(map[string]any)
+	type row struct {
+		On       string
+		Readings int
+		MinRH    any
+		MaxRH    any
+		NH3      any
+		NH3Ref   any
+	}
+	var got []row
+	for _, d := range env["days"].([]any) {
+		m := d.(map[string]any)
+		got = append(got, row{m["on"].(string), m["readings"].(int), m["min_humidity_pct"], m["max_humidity_pct"], m["max_ammonia_ppm"], m["ammonia_ref"]})
+	}
+	want := []row{
+		{"2026-07-14", 5, 55.0, 75.0, 12.0, "environment.csv:6"},
+		{"2026-07-15", 2, 50.0, 50.0, 30.0, "environment.csv:8"},
+	}
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("KB days (-want +got):\n%s", diff)
+	}
+	if d := f.docs["building"]["KB"]; d["ref"] != "facility.yaml:9" || d["exposure"] != "indoor" {
+		t.Errorf("KB document = %v", d)
+	}
+	if _, ok := f.docs["building"]["SHED-S"]; ok {
+		t.Error("an outdoor building has inside-building facts")
+	}
+}
+
+func TestEnclosureHotDays(t *testing.T) {
+	f := newFacts(summerSet(true), coldLimits(t), summerPeriod)
+	f.heatFacts()
+	type row struct {
+		On     string
+		Checks int
+		RunOf  int
+	}
+	got := map[string][]row{}
+	for _, id := range []string{"S-01", "S-02"} {
+		sec := f.docs["enclosure"][id]["heat"].(map[string]any)
+		for _, d := range sec["hot_days"].([]any) {
+			m := d.(map[string]any)
+			got[id] = append(got[id], row{m["on"].(string), m["water_checks"].(int), m["run"].(map[string]any)["days"].(int)})
+		}
+	}
+	// hot_day_c 25 (common practice): 07-14 and 07-15 are hot, 07-13 (24 °C,
+	// heat index 23.5 °C) is not. S-01: a building round and its own round
+	// record water; S-02's own round writes not_checked.
+	want := map[string][]row{
+		"S-01": {{"2026-07-14", 2, 2}, {"2026-07-15", 2, 2}},
+		"S-02": {{"2026-07-14", 1, 2}, {"2026-07-15", 1, 2}},
+	}
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("hot days (-want +got):\n%s", diff)
+	}
+	if _, ok := f.docs["enclosure"]["K-01"]["heat"]; ok {
+		t.Error("an indoor enclosure has hot-day facts")
+	}
+}
