@@ -9,6 +9,7 @@ package demo
 // shaped like a prairie July but is not any real station's record.
 
 import (
+	"bytes"
 	"fmt"
 	"math"
 	"os"
@@ -18,6 +19,8 @@ import (
 	"time"
 
 	"welfare/checker/heat"
+	"welfare/records"
+	"welfare/rules"
 )
 
 const (
@@ -384,5 +387,37 @@ func TestSummerScenarioMargins(t *testing.T) {
 	// The planted water check needs a hot day by air temperature (hot_day_c 25).
 	if s.maxAir[15] < 25 {
 		t.Errorf("July 15 maximum air %.1f °C is not a hot day", s.maxAir[15])
+	}
+}
+
+// TestSummerDemoLoads: the embedded summer folder loads with the default
+// limits' species, every row accepted, nothing left over as a warning, and
+// the warm-season columns read.
+func TestSummerDemoLoads(t *testing.T) {
+	lim, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	set, err := records.Load(Seasons["summer"].FS(), records.Options{Species: lim.SpeciesCodes()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(set.Problems) > 0 || len(set.Warnings) > 0 {
+		t.Errorf("problems %v, warnings %v", set.Problems, set.Warnings)
+	}
+	for _, c := range set.Accounting {
+		if c.Rejected != 0 || c.Read != c.Accepted {
+			t.Errorf("%+v", c)
+		}
+	}
+	if len(set.Environment) != julyDays*(24+8) || !set.HasColumn("daily_care.csv", "cleaned") || !set.HasColumn("weather.csv", "humidity_pct") {
+		t.Errorf("environment readings %d, columns %v", len(set.Environment), set.Columns)
+	}
+	shade := map[string]records.Bool{}
+	for _, e := range set.Enclosures {
+		shade[e.ID] = e.Shade
+	}
+	if shade["S1-01"] != records.Yes || shade["S4-01"] != records.No || shade["MB-01"] != records.NotRecorded {
+		t.Errorf("shade = %v", shade)
 	}
 }
