@@ -193,7 +193,7 @@ func generateSummer() *summerScenario {
 			if d == 27 && h == 6 {
 				nh3 = 31 // planted: ammonia peak in the mink barn
 			}
-			env.add(stamp(july(d, h, 0)), "MB", num(julyMax[d-1]-3+float64(h%6)/2, 1), num(70+float64(h%5), 0), num(nh3, 0))
+			env.add(stamp(july(d, h, 0)), "MB", num(julyMax[d-1]-8+6*math.Sin(math.Pi*float64(h)/24), 1), num(70+float64(h%5), 0), num(nh3, 0))
 		}
 	}
 	s.tables = []*table{an, en, st, dc, wx, env}
