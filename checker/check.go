@@ -79,8 +79,8 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		}
 		var missing []string
 		for _, file := range c.Needs {
-			if !set.Present[file] {
-				missing = append(missing, file)
+			if what, ok := needMet(set, file); !ok {
+				missing = append(missing, what)
 			}
 		}
 		if len(missing) > 0 {

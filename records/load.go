@@ -48,7 +48,7 @@ const (
 // the CSV files in the order of the records contract.
 var Files = []string{facilityFile, animalsFile, enclosuresFile, housingFile, staffFile, protocolsFile,
 	careFile, handlingFile, ppeFile, weatherFile, workFile, cullsFile,
-	deathsFile, observationsFile, treatmentsFile, littersFile}
+	deathsFile, observationsFile, treatmentsFile, littersFile, environmentFile}
 
 func fileOrder(name string) int {
 	if i := slices.Index(Files, name); i >= 0 {
@@ -502,6 +502,7 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	wg.Go(func() { ld.observations = loadFile(fsys, observationSpec, e) })
 	wg.Go(func() { ld.treatments = loadFile(fsys, treatmentSpec, e) })
 	wg.Go(func() { ld.litters = loadFile(fsys, litterSpec, e) })
+	wg.Go(func() { ld.environment = loadFile(fsys, environmentSpec, e) })
 	wg.Wait()
 
 	ld.crossCheck(&fac)
@@ -521,6 +522,8 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	collect(s, ld.observations)
 	collect(s, ld.treatments)
 	collect(s, ld.litters)
+	collect(s, ld.environment)
+	s.Environment = ld.environment.rows
 	s.Animals, s.Enclosures, s.Housing = ld.animals.rows, ld.enclosures.rows, ld.housing.rows
 	s.Staff, s.Protocols, s.Care, s.Handling = ld.staff.rows, ld.protocols.rows, ld.care.rows, ld.handling.rows
 	s.PPEChecks, s.Weather, s.Work, s.Culls = ld.ppe.rows, ld.weather.rows, ld.work.rows, ld.culls.rows
@@ -542,6 +545,12 @@ func collect[T any](s *Set, l *loaded[T]) {
 		return
 	}
 	s.Present[l.spec.name] = true
+	if l.plan != nil {
+		if s.Columns == nil {
+			s.Columns = map[string][]string{}
+		}
+		s.Columns[l.spec.name] = l.plan.columns()
+	}
 	s.Accounting = append(s.Accounting, l.count)
 	s.Problems = append(s.Problems, l.problems...)
 	s.Warnings = append(s.Warnings, l.warnings...)

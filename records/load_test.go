@@ -73,6 +73,7 @@ func mustLoad(t *testing.T, fsys fs.FS) *Set {
 		deathsFile: len(s.Deaths), observationsFile: len(s.Observations), treatmentsFile: len(s.Treatments),
 		littersFile: len(s.Litters),
 	}
+	lens[environmentFile] = len(s.Environment)
 	rowProblems := map[string]int{}
 	for _, p := range s.Problems {
 		if p.Line > 1 {

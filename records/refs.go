@@ -22,6 +22,7 @@ type loadedSet struct {
 	observations *loaded[Observation]
 	treatments   *loaded[Treatment]
 	litters      *loaded[Litter]
+	environment  *loaded[EnvironmentReading]
 	extra        []Problem // file-level problems that belong to no file read (a missing staff.csv)
 }
 
@@ -155,6 +156,8 @@ func rowRef(r any) Ref {
 		return r.Ref
 	case *Litter:
 		return r.Ref
+	case interface{ rowRef() Ref }:
+		return r.rowRef()
 	}
 	return ""
 }
@@ -259,6 +262,7 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 		return ld.culls.refs(ref{"AnimalID", c.AnimalID, animals}, ref{"StaffID", c.StaffID, staff}, protoRef("ProtocolID", c.ProtocolID))
 	})
 	ld.crossCheckHealth(animals, staff)
+	ld.environmentRefs(buildings)
 }
 
 // staffRequired reports a missing staff.csv when any accepted row names a

@@ -52,10 +52,15 @@ type Set struct {
 	Observations []Observation
 	Treatments   []Treatment
 	Litters      []Litter
+	// Environment are the readings of environment.csv.
+	Environment []EnvironmentReading
 
 	// Present names the record files that exist in the folder (even when
 	// empty), so a check can tell "not evaluated" from "passed".
 	Present map[string]bool
+	// Columns lists, per file read, the columns it had (SI names), so a
+	// check can tell a column never recorded from a column left empty.
+	Columns map[string][]string
 	// Accounting has one entry per file read, in a stable order.
 	Accounting []FileCount
 	// Problems are the rejected rows and file-level errors, in file then line order.
@@ -121,6 +126,7 @@ type Enclosure struct {
 	MaxOccupants int      `csv:"max_occupants" validate:"omitempty,gte=1"`
 	NestBox      Bool     `csv:"nest_box"`
 	Platform     Bool     `csv:"platform"`
+	Shade        Bool     `csv:"shade"` // outdoor enclosure shaded from direct sun
 }
 
 // Area is the usable floor area in m²: floor_area_m2 when given, else length × width.
@@ -234,6 +240,8 @@ type Weather struct {
 	SiteID   string    `csv:"site_id,required" validate:"required,id"`
 	AirTempC float64   `csv:"air_temp,unit=temperature,required" validate:"gte=-80,lte=60"`
 	WindKmh  *float64  `csv:"wind,unit=speed" validate:"omitempty,gte=0,lte=250"`
+	// HumidityPct is the relative humidity, for the heat index.
+	HumidityPct *float64 `csv:"humidity_pct" validate:"omitempty,gte=0,lte=100"`
 }
 
 // OutdoorWork is a row of outdoor_work.csv: one continuous outdoor stint.

@@ -115,3 +115,35 @@ else := ""
 
 answered_refs(c) := [c.answered_ref] if c.answered_ref != null
 else := []
+
+# METADATA
+# title: Cleaning overdue
+# description: An occupied enclosure had no round with cleaned yes for more than clean_every_days, counted from the later of its first care round and the start of its occupancy. Not evaluated when daily_care.csv has no cleaned column.
+# custom:
+#   id: care.cleaning.overdue
+#   severity: minor
+#   source: "9 CFR §3.11(b)(2): primary enclosures for dogs sanitized at least every 2 weeks; other species facility choice"
+#   needs: ["daily_care.csv:cleaned"]
+findings contains f if {
+	some g in input.cleaning.gaps
+	n := data.limits.care.clean_every_days
+	g.days > n
+	due := time.format([time.add_date(time.parse_ns("2006-01-02", g.from), 0, 0, n + 1), "UTC", "2006-01-02"])
+	f := {
+		"check": "care.cleaning.overdue",
+		"subject": input.id,
+		"on": later(due, g.period_from),
+		"message": sprintf("no cleaning recorded for more than %d days: %s, %d day(s) without one up to %s", [n, since_text(g), g.days, g.until]),
+		"evidence": g.evidence,
+	}
+}
+
+later(a, b) := a if a >= b
+
+else := b
+
+since_text(g) := sprintf("last cleaned %s", [g.from]) if g.since == "cleaned"
+
+else := sprintf("none since the first care round on %s", [g.from]) if g.since == "first_round"
+
+else := sprintf("none since the enclosure was occupied on %s", [g.from])

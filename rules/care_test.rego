@@ -61,3 +61,28 @@ test_concern_never_answered_fires if {
 	some f in care.findings with input as enc({"concerns": [{"on": "2026-01-09", "ref": "daily_care.csv:80", "animal": null, "answered_ref": null, "answered_after_hours": null}]})
 	f.evidence == ["daily_care.csv:80"]
 }
+
+# Cleaning: more than 14 days without a round with cleaned yes (9 CFR §3.11(b)(2)
+# for dogs: at least every 2 weeks).
+gap(from, until, days, since) := {"enclosure": {"kind": "enclosure", "id": "K-01", "ref": "enclosures.csv:30", "cleaning": {"rounds_recorded": true, "gaps": [{
+	"from": from, "until": until, "days": days, "since": since, "period_from": "2026-07-01",
+	"evidence": ["enclosures.csv:30", "daily_care.csv:100"],
+}]}}}
+
+test_cleaning_gap_of_14_days_is_quiet if {
+	count(care.findings) == 0 with input as gap("2026-07-02", "2026-07-16", 14, "cleaned").enclosure
+}
+
+test_cleaning_gap_of_15_days_fires_on_the_15th if {
+	some f in care.findings with input as gap("2026-07-02", "2026-07-17", 15, "cleaned").enclosure
+	f.check == "care.cleaning.overdue"
+	f.on == "2026-07-17"
+	not f.until
+	contains(f.message, "last cleaned 2026-07-02")
+}
+
+test_cleaning_gap_from_before_the_period_starts_on_the_first_day if {
+	some f in care.findings with input as gap("2026-06-01", "2026-07-10", 39, "first_round").enclosure
+	f.on == "2026-07-01"
+	contains(f.message, "none since the first care round on 2026-06-01")
+}

@@ -24,6 +24,10 @@ type Limits struct {
 	Juveniles Juveniles `yaml:"juveniles" json:"juveniles"`
 	Health    HealthLim `yaml:"health" json:"health"`
 	Litter    LitterLim `yaml:"litter" json:"litter"`
+
+	// Warm season and inside buildings.
+	Heat        Heat        `yaml:"heat" json:"heat"`
+	Environment Environment `yaml:"environment" json:"environment"`
 }
 
 // Species is one species profile.
@@ -40,6 +44,9 @@ type Species struct {
 	// RabiesRisk: handlers need rabies pre-exposure prophylaxis.
 	RabiesRisk bool       `yaml:"rabies_risk" json:"rabies_risk"`
 	Euthanasia Euthanasia `yaml:"euthanasia" json:"euthanasia"`
+	// IndoorTempC is the air temperature range for the species in indoor
+	// and sheltered buildings; nil: no range, the check does not apply.
+	IndoorTempC *Range `yaml:"indoor_temp_c" json:"indoor_temp_c"`
 }
 
 // Space is the floor space and height a species needs. Either the per-occupant
@@ -87,6 +94,8 @@ type Care struct {
 	ConcernResponseHours float64 `yaml:"concern_response_hours" json:"concern_response_hours" validate:"gt=0"`
 	// Handling purposes that answer a health concern.
 	ConcernAnsweredBy []string `yaml:"concern_answered_by" json:"concern_answered_by" validate:"dive,code"`
+	// An occupied enclosure with no cleaning for more than this many days is overdue.
+	CleanEveryDays int `yaml:"clean_every_days" json:"clean_every_days" validate:"gte=1"`
 }
 
 // Handling holds the handling-event limits.
@@ -215,4 +224,34 @@ type LitterLim struct {
 	MinWeaningDays map[string]int `yaml:"min_weaning_days" json:"min_weaning_days" validate:"dive,keys,code,endkeys,gte=1"`
 	// LitterLossPct: (born - weaned) / born above this is a finding.
 	LitterLossPct float64 `yaml:"litter_loss_pct" json:"litter_loss_pct" validate:"gt=0,lte=100"`
+}
+
+// Range is an inclusive range of values: a value below Min or above Max is
+// outside it.
+type Range struct {
+	Min float64 `yaml:"min" json:"min"`
+	Max float64 `yaml:"max" json:"max" validate:"gtefield=Min"`
+}
+
+// Heat holds the warm-season limits.
+type Heat struct {
+	// HotDayC: a day whose maximum air temperature (water checks) or
+	// heat index (shade) reaches this is a hot day.
+	HotDayC float64 `yaml:"hot_day_c" json:"hot_day_c"`
+	// WaterChecksMin: rounds that record a water state on a hot day.
+	WaterChecksMin int `yaml:"water_checks_min" json:"water_checks_min" validate:"gte=1"`
+	// DangerHeatIndexC: a day whose maximum heat index reaches this gives a
+	// weather-site note.
+	DangerHeatIndexC float64 `yaml:"danger_heat_index_c" json:"danger_heat_index_c"`
+}
+
+// Environment holds the limits on the air inside buildings.
+type Environment struct {
+	// HoursOutside: readings outside a species' indoor_temp_c range for
+	// strictly more than this many consecutive hours are a finding.
+	HoursOutside float64 `yaml:"hours_outside" json:"hours_outside" validate:"gte=0"`
+	// HumidityPct: relative humidity range for indoor buildings.
+	HumidityPct Range `yaml:"humidity_pct" json:"humidity_pct"`
+	// AmmoniaPpmMax: a reading above this is a finding.
+	AmmoniaPpmMax float64 `yaml:"ammonia_ppm_max" json:"ammonia_ppm_max" validate:"gte=0"`
 }

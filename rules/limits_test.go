@@ -48,6 +48,7 @@ func TestLoadLimitsErrors(t *testing.T) {
 		{"out of range", strings.Replace(base, "water_checks_min: 2", "water_checks_min: 0", 1), "water_checks_min: 0", "cold.water_checks_min: 0 is out of range"},
 		{"bad schedule cell", strings.Replace(base, "75/2, 55/3, 40/4]", "75/2, 55/3, 40-4]", 1), "40-4", "not a schedule cell"},
 		{"species limit", strings.Replace(base, "adult_m2: 0.255", "adult_m2: -1", 1), "adult_m2: -1", "species[neogale_vison].space.adult_m2: -1 is out of range"},
+		{"inverted range", strings.Replace(base, "humidity_pct: {min: 30, max: 70}", "humidity_pct: {min: 70, max: 30}", 1), "humidity_pct: {min: 70", "environment.humidity_pct.max: 30 is out of range: must be at least min"},
 		{"empty", "", "", "mine.yaml: is empty"},
 	}
 	for _, tc := range tests {

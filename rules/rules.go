@@ -122,6 +122,8 @@ func describe(fe validator.FieldError) string {
 		return fmt.Sprintf("%q is not a lower_snake_case code", v)
 	case "check_id":
 		return fmt.Sprintf("%q is not a check id (domain.topic.problem)", v)
+	case "gtefield":
+		return fmt.Sprintf("%s is out of range: must be at least %s", v, strings.ToLower(fe.Param()))
 	case "warmup_cell":
 		return fmt.Sprintf("%q is not a schedule cell (N, C or MINUTES/BREAKS such as 40/4)", v)
 	}

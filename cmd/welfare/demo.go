@@ -10,12 +10,13 @@ import (
 	"welfare/records/demo"
 )
 
-type demoOpts struct{ generatedAt string }
+type demoOpts struct{ generatedAt, season string }
 
 func demoFlags() (*flag.FlagSet, *demoOpts) {
 	o := &demoOpts{}
 	fs := flag.NewFlagSet("demo", flag.ContinueOnError)
 	fs.StringVar(&o.generatedAt, "generated-at", "2026-02-02T08:00:00Z", "report generation `TIME` printed on the demo report")
+	fs.StringVar(&o.season, "season", "winter", "which demo `SEASON`: winter (January, the cold season) or summer (July: heat, shade, indoor climate, cleaning)")
 	return fs, o
 }
 
@@ -35,14 +36,18 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	if len(pos) == 1 {
 		dir = pos[0]
 	}
+	season, ok := demo.Seasons[o.season]
+	if !ok {
+		return usagef("--season is winter or summer, not %q", o.season)
+	}
 	recs := filepath.Join(dir, "records")
-	if err := demo.WriteTo(recs); err != nil {
+	if err := season.WriteTo(recs); err != nil {
 		return err
 	}
 	fmt.Fprintf(stdout, "Demo records (an invented station) written to %s\n\n", recs)
 	co := &checkOpts{
-		from:        "2026-01-01",
-		to:          "2026-01-31",
+		from:        season.From,
+		to:          season.To,
 		failOn:      "never",
 		maxPerCheck: 3,
 		jsonOut:     filepath.Join(dir, "findings.json"),
@@ -53,6 +58,10 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	}
 	if err := checkFolder(ctx, recs, co, stdout, stderr); err != nil {
 		return err
+	}
+	if season.Name == "summer" {
+		fmt.Fprintf(stdout, "\nTry: welfare check --on 2026-07-16 --only heat,environment %s\n", recs)
+		return nil
 	}
 	fmt.Fprintf(stdout, "\nTry: welfare check %s --on 2026-01-15 --only cold\n", recs)
 	return nil

@@ -31,7 +31,13 @@ func runMain(t *testing.T, args ...string) (code int, stdout, stderr string) {
 // planted reads the answer key: one "check|subject|on|until" per expected finding.
 func planted(t *testing.T) []string {
 	t.Helper()
-	f, err := os.Open("../../testdata/demo/PLANTED.md")
+	return plantedFrom(t, "../../testdata/demo/PLANTED.md")
+}
+
+// plantedFrom reads an answer key file.
+func plantedFrom(t *testing.T, path string) []string {
+	t.Helper()
+	f, err := os.Open(path)
 	if err != nil {
 		t.Fatal(err)
 	}

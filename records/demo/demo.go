@@ -37,10 +37,13 @@ func FS() fs.FS {
 // so a user can look at, edit and re-check real files. Existing files of the
 // same names are overwritten; other files in dir are left alone.
 func WriteTo(dir string) error {
+	return writeFS(FS(), dir)
+}
+
+func writeFS(src fs.FS, dir string) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("demo: %w", err)
 	}
-	src := FS()
 	entries, err := fs.ReadDir(src, ".")
 	if err != nil {
 		return fmt.Errorf("demo: %w", err)
@@ -58,4 +61,40 @@ func WriteTo(dir string) error {
 		}
 	}
 	return nil
+}
+
+// The summer scenario: the same invented station in July 2026, with its own
+// answer key (testdata/demo-summer/PLANTED.md). It is a separate folder so
+// the January demo and its key stay as they are.
+//
+//go:embed birchfall-summer
+var summerFiles embed.FS
+
+// Seasons are the demo scenarios by name, with the period each covers.
+var Seasons = map[string]Season{
+	"winter": {Name: "winter", From: "2026-01-01", To: "2026-01-31", fsys: files, dir: "birchfall"},
+	"summer": {Name: "summer", From: "2026-07-01", To: "2026-07-31", fsys: summerFiles, dir: "birchfall-summer"},
+}
+
+// Season is one demo scenario: its records folder and the period it covers.
+type Season struct {
+	Name     string
+	From, To string // the checked period, YYYY-MM-DD
+	fsys     embed.FS
+	dir      string
+}
+
+// FS returns the season's records folder, rooted at the folder itself.
+func (s Season) FS() fs.FS {
+	sub, err := fs.Sub(s.fsys, s.dir)
+	if err != nil {
+		return s.fsys // only for an invalid constant path; see FS
+	}
+	return sub
+}
+
+// WriteTo copies the season's records folder into dir, as WriteTo does for
+// the January demo.
+func (s Season) WriteTo(dir string) error {
+	return writeFS(s.FS(), dir)
 }

@@ -1,0 +1,166 @@
+package checker
+
+import (
+	"sort"
+	"strings"
+
+	"welfare/records"
+)
+
+// Cleaning facts: each enclosure's "cleaning" section lists the gaps
+// between qualifying events while it was occupied. An occupancy stretch
+// (consecutive occupied days) is anchored at the later of its first day and
+// the enclosure's first care round (a building round is a round of each of
+// its enclosures); each round with cleaned: yes is a qualifying event. A
+// gap runs from an event (or the anchor) to the day before the next event,
+// or to the end of the stretch. The rule finds the first day more than
+// clean_every_days after the gap's start, once per gap.
+//
+// A stretch that starts on the period's first day may have begun before
+// it; its anchor is then the enclosure's first round, and cleanings before
+// the period count, so the first days of a period are judged on the rounds
+// before it.
+
+func init() { domainFacts = append(domainFacts, (*facts).cleaningFacts) }
+
+func (f *facts) cleaningFacts() {
+	type index struct {
+		first   records.Day
+		cleaned []*records.CareRound // sorted by day, then ref
+	}
+	enc, bld := map[string]*index{}, map[string]*index{}
+	for i := range f.set.Care {
+		r := &f.set.Care[i]
+		if r.Day > f.period.To {
+			continue
+		}
+		m, id := enc, r.EnclosureID
+		if id == "" {
+			m, id = bld, r.BuildingID
+		}
+		ix := m[id]
+		if ix == nil {
+			ix = &index{}
+			m[id] = ix
+		}
+		if ix.first == 0 || r.Day < ix.first {
+			ix.first = r.Day
+		}
+		if r.Cleaned.IsYes() {
+			ix.cleaned = append(ix.cleaned, r)
+		}
+	}
+	for _, m := range []map[string]*index{enc, bld} {
+		for _, ix := range m {
+			sort.Slice(ix.cleaned, func(i, j int) bool {
+				a, b := ix.cleaned[i], ix.cleaned[j]
+				return a.Day < b.Day || (a.Day == b.Day && a.Ref < b.Ref)
+			})
+		}
+	}
+	for i := range f.set.Enclosures {
+		e := &f.set.Enclosures[i]
+		var first records.Day
+		var days []records.Day
+		own, shared := enc[e.ID], bld[e.BuildingID]
+		for _, ix := range []*index{own, shared} {
+			if ix == nil {
+				continue
+			}
+			if first == 0 || ix.first < first {
+				first = ix.first
+			}
+			for _, r := range ix.cleaned {
+				days = append(days, r.Day)
+			}
+		}
+		// refOf is the first round (by ref) that cleaned the enclosure on d.
+		refOf := func(d records.Day) records.Ref {
+			var best records.Ref
+			for _, ix := range []*index{own, shared} {
+				if ix == nil {
+					continue
+				}
+				k := sort.Search(len(ix.cleaned), func(k int) bool { return ix.cleaned[k].Day >= d })
+				if k < len(ix.cleaned) && ix.cleaned[k].Day == d && (best == "" || ix.cleaned[k].Ref < best) {
+					best = ix.cleaned[k].Ref
+				}
+			}
+			return best
+		}
+		sort.Slice(days, func(i, j int) bool { return days[i] < days[j] })
+		gaps := []any{}
+		for _, st := range f.stretches(e.ID) {
+			if first == 0 {
+				break // no round at all: nothing to count from
+			}
+			// The anchor: the later of the stretch's start and the first
+			// round. A stretch that starts on the period's first day may
+			// have begun before it, so its first round alone anchors it.
+			from, kind := first, "first_round"
+			if st[0] != f.period.From && st[0] > first {
+				from, kind = st[0], "occupancy"
+			}
+			if from > st[1] {
+				continue
+			}
+			fromRef := records.Ref("")
+			k := sort.Search(len(days), func(k int) bool { return days[k] >= from })
+			for {
+				until := st[1]
+				var next records.Day
+				if k < len(days) && days[k] <= st[1] {
+					next = days[k]
+					until = next - 1
+				}
+				if until > from && until >= f.period.From {
+					gaps = append(gaps, map[string]any{
+						"from": from.String(), "until": until.String(), "days": int(until - from),
+						"since": kind, "period_from": f.period.From.String(),
+						"evidence": refs(e.Ref, fromRef),
+					})
+				}
+				if next == 0 {
+					break
+				}
+				from, fromRef, kind = next, refOf(next), "cleaned"
+				for k < len(days) && days[k] == from {
+					k++
+				}
+			}
+		}
+		f.doc("enclosure", e.ID)["cleaning"] = map[string]any{
+			"rounds_recorded": f.set.Present["daily_care.csv"],
+			"gaps":            gaps,
+		}
+	}
+}
+
+// stretches are the enclosure's runs of consecutive occupied days, as
+// [first, last] pairs.
+func (f *facts) stretches(encID string) [][2]records.Day {
+	var out [][2]records.Day
+	for _, s := range f.segments[encID] {
+		if n := len(out); n > 0 && out[n-1][1]+1 == s.From {
+			out[n-1][1] = s.To
+			continue
+		}
+		out = append(out, [2]records.Day{s.From, s.To})
+	}
+	return out
+}
+
+// needMet reports whether a check's need is in the records: a file name
+// ("daily_care.csv"), or a column of a file ("daily_care.csv:cleaned"),
+// which the file must have had in its header. what names the need as the
+// "not evaluated" reason says it.
+func needMet(set *records.Set, need string) (what string, ok bool) {
+	file, column, isColumn := strings.Cut(need, ":")
+	if !isColumn {
+		return file, set.Present[file]
+	}
+	if !set.Present[file] {
+		return file, false
+	}
+	return file + " column " + column, set.HasColumn(file, column)
+}
