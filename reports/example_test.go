@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"os"
 	"strings"
-	"time"
 
 	"welfare/checker"
 	"welfare/records"
@@ -91,18 +90,4 @@ func ExampleWriteJSON() {
 	//     "from": "2026-01-01",
 	//     "to": "2026-01-31"
 	//   },
-}
-
-func ExampleWritePDF() {
-	var b bytes.Buffer
-	err := reports.WritePDF(&b, exampleResult(), reports.PDFOptions{
-		Inspector:   "Dr. Tuomas Vähäkangas",
-		GeneratedAt: time.Date(2026, 2, 3, 9, 30, 0, 0, time.UTC),
-	})
-	if err != nil {
-		fmt.Println(err)
-	}
-	fmt.Println(string(b.Bytes()[:8]))
-	// Output:
-	// %PDF-1.3
 }
