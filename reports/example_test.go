@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"strings"
+	"time"
 
 	"welfare/checker"
 	"welfare/records"
@@ -90,4 +91,28 @@ func ExampleWriteJSON() {
 	//     "from": "2026-01-01",
 	//     "to": "2026-01-31"
 	//   },
+}
+
+func ExampleBuildAudit() {
+	a, err := reports.BuildAudit(exampleResult(), reports.PDFOptions{
+		GeneratedAt: time.Date(2026, 2, 3, 9, 30, 0, 0, time.UTC),
+	})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, s := range a.Sections {
+		start := "follows on"
+		if s.NewPage {
+			start = "new page"
+		}
+		fmt.Printf("%s (%s): %d blocks\n", s.Title, start, len(s.Blocks))
+	}
+	// Output:
+	// Cover (new page): 12 blocks
+	// Summary (new page): 9 blocks
+	// Findings (new page): 3 blocks
+	// Limits in force (new page): 5 blocks
+	// Cautions (new page): 14 blocks
+	// Sign-off (follows on): 1 blocks
 }
