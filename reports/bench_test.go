@@ -4,7 +4,7 @@ import (
 	"io"
 	"testing"
 
-	"welfare/reports"
+	"welfare/reports/pdf"
 )
 
 // BenchmarkWritePDF10kFindings is the large report: 10,000 findings,
@@ -14,7 +14,7 @@ func BenchmarkWritePDF10kFindings(b *testing.B) {
 	opt := sampleOptions()
 	b.ReportAllocs()
 	for b.Loop() {
-		if err := reports.WritePDF(io.Discard, r, opt); err != nil {
+		if err := pdf.Write(io.Discard, r, opt); err != nil {
 			b.Fatal(err)
 		}
 	}

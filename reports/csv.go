@@ -45,18 +45,3 @@ func WriteCSV(w io.Writer, r *checker.Result) error {
 	cw.Flush()
 	return cw.Error()
 }
-
-// Neutralise prefixes a single quote to a cell whose first character would
-// make a spreadsheet treat it as a formula (=, +, -, @) or shift it into
-// another cell (tab, carriage return). Only the first character matters:
-// "wind chill −31 °C, limit -20" is left alone, "-20 °C" becomes "'-20 °C".
-func Neutralise(cell string) string {
-	if cell == "" {
-		return cell
-	}
-	switch cell[0] {
-	case '=', '+', '-', '@', '\t', '\r':
-		return "'" + cell
-	}
-	return cell
-}

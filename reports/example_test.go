@@ -93,16 +93,26 @@ func ExampleWriteJSON() {
 	//   },
 }
 
-func ExampleWritePDF() {
-	var b bytes.Buffer
-	err := reports.WritePDF(&b, exampleResult(), reports.PDFOptions{
-		Inspector:   "Dr. Tuomas Vähäkangas",
+func ExampleBuildAudit() {
+	a, err := reports.BuildAudit(exampleResult(), reports.PDFOptions{
 		GeneratedAt: time.Date(2026, 2, 3, 9, 30, 0, 0, time.UTC),
 	})
 	if err != nil {
 		fmt.Println(err)
+		return
 	}
-	fmt.Println(string(b.Bytes()[:8]))
+	for _, s := range a.Sections {
+		start := "follows on"
+		if s.NewPage {
+			start = "new page"
+		}
+		fmt.Printf("%s (%s): %d blocks\n", s.Title, start, len(s.Blocks))
+	}
 	// Output:
-	// %PDF-1.3
+	// Cover (new page): 12 blocks
+	// Summary (new page): 9 blocks
+	// Findings (new page): 3 blocks
+	// Limits in force (new page): 5 blocks
+	// Cautions (new page): 14 blocks
+	// Sign-off (follows on): 1 blocks
 }

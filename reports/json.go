@@ -5,62 +5,113 @@ import (
 	"io"
 
 	"welfare/checker"
-	"welfare/records"
 )
 
-// The JSON document is its own set of types rather than checker.Result
-// marshalled directly: the file is a published contract, and a field added to
-// Result for the checker's convenience must not change it by accident.
-type jsonReport struct {
-	Facility     string               `json:"facility"`
-	Period       jsonPeriod           `json:"period"`
-	Fingerprint  string               `json:"fingerprint"`
-	Accounting   []records.FileCount  `json:"accounting"`
-	Findings     []jsonFinding        `json:"findings"`
-	Checks       []checker.CheckInfo  `json:"checks"`
-	NotEvaluated []checker.Skipped    `json:"not_evaluated"`
-	Warnings     []records.Warning    `json:"warnings"`
-	CareCoverage checker.CareCoverage `json:"care_coverage"`
+// The JSON document is its own set of types rather than checker.Result (or
+// any checker or records type) marshalled directly: the file is a published
+// contract, and a field added to a checker type for its own convenience must
+// not change it by accident. These types are the whole format; the golden
+// files under testdata/golden hold it still.
+
+// JSONReport is findings.json: one object per check run.
+type JSONReport struct {
+	Facility     string             `json:"facility"`
+	Period       JSONPeriod         `json:"period"`
+	Fingerprint  string             `json:"fingerprint"` // SHA-256 over the records, rules and limits used
+	Accounting   []JSONFileCount    `json:"accounting"`
+	Findings     []JSONFinding      `json:"findings"`
+	Checks       []JSONCheck        `json:"checks"`
+	NotEvaluated []JSONNotEvaluated `json:"not_evaluated"`
+	Warnings     []JSONWarning      `json:"warnings"`
+	CareCoverage JSONCareCoverage   `json:"care_coverage"`
 }
 
-type jsonPeriod struct {
+// JSONPeriod is the checked period, inclusive, as YYYY-MM-DD.
+type JSONPeriod struct {
 	From string `json:"from"`
 	To   string `json:"to"`
 }
 
-type jsonFinding struct {
-	Severity checker.Severity `json:"severity"`
-	Check    string           `json:"check"`
-	Domain   string           `json:"domain"`
-	Subject  string           `json:"subject"`
-	On       string           `json:"on"`
-	Until    string           `json:"until,omitempty"`
-	Message  string           `json:"message"`
-	Evidence []string         `json:"evidence"`
-	Title    string           `json:"title"`
-	Source   string           `json:"source"`
+// JSONFileCount is the row accounting of one record file: read = accepted +
+// rejected; Failed says why a file was not used at all.
+type JSONFileCount struct {
+	File     string `json:"file"`
+	Read     int    `json:"read"`
+	Accepted int    `json:"accepted"`
+	Rejected int    `json:"rejected"`
+	Failed   string `json:"failed,omitempty"`
 }
 
-// WriteJSON writes r as one JSON object (indented by two spaces): facility,
-// period, fingerprint, accounting, findings, checks, not_evaluated, warnings
-// and care_coverage. Dates are YYYY-MM-DD; lists are [] rather than null
-// when empty, so a reader never has to tell the two apart.
-func WriteJSON(w io.Writer, r *checker.Result) error {
-	doc := jsonReport{
+// JSONFinding is one finding; Until is present only for a run of days.
+type JSONFinding struct {
+	Severity string   `json:"severity"`
+	Check    string   `json:"check"`
+	Domain   string   `json:"domain"`
+	Subject  string   `json:"subject"`
+	On       string   `json:"on"`
+	Until    string   `json:"until,omitempty"`
+	Message  string   `json:"message"`
+	Evidence []string `json:"evidence"`
+	Title    string   `json:"title"`
+	Source   string   `json:"source"`
+}
+
+// JSONCheck is one check in force, from its rule's METADATA.
+type JSONCheck struct {
+	ID          string   `json:"id"`
+	Domain      string   `json:"domain"`
+	Title       string   `json:"title"`
+	Description string   `json:"description"`
+	Severity    string   `json:"severity"` // the rule's default
+	Source      string   `json:"source"`
+	Package     string   `json:"package"`
+	File        string   `json:"file"`
+	Needs       []string `json:"needs,omitempty"`
+	Runs        bool     `json:"runs,omitempty"`
+	Subjects    []string `json:"subjects,omitempty"`
+}
+
+// JSONNotEvaluated is a check that found no records to read, and why.
+type JSONNotEvaluated struct {
+	Check  string `json:"check"`
+	Reason string `json:"reason"`
+}
+
+// JSONWarning is something read but not used (an unknown column, say).
+type JSONWarning struct {
+	File    string `json:"file"`
+	Column  string `json:"column,omitempty"`
+	Message string `json:"message"`
+}
+
+// JSONCareCoverage counts occupied enclosure-days and those with complete
+// care records.
+type JSONCareCoverage struct {
+	OccupiedDays int `json:"occupied_enclosure_days"`
+	CompleteDays int `json:"complete_days"`
+}
+
+// NewJSONReport converts r to the published format. Lists are [] rather
+// than null when empty, so a reader never has to tell the two apart.
+func NewJSONReport(r *checker.Result) JSONReport {
+	doc := JSONReport{
 		Facility:     r.Facility,
-		Period:       jsonPeriod{From: r.Period.From.String(), To: r.Period.To.String()},
+		Period:       JSONPeriod{From: r.Period.From.String(), To: r.Period.To.String()},
 		Fingerprint:  r.Fingerprint,
-		Accounting:   nonNil(r.Accounting),
-		Findings:     make([]jsonFinding, len(r.Findings)),
-		Checks:       nonNil(r.Checks),
-		NotEvaluated: nonNil(r.NotEvaluated),
-		Warnings:     nonNil(r.Warnings),
-		CareCoverage: r.Care,
+		Accounting:   make([]JSONFileCount, len(r.Accounting)),
+		Findings:     make([]JSONFinding, len(r.Findings)),
+		Checks:       make([]JSONCheck, len(r.Checks)),
+		NotEvaluated: make([]JSONNotEvaluated, len(r.NotEvaluated)),
+		Warnings:     make([]JSONWarning, len(r.Warnings)),
+		CareCoverage: JSONCareCoverage{OccupiedDays: r.Care.OccupiedDays, CompleteDays: r.Care.CompleteDays},
+	}
+	for i, c := range r.Accounting {
+		doc.Accounting[i] = JSONFileCount{File: c.File, Read: c.Read, Accepted: c.Accepted, Rejected: c.Rejected, Failed: c.Failed}
 	}
 	for i := range r.Findings {
 		f := &r.Findings[i]
-		jf := jsonFinding{
-			Severity: f.Severity,
+		jf := JSONFinding{
+			Severity: string(f.Severity),
 			Check:    f.Check,
 			Domain:   domainOf(f),
 			Subject:  f.Subject,
@@ -78,16 +129,27 @@ func WriteJSON(w io.Writer, r *checker.Result) error {
 		}
 		doc.Findings[i] = jf
 	}
+	for i, c := range r.Checks {
+		doc.Checks[i] = JSONCheck{ID: c.ID, Domain: c.Domain, Title: c.Title, Description: c.Description,
+			Severity: string(c.Severity), Source: c.Source, Package: c.Package, File: c.File,
+			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects}
+	}
+	for i, s := range r.NotEvaluated {
+		doc.NotEvaluated[i] = JSONNotEvaluated{Check: s.Check, Reason: s.Reason}
+	}
+	for i, w := range r.Warnings {
+		doc.Warnings[i] = JSONWarning{File: w.File, Column: w.Column, Message: w.Message}
+	}
+	return doc
+}
+
+// WriteJSON writes r as one JSON object (indented by two spaces): facility,
+// period, fingerprint, accounting, findings, checks, not_evaluated, warnings
+// and care_coverage (see JSONReport). Dates are YYYY-MM-DD.
+func WriteJSON(w io.Writer, r *checker.Result) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	// Messages quote limits such as "≤ −20 °C"; keep them readable.
 	enc.SetEscapeHTML(false)
-	return enc.Encode(doc)
-}
-
-func nonNil[T any](s []T) []T {
-	if s == nil {
-		return []T{}
-	}
-	return s
+	return enc.Encode(NewJSONReport(r))
 }

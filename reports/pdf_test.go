@@ -16,6 +16,7 @@ import (
 
 	"welfare/checker"
 	"welfare/reports"
+	"welfare/reports/pdf"
 )
 
 var keep = flag.String("keep", "", "also write the sample report's PDF to this file, to look at it")
@@ -23,8 +24,8 @@ var keep = flag.String("keep", "", "also write the sample report's PDF to this f
 func writePDF(t testing.TB, r *checker.Result, opt reports.PDFOptions) []byte {
 	t.Helper()
 	var b bytes.Buffer
-	if err := reports.WritePDF(&b, r, opt); err != nil {
-		t.Fatalf("WritePDF: %v", err)
+	if err := pdf.Write(&b, r, opt); err != nil {
+		t.Fatalf("pdf.Write: %v", err)
 	}
 	return b.Bytes()
 }
@@ -57,9 +58,9 @@ func TestWritePDFDeterministic(t *testing.T) {
 }
 
 func TestWritePDFNeedsGenerationTime(t *testing.T) {
-	err := reports.WritePDF(&bytes.Buffer{}, sampleResult(3), reports.PDFOptions{})
+	err := pdf.Write(&bytes.Buffer{}, sampleResult(3), reports.PDFOptions{})
 	if err == nil || !strings.Contains(err.Error(), "GeneratedAt") {
-		t.Errorf("WritePDF without GeneratedAt: got error %v, want one naming GeneratedAt", err)
+		t.Errorf("pdf.Write without GeneratedAt: got error %v, want one naming GeneratedAt", err)
 	}
 }
 

@@ -217,31 +217,6 @@ func TestWriteJSONEmpty(t *testing.T) {
 	}
 }
 
-func TestNeutralise(t *testing.T) {
-	// OWASP "CSV Injection": cells starting with = + - @ tab or CR are
-	// formulas to a spreadsheet (common practice).
-	tests := []struct{ in, want string }{
-		{"=HYPERLINK(\"http://x\")", "'=HYPERLINK(\"http://x\")"},
-		{"+1", "'+1"},
-		{"-20 °C wind chill", "'-20 °C wind chill"},
-		{"@SUM(A1)", "'@SUM(A1)"},
-		{"\tN-01", "'\tN-01"},
-		{"\rN-01", "'\rN-01"},
-		{"wind chill −31, limit -20", "wind chill −31, limit -20"}, // only the first character matters
-		{"−31 (true minus sign)", "−31 (true minus sign)"},
-		{"2026-01-14", "2026-01-14"},
-		{"N-01", "N-01"},
-		{"", ""},
-	}
-	for _, tt := range tests {
-		t.Run(tt.in, func(t *testing.T) {
-			if got := reports.Neutralise(tt.in); got != tt.want {
-				t.Errorf("Neutralise(%q) = %q, want %q", tt.in, got, tt.want)
-			}
-		})
-	}
-}
-
 func TestWriteCSV(t *testing.T) {
 	r := &checker.Result{Facility: "Birchfall Fur Research Station", Period: period, Findings: []checker.Finding{
 		{Check: "cold.frostbite.risk", Domain: "cold", Subject: "north-yard", On: period.From + 13, Until: period.From + 15,

@@ -11,6 +11,7 @@ import (
 	"welfare/checker"
 	"welfare/records"
 	"welfare/reports"
+	"welfare/reports/pdf"
 )
 
 type checkOpts struct {
@@ -129,7 +130,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		{o.jsonOut, func(w io.Writer) error { return reports.WriteJSON(w, res) }},
 		{o.csvOut, func(w io.Writer) error { return reports.WriteCSV(w, res) }},
 		{o.pdfOut, func(w io.Writer) error {
-			return reports.WritePDF(w, res, reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: siteOf(set)})
+			return pdf.Write(w, res, reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: siteOf(set)})
 		}},
 	}
 	for _, out := range outputs {

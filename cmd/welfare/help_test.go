@@ -10,7 +10,7 @@ import (
 	"github.com/google/go-cmp/cmp"
 )
 
-var update = flag.Bool("update", false, "rewrite README.md's usage section from usage.txt")
+var update = flag.Bool("update", false, "rewrite README.md's usage section from usage.txt and the golden files under testdata/golden/demo")
 
 const (
 	readmePath  = "../../README.md"

@@ -1,12 +1,14 @@
-package reports
+// Package pdf draws the PDF audit report that reports.BuildAudit lays out.
+// It is the only package that imports gofpdf: everything about fonts,
+// millimetres, page breaks and drawing lives here, and nothing about what
+// the report says.
+package pdf
 
 import (
 	"bytes"
-	"errors"
 	"fmt"
 	"io"
 	"strings"
-	"time"
 	"unicode"
 	"unicode/utf8"
 
@@ -17,31 +19,8 @@ import (
 	"golang.org/x/image/font/gofont/goregular"
 
 	"welfare/checker"
+	"welfare/reports"
 )
-
-// PDFOptions shapes the PDF audit report.
-type PDFOptions struct {
-	// Inspector is printed on the cover; empty prints "(not stated)".
-	Inspector string
-	// GeneratedAt is printed on the cover and stored as the PDF's creation
-	// and modification dates. It is required: with it fixed, the same
-	// Result gives a byte-identical PDF.
-	GeneratedAt time.Time
-	// MaxPerCheck is how many findings of one check are listed in the
-	// findings section before "N more in the attached findings.csv /
-	// findings.json": 0 means DefaultPDFMaxPerCheck, a negative number
-	// lists every finding.
-	MaxPerCheck int
-	// SiteOf maps the subject of a cold finding (an enclosure or a staff
-	// id) to its weather site, so the cold-season chart of that site marks
-	// the finding's days. A finding whose subject is a site itself needs no
-	// entry; with a single weather site every cold finding is that site's.
-	SiteOf map[string]string
-}
-
-// DefaultPDFMaxPerCheck keeps a report with thousands of findings printable;
-// every finding is still in the attached files.
-const DefaultPDFMaxPerCheck = 25
 
 // Page geometry, in millimetres (A4 portrait).
 const (
@@ -62,48 +41,36 @@ const (
 
 const producer = "welfare records checker"
 
-// doc is one PDF being written.
-type doc struct {
-	pdf  *gofpdf.Fpdf
-	r    *checker.Result
-	opt  PDFOptions
-	tall tally
+// Write lays out the audit report of r (reports.BuildAudit) and draws it to
+// w. The same r and opt give the same bytes.
+func Write(w io.Writer, r *checker.Result, opt reports.PDFOptions) error {
+	a, err := reports.BuildAudit(r, opt)
+	if err != nil {
+		return err
+	}
+	return Render(w, a)
 }
 
-// WritePDF writes the PDF audit report of r to w: cover, summary, cold
-// season (when r.Weather has data), findings with an empty plan-for-correction
-// cell for each, limits in force, cautions and sign-off, with findings.json
-// and findings.csv attached. The same r and opt give the same bytes.
-func WritePDF(w io.Writer, r *checker.Result, opt PDFOptions) error {
-	if r == nil {
-		return errors.New("reports: no result to write")
-	}
-	if opt.GeneratedAt.IsZero() {
-		return errors.New("reports: PDFOptions.GeneratedAt is required: it is printed on the report and fixes its bytes")
-	}
-	if opt.MaxPerCheck == 0 {
-		opt.MaxPerCheck = DefaultPDFMaxPerCheck
-	}
-	var js, cs bytes.Buffer
-	if err := WriteJSON(&js, r); err != nil {
-		return fmt.Errorf("reports: attached findings.json: %w", err)
-	}
-	if err := WriteCSV(&cs, r); err != nil {
-		return fmt.Errorf("reports: attached findings.csv: %w", err)
-	}
+// doc is one PDF being written.
+type doc struct {
+	pdf *gofpdf.Fpdf
+	a   *reports.Audit
+}
 
+// Render draws a to w as a PDF. The same Audit gives the same bytes.
+func Render(w io.Writer, a *reports.Audit) error {
 	pdf := gofpdf.New("P", "mm", "A4", "")
 	// Determinism: fixed dates, producer and catalogue order, so no clock
 	// or map iteration order reaches the bytes.
 	pdf.SetCatalogSort(true)
-	pdf.SetCreationDate(opt.GeneratedAt)
-	pdf.SetModificationDate(opt.GeneratedAt)
+	pdf.SetCreationDate(a.GeneratedAt)
+	pdf.SetModificationDate(a.GeneratedAt)
 	pdf.SetProducer(producer, false)
 	pdf.SetCreator(producer, false)
-	pdf.SetTitle(clean("Welfare records audit: "+orNone(r.Facility)), true)
-	pdf.SetSubject(clean("Period "+dayOrNone(r.Period.From)+" to "+dayOrNone(r.Period.To)), true)
-	if opt.Inspector != "" {
-		pdf.SetAuthor(clean(opt.Inspector), true)
+	pdf.SetTitle(clean(a.Title), true)
+	pdf.SetSubject(clean(a.Subject), true)
+	if a.Author != "" {
+		pdf.SetAuthor(clean(a.Author), true)
 	}
 	// The alias must be set before the fonts are added (gofpdf sizes the
 	// font subsets by it). The digits of the total are always in the font
@@ -119,40 +86,107 @@ func WritePDF(w io.Writer, r *checker.Result, opt PDFOptions) error {
 	pdf.SetMargins(margin, topMargin, margin)
 	pdf.SetAutoPageBreak(true, breakAt)
 	if err := pdf.Error(); err != nil {
-		return fmt.Errorf("reports: loading the embedded fonts: %w", err)
+		return fmt.Errorf("reports/pdf: loading the embedded fonts: %w", err)
 	}
 
-	d := &doc{pdf: pdf, r: r, opt: opt, tall: countFindings(r.Findings)}
+	d := &doc{pdf: pdf, a: a}
 	pdf.SetHeaderFunc(d.header)
 	pdf.SetFooterFunc(d.footer)
-
-	d.cover()
-	d.summary()
-	if hasWeather(r) {
-		d.coldSeason()
+	for i := range a.Sections {
+		d.section(&a.Sections[i])
 	}
-	d.findings()
-	d.limits()
-	d.cautions()
-	d.signOff()
-
-	pdf.SetAttachments([]gofpdf.Attachment{
-		{Content: js.Bytes(), Filename: "findings.json", Description: "Every finding, with the accounting and the checks in force (JSON)"},
-		{Content: cs.Bytes(), Filename: "findings.csv", Description: "Every finding, one per row (CSV)"},
-	})
+	var atts []gofpdf.Attachment
+	for _, at := range a.Attachments {
+		atts = append(atts, gofpdf.Attachment{Content: at.Content, Filename: at.Name, Description: at.Description})
+	}
+	pdf.SetAttachments(atts)
 	if err := pdf.Output(w); err != nil {
-		return fmt.Errorf("reports: writing the PDF: %w", err)
+		return fmt.Errorf("reports/pdf: writing the PDF: %w", err)
 	}
 	return nil
 }
 
-func hasWeather(r *checker.Result) bool {
-	for _, s := range r.Weather {
-		if len(s.Days) > 0 {
-			return true
+func (d *doc) section(s *reports.AuditSection) {
+	if s.NewPage {
+		d.pdf.AddPage()
+		d.pdf.Bookmark(clean(s.Title), 0, -1)
+		if s.Heading != "" {
+			d.font(sans, "B", 16)
+			d.pdf.CellFormat(contentW, 9, clean(s.Heading), "", 1, "L", false, 0, "")
+			d.pdf.Ln(2)
 		}
 	}
-	return false
+	for i := range s.Blocks {
+		d.block(&s.Blocks[i])
+	}
+}
+
+func (d *doc) block(b *reports.Block) {
+	p := d.pdf
+	switch b.Kind {
+	case reports.KindTitle:
+		p.SetY(32)
+		d.font(sans, "B", 24)
+		p.CellFormat(contentW, 11, clean(b.Text), "", 1, "L", false, 0, "")
+		d.font(sans, "", 15)
+		p.MultiCell(contentW, 7.5, clean(b.Subtitle), "", "L", false)
+		p.Ln(6)
+	case reports.KindKeyValue:
+		family := sans
+		if b.Mono {
+			family = mono
+		}
+		d.keyValue(b.Label, b.Text, family, b.Size)
+	case reports.KindSubheading:
+		d.subheading(b.Text, b.Keep)
+	case reports.KindParagraph:
+		if b.Indent > 0 {
+			d.font(sans, style(b.Style), b.Size)
+			p.SetX(margin + b.Indent)
+			p.MultiCell(contentW-b.Indent, lineHeight(b.Size), clean(b.Text), "", "L", false)
+			return
+		}
+		d.para(b.Text, style(b.Style), b.Size)
+	case reports.KindBullet:
+		d.bullet(b.Text)
+	case reports.KindNotice:
+		d.notice(b.Text)
+	case reports.KindSpace:
+		p.Ln(b.Size)
+	case reports.KindTable:
+		d.table(b.Table)
+	case reports.KindDomainHeading:
+		d.ensure(50)
+		d.font(sans, "B", 13)
+		p.Bookmark(clean(b.Bookmark), 1, -1)
+		p.CellFormat(contentW, 7, clean(b.Text), "B", 1, "L", false, 0, "")
+		p.Ln(1)
+	case reports.KindCheckFindings:
+		d.checkFindings(b)
+	case reports.KindBarChart:
+		d.barChart(b.Bars)
+	case reports.KindCareBar:
+		d.careBar(b.Care)
+	case reports.KindColdChart:
+		d.coldChart(b.Cold)
+	case reports.KindSignOff:
+		d.signOff(b)
+	default:
+		// A kind this renderer does not know: say so on the page rather
+		// than drop content silently.
+		d.para(fmt.Sprintf("[%s: not drawn by this version]", b.Kind), "I", 9)
+	}
+}
+
+// style is gofpdf's font style for the model's.
+func style(s string) string {
+	switch s {
+	case "bold":
+		return "B"
+	case "italic":
+		return "I"
+	}
+	return ""
 }
 
 // clean makes text safe for the embedded fonts: gofpdf's UTF-8 fonts cover
@@ -185,30 +219,6 @@ func clean(s string) string {
 	return b.String()
 }
 
-// celsius prints a temperature as a whole degree with a true minus sign, as
-// the wind chill index is published (rounded half away from zero).
-func celsius(v float64) string {
-	n := int(roundHalfAway(v))
-	if n < 0 {
-		return fmt.Sprintf("−%d °C", -n)
-	}
-	return fmt.Sprintf("%d °C", n)
-}
-
-func signed(n int) string {
-	if n < 0 {
-		return fmt.Sprintf("−%d", -n)
-	}
-	return fmt.Sprintf("%d", n)
-}
-
-func roundHalfAway(v float64) float64 {
-	if v < 0 {
-		return -float64(int(-v + 0.5))
-	}
-	return float64(int(v + 0.5))
-}
-
 func (d *doc) font(family, style string, size float64) {
 	d.pdf.SetFont(family, style, size)
 }
@@ -229,10 +239,10 @@ func (d *doc) header() {
 	p := d.pdf
 	p.SetTextColor(60, 60, 60)
 	d.font(sans, "", 8)
-	period := "Period " + dayOrNone(d.r.Period.From) + " – " + dayOrNone(d.r.Period.To)
+	period := clean(d.a.Header[1])
 	pw := p.GetStringWidth(period) + 2
 	p.SetXY(margin, 9)
-	p.CellFormat(contentW-pw, 4, fitText(p, clean("Welfare records audit · "+orNone(d.r.Facility)), contentW-pw-2), "", 0, "L", false, 0, "")
+	p.CellFormat(contentW-pw, 4, fitText(p, clean(d.a.Header[0]), contentW-pw-2), "", 0, "L", false, 0, "")
 	p.CellFormat(pw, 4, period, "", 0, "R", false, 0, "")
 	p.SetDrawColor(150, 150, 150)
 	p.SetLineWidth(0.2)
@@ -250,8 +260,7 @@ func (d *doc) footer() {
 	p.Line(margin, pageH-14, pageW-margin, pageH-14)
 	d.font(sans, "", 8)
 	p.SetXY(margin, pageH-13)
-	left := "Fingerprint " + shortPrint(d.r.Fingerprint) + " · records check, not a veterinary judgement"
-	p.CellFormat(contentW-40, 4, left, "", 0, "L", false, 0, "")
+	p.CellFormat(contentW-40, 4, clean(d.a.Footer), "", 0, "L", false, 0, "")
 	// Written literally (not via "{nb}") so the last page's number - the
 	// total - puts every digit the alias needs into the font subset.
 	p.CellFormat(40, 4, fmt.Sprintf("page %d of {nb}", p.PageNo()), "", 0, "R", false, 0, "")
@@ -274,15 +283,6 @@ func fitText(p *gofpdf.Fpdf, s string, w float64) string {
 		}
 	}
 	return string(r) + "…"
-}
-
-// heading starts a section on a new page, with a bookmark for the outline.
-func (d *doc) heading(title string) {
-	d.pdf.AddPage()
-	d.pdf.Bookmark(title, 0, -1)
-	d.font(sans, "B", 16)
-	d.pdf.CellFormat(contentW, 9, title, "", 1, "L", false, 0, "")
-	d.pdf.Ln(2)
 }
 
 // subheading keeps itself with the next keep millimetres of content.
@@ -310,13 +310,82 @@ func (d *doc) keyValue(label, value string, valueFamily string, size float64) {
 	y := p.GetY()
 	d.font(sans, "B", 10.5)
 	p.SetXY(margin, y)
-	p.CellFormat(lw, lineHeight(size), label, "", 0, "L", false, 0, "")
+	p.CellFormat(lw, lineHeight(size), clean(label), "", 0, "L", false, 0, "")
 	d.font(valueFamily, "", size)
 	for i, l := range lines {
 		p.SetXY(margin+lw, y+float64(i)*lineHeight(size))
 		p.CellFormat(contentW-lw, lineHeight(size), l, "", 0, "L", false, 0, "")
 	}
 	p.SetXY(margin, y+h+0.8)
+}
+
+// notice is a boxed paragraph that never splits across pages.
+func (d *doc) notice(text string) {
+	p := d.pdf
+	const size = 10
+	d.font(sans, "", size)
+	lines := wrap(p, clean(text), contentW-8)
+	h := float64(len(lines))*lineHeight(size) + 6
+	d.ensure(h)
+	y := p.GetY()
+	p.SetLineWidth(0.5)
+	p.SetFillColor(242, 242, 242)
+	p.Rect(margin, y, contentW, h, "FD")
+	p.SetLineWidth(0.2)
+	for i, l := range lines {
+		p.SetXY(margin+4, y+3+float64(i)*lineHeight(size))
+		p.CellFormat(contentW-8, lineHeight(size), l, "", 0, "L", false, 0, "")
+	}
+	p.SetXY(margin, y+h+2)
+}
+
+// bullet is one item of a list; it never splits across pages.
+func (d *doc) bullet(text string) {
+	p := d.pdf
+	d.font(sans, "", 10)
+	lines := wrap(p, clean(text), contentW-6)
+	d.ensure(float64(len(lines)) * lineHeight(10))
+	y := p.GetY()
+	p.SetXY(margin, y)
+	p.CellFormat(6, lineHeight(10), "•", "", 0, "L", false, 0, "")
+	for i, l := range lines {
+		p.SetXY(margin+6, y+float64(i)*lineHeight(10))
+		p.CellFormat(contentW-6, lineHeight(10), l, "", 0, "L", false, 0, "")
+	}
+	p.SetXY(margin, y+float64(len(lines))*lineHeight(10)+1.2)
+}
+
+// signOff is the heading, the statement and a box per role with a line per
+// field, kept together on one page.
+func (d *doc) signOff(b *reports.Block) {
+	p := d.pdf
+	const blockH = 52.0
+	d.ensure(14 + float64(len(b.Roles))*blockH)
+	if p.GetY() > topMargin+1 {
+		p.Ln(4)
+	}
+	p.Bookmark(clean(b.Bookmark), 0, -1)
+	d.font(sans, "B", 16)
+	p.CellFormat(contentW, 9, clean(b.Text), "", 1, "L", false, 0, "")
+	d.para(b.Subtitle, "", 9.5)
+	p.Ln(2)
+	for _, role := range b.Roles {
+		y := p.GetY()
+		p.SetLineWidth(0.3)
+		p.Rect(margin, y, contentW, blockH-4, "D")
+		d.font(sans, "B", 11)
+		p.SetXY(margin+4, y+3)
+		p.CellFormat(contentW-8, 6, clean(role), "", 0, "L", false, 0, "")
+		d.font(sans, "", 9.5)
+		for i, label := range b.Fields {
+			ly := y + 18 + float64(i)*11
+			p.SetXY(margin+4, ly-4.5)
+			p.CellFormat(24, 5, clean(label), "", 0, "L", false, 0, "")
+			p.SetLineWidth(0.2)
+			p.Line(margin+30, ly, margin+contentW-6, ly)
+		}
+		p.SetXY(margin, y+blockH)
+	}
 }
 
 // wrap splits text into lines no wider than w millimetres in the current

@@ -1,0 +1,96 @@
+package reports_test
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"os"
+	"testing"
+	"time"
+
+	"welfare/checker"
+	"welfare/records"
+	"welfare/reports"
+	"welfare/rules"
+)
+
+// auditJSON is the section model as indented JSON, the golden form.
+func auditJSON(t *testing.T, r *checker.Result, opt reports.PDFOptions) []byte {
+	t.Helper()
+	a, err := reports.BuildAudit(r, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b bytes.Buffer
+	enc := json.NewEncoder(&b)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(a); err != nil {
+		t.Fatal(err)
+	}
+	return b.Bytes()
+}
+
+// demoGeneratedAt is `welfare demo`'s default --generated-at.
+var demoGeneratedAt = time.Date(2026, 2, 2, 8, 0, 0, 0, time.UTC)
+
+// The PDF's content for the small result: every section, block, table row
+// and chart series, in page order.
+func TestGoldenAuditSmall(t *testing.T) {
+	opt := reports.PDFOptions{Inspector: "Dr. Tuomas Vähäkangas", GeneratedAt: demoGeneratedAt, MaxPerCheck: 1}
+	golden(t, "small", "audit.json", auditJSON(t, smallResult(), opt))
+}
+
+// demoResult checks the demo records over the demo's period the way
+// `welfare demo` does (shipped rules and limits, January 2026).
+func demoResult(t *testing.T) *checker.Result {
+	t.Helper()
+	ctx := context.Background()
+	src := rules.DefaultLimits()
+	lim, err := rules.LoadLimits(bytes.NewReader(src), "limits.yaml (built in)")
+	if err != nil {
+		t.Fatal(err)
+	}
+	data, err := lim.Data()
+	if err != nil {
+		t.Fatal(err)
+	}
+	sources := []checker.Source{{Name: "rules", FS: rules.FS()}}
+	engine, err := checker.NewEngine(ctx, sources, data, checker.EngineOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fsys := os.DirFS("../testdata/demo/records")
+	set, err := records.Load(fsys, records.Options{Species: lim.SpeciesCodes()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fp, err := checker.Fingerprint(fsys, sources, src)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := checker.Check(ctx, checker.Config{
+		Records: set, Limits: lim, LimitsSource: src, Engine: engine,
+		Period:      checker.Period{From: records.MakeDay(2026, 1, 1), To: records.MakeDay(2026, 1, 31)},
+		Fingerprint: fp,
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return res
+}
+
+// The demo report's content, as `welfare demo` writes it. The demo has one
+// weather site, so every cold finding is marked on its chart without a
+// SiteOf map.
+func TestGoldenAuditDemo(t *testing.T) {
+	if testing.Short() {
+		t.Skip("checks the whole demo")
+	}
+	res := demoResult(t)
+	if n := len(res.Weather); n != 1 {
+		t.Fatalf("the demo has %d weather sites; this test assumes one (give it a SiteOf map)", n)
+	}
+	opt := reports.PDFOptions{Inspector: "Demo inspector (invented)", GeneratedAt: demoGeneratedAt}
+	golden(t, "demo", "audit.json", auditJSON(t, res, opt))
+}

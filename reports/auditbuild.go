@@ -1,0 +1,413 @@
+package reports
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"strings"
+	"time"
+
+	"welfare/checker"
+)
+
+// PDFOptions shapes the PDF audit report.
+type PDFOptions struct {
+	// Inspector is printed on the cover; empty prints "(not stated)".
+	Inspector string
+	// GeneratedAt is printed on the cover and stored as the PDF's creation
+	// and modification dates. It is required: with it fixed, the same
+	// Result gives a byte-identical PDF.
+	GeneratedAt time.Time
+	// MaxPerCheck is how many findings of one check are listed in the
+	// findings section before "N more in the attached findings.csv /
+	// findings.json": 0 means DefaultPDFMaxPerCheck, a negative number
+	// lists every finding.
+	MaxPerCheck int
+	// SiteOf maps the subject of a cold finding (an enclosure or a staff
+	// id) to its weather site, so the cold-season chart of that site marks
+	// the finding's days. A finding whose subject is a site itself needs no
+	// entry; with a single weather site every cold finding is that site's.
+	SiteOf map[string]string
+}
+
+// DefaultPDFMaxPerCheck keeps a report with thousands of findings printable;
+// every finding is still in the attached files.
+const DefaultPDFMaxPerCheck = 25
+
+// BuildAudit lays out the PDF audit report of r: cover, summary, cold
+// season (when r.Weather has data), findings with an empty plan-for-correction
+// cell for each, limits in force, cautions and sign-off, with findings.json
+// and findings.csv attached. It is pure: the same r and opt give the same
+// Audit.
+func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
+	if r == nil {
+		return nil, errors.New("reports: no result to write")
+	}
+	if opt.GeneratedAt.IsZero() {
+		return nil, errors.New("reports: PDFOptions.GeneratedAt is required: it is printed on the report and fixes its bytes")
+	}
+	if opt.MaxPerCheck == 0 {
+		opt.MaxPerCheck = DefaultPDFMaxPerCheck
+	}
+	var js, cs bytes.Buffer
+	if err := WriteJSON(&js, r); err != nil {
+		return nil, fmt.Errorf("reports: attached findings.json: %w", err)
+	}
+	if err := WriteCSV(&cs, r); err != nil {
+		return nil, fmt.Errorf("reports: attached findings.csv: %w", err)
+	}
+	b := &auditBuilder{r: r, opt: opt, tall: countFindings(r.Findings)}
+	a := &Audit{
+		Title:       "Welfare records audit: " + orNone(r.Facility),
+		Subject:     "Period " + dayOrNone(r.Period.From) + " to " + dayOrNone(r.Period.To),
+		Author:      opt.Inspector,
+		GeneratedAt: opt.GeneratedAt,
+		Header: [2]string{"Welfare records audit · " + orNone(r.Facility),
+			"Period " + dayOrNone(r.Period.From) + " – " + dayOrNone(r.Period.To)},
+		Footer: "Fingerprint " + shortPrint(r.Fingerprint) + " · records check, not a veterinary judgement",
+	}
+	a.Sections = append(a.Sections, b.cover(), b.summary())
+	if hasWeather(r) {
+		a.Sections = append(a.Sections, b.coldSeason())
+	}
+	a.Sections = append(a.Sections, b.findings(), b.limits(), b.cautions(), b.signOff())
+	a.Attachments = []Attachment{
+		{Name: "findings.json", Description: "Every finding, with the accounting and the checks in force (JSON)", Content: js.Bytes(), Bytes: js.Len()},
+		{Name: "findings.csv", Description: "Every finding, one per row (CSV)", Content: cs.Bytes(), Bytes: cs.Len()},
+	}
+	return a, nil
+}
+
+type auditBuilder struct {
+	r    *checker.Result
+	opt  PDFOptions
+	tall tally
+	out  []Block
+}
+
+func (b *auditBuilder) add(bl ...Block) { b.out = append(b.out, bl...) }
+
+// section returns the blocks added since the last call as a section.
+func (b *auditBuilder) section(title string, newPage bool, heading string) AuditSection {
+	s := AuditSection{Title: title, NewPage: newPage, Heading: heading, Blocks: b.out}
+	b.out = nil
+	return s
+}
+
+func hasWeather(r *checker.Result) bool {
+	for _, s := range r.Weather {
+		if len(s.Days) > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+func para(text, style string, size float64) Block {
+	return Block{Kind: KindParagraph, Text: text, Style: style, Size: size}
+}
+
+func space(mm float64) Block { return Block{Kind: KindSpace, Size: mm} }
+
+func subheading(text string, keep float64) Block {
+	return Block{Kind: KindSubheading, Text: text, Keep: keep}
+}
+
+func keyValue(label, value string, mono bool, size float64) Block {
+	return Block{Kind: KindKeyValue, Label: label, Text: value, Mono: mono, Size: size}
+}
+
+func (b *auditBuilder) cover() AuditSection {
+	r, t := b.r, b.tall
+	b.add(Block{Kind: KindTitle, Text: "Welfare records audit", Subtitle: orNone(r.Facility)})
+	const size = 10.5
+	b.add(
+		keyValue("Period", dayOrNone(r.Period.From)+" to "+dayOrNone(r.Period.To)+" (inclusive)", false, size),
+		keyValue("Inspector", orNone(b.opt.Inspector), false, size),
+		keyValue("Generated", b.opt.GeneratedAt.Format("2006-01-02 15:04:05 -07:00"), false, size),
+		keyValue("Checks in force", fmt.Sprintf("%d, of which %d not evaluated", len(r.Checks), len(r.NotEvaluated)), false, size),
+		keyValue("Findings", fmt.Sprintf("%d: %d significant, %d minor, %d note",
+			t.total(), t.severityTotal(checker.Significant), t.severityTotal(checker.Minor), t.severityTotal(checker.Note)), false, size),
+		keyValue("Fingerprint", orNone(r.Fingerprint), true, 9.5),
+		Block{Kind: KindParagraph, Style: "italic", Size: 8.5, Indent: 42,
+			Text: "SHA-256 over the records, rules and limits used. Every page carries its first 12 digits."},
+		subheading("Rows read per file", 20),
+	)
+	if len(r.Accounting) == 0 {
+		b.add(para("No record files were reported.", "italic", 9.5))
+	} else {
+		tb := &Table{Size: 9, Caption: "Rows read per file", Columns: []Column{
+			{Head: "File", Width: 62, Align: "L", Mono: true},
+			{Head: "Read", Width: 22, Align: "R"},
+			{Head: "Accepted", Width: 22, Align: "R"},
+			{Head: "Rejected", Width: 22, Align: "R"},
+			{Head: "Note", Width: 52, Align: "L"},
+		}}
+		for _, c := range r.Accounting {
+			note := ""
+			if c.Failed != "" {
+				note = "not used: " + c.Failed
+			}
+			tb.Rows = append(tb.Rows, Row{Cells: []string{c.File, itoa(c.Read), itoa(c.Accepted), itoa(c.Rejected), note}})
+		}
+		tt := totals(r.Accounting)
+		tb.Rows = append(tb.Rows, Row{Bold: true, Cells: []string{"total", itoa(tt.Read), itoa(tt.Accepted), itoa(tt.Rejected),
+			"rejected rows are findings (records.row.rejected)"}})
+		b.add(Block{Kind: KindTable, Table: tb})
+	}
+	b.add(space(6), Block{Kind: KindNotice, Text: Disclaimer + " Read the cautions before working with the animals."})
+	return b.section("Cover", true, "")
+}
+
+func (b *auditBuilder) summary() AuditSection {
+	r, t := b.r, b.tall
+	b.add(subheading("Findings by domain and severity", 30))
+	tb := &Table{Size: 9.5, Caption: "Findings by domain and severity", Columns: []Column{
+		{Head: "Domain", Width: 60, Align: "L"},
+		{Head: "Significant", Width: 30, Align: "R"},
+		{Head: "Minor", Width: 30, Align: "R"},
+		{Head: "Note", Width: 30, Align: "R"},
+		{Head: "Total", Width: 30, Align: "R"},
+	}}
+	for _, dom := range t.domains {
+		tb.Rows = append(tb.Rows, Row{Cells: []string{dom, itoa(t.get(dom, checker.Significant)), itoa(t.get(dom, checker.Minor)),
+			itoa(t.get(dom, checker.Note)), itoa(t.domainTotal(dom))}})
+	}
+	tb.Rows = append(tb.Rows, Row{Bold: true, Cells: []string{"total", itoa(t.severityTotal(checker.Significant)),
+		itoa(t.severityTotal(checker.Minor)), itoa(t.severityTotal(checker.Note)), itoa(t.total())}})
+	b.add(Block{Kind: KindTable, Table: tb})
+	if t.other > 0 {
+		b.add(para(fmt.Sprintf("%d findings carry a severity other than significant, minor or note; they are counted in the totals only.", t.other), "italic", 8.5))
+	}
+	b.add(space(3), b.barChart())
+
+	b.add(subheading("Care records", 14), para(careShare(r.Care), "", 10))
+	if c := r.Care; c.OccupiedDays > 0 {
+		b.add(Block{Kind: KindCareBar, Care: &CareBar{Complete: c.CompleteDays, Occupied: c.OccupiedDays,
+			Caption: fmt.Sprintf("%s complete, %d days incomplete", percent(c.CompleteDays, c.OccupiedDays), c.OccupiedDays-c.CompleteDays)}})
+	}
+
+	b.add(subheading(fmt.Sprintf("Checks not evaluated (%d)", len(r.NotEvaluated)), 14))
+	if len(r.NotEvaluated) == 0 {
+		b.add(para("Every check in force was evaluated.", "", 10))
+	} else {
+		b.add(para("These checks found no records to read, so their silence below is not a clean result.", "italic", 9), space(1))
+		nt := &Table{Size: 9, Caption: "Checks not evaluated", Columns: []Column{
+			{Head: "Check", Width: 70, Align: "L", Mono: true},
+			{Head: "Why", Width: 110, Align: "L"},
+		}}
+		for _, s := range r.NotEvaluated {
+			nt.Rows = append(nt.Rows, Row{Cells: []string{s.Check, s.Reason}})
+		}
+		b.add(Block{Kind: KindTable, Table: nt})
+	}
+	if len(r.Warnings) > 0 {
+		b.add(subheading(fmt.Sprintf("Read but not used (%d)", len(r.Warnings)), 14))
+		wt := &Table{Size: 9, Caption: "Read but not used", Columns: []Column{
+			{Head: "File", Width: 50, Align: "L", Mono: true},
+			{Head: "Column", Width: 35, Align: "L", Mono: true},
+			{Head: "Why", Width: 95, Align: "L"},
+		}}
+		for _, w := range r.Warnings {
+			wt.Rows = append(wt.Rows, Row{Cells: []string{w.File, w.Column, w.Message}})
+		}
+		b.add(Block{Kind: KindTable, Table: wt})
+	}
+	return b.section("Summary", true, "Summary")
+}
+
+// barChart is the findings per domain, stacked by severity.
+func (b *auditBuilder) barChart() Block {
+	t := b.tall
+	bars := make([]Bar, 0, len(t.domains))
+	for _, dom := range t.domains {
+		bar := Bar{Label: dom, Segments: []Segment{}, Total: t.domainTotal(dom)}
+		for _, s := range severities {
+			if c := t.get(dom, s); c > 0 {
+				bar.Segments = append(bar.Segments, Segment{Severity: string(s), Count: c})
+			}
+		}
+		bars = append(bars, bar)
+	}
+	return Block{Kind: KindBarChart, Bars: bars}
+}
+
+func (b *auditBuilder) findings() AuditSection {
+	r := b.r
+	b.add(para("Grouped by domain; within a domain, checks with significant findings come first. "+
+		"US PHS Policy IV.B asks for a reasonable and specific plan and schedule for correcting each deficiency: "+
+		"write it in the last column. Every finding, including any not listed here, is in findings.csv and findings.json attached to this PDF.", "", 9.5))
+	if len(r.Findings) == 0 {
+		b.add(space(3), para("No findings in the period.", "bold", 11))
+		if len(r.NotEvaluated) > 0 {
+			b.add(para(fmt.Sprintf("%s not evaluated; see the summary.", plural(len(r.NotEvaluated), "check")), "", 10))
+		}
+		return b.section("Findings", true, "Findings")
+	}
+	for gi, g := range groupFindings(r) {
+		if gi > 0 {
+			b.add(space(3))
+		}
+		b.add(Block{Kind: KindDomainHeading, Text: fmt.Sprintf("%s (%d)", g.domain, g.count), Bookmark: "Findings: " + g.domain})
+		for _, c := range g.checks {
+			b.add(b.checkFindings(c))
+		}
+	}
+	return b.section("Findings", true, "Findings")
+}
+
+func (b *auditBuilder) checkFindings(c checkGroup) Block {
+	tb := &Table{Size: 8, Caption: c.check, MinRowH: 11, Columns: []Column{
+		{Head: "Severity", Width: 16, Align: "L"},
+		{Head: "Subject", Width: 24, Align: "L", Mono: true},
+		{Head: "Date or days", Width: 22, Align: "L"},
+		{Head: "Message", Width: 49, Align: "L"},
+		{Head: "Evidence", Width: 36, Align: "L", Mono: true},
+		{Head: "Plan and schedule for correction", Width: 33, Align: "L"},
+	}}
+	counts := map[checker.Severity]int{}
+	for _, f := range c.findings {
+		counts[f.Severity]++
+	}
+	var parts []string
+	for _, s := range severities {
+		if counts[s] > 0 {
+			parts = append(parts, fmt.Sprintf("%d %s", counts[s], s))
+		}
+	}
+	head := c.check
+	if c.title != "" {
+		head += " — " + c.title
+	}
+	meta := fmt.Sprintf("%s (%s). Source: %s", plural(len(c.findings), "finding"), strings.Join(parts, ", "), orNone(c.source))
+	shown := len(c.findings)
+	if b.opt.MaxPerCheck > 0 && shown > b.opt.MaxPerCheck {
+		shown = b.opt.MaxPerCheck
+	}
+	for _, f := range c.findings[:shown] {
+		tb.Rows = append(tb.Rows, Row{Cells: findingCells(f)})
+	}
+	bl := Block{Kind: KindCheckFindings, Text: head, Subtitle: meta, Table: tb}
+	if more := len(c.findings) - shown; more > 0 {
+		bl.More = fmt.Sprintf("%d more %s findings in the attached findings.csv / findings.json.", more, c.check)
+	}
+	return bl
+}
+
+// maxEvidenceShown keeps one finding's row short; the attached files carry
+// every ref.
+const maxEvidenceShown = 8
+
+func findingCells(f *checker.Finding) []string {
+	ev := f.Evidence
+	text := refsString(ev, "\n")
+	if len(ev) > maxEvidenceShown {
+		text = refsString(ev[:maxEvidenceShown], "\n") + fmt.Sprintf("\n+%d more (attached files)", len(ev)-maxEvidenceShown)
+	}
+	if len(ev) == 0 {
+		text = "—"
+	}
+	when := dates(f)
+	if !f.Until.IsZero() && f.Until != f.On {
+		// One date per line: a range never breaks inside a date.
+		when = dayOrNone(f.On) + " –\n" + f.Until.String()
+	}
+	return []string{string(f.Severity), f.Subject, when, f.Message, text, ""}
+}
+
+func (b *auditBuilder) limits() AuditSection {
+	r := b.r
+	b.add(para("The values the rules compared the records with, each with the source tag from the limits file: "+
+		"[P] published source, [C] common practice, [F] facility choice, [M] recalled from memory and still to be verified.", "", 9.5),
+		space(2))
+	if len(r.Limits) == 0 {
+		b.add(para("No limits were reported with this result.", "italic", 10))
+	} else {
+		tb := &Table{Size: 8.5, Caption: "Limits in force", Columns: []Column{
+			{Head: "Limit", Width: 68, Align: "L", Mono: true},
+			{Head: "Value", Width: 42, Align: "L"},
+			{Head: "Source", Width: 70, Align: "L"},
+		}}
+		for _, l := range r.Limits {
+			tb.Rows = append(tb.Rows, Row{Cells: []string{l.Key, l.Value, l.Source}})
+		}
+		b.add(Block{Kind: KindTable, Table: tb})
+	}
+
+	b.add(subheading(fmt.Sprintf("Checks in force (%d)", len(r.Checks)), 20))
+	if len(r.Checks) == 0 {
+		b.add(para("No checks were reported with this result.", "italic", 10))
+		return b.section("Limits in force", true, "Limits in force")
+	}
+	skipped := map[string]bool{}
+	for _, s := range r.NotEvaluated {
+		skipped[s.Check] = true
+	}
+	ct := &Table{Size: 8, Caption: "Checks in force", Columns: []Column{
+		{Head: "Check", Width: 52, Align: "L", Mono: true},
+		{Head: "Title", Width: 58, Align: "L"},
+		{Head: "Default", Width: 20, Align: "L"},
+		{Head: "Source", Width: 50, Align: "L"},
+	}}
+	for _, c := range r.Checks {
+		id := c.ID
+		if skipped[c.ID] {
+			id += "\n(not evaluated)"
+		}
+		ct.Rows = append(ct.Rows, Row{Cells: []string{id, c.Title, string(c.Severity), c.Source}})
+	}
+	b.add(Block{Kind: KindTable, Table: ct})
+	return b.section("Limits in force", true, "Limits in force")
+}
+
+// cautionGroups are printed on every report, whatever was found: the people
+// reading it work with animals that bite and carry zoonoses, in the cold.
+var cautionGroups = []struct {
+	title string
+	items []string
+}{
+	{"Handling", []string{
+		"Conscious foxes and mink bite. Handle a conscious animal only with bite-resistant gloves or gauntlets that were inspected and found sound; use the restraint, sedation and number of people the protocol sets.",
+		"Report every bite or scratch, however small, to the supervisor and occupational health on the same day, with the animal's id.",
+		"Wash every bite or scratch at once, thoroughly, with soap and running water for about 15 minutes (WHO rabies position paper, 2018), then seek medical assessment.",
+	}},
+	{"Zoonoses", []string{
+		"Rabies: foxes are a reservoir species. Any bite, scratch, or saliva on broken skin or a mucous membrane needs a prompt rabies post-exposure assessment by a physician or public health, whatever the person's vaccination status (ACIP 2022).",
+		"Fox tapeworm (Echinococcus multilocularis): eggs passed in fox faeces contaminate fur and bedding, and survive freezing (−20 °C; killed at −80 °C) (Public Health Agency of Canada, pathogen safety data sheet). Wear gloves and dedicated clothing that stays in the unit, wash hands after work and before eating, and do not eat, drink or smoke in animal areas.",
+		"Sarcoptic mange: mites from affected foxes cause itching skin lesions in people (Pisano et al., Emerg Infect Dis 2019;25(6):1235). Wear gloves and long sleeves with animals that have skin lesions, and report any rash.",
+		"Leptospirosis: spread in the urine of infected animals and rodents. Cover cuts, wear gloves and eye protection when hosing or cleaning, and avoid splashes (common practice).",
+	}},
+	{"Cold injury for staff", []string{
+		"Plan outdoor work by the work/warm-up schedule (ACGIH TLV, cold stress) and take the warm-up breaks in a heated place. At a wind chill of −28 or colder exposed skin can freeze in 10–30 minutes (Environment and Climate Change Canada).",
+		"Cover exposed skin, change wet clothing at once, work in pairs in severe cold, and watch each other for frostbite (white or waxy, numb skin) and hypothermia (shivering, clumsiness, confusion).",
+	}},
+}
+
+func (b *auditBuilder) cautions() AuditSection {
+	for _, g := range cautionGroups {
+		b.add(subheading(g.title, 12))
+		for _, it := range g.items {
+			b.add(Block{Kind: KindBullet, Text: it})
+		}
+	}
+	b.add(space(3), Block{Kind: KindNotice, Text: Disclaimer})
+	return b.section("Cautions", true, "Cautions")
+}
+
+func (b *auditBuilder) signOff() AuditSection {
+	r := b.r
+	b.add(Block{Kind: KindSignOff, Text: "Sign-off", Bookmark: "Sign-off",
+		Subtitle: "Reviewed the findings and the plans for their correction, for the period " +
+			dayOrNone(r.Period.From) + " to " + dayOrNone(r.Period.To) + " (fingerprint " + shortPrint(r.Fingerprint) + ").",
+		Roles:  []string{"Attending veterinarian", "Chair, animal-care committee"},
+		Fields: []string{"Name", "Signature", "Date"}})
+	return b.section("Sign-off", false, "")
+}
+
+// plural is "1 finding" or "3 findings".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return itoa(n) + " " + noun + "s"
+}
