@@ -245,17 +245,20 @@ type OutdoorWork struct {
 
 // Cull is a row of culls.csv.
 type Cull struct {
-	Ref            Ref
-	At             time.Time `csv:"culled_at,required"`
-	AnimalID       string    `csv:"animal_id,required" validate:"required,id"`
-	StaffID        string    `csv:"staff_id,required" validate:"required,id"`
-	Reason         string    `csv:"reason,required" validate:"required,oneof=breeding_selection health humane_endpoint end_of_study pelting other"`
-	Method         string    `csv:"method,required" validate:"required,code"`
-	Sedated        Bool      `csv:"sedated"`
-	DeathConfirmed Bool      `csv:"death_confirmed"`
-	Confirmation   []string  `csv:"confirmation" validate:"dive,oneof=no_heartbeat no_breathing no_corneal_reflex no_pedal_reflex rigor_mortis secondary_method"`
-	ProtocolID     string    `csv:"protocol_id" validate:"omitempty,id"`
-	Disposal       string    `csv:"disposal" validate:"omitempty,oneof=rendering incineration burial necropsy other"`
+	Ref      Ref
+	At       time.Time `csv:"culled_at,required"`
+	AnimalID string    `csv:"animal_id,required" validate:"required,id"`
+	StaffID  string    `csv:"staff_id,required" validate:"required,id"`
+	Reason   string    `csv:"reason,required" validate:"required,oneof=breeding_selection health humane_endpoint end_of_study pelting other"`
+	Method   string    `csv:"method,required" validate:"required,code"`
+	Sedated  Bool      `csv:"sedated"`
+	// Anaesthetised: under general anaesthesia (no pedal or corneal reflex)
+	// before the method; sedation is not enough where a method needs this.
+	Anaesthetised  Bool     `csv:"anaesthetised"`
+	DeathConfirmed Bool     `csv:"death_confirmed"`
+	Confirmation   []string `csv:"confirmation" validate:"dive,oneof=no_heartbeat no_breathing no_corneal_reflex no_pedal_reflex rigor_mortis secondary_method"`
+	ProtocolID     string   `csv:"protocol_id" validate:"omitempty,id"`
+	Disposal       string   `csv:"disposal" validate:"omitempty,oneof=rendering incineration burial necropsy other"`
 }
 
 // Problem is one rejected row or file-level error, positioned for a keeper

@@ -21,6 +21,7 @@ type Limits struct {
 	PPE       PPE       `yaml:"ppe" json:"ppe"`
 	Protocol  ProtoLim  `yaml:"protocol" json:"protocol"`
 	Cold      Cold      `yaml:"cold" json:"cold"`
+	Cull      CullLim   `yaml:"cull" json:"cull"`
 	Juveniles Juveniles `yaml:"juveniles" json:"juveniles"`
 }
 
@@ -65,6 +66,9 @@ type Euthanasia struct {
 type MethodConditions struct {
 	// Sedation: the animal must be sedated or anaesthetised first.
 	Sedation bool `yaml:"sedation" json:"sedation"`
+	// GeneralAnaesthesia: the animal must be under general anaesthesia
+	// first (culls.csv anaesthetised: yes); sedation is not enough.
+	GeneralAnaesthesia bool `yaml:"general_anaesthesia" json:"general_anaesthesia"`
 	// SecondaryMethod: death must be ensured by a secondary method.
 	SecondaryMethod bool `yaml:"secondary_method" json:"secondary_method"`
 	// Note is shown with findings (e.g. "purpose-built device only").
@@ -168,4 +172,11 @@ type WorkWarmup struct {
 type WarmupRow struct {
 	WarmestC float64  `yaml:"warmest_c" json:"warmest_c"`
 	Cells    []string `yaml:"cells" json:"cells" validate:"min=1,dive,warmup_cell"`
+}
+
+// CullLim holds the euthanasia limits that are not per species.
+type CullLim struct {
+	// DeathConfirmationMinSigns: without rigor mortis or a secondary method,
+	// at least this many distinct signs must confirm death.
+	DeathConfirmationMinSigns int `yaml:"death_confirmation_min_signs" json:"death_confirmation_min_signs" validate:"gte=1"`
 }
