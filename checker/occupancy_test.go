@@ -42,6 +42,11 @@ func TestRequiredAreaPublishedFigures(t *testing.T) {
 		{"vixen with litter", []occupant{fox("dam_with_litter"), fox("juvenile"), fox("juvenile"), fox("juvenile")}, 2.0},
 		// Same source, mink: ≥ 2,550 cm² (0.255 m²).
 		{"mink", []occupant{{Animal: &records.Animal{Species: "neogale_vison"}, Stage: "adult"}}, 0.255},
+		// Same source (references.md "Space", mink): 2,550 cm² for two weaned young,
+		// so 0.1275 m² each — two in 0.255 m² pass.
+		{"two weaned mink", []occupant{{Animal: &records.Animal{Species: "neogale_vison"}, Stage: "juvenile"}, {Animal: &records.Animal{Species: "neogale_vison"}, Stage: "juvenile"}}, 0.255},
+		// Same source: 2,550 cm² for a dam with her litter.
+		{"mink dam with litter", []occupant{{Animal: &records.Animal{Species: "neogale_vison"}, Stage: "dam_with_litter"}, {Animal: &records.Animal{Species: "neogale_vison"}, Stage: "juvenile"}}, 0.255},
 		// Same source: adult arctic fox ≥ 0.8 m².
 		{"arctic fox", []occupant{{Animal: &records.Animal{Species: "vulpes_lagopus"}, Stage: "adult"}}, 0.8},
 		// US 9 CFR §3.6(c)(1): (31 in + 6)² / 144 = 9.51 ft² for a 31-inch dog
@@ -66,6 +71,13 @@ func TestRequiredAreaPublishedFigures(t *testing.T) {
 	// 9 CFR §3.6(c)(1) printed to two decimals: 9.51 ft².
 	if ft2 := dogAreaM2(31*2.54) / 0.09290304; math.Round(ft2*100)/100 != 9.51 {
 		t.Errorf("31-inch dog = %.4f ft², want 9.51", ft2)
+	}
+	// Same source: no mink cage below 0.255 m², no fox cage below 0.8 m²,
+	// whatever the occupants (checks.md "Corrections to the first set").
+	for sp, want := range map[string]float64{"neogale_vison": 0.255, "vulpes_vulpes": 0.8, "vulpes_lagopus": 0.8} {
+		if got := f.lim.Species[sp].Space.MinCageM2; got != want {
+			t.Errorf("%s min_cage_m2 = %v, want %v", sp, got, want)
+		}
 	}
 	// A dog without a recorded length has no formula value: unknown, not zero.
 	if _, ok := f.requiredArea(occupant{Animal: &records.Animal{Species: "canis_familiaris"}, Stage: "adult"}, nil); ok {

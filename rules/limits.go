@@ -48,6 +48,9 @@ type Space struct {
 	JuvenileM2      float64 `yaml:"juvenile_m2" json:"juvenile_m2" validate:"gte=0"`
 	DamWithLitterM2 float64 `yaml:"dam_with_litter_m2" json:"dam_with_litter_m2" validate:"gte=0"`
 	MinHeightCm     float64 `yaml:"min_height_cm" json:"min_height_cm" validate:"gte=0"`
+	// MinCageM2: no enclosure holding this species may be smaller, whatever
+	// its occupants (0: no minimum beyond the occupants' areas).
+	MinCageM2 float64 `yaml:"min_cage_m2" json:"min_cage_m2" validate:"gte=0"`
 	// Formula names a published area formula instead of fixed areas:
 	// "9cfr_3_6_dog" is ft² = (length in + 6)² / 144.
 	Formula string `yaml:"formula" json:"formula" validate:"omitempty,oneof=9cfr_3_6_dog"`
