@@ -155,6 +155,9 @@ type Staff struct {
 	RabiesTiterIUmL     *float64 `csv:"rabies_titer_iu_ml" validate:"omitempty,gte=0,lte=1000"`
 	RabiesBoosterOn     Day      `csv:"rabies_booster_on"`
 	RespiratorFitOn     Day      `csv:"respirator_fit_on"`
+	// RabiesRiskCategory is the ACIP 2022 risk category (1-5) of this
+	// person's work; nil: the limits' facility-wide category.
+	RabiesRiskCategory *int `csv:"rabies_risk_category" validate:"omitempty,gte=1,lte=5"`
 }
 
 // Protocol is a row of protocols.csv.
