@@ -39,6 +39,27 @@ type Species struct {
 	// RabiesRisk: handlers need rabies pre-exposure prophylaxis.
 	RabiesRisk bool       `yaml:"rabies_risk" json:"rabies_risk"`
 	Euthanasia Euthanasia `yaml:"euthanasia" json:"euthanasia"`
+	// Outdoor holds what the species needs when housed in an outdoor
+	// building (dogs: 9 CFR §3.4); nil: nothing beyond the general checks.
+	Outdoor *OutdoorLim `yaml:"outdoor" json:"outdoor"`
+}
+
+// OutdoorLim is what a species kept in outdoor housing needs.
+type OutdoorLim struct {
+	// Shelter: each enclosure in an outdoor building needs a shelter — a nest
+	// box, or a building of exposure sheltered — in hard cold (cold.shelter.missing).
+	Shelter bool `yaml:"shelter" json:"shelter"`
+	// BeddingBelowC: on days whose minimum air temperature is below this,
+	// bedding must have been added within the cold limits' bedding_days.
+	BeddingBelowC *float64 `yaml:"bedding_below_c" json:"bedding_below_c"`
+	// MoreBeddingAtOrBelowC: at or below this, additional bedding is needed
+	// (quoted in the bedding finding's message).
+	MoreBeddingAtOrBelowC *float64 `yaml:"more_bedding_at_or_below_c" json:"more_bedding_at_or_below_c"`
+	// NotAcclimatedBelowC: animals not acclimated (or of breeds that cannot
+	// tolerate the cold) are not kept outdoors below this. The records do not
+	// say which animals are acclimated, so no check reads it yet; it is shown
+	// among the limits in force.
+	NotAcclimatedBelowC *float64 `yaml:"not_acclimated_below_c" json:"not_acclimated_below_c"`
 }
 
 // Space is the floor space and height a species needs. Either the per-occupant
