@@ -107,8 +107,11 @@ func coldSet() *records.Set {
 			Species: "vulpes_vulpes", Sex: "f", ArrivedOn: coldDay("2025-11-01"), EnclosureID: e.id, LifeStage: "adult",
 		})
 	}
-	for _, id := range []string{"K-ORVO", "K-LISA"} {
-		set.Staff = append(set.Staff, records.Staff{ID: id, Name: id, Role: "keeper"})
+	for i, id := range []string{"K-ORVO", "K-LISA"} {
+		// Rabies pre-exposure series done: the keepers' care rounds of fox
+		// cages are rabies-risk work (checks.md "Corrections to the first set").
+		set.Staff = append(set.Staff, records.Staff{Ref: records.Ref(fmt.Sprintf("staff.csv:%d", i+2)), ID: id, Name: id, Role: "keeper",
+			RabiesPrimaryOn: coldDay("2025-10-01")})
 	}
 	line := 2
 	round := func(day, hhmm, enc, building, water string, bedding records.Bool) {
