@@ -171,6 +171,13 @@ type Protocol struct {
 	MaxAnimals        *int     `csv:"max_animals" validate:"omitempty,gte=0"`
 	Procedures        []string `csv:"procedures" validate:"dive,oneof=temperament_test health_check vet_exam treatment weighing transfer breeding sampling other"`
 	EuthanasiaMethods []string `csv:"euthanasia_methods" validate:"dive,code"`
+	// Personnel are the staff ids approved to work under the protocol.
+	Personnel []string `csv:"personnel" validate:"dive,id"`
+	// LastReviewedOn is the committee's latest continuing review.
+	LastReviewedOn Day `csv:"last_reviewed_on"`
+	// PainCategory is the USDA pain and distress category of the
+	// protocol's most invasive procedure.
+	PainCategory string `csv:"pain_category" validate:"omitempty,oneof=B C D E"`
 }
 
 // CareRound is a row of daily_care.csv. A round names an enclosure or a

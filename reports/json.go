@@ -39,6 +39,9 @@ type jsonFinding struct {
 	Evidence []string         `json:"evidence"`
 	Title    string           `json:"title"`
 	Source   string           `json:"source"`
+	// Reportable findings are marked "report to the institutional official" (PHS Policy IV.F.3).
+	Reportable bool   `json:"reportable,omitempty"`
+	ReportTo   string `json:"report_to,omitempty"`
 }
 
 // WriteJSON writes r as one JSON object (indented by two spaces): facility,
@@ -69,6 +72,9 @@ func WriteJSON(w io.Writer, r *checker.Result) error {
 			Evidence: make([]string, len(f.Evidence)),
 			Title:    f.Title,
 			Source:   f.Source,
+		}
+		if f.Reportable {
+			jf.Reportable, jf.ReportTo = true, ReportableMark
 		}
 		if f.Until != f.On {
 			jf.Until = f.Until.String()

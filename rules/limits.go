@@ -158,6 +158,9 @@ type PPE struct {
 // ProtoLim holds protocol limits.
 type ProtoLim struct {
 	ExpiringWithinDays int `yaml:"expiring_within_days" json:"expiring_within_days" validate:"gte=0"`
+	// ReviewEveryMonths: an event under a protocol more than this many
+	// months after its last continuing review (or approval) is overdue.
+	ReviewEveryMonths int `yaml:"review_every_months" json:"review_every_months" validate:"gte=1"`
 }
 
 // Cold holds the cold-season limits.
