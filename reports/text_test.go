@@ -314,3 +314,20 @@ func TestReportableMarkedInTextAndJSON(t *testing.T) {
 		t.Errorf("JSON reportable findings (-want +got):\n%s", diff)
 	}
 }
+
+// checks.md "Corrections to the first set": the bite caution quotes the same limit the
+// bite-report rule uses (handling.report_within_hours, 24 h by default, common practice), and
+// the exposure caution cites the ACIP post-exposure recommendations (2008, updated 2010; from
+// memory), not the 2022 pre-exposure report.
+func TestBiteCautionQuotesTheLimit(t *testing.T) {
+	r := &checker.Result{Limits: []checker.LimitLine{{Key: "handling.report_within_hours", Value: "12", Source: "[C]"}}}
+	if got := reports.BiteReportCaution(r); !strings.Contains(got, "within 12 h") || strings.Contains(got, "same day") {
+		t.Errorf("caution with a 12 h limit = %q", got)
+	}
+	if got := reports.BiteReportCaution(&checker.Result{}); strings.Contains(got, "24") {
+		t.Errorf("caution without limits invents a figure: %q", got)
+	}
+	if !strings.Contains(reports.RabiesExposureCaution, "MMWR 2008") || strings.Contains(reports.RabiesExposureCaution, "2022") {
+		t.Errorf("exposure caution cites %q", reports.RabiesExposureCaution)
+	}
+}

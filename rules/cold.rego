@@ -169,7 +169,7 @@ else := ""
 
 # METADATA
 # title: Frostbite weather
-# description: A weather site's minimum wind chill was at or below the frostbite limit; exposed skin can freeze within 30 minutes. A note for the keepers' own protection and the animals' exposed skin.
+# description: A weather site's minimum wind chill was at or below the frostbite limit; people's exposed skin can freeze within 30 minutes. A note for the protection of the people working outdoors - the Environment and Climate Change Canada freeze times are for human skin, not for animals.
 # custom:
 #   id: cold.frostbite.risk
 #   severity: note
@@ -184,7 +184,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("wind chill at or below %v on %d day(s); %s: %s", [lim.frostbite_wind_chill, r.days, conditions(r), r.band]),
+		"message": sprintf("wind chill at or below %v on %d day(s); %s: for people working outdoors, %s (Environment and Climate Change Canada times for human skin)", [lim.frostbite_wind_chill, r.days, conditions(r), r.band]),
 		"evidence": [r.coldest_ref],
 	}
 }

@@ -188,3 +188,12 @@ test_dog_without_shelter_fires if {
 	f.check == "cold.shelter.missing"
 	contains(f.message, "no nest box or other shelter")
 }
+
+# checks.md "Corrections to the first set": cold.frostbite.risk speaks of people - the
+# Environment and Climate Change Canada freeze times are for human skin.
+test_frostbite_message_speaks_of_people if {
+	some f in cold.findings with input as site([run(-30)])
+	f.check == "cold.frostbite.risk"
+	contains(f.message, "for people working outdoors")
+	contains(f.message, "human skin")
+}
