@@ -272,8 +272,9 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 
 func TestColdStintFacts(t *testing.T) {
 	f := coldFactsOf(t, coldSet(), coldPeriod)
-	// ACGIH TLV work/warm-up schedule, published example: −35 °C with an
-	// 8 km/h wind, moderate work → 40 min, 4 breaks.
+	// ACGIH TLV work/warm-up schedule (Saskatchewan table): −35 °C with an
+	// 8 km/h wind, moderate work → 40 min, 4 breaks (a table cell; the
+	// schedule's published example is the light-work one, references.md).
 	limit := map[string]any{
 		"kind": "limit", "text": "max 40 min work, 4 warm-up breaks (row -35 °C, 8 km/h column)", "cell": "40/4",
 		"max_work_min": 40, "breaks": 4, "row_warmest_c": -35.0, "column_kmh": 8.0, "air_row_c": -35.0, "light_shift": false,

@@ -28,7 +28,8 @@ site(runs) := {"kind": "site", "id": "YARD", "cold": {"readings_recorded": true,
 staff(stint) := {"kind": "staff", "id": "K-ORVO", "cold": {"stints": [stint]}}
 
 # −35 °C with an 8 km/h wind, moderate work: 40 min and 4 warm-up breaks
-# (ACGIH TLV / Saskatchewan work/warm-up schedule, the published example).
+# (ACGIH TLV / Saskatchewan work/warm-up schedule, a table cell; the schedule's published
+# example is the light-work one: −35 °C, no noticeable wind → 40/4).
 stint(minutes, emergency) := {
 	"on": "2026-01-13", "ref": "outdoor_work.csv:7", "site": "YARD",
 	"started_at": "2026-01-13 07:10", "ended_at": "2026-01-13 07:50", "minutes": minutes,
@@ -124,7 +125,7 @@ test_site_without_runs_is_quiet if {
 	count(cold.findings) == 0 with input as site([])
 }
 
-# Work/warm-up: 40 min allowed in the published example cell.
+# Work/warm-up: 40 min allowed in the −35 °C / 8 km/h moderate-work cell (ACGIH TLV table).
 test_stint_exactly_at_maximum_is_fine if {
 	count(cold.findings) == 0 with input as staff(stint(40, false))
 }
