@@ -75,6 +75,25 @@ type Space struct {
 	// Formula names a published area formula instead of fixed areas:
 	// "9cfr_3_6_dog" is ft² = (length in + 6)² / 144.
 	Formula string `yaml:"formula" json:"formula" validate:"omitempty,oneof=9cfr_3_6_dog"`
+	// NursingPuppyPct: a dam with litter of a formula species needs this
+	// percentage of her own formula area more for each juvenile of her
+	// species in the enclosure (9 CFR §3.6(c)(1)(ii): set by the attending
+	// veterinarian).
+	NursingPuppyPct float64 `yaml:"nursing_puppy_pct" json:"nursing_puppy_pct" validate:"gte=0"`
+	// Group: per-animal areas by body mass for animals housed with others
+	// of their species, used where larger than the formula.
+	Group *GroupSpace `yaml:"group" json:"group"`
+}
+
+// GroupSpace is a per-animal floor area by body mass for animals housed in
+// pairs or groups: below SmallBelowKg SmallM2, above LargeAboveKg LargeM2,
+// otherwise MediumM2.
+type GroupSpace struct {
+	SmallBelowKg float64 `yaml:"small_below_kg" json:"small_below_kg" validate:"gt=0"`
+	SmallM2      float64 `yaml:"small_m2" json:"small_m2" validate:"gt=0"`
+	MediumM2     float64 `yaml:"medium_m2" json:"medium_m2" validate:"gt=0"`
+	LargeAboveKg float64 `yaml:"large_above_kg" json:"large_above_kg" validate:"gtfield=SmallBelowKg"`
+	LargeM2      float64 `yaml:"large_m2" json:"large_m2" validate:"gt=0"`
 }
 
 // Euthanasia classifies methods for a species. A method in none of the
