@@ -2,6 +2,7 @@ package checker
 
 import (
 	"context"
+	"strings"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
@@ -33,5 +34,27 @@ func TestShippedReportableChecks(t *testing.T) {
 	}
 	if diff := cmp.Diff(want, got); diff != "" {
 		t.Errorf("reportable checks (-want +got):\n%s", diff)
+	}
+}
+
+// The engine carries custom.reportable onto every finding of the check (PHS
+// Policy IV.F.3), and onto no other finding.
+func TestFindingsCarryReportable(t *testing.T) {
+	fs := peopleFindings(t, peopleSet(t), peopleLimits(t), peoplePeriod)
+	marked := map[string]bool{}
+	for _, f := range fs {
+		want := strings.HasPrefix(f.Check, "protocol.") && f.Check != "protocol.expiring" && f.Check != "protocol.review.overdue"
+		if f.Reportable != want {
+			t.Errorf("%s %s: reportable = %v, want %v", f.Check, f.Subject, f.Reportable, want)
+		}
+		if f.Reportable {
+			marked[f.Check] = true
+		}
+	}
+	// The people fixture plants protocol.inactive, procedure.unapproved and animals.exceeded.
+	for _, c := range []string{"protocol.inactive", "protocol.procedure.unapproved", "protocol.animals.exceeded"} {
+		if !marked[c] {
+			t.Errorf("no reportable %s finding; got %v", c, marked)
+		}
 	}
 }
