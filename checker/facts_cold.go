@@ -261,7 +261,10 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 		water, stale, shelter, unknown := []any{}, []any{}, []any{}, []any{}
 		var staleRun, shelterRun, unknownRun dayRun
 		var staleLast records.Day   // last bedding before the open stale run
-		var bedBelow, moreBelow any // the occupants' outdoor bedding limits, for the rules
+		// The occupants' outdoor bedding limits, for the rules: kept once seen
+		// in the enclosure, so a run flushed after the dog left still carries
+		// the limit that selected its days.
+		var bedBelow, moreBelow any
 		flushStale := func(from, to records.Day) {
 			m := f.coldSpan(s, from, to)
 			m["min_air_c"] = s.minAir(f.period, from, to)
