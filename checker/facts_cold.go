@@ -260,7 +260,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 		s := sites[b.WeatherSite]
 		water, stale, shelter, unknown := []any{}, []any{}, []any{}, []any{}
 		var staleRun, shelterRun, unknownRun dayRun
-		var staleLast records.Day   // last bedding before the open stale run
+		var staleLast records.Day // last bedding before the open stale run
 		// The occupants' outdoor bedding limits, for the rules: kept once seen
 		// in the enclosure, so a run flushed after the dog left still carries
 		// the limit that selected its days.
