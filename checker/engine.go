@@ -469,6 +469,14 @@ func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, stri
 		}
 		info.Runs = b
 	}
+	if r, has := a.Custom["reportable"]; has {
+		b, isBool := r.(bool)
+		if !isBool {
+			at(a.Location, "check %s: custom.reportable must be true or false, not %v", id, r)
+			good = false
+		}
+		info.Reportable = b
+	}
 	if n, has := a.Custom["needs"]; has {
 		needs, err := metaStrings(n)
 		if err != nil {
@@ -482,7 +490,7 @@ func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, stri
 
 func sameCheck(a, b CheckInfo) bool {
 	return a.Title == b.Title && a.Description == b.Description && a.Severity == b.Severity &&
-		a.Source == b.Source && a.Runs == b.Runs && slices.Equal(a.Needs, b.Needs)
+		a.Source == b.Source && a.Runs == b.Runs && a.Reportable == b.Reportable && slices.Equal(a.Needs, b.Needs)
 }
 
 func metaStrings(v any) ([]string, error) {
@@ -730,6 +738,7 @@ func (e *Engine) toFinding(raw any) (f Finding, keep bool, err error) {
 		return f, false, fmt.Errorf("check %q has no METADATA (title, description, custom.id, custom.severity, custom.source)", check)
 	}
 	f.Check, f.Domain, f.Title, f.Source = check, info.Domain, info.Title, info.Source
+	f.Reportable = info.Reportable
 	if f.Subject, err = str("subject", true); err != nil {
 		return f, false, err
 	}

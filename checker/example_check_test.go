@@ -44,6 +44,7 @@ func ExampleCheck() {
 	// Output:
 	// significant enclosure.height.insufficient AB-05 2026-01-01 2026-01-31
 	// significant enclosure.space.insufficient K-01 2026-01-01 2026-01-31
+	// significant enclosure.space.insufficient S4-25 2026-01-01 2026-01-31
 	// minor enclosure.capacity.exceeded MB-07 2026-01-10 2026-01-31
 	// minor enclosure.nest_box.missing S3-12 2026-01-01 2026-01-31
 	// minor enclosure.platform.missing S2-05 2026-01-01 2026-01-31

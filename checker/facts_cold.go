@@ -48,6 +48,21 @@ func (s *siteWeather) day(p Period, d records.Day) (DayCold, *records.Weather, b
 	return s.days[i], s.coldestWC[i], s.days[i].Readings > 0
 }
 
+// minAir is the lowest daily minimum air temperature from..to (nil when no
+// day of the span has a reading).
+func (s *siteWeather) minAir(p Period, from, to records.Day) any {
+	lo, any_ := math.Inf(1), false
+	for d := from; d <= to; d++ {
+		if dc, _, ok := s.day(p, d); ok && dc.MinAirC < lo {
+			lo, any_ = dc.MinAirC, true
+		}
+	}
+	if !any_ {
+		return nil
+	}
+	return lo
+}
+
 // readingWindChill is the 2001 index for a reading; a reading without a wind
 // measurement counts as calm, so its wind chill is the air temperature.
 func readingWindChill(w *records.Weather) float64 {
@@ -246,8 +261,14 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 		water, stale, shelter, unknown := []any{}, []any{}, []any{}, []any{}
 		var staleRun, shelterRun, unknownRun dayRun
 		var staleLast records.Day // last bedding before the open stale run
+		// The occupants' outdoor bedding limits, for the rules: kept once seen
+		// in the enclosure, so a run flushed after the dog left still carries
+		// the limit that selected its days.
+		var bedBelow, moreBelow any
 		flushStale := func(from, to records.Day) {
 			m := f.coldSpan(s, from, to)
+			m["min_air_c"] = s.minAir(f.period, from, to)
+			m["bedding_below_c"], m["more_bedding_at_or_below_c"] = bedBelow, moreBelow
 			m["last_bedding"] = dayOrNull(staleLast)
 			m["evidence"] = refs(e.Ref, records.Ref(strOr(m["coldest_ref"])))
 			stale = append(stale, m)
@@ -257,10 +278,23 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			m["evidence"] = refs(e.Ref, records.Ref(strOr(m["coldest_ref"])))
 			shelter = append(shelter, m)
 		}
+		// 9 CFR §3.4: in an outdoor building a species with an outdoor
+		// shelter requirement (dogs) is sheltered by a nest box; a sheltered
+		// building is itself the shelter.
+		sheltered := e.NestBox.IsYes() || b.Exposure == "sheltered"
 		for _, seg := range f.segments[e.ID] {
-			needsNest := false
+			needsNest, needsShelter := false, false
+			beddingBelow := math.Inf(-1)
 			for _, o := range seg.Occupants {
-				needsNest = needsNest || f.lim.Species[o.Animal.Species].NestBox
+				sp := f.lim.Species[o.Animal.Species]
+				needsNest = needsNest || sp.NestBox
+				if out := sp.Outdoor; out != nil && b.Exposure == "outdoor" {
+					needsShelter = needsShelter || out.Shelter
+					if out.BeddingBelowC != nil && *out.BeddingBelowC > beddingBelow {
+						beddingBelow, bedBelow = *out.BeddingBelowC, *out.BeddingBelowC
+						moreBelow = num(out.MoreBeddingAtOrBelowC)
+					}
+				}
 			}
 			for d := seg.From; d <= seg.To; d++ {
 				dc, _, ok := s.day(f.period, d)
@@ -277,7 +311,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 					}
 				}
 				isStale := false
-				if ok && dc.MinWindChillC <= lc.BeddingWindChill {
+				if ok && (dc.MinWindChillC <= lc.BeddingWindChill || dc.MinAirC < beddingBelow) {
 					last := bed.last(e.ID, e.BuildingID, d)
 					isStale = last == 0 || int(d-last) >= lc.BeddingDays
 					if isStale && (staleRun.from == 0 || d != staleRun.to+1) {
@@ -291,7 +325,8 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				if from, to, done := staleRun.step(d, isStale); done {
 					flushStale(from, to)
 				}
-				noShelter := ok && needsNest && !e.NestBox.IsYes() && dc.MinWindChillC <= lc.ShelterWindChill
+				noShelter := ok && ((needsNest && !e.NestBox.IsYes()) || (needsShelter && !sheltered)) &&
+					dc.MinWindChillC <= lc.ShelterWindChill
 				if from, to, done := shelterRun.step(d, noShelter); done {
 					flushShelter(from, to)
 				}
@@ -310,6 +345,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			"exposure":             b.Exposure,
 			"weather_site":         nilIfEmpty(b.WeatherSite),
 			"nest_box":             e.NestBox.IsYes(),
+			"sheltered":            sheltered,
 			"water":                water,
 			"bedding_stale":        stale,
 			"shelter_missing":      shelter,

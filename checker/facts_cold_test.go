@@ -107,8 +107,11 @@ func coldSet() *records.Set {
 			Species: "vulpes_vulpes", Sex: "f", ArrivedOn: coldDay("2025-11-01"), EnclosureID: e.id, LifeStage: "adult",
 		})
 	}
-	for _, id := range []string{"K-ORVO", "K-LISA"} {
-		set.Staff = append(set.Staff, records.Staff{ID: id, Name: id, Role: "keeper"})
+	for i, id := range []string{"K-ORVO", "K-LISA"} {
+		// Rabies pre-exposure series done: the keepers' care rounds of fox
+		// cages are rabies-risk work (checks.md "Corrections to the first set").
+		set.Staff = append(set.Staff, records.Staff{Ref: records.Ref(fmt.Sprintf("staff.csv:%d", i+2)), ID: id, Name: id, Role: "keeper",
+			RabiesPrimaryOn: coldDay("2025-10-01")})
 	}
 	line := 2
 	round := func(day, hhmm, enc, building, water string, bedding records.Bool) {
@@ -237,12 +240,12 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 			// Two water checks a day (the building round and its own
 			// round; "frozen" is a recorded state), fresh bedding on 01-11
 			// and a nest box: nothing selected.
-			"exposure": "outdoor", "weather_site": "YARD", "nest_box": true,
+			"exposure": "outdoor", "weather_site": "YARD", "nest_box": true, "sheltered": true,
 			"water": []any{}, "bedding_stale": []any{}, "shelter_missing": []any{},
 			"days_without_weather": noWeather,
 		}},
 		{"enclosure", "N-02", map[string]any{
-			"exposure": "outdoor", "weather_site": "YARD", "nest_box": false,
+			"exposure": "outdoor", "weather_site": "YARD", "nest_box": false, "sheltered": false,
 			// Below 0 °C from 01-11; not_checked does not count.
 			"water": []any{
 				water("2026-01-11", -15, "weather.csv:4"),
@@ -250,7 +253,8 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 				water("2026-01-13", -40, "weather.csv:10"),
 			},
 			// Last bedding 01-04: 01-11 is D−7, outside D−6…D.
-			"bedding_stale":        []any{with(run, "last_bedding", "2026-01-04")},
+			"bedding_stale": []any{with(run, "last_bedding", "2026-01-04", "min_air_c", -40.0,
+				"bedding_below_c", nil, "more_bedding_at_or_below_c", nil)},
 			"shelter_missing":      []any{run},
 			"days_without_weather": noWeather,
 		}},
@@ -268,8 +272,9 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 
 func TestColdStintFacts(t *testing.T) {
 	f := coldFactsOf(t, coldSet(), coldPeriod)
-	// ACGIH TLV work/warm-up schedule, published example: −35 °C with an
-	// 8 km/h wind, moderate work → 40 min, 4 breaks.
+	// ACGIH TLV work/warm-up schedule (Saskatchewan table): −35 °C with an
+	// 8 km/h wind, moderate work → 40 min, 4 breaks (a table cell; the
+	// schedule's published example is the light-work one, references.md).
 	limit := map[string]any{
 		"kind": "limit", "text": "max 40 min work, 4 warm-up breaks (row -35 °C, 8 km/h column)", "cell": "40/4",
 		"max_work_min": 40, "breaks": 4, "row_warmest_c": -35.0, "column_kmh": 8.0, "air_row_c": -35.0, "light_shift": false,
@@ -565,5 +570,63 @@ func TestColdDemoMatchesAnswerKey(t *testing.T) {
 	sort.Slice(got, less(got))
 	if diff := cmp.Diff(want, got); diff != "" {
 		t.Errorf("cold findings on the demo (-answer key +got):\n%s", diff)
+	}
+}
+
+func TestDogOutdoorShelterAndBedding(t *testing.T) {
+	// 9 CFR §3.4(b) (references.md "Dogs in the cold"): a dog in outdoor housing needs a
+	// shelter — a nest box, or a sheltered building (checks.md "Corrections to the first
+	// set"); §3.4(b)(4): bedding when the ambient temperature is below 50 °F (10 °C).
+	// 2026-01-10 is 0 °C with wind chill −3 (Environment Canada table (0,10)→−3): too mild
+	// for the foxes' wind-chill bedding limit, cold enough for the dog's 10 °C.
+	dogSet := func(exposure string) *records.Set {
+		set := coldSet()
+		set.Facility.Buildings[0].Exposure = exposure
+		set.Animals[1].Species = "canis_familiaris"
+		set.Animals[1].LengthCm = fp(80)
+		for i := range set.Care {
+			set.Care[i].BeddingAdded = records.No
+		}
+		return set
+	}
+	tests := []struct {
+		exposure           string
+		wantShelter        []string // from..until of shelter_missing runs
+		wantBedding        []string
+		wantBedBelow       any
+		wantMoreBeddingCut any
+	}{
+		// Wind chill ≤ −20 (the cold limits' shelter_wind_chill) from 01-11: (−15,30)→−26.
+		{"outdoor", []string{"2026-01-11..2026-01-13"}, []string{"2026-01-10..2026-01-13"}, 10.0, 1.7},
+		// A sheltered building is the dog's shelter; §3.4 (outdoor housing) bedding does
+		// not apply, so only the wind-chill bedding limit selects days.
+		{"sheltered", nil, []string{"2026-01-11..2026-01-13"}, nil, nil},
+	}
+	for _, tt := range tests {
+		t.Run(tt.exposure, func(t *testing.T) {
+			f := coldFactsOf(t, dogSet(tt.exposure), coldPeriod)
+			c := f.docs["enclosure"]["N-02"]["cold"].(map[string]any)
+			spans := func(runs []any) []string {
+				var out []string
+				for _, r := range runs {
+					m := r.(map[string]any)
+					out = append(out, m["from"].(string)+".."+m["until"].(string))
+				}
+				return out
+			}
+			if diff := cmp.Diff(tt.wantShelter, spans(c["shelter_missing"].([]any))); diff != "" {
+				t.Errorf("shelter_missing (-want +got):\n%s", diff)
+			}
+			bed := c["bedding_stale"].([]any)
+			if diff := cmp.Diff(tt.wantBedding, spans(bed)); diff != "" {
+				t.Errorf("bedding_stale (-want +got):\n%s", diff)
+			}
+			if len(bed) > 0 {
+				m := bed[0].(map[string]any)
+				if diff := cmp.Diff([]any{tt.wantBedBelow, tt.wantMoreBeddingCut}, []any{m["bedding_below_c"], m["more_bedding_at_or_below_c"]}); diff != "" {
+					t.Errorf("bedding limits (-want +got):\n%s", diff)
+				}
+			}
+		})
 	}
 }

@@ -20,12 +20,12 @@ func (f *facts) cullFacts() {
 		if a == nil || !f.inPeriod(day) {
 			continue
 		}
-		class, cond := "unlisted", map[string]any{"sedation": false, "secondary_method": false, "note": nil}
+		class, cond := "unlisted", map[string]any{"sedation": false, "general_anaesthesia": false, "secondary_method": false, "note": nil}
 		if sp, ok := f.lim.Species[a.Species]; ok {
 			e := sp.Euthanasia
 			if mc, ok := e.Conditional[c.Method]; ok {
 				class = "conditional"
-				cond = map[string]any{"sedation": mc.Sedation, "secondary_method": mc.SecondaryMethod, "note": nilIfEmpty(mc.Note)}
+				cond = map[string]any{"sedation": mc.Sedation, "general_anaesthesia": mc.GeneralAnaesthesia, "secondary_method": mc.SecondaryMethod, "note": nilIfEmpty(mc.Note)}
 			}
 			switch {
 			case slices.Contains(e.Acceptable, c.Method):
@@ -48,6 +48,7 @@ func (f *facts) cullFacts() {
 			"class":           class,
 			"conditions":      cond,
 			"sedated":         c.Sedated.IsYes(),
+			"anaesthetised":   c.Anaesthetised.IsYes(),
 			"death_confirmed": c.DeathConfirmed.IsYes(),
 			"confirmation":    strs(signs),
 			"signs":           len(signs),

@@ -25,7 +25,7 @@ func (f *facts) enclosureFacts() {
 		segs := f.segments[e.ID]
 		occ := make([]any, 0, len(segs))
 		for _, s := range segs {
-			var required, minHeight float64
+			var required, minHeight, minCage float64
 			var unknown []any
 			nest, platform := false, false
 			people := make([]any, 0, len(s.Occupants))
@@ -41,6 +41,7 @@ func (f *facts) enclosureFacts() {
 					unknown = append(unknown, o.Animal.ID)
 				}
 				minHeight = math.Max(minHeight, sp.Space.MinHeightCm)
+				minCage = math.Max(minCage, sp.Space.MinCageM2)
 				nest = nest || sp.NestBox
 				platform = platform || sp.Platform
 				people = append(people, map[string]any{
@@ -57,6 +58,7 @@ func (f *facts) enclosureFacts() {
 				"required_m2":      round6(required),
 				"required_unknown": orEmpty(unknown),
 				"min_height_cm":    minHeight,
+				"min_cage_m2":      minCage,
 				"needs_nest_box":   nest,
 				"needs_platform":   platform,
 				"evidence":         ev,

@@ -166,6 +166,9 @@ func TestPeopleChecksEndToEnd(t *testing.T) {
 			"staff.handling.untrained S2 2026-01-12 significant",
 			"staff.inactive S2 2026-01-06 minor",
 			"staff.inactive S2 2026-01-12 minor",
+			// The care round of E1 (foxes) on 01-06 is rabies-risk work too (checks.md
+			// "Corrections to the first set"; ACIP 2022: people who work with reservoir species).
+			"staff.rabies.unprotected S2 2026-01-06 significant",
 			"staff.rabies.unprotected S2 2026-01-12 significant",
 			"staff.respirator.fit_overdue S1 2026-01-11 minor",
 		}},

@@ -73,7 +73,8 @@ func summerSet(withCleanedColumn bool) *records.Set {
 			Species: e.species, Sex: "f", ArrivedOn: coldDay("2026-05-01"), EnclosureID: e.id, LifeStage: "adult", LengthCm: fp(60),
 		})
 	}
-	set.Staff = append(set.Staff, records.Staff{ID: "K-ORVO", Name: "K-ORVO", Role: "keeper"})
+	set.Staff = append(set.Staff, records.Staff{Ref: "staff.csv:2", ID: "K-ORVO", Name: "K-ORVO", Role: "keeper",
+		RabiesPrimaryOn: coldDay("2025-01-10"), HandlingTrainedOn: coldDay("2026-01-10")})
 	line := 2
 	round := func(day, hhmm, enc, building, water string, cleaned records.Bool) {
 		set.Care = append(set.Care, records.CareRound{

@@ -18,6 +18,8 @@ type protocolDay struct {
 	refs     []records.Ref
 	purposes map[string][]any // handling purpose -> refs
 	methods  map[string][]any // cull method -> refs
+	species  map[string][]any // species of the animal -> refs
+	staff    map[string][]any // handler or cull operator -> refs
 }
 
 // protocolFacts adds every protocol's "protocol" section: its approval, the
@@ -52,7 +54,7 @@ func (f *facts) protocolFacts() {
 			m[a.ID] = d
 		}
 	}
-	event := func(rowPID string, a *records.Animal, d records.Day, ref records.Ref, purpose, method string) {
+	event := func(rowPID string, a *records.Animal, d records.Day, ref records.Ref, purpose, method, staff string) {
 		pid := rowPID
 		if pid == "" {
 			pid = a.ProtocolID
@@ -73,7 +75,8 @@ func (f *facts) protocolFacts() {
 		}
 		pd := m[d]
 		if pd == nil {
-			pd = &protocolDay{day: d, purposes: map[string][]any{}, methods: map[string][]any{}}
+			pd = &protocolDay{day: d, purposes: map[string][]any{}, methods: map[string][]any{},
+				species: map[string][]any{}, staff: map[string][]any{}}
 			m[d] = pd
 		}
 		pd.refs = append(pd.refs, ref)
@@ -82,6 +85,10 @@ func (f *facts) protocolFacts() {
 		}
 		if method != "" {
 			pd.methods[method] = append(pd.methods[method], string(ref))
+		}
+		pd.species[a.Species] = append(pd.species[a.Species], string(ref))
+		if staff != "" {
+			pd.staff[staff] = append(pd.staff[staff], string(ref))
 		}
 	}
 	for i := range f.set.Animals {
@@ -98,13 +105,13 @@ func (f *facts) protocolFacts() {
 	for i := range f.set.Handling {
 		h := &f.set.Handling[i]
 		if a := f.animals[h.AnimalID]; a != nil {
-			event(h.ProtocolID, a, records.DayOf(h.At), h.Ref, h.Purpose, "")
+			event(h.ProtocolID, a, records.DayOf(h.At), h.Ref, h.Purpose, "", h.StaffID)
 		}
 	}
 	for i := range f.set.Culls {
 		c := &f.set.Culls[i]
 		if a := f.animals[c.AnimalID]; a != nil {
-			event(c.ProtocolID, a, records.DayOf(c.At), c.Ref, "", c.Method)
+			event(c.ProtocolID, a, records.DayOf(c.At), c.Ref, "", c.Method, c.StaffID)
 		}
 	}
 
@@ -123,6 +130,8 @@ func (f *facts) protocolFacts() {
 				"refs":     refs(pd.refs...),
 				"purposes": anyMap(pd.purposes),
 				"methods":  anyMap(pd.methods),
+				"species":  anyMap(pd.species),
+				"staff":    anyMap(pd.staff),
 			})
 		}
 		var maxAnimals any
@@ -139,6 +148,10 @@ func (f *facts) protocolFacts() {
 			"max_animals":             maxAnimals,
 			"procedures":              strs(p.Procedures),
 			"euthanasia_methods":      strs(p.EuthanasiaMethods),
+			"species":                 strs(p.Species),
+			"personnel":               strs(p.Personnel),
+			"last_reviewed_on":        dayOrNull(p.LastReviewedOn),
+			"pain_category":           nilIfEmpty(p.PainCategory),
 			"days":                    events,
 			"animals":                 f.heldUnder(p, start[p.ID]),
 		}

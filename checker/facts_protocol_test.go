@@ -20,6 +20,9 @@ func TestProtocolFacts(t *testing.T) {
 		records.Handling{Ref: "handling.csv:8", At: ptime(t, "2025-12-31 09:00"), AnimalID: "M1", StaffID: "S1", Purpose: "weighing"},
 		records.Handling{Ref: "handling.csv:9", At: ptime(t, "2026-01-08 09:00"), AnimalID: "M1", StaffID: "S1", Purpose: "weighing", ProtocolID: "P1"},
 	)
+	set.Protocols[1].Personnel = []string{"S1"}
+	set.Protocols[1].LastReviewedOn = pday(t, "2025-06-30")
+	set.Protocols[1].PainCategory = "C"
 	period := Period{From: pday(t, "2025-12-31"), To: pday(t, "2026-01-31")}
 	f := newFacts(set, peopleLimits(t), period)
 	f.protocolFacts()
@@ -41,7 +44,10 @@ func TestProtocolFacts(t *testing.T) {
 	p2 := f.docs["protocol"]["P2"]["protocol"].(map[string]any)
 	day := func(on string, in bool, ref string) map[string]any {
 		return map[string]any{"on": on, "in_force": in, "refs": []any{ref},
-			"purposes": map[string]any{"weighing": []any{ref}}, "methods": map[string]any{}}
+			"purposes": map[string]any{"weighing": []any{ref}}, "methods": map[string]any{},
+			// checks.md "protocol — additions": the species and the people of each day's
+			// rows, for protocol.species.unapproved and protocol.personnel.unlisted.
+			"species": map[string]any{"neogale_vison": []any{ref}}, "staff": map[string]any{"S1": []any{ref}}}
 	}
 	wantDays := []any{
 		day("2025-12-31", true, "handling.csv:8"),
@@ -50,6 +56,11 @@ func TestProtocolFacts(t *testing.T) {
 	}
 	if diff := cmp.Diff(wantDays, p2["days"]); diff != "" {
 		t.Errorf("P2 days (-want +got):\n%s", diff)
+	}
+	// records.md "New in this contract": protocols.csv personnel, last_reviewed_on, pain_category.
+	gotCols := []any{p2["species"], p2["personnel"], p2["last_reviewed_on"], p2["pain_category"]}
+	if diff := cmp.Diff([]any{[]any{}, []any{"S1"}, "2025-06-30", "C"}, gotCols); diff != "" {
+		t.Errorf("P2 species, personnel, last_reviewed_on, pain_category (-want +got):\n%s", diff)
 	}
 	// Only M1 (animals.csv) under P2, which approves any number.
 	wantP2 := map[string]any{"count": 1, "exceeded_on": nil, "over_refs": []any{}, "over_animals": []any{}}

@@ -16,13 +16,15 @@ func init() { domainFacts = append(domainFacts, (*facts).staffFacts) }
 // not of the row, so a keeper who handled forty foxes on one day gets one
 // finding per check with forty rows of evidence rather than forty findings.
 type staffDay struct {
-	day        records.Day
-	handled    []records.Ref
-	rabies     []records.Ref // handlings of a rabies-risk species
-	respirator []records.Ref // handlings with a respirator worn
-	culls      []records.Ref
-	methods    []string // cull methods used, first-seen order
-	outside    []records.Ref
+	day     records.Day
+	handled []records.Ref
+	// Work with a rabies-risk species: handlings, culls, and care rounds of
+	// enclosures that species occupies that day.
+	rabiesHandled, rabiesCulls, rabiesRounds []records.Ref
+	respirator                               []records.Ref // handlings with a respirator worn
+	culls                                    []records.Ref
+	methods                                  []string // cull methods used, first-seen order
+	outside                                  []records.Ref
 }
 
 // staffFacts adds each person's "staff" section: per day, the handling
@@ -63,7 +65,7 @@ func (f *facts) staffFacts() {
 		sd := at(s, d)
 		sd.handled = append(sd.handled, h.Ref)
 		if a := f.animals[h.AnimalID]; a != nil && f.lim.Species[a.Species].RabiesRisk {
-			sd.rabies = append(sd.rabies, h.Ref)
+			sd.rabiesHandled = append(sd.rabiesHandled, h.Ref)
 		}
 		if slices.Contains(h.PPE, "respirator") {
 			sd.respirator = append(sd.respirator, h.Ref)
@@ -79,15 +81,23 @@ func (f *facts) staffFacts() {
 		}
 		sd := at(s, d)
 		sd.culls = append(sd.culls, c.Ref)
+		if a := f.animals[c.AnimalID]; a != nil && f.lim.Species[a.Species].RabiesRisk {
+			sd.rabiesCulls = append(sd.rabiesCulls, c.Ref)
+		}
 		if !slices.Contains(sd.methods, c.Method) {
 			sd.methods = append(sd.methods, c.Method)
 		}
 		outside(s, d, c.Ref)
 	}
+	risky := f.rabiesRiskRounds()
 	for i := range f.set.Care {
 		r := &f.set.Care[i]
 		if s := f.staff[r.StaffID]; s != nil && f.inPeriod(r.Day) {
 			outside(s, r.Day, r.Ref)
+			if risky(r) {
+				sd := at(s, r.Day)
+				sd.rabiesRounds = append(sd.rabiesRounds, r.Ref)
+			}
 		}
 	}
 	for i := range f.set.Work {
@@ -105,8 +115,11 @@ func (f *facts) staffFacts() {
 			sds = append(sds, sd)
 		}
 		sort.Slice(sds, func(i, j int) bool { return sds[i].day < sds[j].day })
-		handled, culled, out := []any{}, []any{}, []any{}
+		handled, culled, out, rabies := []any{}, []any{}, []any{}, []any{}
 		for _, sd := range sds {
+			if r := f.rabiesDay(s, sd); r != nil {
+				rabies = append(rabies, r)
+			}
 			if len(sd.handled) > 0 {
 				handled = append(handled, f.handlerDay(s, sd))
 			}
@@ -126,6 +139,7 @@ func (f *facts) staffFacts() {
 			"handled":        handled,
 			"culled":         culled,
 			"outside_active": out,
+			"rabies":         rabies,
 		}
 	}
 }
@@ -142,23 +156,15 @@ func trainedAt(on records.Day, months int, d records.Day) map[string]any {
 	return m
 }
 
-// handlerDay is one day of handling by s: training, rabies status (when a
-// rabies-risk species was handled) and respirator fit (when one was worn).
+// handlerDay is one day of handling by s: training and respirator fit (when
+// one was worn).
 func (f *facts) handlerDay(s *records.Staff, sd *staffDay) map[string]any {
 	d := sd.day
 	out := map[string]any{
 		"on":         d.String(),
 		"refs":       refs(sd.handled...),
 		"training":   trainedAt(s.HandlingTrainedOn, f.lim.Staff.HandlingTrainingMonths, d),
-		"rabies":     nil,
 		"respirator": nil,
-	}
-	if len(sd.rabies) > 0 {
-		status, reason := rabiesStatus(s, d, f.lim.Staff.Rabies)
-		out["rabies"] = map[string]any{
-			"refs": refs(sd.rabies...), "status": status, "reason": reason,
-			"category": f.lim.Staff.Rabies.RiskCategory, "primary_on": dayOrNull(s.RabiesPrimaryOn),
-		}
 	}
 	if len(sd.respirator) > 0 {
 		r := trainedAt(s.RespiratorFitOn, f.lim.Staff.RespiratorFitMonths, d)
@@ -195,9 +201,15 @@ func (f *facts) operatorDay(s *records.Staff, sd *staffDay) map[string]any {
 // that day. Titers and boosters dated after d are not yet known at d.
 //
 // status is "unprotected" (no completed primary series on d), "overdue"
-// (primary series done, follow-up missing) or "protected"; reason says why
+// (primary series done, follow-up missing), "protected", or "not_required"
+// (risk category 5); reason says why
 // in a keeper's words.
 func rabiesStatus(s *records.Staff, d records.Day, lim rules.RabiesLimit) (status, reason string) {
+	if lim.RiskCategory == 5 {
+		// ACIP 2022: category 5 (risk no greater than the general
+		// population's) needs no pre-exposure prophylaxis.
+		return "not_required", ""
+	}
 	p := s.RabiesPrimaryOn
 	if p.IsZero() {
 		return "unprotected", "no rabies pre-exposure series recorded"
@@ -254,4 +266,76 @@ func rabiesStatus(s *records.Staff, d records.Day, lim rules.RabiesLimit) (statu
 		return "overdue", fmt.Sprintf("more than 3 years since the pre-exposure series (%s) with no titer of at least %g IU/mL taken %s to %s and no booster given %s to %s", p, minTiter, from, end, p+21, end)
 	}
 	return "protected", ""
+}
+
+// rabiesRiskRounds returns whether a care round covers an enclosure occupied
+// that day by a rabies-risk species (a building round covers every
+// enclosure of its building). Results are kept per enclosure or building
+// and day, since a year of rounds names the same few hundred of each.
+func (f *facts) rabiesRiskRounds() func(r *records.CareRound) bool {
+	byBuilding := map[string][]string{}
+	for i := range f.set.Enclosures {
+		e := &f.set.Enclosures[i]
+		byBuilding[e.BuildingID] = append(byBuilding[e.BuildingID], e.ID)
+	}
+	risky := func(encID string, d records.Day) bool {
+		seg := f.segmentOn(encID, d)
+		return seg != nil && slices.ContainsFunc(seg.Occupants, func(o occupant) bool {
+			return f.lim.Species[o.Animal.Species].RabiesRisk
+		})
+	}
+	type key struct {
+		id       string
+		building bool
+		day      records.Day
+	}
+	memo := map[key]bool{}
+	return func(r *records.CareRound) bool {
+		k := key{r.EnclosureID, r.EnclosureID == "", r.Day}
+		if k.building {
+			k.id = r.BuildingID
+		}
+		if v, ok := memo[k]; ok {
+			return v
+		}
+		v := false
+		if k.building {
+			v = slices.ContainsFunc(byBuilding[k.id], func(e string) bool { return risky(e, r.Day) })
+		} else {
+			v = risky(k.id, r.Day)
+		}
+		memo[k] = v
+		return v
+	}
+}
+
+// rabiesDay is one day on which s worked with a rabies-risk species —
+// handled one, culled one, or did a care round of an enclosure one
+// occupied — with s's pre-exposure status that day under s's own ACIP 2022
+// risk category (the limits' category when staff.csv gives none); nil on
+// a day without such work.
+func (f *facts) rabiesDay(s *records.Staff, sd *staffDay) map[string]any {
+	n := len(sd.rabiesHandled) + len(sd.rabiesCulls) + len(sd.rabiesRounds)
+	if n == 0 {
+		return nil
+	}
+	lim := f.lim.Staff.Rabies
+	if s.RabiesRiskCategory != nil {
+		lim.RiskCategory = *s.RabiesRiskCategory
+	}
+	status, reason := rabiesStatus(s, sd.day, lim)
+	all := slices.Concat(sd.rabiesHandled, sd.rabiesCulls, sd.rabiesRounds)
+	return map[string]any{
+		"on":   sd.day.String(),
+		"refs": refs(all...),
+		"work": map[string]any{
+			"handlings":   len(sd.rabiesHandled),
+			"culls":       len(sd.rabiesCulls),
+			"care_rounds": len(sd.rabiesRounds),
+		},
+		"status":     status,
+		"reason":     reason,
+		"category":   lim.RiskCategory,
+		"primary_on": dayOrNull(s.RabiesPrimaryOn),
+	}
 }

@@ -148,12 +148,20 @@ func TestStaffFacts(t *testing.T) {
 		"ref": "staff.csv:3", "name": "Oskar Lind", "active_from": "2025-01-01", "active_to": "2026-01-05",
 		"handled": []any{map[string]any{
 			"on": "2026-01-12", "refs": []any{"handling.csv:4", "handling.csv:8"},
-			"training": map[string]any{"trained_on": nil, "trained_after_event": false, "valid_until": nil},
-			// Only the fox is a rabies-risk species (limits: mink rabies_risk false).
-			"rabies": map[string]any{"refs": []any{"handling.csv:4"}, "status": "unprotected",
-				"reason": "no rabies pre-exposure series recorded", "category": 3, "primary_on": nil},
+			"training":   map[string]any{"trained_on": nil, "trained_after_event": false, "valid_until": nil},
 			"respirator": nil,
 		}},
+		// checks.md "Corrections to the first set": rabies covers care rounds of
+		// occupied enclosures (E1 holds foxes on 6 January) as well as handlings.
+		// Only the fox is a rabies-risk species (limits: mink rabies_risk false).
+		"rabies": []any{
+			map[string]any{"on": "2026-01-06", "refs": []any{"daily_care.csv:2"},
+				"work":   map[string]any{"handlings": 0, "culls": 0, "care_rounds": 1},
+				"status": "unprotected", "reason": "no rabies pre-exposure series recorded", "category": 3, "primary_on": nil},
+			map[string]any{"on": "2026-01-12", "refs": []any{"handling.csv:4"},
+				"work":   map[string]any{"handlings": 1, "culls": 0, "care_rounds": 0},
+				"status": "unprotected", "reason": "no rabies pre-exposure series recorded", "category": 3, "primary_on": nil},
+		},
 		"culled": []any{},
 		"outside_active": []any{
 			map[string]any{"on": "2026-01-06", "refs": []any{"daily_care.csv:2"}},
@@ -180,5 +188,76 @@ func TestStaffFacts(t *testing.T) {
 	wantResp := map[string]any{"refs": []any{"handling.csv:2"}, "fit_on": "2025-01-10", "fit_after_event": false, "valid_until": "2026-01-10"}
 	if diff := cmp.Diff(wantResp, gotResp); diff != "" {
 		t.Errorf("S1 respirator (-want +got):\n%s", diff)
+	}
+}
+
+func TestRabiesCoversEveryoneWhoWorksWithRiskSpecies(t *testing.T) {
+	// checks.md "Corrections to the first set": handlers, cull operators and keepers on
+	// care rounds of occupied enclosures; the ACIP 2022 risk category is per person
+	// (staff.csv rabies_risk_category), defaulting to the limits' category (3).
+	cat := func(n int) *int { return &n }
+	tests := []struct {
+		name     string
+		category *int
+		cull     string // animal culled on 2026-01-20 by S3
+		round    string // enclosure of a round by S3 on 2026-01-20 ("" none; "B1" a building round)
+		wantWork map[string]any
+		wantCat  int
+		want     string
+	}{
+		{"fox cull", nil, "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 3, "overdue"},
+		{"mink cull is not rabies work", nil, "M1", "", nil, 0, ""},
+		{"care round of an enclosure foxes occupy", nil, "", "E1", map[string]any{"handlings": 0, "culls": 0, "care_rounds": 1}, 3, "overdue"},
+		{"building round covers its enclosures", nil, "", "B1", map[string]any{"handlings": 0, "culls": 0, "care_rounds": 1}, 3, "overdue"},
+		{"care round of an empty enclosure", nil, "", "E2", nil, 0, ""},
+		// ACIP 2022 category 4: primary series only, so nothing is overdue.
+		{"person's own category 4", cat(4), "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 4, "protected"},
+		// ACIP 2022 category 5: no pre-exposure prophylaxis recommended.
+		{"person's own category 5", cat(5), "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 5, "not_required"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			set := peopleSet(t)
+			set.Handling = nil
+			set.Care = nil
+			set.Enclosures = append(set.Enclosures, records.Enclosure{Ref: "enclosures.csv:3", ID: "E2", BuildingID: "B1", Kind: "pen", HeightCm: 200})
+			// S3: primary series 2020-03-01, titer 2022-03-01 (inside years 1-3): for
+			// category 3 that suffices; make it too early so category 3 is overdue.
+			set.Staff[2].RabiesTiterOn = pday(t, "2020-06-01")
+			set.Staff[2].RabiesRiskCategory = tt.category
+			set.Culls = nil
+			if tt.cull != "" {
+				set.Culls = []records.Cull{{Ref: "culls.csv:2", At: ptime(t, "2026-01-20 11:00"), AnimalID: tt.cull, StaffID: "S3", Method: "barbiturate_overdose"}}
+			}
+			if tt.round != "" {
+				r := records.CareRound{Ref: "daily_care.csv:2", At: ptime(t, "2026-01-20 08:00"), Day: pday(t, "2026-01-20"), StaffID: "S3", Observed: records.Yes}
+				if tt.round == "B1" {
+					r.BuildingID = "B1"
+				} else {
+					r.EnclosureID = tt.round
+				}
+				set.Care = []records.CareRound{r}
+			}
+			f := newFacts(set, peopleLimits(t), peoplePeriod)
+			f.staffFacts()
+			doc := f.docs["staff"]["S3"]
+			var got []any
+			if doc != nil {
+				got = doc["staff"].(map[string]any)["rabies"].([]any)
+			}
+			if tt.wantWork == nil {
+				if len(got) != 0 {
+					t.Fatalf("rabies days = %v, want none", got)
+				}
+				return
+			}
+			if len(got) != 1 {
+				t.Fatalf("rabies days = %v, want one", got)
+			}
+			e := got[0].(map[string]any)
+			if diff := cmp.Diff([]any{tt.wantWork, tt.wantCat, tt.want}, []any{e["work"], e["category"], e["status"]}); diff != "" {
+				t.Errorf("work, category, status (-want +got):\n%s", diff)
+			}
+		})
 	}
 }

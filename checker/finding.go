@@ -39,6 +39,9 @@ type Finding struct {
 	Evidence []records.Ref `json:"evidence"`
 	Title    string        `json:"title"`
 	Source   string        `json:"source"`
+	// Reportable: noncompliance the institution reports (PHS Policy
+	// IV.F.3); outputs mark it "report to the institutional official".
+	Reportable bool `json:"reportable,omitempty"`
 }
 
 // Key is the finding's stable identity: check id, subject and first day.
@@ -65,6 +68,9 @@ type CheckInfo struct {
 	// Subjects are the subject kinds whose facts the check's package
 	// receives (enclosure, animal, ...), from its package METADATA.
 	Subjects []string `json:"subjects,omitempty"`
+	// Reportable is custom.reportable: findings of the check are
+	// noncompliance reported to the institutional official (PHS Policy IV.F.3).
+	Reportable bool `json:"reportable,omitempty"`
 }
 
 // Skipped is a check that was not evaluated, and why.

@@ -5,6 +5,7 @@ import (
 	"sort"
 
 	"welfare/records"
+	"welfare/rules"
 )
 
 // segment is a run of days, From to To inclusive, on which an enclosure has
@@ -107,10 +108,7 @@ func (f *facts) requiredArea(o occupant, all []occupant) (float64, bool) {
 		return 0, false
 	}
 	if sp.Space.Formula == "9cfr_3_6_dog" {
-		if o.Animal.LengthCm == nil {
-			return 0, false
-		}
-		return dogAreaM2(*o.Animal.LengthCm), true
+		return formulaArea(sp.Space, o, all)
 	}
 	switch o.Stage {
 	case "dam_with_litter":
@@ -124,4 +122,53 @@ func (f *facts) requiredArea(o occupant, all []occupant) (float64, bool) {
 		return sp.Space.JuvenileM2, true
 	}
 	return sp.Space.AdultM2, true
+}
+
+// formulaArea is the area a dog needs: the 9 CFR §3.6(c)(1) formula; for a
+// dam with litter, nursing_puppy_pct of it more per juvenile of her species
+// sharing the enclosure (§3.6(c)(1)(ii)); a juvenile with its dam needs
+// nothing of its own; and, housed with another of its species, the larger
+// of the formula and the group figure for its mass (Guide, 8th ed., Table
+// 3.3). The area is unknown without a length, or without a mass when the
+// group figure applies.
+func formulaArea(sp rules.Space, o occupant, all []occupant) (float64, bool) {
+	same, young := 0, 0
+	damPresent := false
+	for _, p := range all {
+		if p.Animal.Species != o.Animal.Species {
+			continue
+		}
+		same++
+		if p.Stage == "juvenile" {
+			young++
+		}
+		if p.Stage == "dam_with_litter" {
+			damPresent = true
+		}
+	}
+	if o.Stage == "juvenile" && damPresent {
+		return 0, true
+	}
+	if o.Animal.LengthCm == nil {
+		return 0, false
+	}
+	area := dogAreaM2(*o.Animal.LengthCm)
+	if o.Stage == "dam_with_litter" {
+		area += area * sp.NursingPuppyPct / 100 * float64(young)
+		return area, true
+	}
+	if g := sp.Group; g != nil && same > 1 {
+		if o.Animal.MassKg == nil {
+			return 0, false
+		}
+		m, per := *o.Animal.MassKg, g.MediumM2
+		switch {
+		case m < g.SmallBelowKg:
+			per = g.SmallM2
+		case m > g.LargeAboveKg:
+			per = g.LargeM2
+		}
+		area = math.Max(area, per)
+	}
+	return area, true
 }

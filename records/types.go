@@ -165,6 +165,9 @@ type Staff struct {
 	RabiesTiterIUmL     *float64 `csv:"rabies_titer_iu_ml" validate:"omitempty,gte=0,lte=1000"`
 	RabiesBoosterOn     Day      `csv:"rabies_booster_on"`
 	RespiratorFitOn     Day      `csv:"respirator_fit_on"`
+	// RabiesRiskCategory is the ACIP 2022 risk category (1-5) of this
+	// person's work; nil: the limits' facility-wide category.
+	RabiesRiskCategory *int `csv:"rabies_risk_category" validate:"omitempty,gte=1,lte=5"`
 }
 
 // Protocol is a row of protocols.csv.
@@ -178,6 +181,13 @@ type Protocol struct {
 	MaxAnimals        *int     `csv:"max_animals" validate:"omitempty,gte=0"`
 	Procedures        []string `csv:"procedures" validate:"dive,oneof=temperament_test health_check vet_exam treatment weighing transfer breeding sampling other"`
 	EuthanasiaMethods []string `csv:"euthanasia_methods" validate:"dive,code"`
+	// Personnel are the staff ids approved to work under the protocol.
+	Personnel []string `csv:"personnel" validate:"dive,id"`
+	// LastReviewedOn is the committee's latest continuing review.
+	LastReviewedOn Day `csv:"last_reviewed_on"`
+	// PainCategory is the USDA pain and distress category of the
+	// protocol's most invasive procedure.
+	PainCategory string `csv:"pain_category" validate:"omitempty,oneof=B C D E"`
 }
 
 // CareRound is a row of daily_care.csv. A round names an enclosure or a
@@ -257,17 +267,20 @@ type OutdoorWork struct {
 
 // Cull is a row of culls.csv.
 type Cull struct {
-	Ref            Ref
-	At             time.Time `csv:"culled_at,required"`
-	AnimalID       string    `csv:"animal_id,required" validate:"required,id"`
-	StaffID        string    `csv:"staff_id,required" validate:"required,id"`
-	Reason         string    `csv:"reason,required" validate:"required,oneof=breeding_selection health humane_endpoint end_of_study pelting other"`
-	Method         string    `csv:"method,required" validate:"required,code"`
-	Sedated        Bool      `csv:"sedated"`
-	DeathConfirmed Bool      `csv:"death_confirmed"`
-	Confirmation   []string  `csv:"confirmation" validate:"dive,oneof=no_heartbeat no_breathing no_corneal_reflex no_pedal_reflex rigor_mortis secondary_method"`
-	ProtocolID     string    `csv:"protocol_id" validate:"omitempty,id"`
-	Disposal       string    `csv:"disposal" validate:"omitempty,oneof=rendering incineration burial necropsy other"`
+	Ref      Ref
+	At       time.Time `csv:"culled_at,required"`
+	AnimalID string    `csv:"animal_id,required" validate:"required,id"`
+	StaffID  string    `csv:"staff_id,required" validate:"required,id"`
+	Reason   string    `csv:"reason,required" validate:"required,oneof=breeding_selection health humane_endpoint end_of_study pelting other"`
+	Method   string    `csv:"method,required" validate:"required,code"`
+	Sedated  Bool      `csv:"sedated"`
+	// Anaesthetised: under general anaesthesia (no pedal or corneal reflex)
+	// before the method; sedation is not enough where a method needs this.
+	Anaesthetised  Bool     `csv:"anaesthetised"`
+	DeathConfirmed Bool     `csv:"death_confirmed"`
+	Confirmation   []string `csv:"confirmation" validate:"dive,oneof=no_heartbeat no_breathing no_corneal_reflex no_pedal_reflex rigor_mortis secondary_method"`
+	ProtocolID     string   `csv:"protocol_id" validate:"omitempty,id"`
+	Disposal       string   `csv:"disposal" validate:"omitempty,oneof=rendering incineration burial necropsy other"`
 }
 
 // Problem is one rejected row or file-level error, positioned for a keeper

@@ -360,6 +360,10 @@ func (b *auditBuilder) limits() AuditSection {
 	return b.section("Limits in force", true, "Limits in force")
 }
 
+// biteReportItem marks where the bite-report caution, which quotes the limit
+// in force, goes.
+const biteReportItem = "\x00bite-report"
+
 // cautionGroups are printed on every report, whatever was found: the people
 // reading it work with animals that bite and carry zoonoses, in the cold.
 var cautionGroups = []struct {
@@ -368,17 +372,17 @@ var cautionGroups = []struct {
 }{
 	{"Handling", []string{
 		"Conscious foxes and mink bite. Handle a conscious animal only with bite-resistant gloves or gauntlets that were inspected and found sound; use the restraint, sedation and number of people the protocol sets.",
-		"Report every bite or scratch, however small, to the supervisor and occupational health on the same day, with the animal's id.",
+		biteReportItem, // filled from the limits in force (BiteReportCaution)
 		"Wash every bite or scratch at once, thoroughly, with soap and running water for about 15 minutes (WHO rabies position paper, 2018), then seek medical assessment.",
 	}},
 	{"Zoonoses", []string{
-		"Rabies: foxes are a reservoir species. Any bite, scratch, or saliva on broken skin or a mucous membrane needs a prompt rabies post-exposure assessment by a physician or public health, whatever the person's vaccination status (ACIP 2022).",
+		RabiesExposureCaution,
 		"Fox tapeworm (Echinococcus multilocularis): eggs passed in fox faeces contaminate fur and bedding, and survive freezing (−20 °C; killed at −80 °C) (Public Health Agency of Canada, pathogen safety data sheet). Wear gloves and dedicated clothing that stays in the unit, wash hands after work and before eating, and do not eat, drink or smoke in animal areas.",
 		"Sarcoptic mange: mites from affected foxes cause itching skin lesions in people (Pisano et al., Emerg Infect Dis 2019;25(6):1235). Wear gloves and long sleeves with animals that have skin lesions, and report any rash.",
 		"Leptospirosis: spread in the urine of infected animals and rodents. Cover cuts, wear gloves and eye protection when hosing or cleaning, and avoid splashes (common practice).",
 	}},
 	{"Cold injury for staff", []string{
-		"Plan outdoor work by the work/warm-up schedule (ACGIH TLV, cold stress) and take the warm-up breaks in a heated place. At a wind chill of −28 or colder exposed skin can freeze in 10–30 minutes (Environment and Climate Change Canada).",
+		"Plan outdoor work by the work/warm-up schedule (ACGIH TLV, cold stress) and take the warm-up breaks in a heated place. At a wind chill of −28 or colder people's exposed skin can freeze in 10–30 minutes (Environment and Climate Change Canada).",
 		"Cover exposed skin, change wet clothing at once, work in pairs in severe cold, and watch each other for frostbite (white or waxy, numb skin) and hypothermia (shivering, clumsiness, confusion).",
 	}},
 }
@@ -387,6 +391,9 @@ func (b *auditBuilder) cautions() AuditSection {
 	for _, g := range cautionGroups {
 		b.add(subheading(g.title, 12))
 		for _, it := range g.items {
+			if it == biteReportItem {
+				it = BiteReportCaution(b.r)
+			}
 			b.add(Block{Kind: KindBullet, Text: it})
 		}
 	}

@@ -8,7 +8,11 @@ import (
 )
 
 // csvHeader is the findings.csv header; the column order is part of the contract.
-var csvHeader = []string{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source"}
+var csvHeader = []string{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source", "report_to"}
+
+// ReportableMark is what every output says beside a reportable finding
+// (PHS Policy IV.F.3: noncompliance reported through the institutional official).
+const ReportableMark = "report to the institutional official"
 
 // WriteCSV writes one finding per row, in r.Findings order, evidence refs
 // joined with "; ". A cell a spreadsheet would run as a formula is neutralised
@@ -35,6 +39,10 @@ func WriteCSV(w io.Writer, r *checker.Result) error {
 		row[7] = refsString(f.Evidence, "; ")
 		row[8] = f.Title
 		row[9] = f.Source
+		row[10] = ""
+		if f.Reportable {
+			row[10] = ReportableMark
+		}
 		for j := range row {
 			row[j] = Neutralise(row[j])
 		}

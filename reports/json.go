@@ -54,6 +54,9 @@ type JSONFinding struct {
 	Evidence []string `json:"evidence"`
 	Title    string   `json:"title"`
 	Source   string   `json:"source"`
+	// Reportable findings are marked "report to the institutional official" (PHS Policy IV.F.3).
+	Reportable bool   `json:"reportable,omitempty"`
+	ReportTo   string `json:"report_to,omitempty"`
 }
 
 // JSONCheck is one check in force, from its rule's METADATA.
@@ -120,6 +123,9 @@ func NewJSONReport(r *checker.Result) JSONReport {
 			Evidence: make([]string, len(f.Evidence)),
 			Title:    f.Title,
 			Source:   f.Source,
+		}
+		if f.Reportable {
+			jf.Reportable, jf.ReportTo = true, ReportableMark
 		}
 		if f.Until != f.On {
 			jf.Until = f.Until.String()

@@ -225,6 +225,10 @@ func TestWriteCSV(t *testing.T) {
 		{Check: "records.row.rejected", Domain: "records", Subject: "=cmd|' /C calc'!A0", On: period.From,
 			Severity: checker.Minor, Message: "@risk: value \"+1\" rejected", Evidence: []records.Ref{"care_rounds.csv:7"},
 			Title: "Row rejected", Source: "common practice"},
+		// PHS Policy IV.F.3: protocol noncompliance is reported to the institutional official.
+		{Check: "protocol.personnel.unlisted", Domain: "protocol", Subject: "BFR-AF-02", On: period.From + 9,
+			Severity: checker.Significant, Message: "ST-10 worked under protocol BFR-AF-02", Evidence: []records.Ref{"culls.csv:3"},
+			Title: "Person not listed on the protocol", Source: "PHS Policy IV.C.1", Reportable: true},
 	}}
 	var b bytes.Buffer
 	if err := reports.WriteCSV(&b, r); err != nil {
@@ -235,11 +239,70 @@ func TestWriteCSV(t *testing.T) {
 		t.Fatalf("reading the CSV back: %v", err)
 	}
 	want := [][]string{
-		{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source"},
-		{"note", "cold.frostbite.risk", "cold", "north-yard", "2026-01-14", "2026-01-16", "'-41 wind chill", "weather.csv:310; weather.csv:334", "Frostbite risk", "Environment and Climate Change Canada"},
-		{"minor", "records.row.rejected", "records", "'=cmd|' /C calc'!A0", "2026-01-01", "", "'@risk: value \"+1\" rejected", "care_rounds.csv:7", "Row rejected", "common practice"},
+		{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source", "report_to"},
+		{"note", "cold.frostbite.risk", "cold", "north-yard", "2026-01-14", "2026-01-16", "'-41 wind chill", "weather.csv:310; weather.csv:334", "Frostbite risk", "Environment and Climate Change Canada", ""},
+		{"minor", "records.row.rejected", "records", "'=cmd|' /C calc'!A0", "2026-01-01", "", "'@risk: value \"+1\" rejected", "care_rounds.csv:7", "Row rejected", "common practice", ""},
+		{"significant", "protocol.personnel.unlisted", "protocol", "BFR-AF-02", "2026-01-10", "", "ST-10 worked under protocol BFR-AF-02", "culls.csv:3", "Person not listed on the protocol", "PHS Policy IV.C.1", "report to the institutional official"},
 	}
 	if diff := cmp.Diff(want, got); diff != "" {
 		t.Errorf("CSV (-want +got):\n%s", diff)
+	}
+}
+
+// PHS Policy IV.F.3: every output marks reportable findings "report to the institutional official".
+func TestReportableMarkedInTextAndJSON(t *testing.T) {
+	r := &checker.Result{Facility: "Birchfall Fur Research Station", Period: period, Findings: []checker.Finding{
+		{Check: "protocol.inactive", Domain: "protocol", Subject: "BFR-RF-01", On: period.From + 5,
+			Severity: checker.Significant, Message: "1 handling or cull row(s) under protocol BFR-RF-01", Evidence: []records.Ref{"handling.csv:40"},
+			Title: "Work outside the protocol's approval", Source: "common practice", Reportable: true},
+		{Check: "care.water.unavailable", Domain: "care", Subject: "S2-11", On: period.From + 7,
+			Severity: checker.Significant, Message: "water frozen", Title: "Water unavailable", Source: "OLAW"},
+	}}
+	var text bytes.Buffer
+	if err := reports.WriteText(&text, r, reports.TextOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(text.String(), "reportable: report to the institutional official"); n != 1 {
+		t.Errorf("text marks %d findings reportable, want 1:\n%s", n, text.String())
+	}
+	var js bytes.Buffer
+	if err := reports.WriteJSON(&js, r); err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Findings []struct {
+			Check      string `json:"check"`
+			Reportable bool   `json:"reportable"`
+			ReportTo   string `json:"report_to"`
+		} `json:"findings"`
+	}
+	if err := json.Unmarshal(js.Bytes(), &doc); err != nil {
+		t.Fatal(err)
+	}
+	got := map[string]string{}
+	for _, f := range doc.Findings {
+		if f.Reportable {
+			got[f.Check] = f.ReportTo
+		}
+	}
+	if diff := cmp.Diff(map[string]string{"protocol.inactive": "report to the institutional official"}, got); diff != "" {
+		t.Errorf("JSON reportable findings (-want +got):\n%s", diff)
+	}
+}
+
+// checks.md "Corrections to the first set": the bite caution quotes the same limit the
+// bite-report rule uses (handling.report_within_hours, 24 h by default, common practice), and
+// the exposure caution cites the ACIP post-exposure recommendations (2008, updated 2010; from
+// memory), not the 2022 pre-exposure report.
+func TestBiteCautionQuotesTheLimit(t *testing.T) {
+	r := &checker.Result{Limits: []checker.LimitLine{{Key: "handling.report_within_hours", Value: "12", Source: "[C]"}}}
+	if got := reports.BiteReportCaution(r); !strings.Contains(got, "within 12 h") || strings.Contains(got, "same day") {
+		t.Errorf("caution with a 12 h limit = %q", got)
+	}
+	if got := reports.BiteReportCaution(&checker.Result{}); strings.Contains(got, "24") {
+		t.Errorf("caution without limits invents a figure: %q", got)
+	}
+	if !strings.Contains(reports.RabiesExposureCaution, "MMWR 2008") || strings.Contains(reports.RabiesExposureCaution, "2022") {
+		t.Errorf("exposure caution cites %q", reports.RabiesExposureCaution)
 	}
 }

@@ -11,9 +11,13 @@
 #   need the weather: they are listed as days_without_weather / days_without_readings.
 #   Input (site): {id, cold: {readings_recorded, frostbite: [RUN], days_without_readings: [{from, until, days}]}}.
 #   Input (enclosure, outdoor or sheltered buildings only): {id, ref, ..., cold: {exposure,
-#     weather_site, nest_box, water: [{on, min_air_c, checks, evidence}] (occupied days below
-#     water_check_below_c with fewer than water_checks_min water checks), bedding_stale: [RUN +
-#     last_bedding, evidence], shelter_missing: [RUN + evidence], days_without_weather: [{from, until, days}]}}.
+#     weather_site, nest_box, sheltered, water: [{on, min_air_c, checks, evidence}] (occupied days
+#     below water_check_below_c with fewer than water_checks_min water checks), bedding_stale: [RUN +
+#     last_bedding, min_air_c, bedding_below_c, more_bedding_at_or_below_c, evidence],
+#     shelter_missing: [RUN + evidence], days_without_weather: [{from, until, days}]}}.
+#   sheltered: a nest box, or a building of exposure sheltered (a dog's shelter under 9 CFR §3.4(b)).
+#   bedding_below_c / more_bedding_at_or_below_c: the occupants' species' outdoor limits (dogs,
+#   9 CFR §3.4(b)(4)), null when none applies; min_air_c is the run's lowest daily minimum air.
 #   RUN = {from, until, days, min_wind_chill_c, wind_chill_display, air_c, wind_kmh, coldest_on,
 #     coldest_ref, band}: the coldest reading of the run.
 #   Input (staff): {id, cold: {stints: [{on, ref, site, started_at, ended_at, minutes, activity,
@@ -56,25 +60,32 @@ findings contains f if {
 }
 
 # METADATA
-# title: Bedding not refreshed in hard cold
-# description: An occupied enclosure in an outdoor or sheltered building, on days whose minimum wind chill was at or below the limit, had no bedding added in the limit's number of days up to that day.
+# title: Bedding not refreshed in the cold
+# description: An occupied enclosure in an outdoor or sheltered building had no bedding added in the limit's number of days up to days whose minimum wind chill was at or below the limit, or - for a species with an outdoor bedding limit (dogs, 9 CFR §3.4(b)(4)) in an outdoor building - whose minimum air temperature was below that limit (10 °C).
 # custom:
 #   id: cold.bedding.stale
 #   severity: minor
-#   source: facility choice
+#   source: "facility choice; dogs outdoors: 9 CFR §3.4(b)(4), bedding below 50 °F (10 °C)"
 #   runs: true
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
 	some r in input.cold.bedding_stale
-	r.min_wind_chill_c <= lim.bedding_wind_chill
+	why := bedding_cold(r)
 	f := {
 		"check": "cold.bedding.stale",
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("no bedding added in the %d days up to each of %d day(s) with wind chill at or below %v; %s; %s", [lim.bedding_days, r.days, lim.bedding_wind_chill, conditions(r), last_bedding(r)]),
+		"message": sprintf("no bedding added in the %d days up to each of %d day(s) %s; %s; %s", [lim.bedding_days, r.days, why, conditions(r), last_bedding(r)]),
 		"evidence": r.evidence,
 	}
+}
+
+bedding_cold(r) := sprintf("with wind chill at or below %v", [lim.bedding_wind_chill]) if {
+	r.min_wind_chill_c <= lim.bedding_wind_chill
+} else := sprintf("with air below %v °C, when 9 CFR §3.4(b)(4) requires clean, dry bedding for dogs outdoors (more at or below %v °C)", [r.bedding_below_c, r.more_bedding_at_or_below_c]) if {
+	r.bedding_below_c != null
+	r.min_air_c < r.bedding_below_c
 }
 
 last_bedding(r) := sprintf("bedding last added %s", [r.last_bedding]) if r.last_bedding != null
@@ -82,12 +93,12 @@ last_bedding(r) := sprintf("bedding last added %s", [r.last_bedding]) if r.last_
 else := "no bedding added on record"
 
 # METADATA
-# title: No nest box in hard cold
-# description: An enclosure in an outdoor or sheltered building, occupied by a species that needs a nest box, has none recorded on days whose minimum wind chill was at or below the limit.
+# title: No shelter in hard cold
+# description: An enclosure in an outdoor or sheltered building, occupied by a species that needs a nest box, has none recorded - or, occupied by dogs in an outdoor building, has neither a nest box nor the shelter of a sheltered building (9 CFR §3.4(b)) - on days whose minimum wind chill was at or below the limit.
 # custom:
 #   id: cold.shelter.missing
 #   severity: significant
-#   source: common practice
+#   source: "common practice; dogs outdoors: 9 CFR §3.4(b), shelter from the elements"
 #   runs: true
 #   needs: [weather.csv]
 findings contains f if {
@@ -99,7 +110,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("no nest box recorded for nest-box animals on %d day(s) with wind chill at or below %v; %s", [r.days, lim.shelter_wind_chill, conditions(r)]),
+		"message": sprintf("no nest box or other shelter recorded for animals that need one on %d day(s) with wind chill at or below %v; %s", [r.days, lim.shelter_wind_chill, conditions(r)]),
 		"evidence": r.evidence,
 	}
 }
@@ -158,7 +169,7 @@ else := ""
 
 # METADATA
 # title: Frostbite weather
-# description: A weather site's minimum wind chill was at or below the frostbite limit; exposed skin can freeze within 30 minutes. A note for the keepers' own protection and the animals' exposed skin.
+# description: A weather site's minimum wind chill was at or below the frostbite limit; people's exposed skin can freeze within 30 minutes. A note for the protection of the people working outdoors - the Environment and Climate Change Canada freeze times are for human skin, not for animals.
 # custom:
 #   id: cold.frostbite.risk
 #   severity: note
@@ -173,7 +184,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("wind chill at or below %v on %d day(s); %s: %s", [lim.frostbite_wind_chill, r.days, conditions(r), r.band]),
+		"message": sprintf("wind chill at or below %v on %d day(s); %s: for people working outdoors, %s (Environment and Climate Change Canada times for human skin)", [lim.frostbite_wind_chill, r.days, conditions(r), r.band]),
 		"evidence": [r.coldest_ref],
 	}
 }

@@ -20,6 +20,7 @@ run(wc) := {
 	"wind_chill_display": round(wc), "air_c": -14.5, "wind_kmh": 30, "coldest_on": "2026-01-13",
 	"coldest_ref": "weather.csv:40", "band": "low (risk of hypothermia with long exposure)",
 	"last_bedding": "2026-01-02", "evidence": ["enclosures.csv:4", "weather.csv:40"],
+	"min_air_c": -14.5, "bedding_below_c": null, "more_bedding_at_or_below_c": null,
 }
 
 site(runs) := {"kind": "site", "id": "YARD", "cold": {"readings_recorded": true, "frostbite": runs, "days_without_readings": []}}
@@ -27,7 +28,8 @@ site(runs) := {"kind": "site", "id": "YARD", "cold": {"readings_recorded": true,
 staff(stint) := {"kind": "staff", "id": "K-ORVO", "cold": {"stints": [stint]}}
 
 # −35 °C with an 8 km/h wind, moderate work: 40 min and 4 warm-up breaks
-# (ACGIH TLV / Saskatchewan work/warm-up schedule, the published example).
+# (ACGIH TLV / Saskatchewan work/warm-up schedule, a table cell; the schedule's published
+# example is the light-work one: −35 °C, no noticeable wind → 40/4).
 stint(minutes, emergency) := {
 	"on": "2026-01-13", "ref": "outdoor_work.csv:7", "site": "YARD",
 	"started_at": "2026-01-13 07:10", "ended_at": "2026-01-13 07:50", "minutes": minutes,
@@ -123,7 +125,7 @@ test_site_without_runs_is_quiet if {
 	count(cold.findings) == 0 with input as site([])
 }
 
-# Work/warm-up: 40 min allowed in the published example cell.
+# Work/warm-up: 40 min allowed in the −35 °C / 8 km/h moderate-work cell (ACGIH TLV table).
 test_stint_exactly_at_maximum_is_fine if {
 	count(cold.findings) == 0 with input as staff(stint(40, false))
 }
@@ -163,4 +165,36 @@ test_stint_without_reading_is_not_judged if {
 test_normal_breaks_no_limit if {
 	s := object.union(stint(240, false), {"step": {"kind": "no_limit", "text": "normal breaks", "cell": "N", "max_work_min": null}})
 	count(cold.findings) == 0 with input as staff(s)
+}
+
+# 9 CFR §3.4(b)(4) (references.md "Dogs in the cold"): clean, dry bedding for dogs outdoors when
+# the ambient temperature is below 50 °F (10 °C); more at or below 35 °F (1.7 °C).
+dog_run(air) := object.union(run(-3), {"min_air_c": air, "air_c": air, "bedding_below_c": 10, "more_bedding_at_or_below_c": 1.7})
+
+test_dog_bedding_below_10_c_fires if {
+	some f in cold.findings with input as enc({"bedding_stale": [dog_run(9.9)]})
+	f.check == "cold.bedding.stale"
+	contains(f.message, "air below 10 °C")
+	contains(f.message, "9 CFR §3.4(b)(4)")
+}
+
+test_dog_bedding_at_exactly_10_c_is_quiet if {
+	count(cold.findings) == 0 with input as enc({"bedding_stale": [dog_run(10)]})
+}
+
+# 9 CFR §3.4(b): the facts list a dog enclosure without nest box or sheltered building; the rule
+# judges it by the same wind-chill limit and speaks of shelter.
+test_dog_without_shelter_fires if {
+	some f in cold.findings with input as enc({"sheltered": false, "shelter_missing": [run(-20)]})
+	f.check == "cold.shelter.missing"
+	contains(f.message, "no nest box or other shelter")
+}
+
+# checks.md "Corrections to the first set": cold.frostbite.risk speaks of people - the
+# Environment and Climate Change Canada freeze times are for human skin.
+test_frostbite_message_speaks_of_people if {
+	some f in cold.findings with input as site([run(-30)])
+	f.check == "cold.frostbite.risk"
+	contains(f.message, "for people working outdoors")
+	contains(f.message, "human skin")
 }

@@ -7,8 +7,10 @@
 #   animal-care committee before relying on them.
 #   Input (animal): {id, ref, species, ..., euthanasia: [{on, ref, staff, method,
 #     class: acceptable|conditional|unacceptable|unlisted,
-#     conditions: {sedation, secondary_method, note}, sedated, death_confirmed,
-#     confirmation: [signs], signs}]}  (signs = number of distinct confirmation entries).
+#     conditions: {sedation, general_anaesthesia, secondary_method, note}, sedated, anaesthetised,
+#     death_confirmed, confirmation: [signs], signs}]}  (signs = number of distinct confirmation entries).
+#   A method needing general anaesthesia (potassium chloride) is met only by anaesthetised: yes;
+#   sedation is not enough.
 # scope: package
 # custom:
 #   subjects: [animal]
@@ -42,7 +44,7 @@ else := "do not list as acceptable"
 
 # METADATA
 # title: Conditions of the euthanasia method not met
-# description: A method acceptable only with conditions was used without them - sedation or anaesthesia not recorded (sedated yes), or no secondary method recorded in the confirmation.
+# description: A method acceptable only with conditions was used without them - general anaesthesia not recorded (anaesthetised yes) for a method that needs it (potassium chloride; sedation is not enough), sedation or anaesthesia not recorded for a method that needs sedation, or no secondary method recorded in the confirmation.
 # custom:
 #   id: cull.method.conditions_unmet
 #   severity: significant
@@ -63,9 +65,14 @@ findings contains f if {
 }
 
 unmet_conditions(e) := {w |
+	e.conditions.general_anaesthesia
+	not e.anaesthetised
+	w := "general anaesthesia (anaesthetised: yes)"
+} | {w |
 	e.conditions.sedation
 	not e.sedated
-	w := "prior sedation or anaesthesia (sedated: yes)"
+	not e.anaesthetised
+	w := "prior sedation or anaesthesia (sedated: yes or anaesthetised: yes)"
 } | {w |
 	e.conditions.secondary_method
 	not "secondary_method" in e.confirmation
@@ -77,9 +84,9 @@ note(e) := sprintf(" (%s)", [e.conditions.note]) if e.conditions.note != null
 else := ""
 
 # The AVMA (2020) rule as recalled: no single sign but rigor mortis confirms
-# death, so without rigor mortis or a secondary method at least this many
-# signs must be recorded. Part of the check's definition, not a facility limit.
-min_signs := 2
+# death, so without rigor mortis or a secondary method at least
+# data.limits.cull.death_confirmation_min_signs signs must be recorded.
+min_signs := data.limits.cull.death_confirmation_min_signs
 
 confirmed(e) if {
 	e.death_confirmed
@@ -98,11 +105,11 @@ confirmed(e) if {
 
 unconfirmed_reason(e) := "death_confirmed is not yes" if not e.death_confirmed
 
-else := sprintf("only %d sign recorded (%s); no single sign but rigor mortis confirms death", [e.signs, concat(", ", e.confirmation)])
+else := sprintf("only %d of the %d signs the limits require recorded (%s); no single sign but rigor mortis confirms death", [e.signs, min_signs, concat(", ", e.confirmation)])
 
 # METADATA
 # title: Death not confirmed
-# description: death_confirmed is not yes, or the confirmation records neither rigor mortis nor a secondary method and fewer than 2 signs.
+# description: death_confirmed is not yes, or the confirmation records neither rigor mortis nor a secondary method and fewer signs than the limits' death_confirmation_min_signs (default 2).
 # custom:
 #   id: cull.death.unconfirmed
 #   severity: significant

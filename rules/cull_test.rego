@@ -2,9 +2,9 @@ package welfare.cull_test
 
 import data.welfare.cull
 
-no_cond := {"sedation": false, "secondary_method": false, "note": null}
+no_cond := {"sedation": false, "general_anaesthesia": false, "secondary_method": false, "note": null}
 
-ev := {"on": "2026-01-20", "ref": "culls.csv:2", "staff": "S3", "method": "barbiturate_overdose", "class": "acceptable", "conditions": no_cond, "sedated": true, "death_confirmed": true, "confirmation": ["no_heartbeat", "no_corneal_reflex"], "signs": 2}
+ev := {"on": "2026-01-20", "ref": "culls.csv:2", "staff": "S3", "method": "barbiturate_overdose", "class": "acceptable", "conditions": no_cond, "sedated": true, "anaesthetised": false, "death_confirmed": true, "confirmation": ["no_heartbeat", "no_corneal_reflex"], "signs": 2}
 
 fox(e) := {"kind": "animal", "id": "F9", "ref": "animals.csv:10", "species": "vulpes_vulpes", "euthanasia": [e]}
 
@@ -25,12 +25,31 @@ test_unlisted_method_counts_as_unacceptable if {
 	checks(object.union(ev, {"method": "freezing", "class": "unlisted"})) == {"cull.method.unacceptable"}
 }
 
-kcl := object.union(ev, {"method": "potassium_chloride", "class": "conditional", "conditions": {"sedation": true, "secondary_method": false, "note": "only under general anaesthesia"}})
+kcl := object.union(ev, {"method": "potassium_chloride", "class": "conditional", "conditions": {"sedation": false, "general_anaesthesia": true, "secondary_method": false, "note": "only under general anaesthesia"}, "sedated": false})
 
-test_potassium_chloride_needs_anaesthesia if {
-	# AVMA (2020), from memory: potassium chloride only under general anaesthesia.
-	checks(kcl) == set()
-	checks(object.union(kcl, {"sedated": false})) == {"cull.method.conditions_unmet"}
+test_potassium_chloride_needs_general_anaesthesia if {
+	# AVMA Guidelines for the Euthanasia of Animals (2020), from memory: potassium chloride
+	# only under general anaesthesia. checks.md "Corrections to the first set": anaesthetised: yes
+	# alone meets the condition; sedated: yes is not enough.
+	checks(object.union(kcl, {"anaesthetised": true})) == set()
+	checks(object.union(kcl, {"anaesthetised": true, "sedated": true})) == set()
+	checks(kcl) == {"cull.method.conditions_unmet"}
+	checks(object.union(kcl, {"sedated": true})) == {"cull.method.conditions_unmet"}
+}
+
+test_potassium_chloride_message_asks_for_anaesthesia if {
+	some f in cull.findings with input as fox(object.union(kcl, {"sedated": true}))
+	f.check == "cull.method.conditions_unmet"
+	contains(f.message, "without general anaesthesia (anaesthetised: yes)")
+	not contains(f.message, "sedated")
+}
+
+sed := object.union(ev, {"method": "gunshot", "class": "conditional", "conditions": {"sedation": true, "general_anaesthesia": false, "secondary_method": false, "note": null}, "sedated": false})
+
+test_sedation_condition_met_by_sedation_or_anaesthesia if {
+	checks(sed) == {"cull.method.conditions_unmet"}
+	checks(object.union(sed, {"sedated": true})) == set()
+	checks(object.union(sed, {"anaesthetised": true})) == set()
 }
 
 bolt := object.union(ev, {"method": "penetrating_captive_bolt", "class": "conditional", "conditions": {"sedation": false, "secondary_method": true, "note": null}, "sedated": false})
@@ -61,4 +80,13 @@ test_secondary_method_alone_confirms_death if {
 
 test_no_signs_fires if {
 	checks(object.union(ev, {"confirmation": [], "signs": 0})) == {"cull.death.unconfirmed"}
+}
+
+test_confirmation_signs_follow_the_limit if {
+	# checks.md "Corrections to the first set": death_confirmation_min_signs is a limit (default 2, common practice).
+	two := object.union(ev, {"confirmation": ["no_heartbeat", "no_corneal_reflex"], "signs": 2})
+	checks(two) == set()
+	checks(two) == set() with data.limits.cull.death_confirmation_min_signs as 2
+	checks(two) == {"cull.death.unconfirmed"} with data.limits.cull.death_confirmation_min_signs as 3
+	checks(object.union(ev, {"confirmation": ["no_heartbeat"], "signs": 1})) == set() with data.limits.cull.death_confirmation_min_signs as 1
 }

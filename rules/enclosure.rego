@@ -5,7 +5,9 @@
 #   Input (enclosure): {id, ref, building, exposure, enclosure_kind, area_m2, height_cm,
 #   max_occupants (0: none set), nest_box, platform, occupancy: [{from, until, days, count,
 #   occupants: [{animal, species, stage, required_m2}], required_m2, required_unknown,
-#   min_height_cm, needs_nest_box, needs_platform, evidence}]}.
+#   min_height_cm, min_cage_m2, needs_nest_box, needs_platform, evidence}]}.
+#   min_cage_m2 is the largest of the occupants' species' min_cage_m2 (0: none): no cage
+#   holding the species may be smaller, whatever its occupants.
 # scope: package
 # custom:
 #   subjects: [enclosure]
@@ -13,24 +15,30 @@ package welfare.enclosure
 
 # METADATA
 # title: Floor space too small
-# description: The floor area is less than the sum of the areas the occupants need.
+# description: The floor area is less than the sum of the areas the occupants need, or less than the smallest cage allowed for the occupants' species (min_cage_m2).
 # custom:
 #   id: enclosure.space.insufficient
 #   severity: significant
-#   source: "Council of Europe fur-animal recommendation (1999) as implemented in Finnish rules and Czech Decree 208/2004 §13; dogs: 9 CFR §3.6(c)(1)"
+#   source: "Council of Europe fur-animal recommendation (1999) as implemented in Czech Decree 208/2004 §13 (as in force before the 2019 fur-farming ban) and Finnish Decree 1084/2011 (section from memory); dogs: 9 CFR §3.6(c)(1)"
 #   runs: true
 findings contains f if {
 	some s in input.occupancy
-	input.area_m2 < s.required_m2
+	need := max({s.required_m2, s.min_cage_m2})
+	input.area_m2 < need
 	f := {
 		"check": "enclosure.space.insufficient",
 		"subject": input.id,
 		"on": s.from,
 		"until": s.until,
-		"message": sprintf("%v m² for %d animal(s) that need %v m²", [input.area_m2, s.count, s.required_m2]),
+		"message": space_message(s),
 		"evidence": s.evidence,
 	}
 }
+
+space_message(s) := sprintf("%v m² for %d animal(s) that need %v m²", [input.area_m2, s.count, s.required_m2]) if {
+	input.area_m2 < s.required_m2
+	s.required_m2 >= s.min_cage_m2
+} else := sprintf("%v m² for %d animal(s); no cage for their species may be smaller than %v m² (the occupants alone need %v m²)", [input.area_m2, s.count, s.min_cage_m2, s.required_m2])
 
 # METADATA
 # title: Enclosure too low

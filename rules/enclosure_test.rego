@@ -5,7 +5,7 @@ import data.welfare.enclosure
 seg(over) := object.union({
 	"from": "2026-01-01", "until": "2026-01-31", "days": 31, "count": 1,
 	"occupants": [{"animal": "F1", "species": "vulpes_vulpes", "stage": "adult", "required_m2": 0.8}],
-	"required_m2": 0.8, "required_unknown": [], "min_height_cm": 70,
+	"required_m2": 0.8, "required_unknown": [], "min_height_cm": 70, "min_cage_m2": 0.8,
 	"needs_nest_box": true, "needs_platform": true, "evidence": ["enclosures.csv:2", "animals.csv:2"],
 }, over)
 
@@ -47,5 +47,38 @@ test_missing_nest_box_and_platform_fire if {
 }
 
 test_mink_needs_no_platform if {
-	count(enclosure.findings) == 0 with input as cage({"platform": false, "area_m2": 0.255, "height_cm": 45}, seg({"required_m2": 0.255, "min_height_cm": 45, "needs_platform": false}))
+	count(enclosure.findings) == 0 with input as cage({"platform": false, "area_m2": 0.255, "height_cm": 45}, seg({"required_m2": 0.255, "min_height_cm": 45, "min_cage_m2": 0.255, "needs_platform": false}))
+}
+
+# Council of Europe fur-animal recommendation (1999) as implemented in Czech Decree 208/2004
+# (before the 2019 ban) and Finnish Decree 1084/2011 (section from memory): 2,550 cm² for two
+# weaned mink (0.1275 m² each) and no mink cage below 0.255 m².
+mink_juv := {"animal": "M1", "species": "neogale_vison", "stage": "juvenile", "required_m2": 0.1275}
+
+mink_seg(n) := seg({
+	"count": count(n), "occupants": n, "required_m2": sum([o.required_m2 | some o in n]),
+	"min_height_cm": 45, "min_cage_m2": 0.255, "needs_platform": false,
+})
+
+test_two_weaned_mink_in_0_255_exactly_are_quiet if {
+	count(enclosure.findings) == 0 with input as cage({"area_m2": 0.255, "height_cm": 45, "max_occupants": 2}, mink_seg([mink_juv, mink_juv]))
+}
+
+test_mink_cage_just_under_0_255_fires if {
+	checks := {f.check | some f in enclosure.findings with input as cage({"area_m2": 0.2549, "height_cm": 45, "max_occupants": 2}, mink_seg([mink_juv, mink_juv]))}
+	checks == {"enclosure.space.insufficient"}
+}
+
+test_one_weaned_mink_still_needs_a_0_255_cage if {
+	some f in enclosure.findings with input as cage({"area_m2": 0.2, "height_cm": 45}, mink_seg([mink_juv]))
+	f.check == "enclosure.space.insufficient"
+	contains(f.message, "smaller than 0.255 m²")
+	count(enclosure.findings) == 0 with input as cage({"area_m2": 0.255, "height_cm": 45}, mink_seg([mink_juv]))
+}
+
+# Same implementations: no fox cage below 0.8 m², even for one weaned cub (0.6 m²).
+test_fox_cub_alone_still_needs_0_8 if {
+	cub := seg({"occupants": [{"animal": "F1", "species": "vulpes_vulpes", "stage": "juvenile", "required_m2": 0.6}], "required_m2": 0.6})
+	{f.check | some f in enclosure.findings with input as cage({"area_m2": 0.79}, cub)} == {"enclosure.space.insufficient"}
+	count(enclosure.findings) == 0 with input as cage({"area_m2": 0.8}, cub)
 }

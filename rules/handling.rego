@@ -15,6 +15,9 @@ package welfare.handling
 
 lim := data.limits.handling
 
+# Post-exposure advice cites the post-exposure recommendations, not the 2022 pre-exposure report.
+pep := "ACIP post-exposure recommendations, MMWR 2008;57(RR-3), updated 2010, MMWR 2010;59(RR-2) (from memory)"
+
 # The animal could bite: its species is a bite risk and the restraint left it
 # conscious. Computed once per animal: an animal may have hundreds of handlings.
 bite_risk if data.limits.species[input.species].bite_risk
@@ -147,7 +150,7 @@ findings contains f if {
 		"check": "handling.bite.not_washed",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s to %s at %s not recorded as washed: wash at once for about 15 minutes with soap and water, and seek the attending physician's advice on rabies post-exposure prophylaxis", [injury(e), e.staff, e.at]),
+		"message": sprintf("%s to %s at %s not recorded as washed: wash at once for about 15 minutes with soap and water, and seek the attending physician's advice on rabies post-exposure prophylaxis (%s)", [injury(e), e.staff, e.at, pep]),
 		"evidence": [e.ref],
 	}
 }
@@ -168,7 +171,7 @@ else := sprintf("reported %.1f h after the handling", [e.reported_after_hours])
 # custom:
 #   id: handling.bite.not_reported
 #   severity: significant
-#   source: "common practice: prompt medical assessment for rabies post-exposure prophylaxis"
+#   source: "common practice: prompt medical assessment for rabies post-exposure prophylaxis (ACIP post-exposure recommendations 2008, updated 2010, from memory)"
 #   needs: [handling.csv]
 findings contains f if {
 	some e in wounds
@@ -177,7 +180,7 @@ findings contains f if {
 		"check": "handling.bite.not_reported",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s to %s at %s %s; it must be reported within %v h so a physician can decide on post-exposure prophylaxis", [injury(e), e.staff, e.at, report_state(e), lim.report_within_hours]),
+		"message": sprintf("%s to %s at %s %s; it must be reported within %v h (the limits' handling.report_within_hours, which the cautions quote) so a physician can decide on post-exposure prophylaxis (%s)", [injury(e), e.staff, e.at, report_state(e), lim.report_within_hours, pep]),
 		"evidence": [e.ref],
 	}
 }

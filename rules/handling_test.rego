@@ -80,3 +80,16 @@ test_unreported_bite_fires if {
 	f.check == "handling.bite.not_reported"
 	contains(f.message, "never reported")
 }
+
+# checks.md "Corrections to the first set": the rule and the cautions use one limit
+# (handling.report_within_hours, 24 h by default, common practice); the message quotes it and
+# cites the ACIP post-exposure recommendations (2008, updated 2010; from memory), not ACIP 2022.
+test_bite_report_follows_the_one_limit if {
+	checks(object.union(bitten, {"reported_after_hours": 13})) == {"handling.bite.not_reported"} with data.limits.handling.report_within_hours as 12
+	checks(object.union(bitten, {"reported_after_hours": 12})) == set() with data.limits.handling.report_within_hours as 12
+	some f in handling.findings with input as fox(object.union(bitten, {"reported_after_hours": 30}))
+	f.check == "handling.bite.not_reported"
+	contains(f.message, "within 24 h (the limits' handling.report_within_hours")
+	contains(f.message, "ACIP post-exposure recommendations, MMWR 2008")
+	not contains(f.message, "2022")
+}

@@ -21,6 +21,7 @@ type Limits struct {
 	PPE       PPE       `yaml:"ppe" json:"ppe"`
 	Protocol  ProtoLim  `yaml:"protocol" json:"protocol"`
 	Cold      Cold      `yaml:"cold" json:"cold"`
+	Cull      CullLim   `yaml:"cull" json:"cull"`
 	Juveniles Juveniles `yaml:"juveniles" json:"juveniles"`
 	Health    HealthLim `yaml:"health" json:"health"`
 	Litter    LitterLim `yaml:"litter" json:"litter"`
@@ -47,6 +48,27 @@ type Species struct {
 	// IndoorTempC is the air temperature range for the species in indoor
 	// and sheltered buildings; nil: no range, the check does not apply.
 	IndoorTempC *Range `yaml:"indoor_temp_c" json:"indoor_temp_c"`
+	// Outdoor holds what the species needs when housed in an outdoor
+	// building (dogs: 9 CFR §3.4); nil: nothing beyond the general checks.
+	Outdoor *OutdoorLim `yaml:"outdoor" json:"outdoor"`
+}
+
+// OutdoorLim is what a species kept in outdoor housing needs.
+type OutdoorLim struct {
+	// Shelter: each enclosure in an outdoor building needs a shelter — a nest
+	// box, or a building of exposure sheltered — in hard cold (cold.shelter.missing).
+	Shelter bool `yaml:"shelter" json:"shelter"`
+	// BeddingBelowC: on days whose minimum air temperature is below this,
+	// bedding must have been added within the cold limits' bedding_days.
+	BeddingBelowC *float64 `yaml:"bedding_below_c" json:"bedding_below_c"`
+	// MoreBeddingAtOrBelowC: at or below this, additional bedding is needed
+	// (quoted in the bedding finding's message).
+	MoreBeddingAtOrBelowC *float64 `yaml:"more_bedding_at_or_below_c" json:"more_bedding_at_or_below_c"`
+	// NotAcclimatedBelowC: animals not acclimated (or of breeds that cannot
+	// tolerate the cold) are not kept outdoors below this. The records do not
+	// say which animals are acclimated, so no check reads it yet; it is shown
+	// among the limits in force.
+	NotAcclimatedBelowC *float64 `yaml:"not_acclimated_below_c" json:"not_acclimated_below_c"`
 }
 
 // Space is the floor space and height a species needs. Either the per-occupant
@@ -56,9 +78,31 @@ type Space struct {
 	JuvenileM2      float64 `yaml:"juvenile_m2" json:"juvenile_m2" validate:"gte=0"`
 	DamWithLitterM2 float64 `yaml:"dam_with_litter_m2" json:"dam_with_litter_m2" validate:"gte=0"`
 	MinHeightCm     float64 `yaml:"min_height_cm" json:"min_height_cm" validate:"gte=0"`
+	// MinCageM2: no enclosure holding this species may be smaller, whatever
+	// its occupants (0: no minimum beyond the occupants' areas).
+	MinCageM2 float64 `yaml:"min_cage_m2" json:"min_cage_m2" validate:"gte=0"`
 	// Formula names a published area formula instead of fixed areas:
 	// "9cfr_3_6_dog" is ft² = (length in + 6)² / 144.
 	Formula string `yaml:"formula" json:"formula" validate:"omitempty,oneof=9cfr_3_6_dog"`
+	// NursingPuppyPct: a dam with litter of a formula species needs this
+	// percentage of her own formula area more for each juvenile of her
+	// species in the enclosure (9 CFR §3.6(c)(1)(ii): set by the attending
+	// veterinarian).
+	NursingPuppyPct float64 `yaml:"nursing_puppy_pct" json:"nursing_puppy_pct" validate:"gte=0"`
+	// Group: per-animal areas by body mass for animals housed with others
+	// of their species, used where larger than the formula.
+	Group *GroupSpace `yaml:"group" json:"group"`
+}
+
+// GroupSpace is a per-animal floor area by body mass for animals housed in
+// pairs or groups: below SmallBelowKg SmallM2, above LargeAboveKg LargeM2,
+// otherwise MediumM2.
+type GroupSpace struct {
+	SmallBelowKg float64 `yaml:"small_below_kg" json:"small_below_kg" validate:"gt=0"`
+	SmallM2      float64 `yaml:"small_m2" json:"small_m2" validate:"gt=0"`
+	MediumM2     float64 `yaml:"medium_m2" json:"medium_m2" validate:"gt=0"`
+	LargeAboveKg float64 `yaml:"large_above_kg" json:"large_above_kg" validate:"gtfield=SmallBelowKg"`
+	LargeM2      float64 `yaml:"large_m2" json:"large_m2" validate:"gt=0"`
 }
 
 // Euthanasia classifies methods for a species. A method in none of the
@@ -74,6 +118,9 @@ type Euthanasia struct {
 type MethodConditions struct {
 	// Sedation: the animal must be sedated or anaesthetised first.
 	Sedation bool `yaml:"sedation" json:"sedation"`
+	// GeneralAnaesthesia: the animal must be under general anaesthesia
+	// first (culls.csv anaesthetised: yes); sedation is not enough.
+	GeneralAnaesthesia bool `yaml:"general_anaesthesia" json:"general_anaesthesia"`
 	// SecondaryMethod: death must be ensured by a secondary method.
 	SecondaryMethod bool `yaml:"secondary_method" json:"secondary_method"`
 	// Note is shown with findings (e.g. "purpose-built device only").
@@ -141,6 +188,9 @@ type PPE struct {
 // ProtoLim holds protocol limits.
 type ProtoLim struct {
 	ExpiringWithinDays int `yaml:"expiring_within_days" json:"expiring_within_days" validate:"gte=0"`
+	// ReviewEveryMonths: an event under a protocol more than this many
+	// months after its last continuing review (or approval) is overdue.
+	ReviewEveryMonths int `yaml:"review_every_months" json:"review_every_months" validate:"gte=1"`
 }
 
 // Cold holds the cold-season limits.
@@ -254,4 +304,11 @@ type Environment struct {
 	HumidityPct Range `yaml:"humidity_pct" json:"humidity_pct"`
 	// AmmoniaPpmMax: a reading above this is a finding.
 	AmmoniaPpmMax float64 `yaml:"ammonia_ppm_max" json:"ammonia_ppm_max" validate:"gte=0"`
+}
+
+// CullLim holds the euthanasia limits that are not per species.
+type CullLim struct {
+	// DeathConfirmationMinSigns: without rigor mortis or a secondary method,
+	// at least this many distinct signs must confirm death.
+	DeathConfirmationMinSigns int `yaml:"death_confirmation_min_signs" json:"death_confirmation_min_signs" validate:"gte=1"`
 }

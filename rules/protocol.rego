@@ -4,8 +4,10 @@
 #   Handlings and culls against the approved protocol they fall under (the row's protocol_id, else
 #   the animal's), and the protocol's animal count and expiry.
 #   Input (protocol): {id, protocol: {ref, title, approved_on, expires_on, expires_after_period_by,
-#     max_animals, procedures, euthanasia_methods,
-#     days: [{on, in_force, refs, purposes: {purpose: [refs]}, methods: {method: [refs]}}],
+#     max_animals, procedures, euthanasia_methods, species, personnel, last_reviewed_on (null when
+#     not recorded), pain_category (B, C, D, E or null),
+#     days: [{on, in_force, refs, purposes: {purpose: [refs]}, methods: {method: [refs]},
+#             species: {species: [refs]}, staff: {staff_id: [refs]}}],
 #     animals: {count, exceeded_on, over_refs, over_animals}}}
 #   days has one entry per day of the period with a handling or cull under the protocol; in_force
 #   is approved_on <= on <= expires_on (the last day is in force). animals counts, cumulatively over
@@ -13,6 +15,8 @@
 #   from the first day of their stay inside the approval, and animals on rows naming the protocol
 #   from that row's day. exceeded_on is the first day the count went over max_animals.
 #   expires_after_period_by is expires_on minus the period's last day, in days.
+#   Checks marked custom.reportable are noncompliance the institution reports: every output marks
+#   them "report to the institutional official" (PHS Policy IV.F.3).
 # scope: package
 # custom:
 #   subjects: [protocol]
@@ -24,13 +28,17 @@ when(d) := sprintf("before its approval on %s", [p.approved_on]) if d < p.approv
 
 else := sprintf("after it expired on %s", [p.expires_on])
 
+# Said by every reportable finding's message (PHS Policy IV.F.3); the reports mark them too.
+report := "Report to the institutional official (PHS Policy IV.F.3)"
+
 # METADATA
 # title: Work outside the protocol's approval
 # description: A handling or cull under the protocol falls before approved_on or after expires_on.
 # custom:
 #   id: protocol.inactive
 #   severity: significant
-#   source: common practice
+#   source: "common practice; reportable noncompliance: PHS Policy IV.F.3, NIH notice NOT-OD-05-034 (from memory)"
+#   reportable: true
 #   needs: [protocols.csv]
 findings contains f if {
 	some e in p.days
@@ -39,7 +47,7 @@ findings contains f if {
 		"check": "protocol.inactive",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%d handling or cull row(s) under protocol %s on %s, %s", [count(e.refs), input.id, e.on, when(e.on)]),
+		"message": sprintf("%d handling or cull row(s) under protocol %s on %s, %s. %s", [count(e.refs), input.id, e.on, when(e.on), report]),
 		"evidence": array.concat([p.ref], e.refs),
 	}
 }
@@ -50,7 +58,8 @@ findings contains f if {
 # custom:
 #   id: protocol.procedure.unapproved
 #   severity: significant
-#   source: common practice
+#   source: "common practice; reportable noncompliance: PHS Policy IV.F.3, NIH notice NOT-OD-05-034 (from memory)"
+#   reportable: true
 #   needs: [protocols.csv, handling.csv]
 findings contains f if {
 	count(p.procedures) > 0
@@ -61,7 +70,7 @@ findings contains f if {
 		"check": "protocol.procedure.unapproved",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s under protocol %s, which approves only %s", [concat(", ", bad), input.id, concat(", ", p.procedures)]),
+		"message": sprintf("%s under protocol %s, which approves only %s. %s", [concat(", ", bad), input.id, concat(", ", p.procedures), report]),
 		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.purposes[k]]),
 	}
 }
@@ -72,7 +81,8 @@ findings contains f if {
 # custom:
 #   id: protocol.method.unapproved
 #   severity: significant
-#   source: common practice
+#   source: "common practice; reportable noncompliance: PHS Policy IV.F.3, NIH notice NOT-OD-05-034 (from memory)"
+#   reportable: true
 #   needs: [protocols.csv, culls.csv]
 findings contains f if {
 	count(p.euthanasia_methods) > 0
@@ -83,7 +93,7 @@ findings contains f if {
 		"check": "protocol.method.unapproved",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("cull by %s under protocol %s, which approves only %s; the attending veterinarian and the committee decide on any change of method", [concat(", ", bad), input.id, concat(", ", p.euthanasia_methods)]),
+		"message": sprintf("cull by %s under protocol %s, which approves only %s; the attending veterinarian and the committee decide on any change of method. %s", [concat(", ", bad), input.id, concat(", ", p.euthanasia_methods), report]),
 		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.methods[k]]),
 	}
 }
@@ -94,7 +104,8 @@ findings contains f if {
 # custom:
 #   id: protocol.animals.exceeded
 #   severity: significant
-#   source: common practice
+#   source: "common practice; reportable noncompliance: PHS Policy IV.F.3, NIH notice NOT-OD-05-034 (from memory)"
+#   reportable: true
 #   needs: [protocols.csv]
 findings contains f if {
 	p.max_animals != null
@@ -103,7 +114,7 @@ findings contains f if {
 		"check": "protocol.animals.exceeded",
 		"subject": input.id,
 		"on": p.animals.exceeded_on,
-		"message": sprintf("%d animals held under protocol %s, which approves %d; the count went over on %s (first over the limit: %s)", [p.animals.count, input.id, p.max_animals, p.animals.exceeded_on, concat(", ", p.animals.over_animals)]),
+		"message": sprintf("%d animals held under protocol %s, which approves %d; the count went over on %s (first over the limit: %s). %s", [p.animals.count, input.id, p.max_animals, p.animals.exceeded_on, concat(", ", p.animals.over_animals), report]),
 		"evidence": array.concat([p.ref], p.animals.over_refs),
 	}
 }
@@ -125,5 +136,87 @@ findings contains f if {
 		"on": p.expires_on,
 		"message": sprintf("protocol %s (%s) expires on %s, %d day(s) after the checked period; renew it before work continues", [input.id, p.title, p.expires_on, p.expires_after_period_by]),
 		"evidence": [p.ref],
+	}
+}
+
+# METADATA
+# title: Species not approved
+# description: An animal handled or culled under the protocol is of a species not in the protocol's species list (a protocol that lists none is not judged).
+# custom:
+#   id: protocol.species.unapproved
+#   severity: significant
+#   source: "common practice; reportable noncompliance: PHS Policy IV.F.3, NIH notice NOT-OD-05-034 (from memory)"
+#   reportable: true
+#   needs: [protocols.csv]
+findings contains f if {
+	count(p.species) > 0
+	some e in p.days
+	bad := sort([k | some k, _ in e.species; not k in p.species])
+	count(bad) > 0
+	f := {
+		"check": "protocol.species.unapproved",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s handled or culled under protocol %s, which approves only %s. %s", [concat(", ", bad), input.id, concat(", ", p.species), report]),
+		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.species[k]]),
+	}
+}
+
+# METADATA
+# title: Person not listed on the protocol
+# description: A handler or cull operator working under the protocol is not in its personnel list (a protocol that lists none is not judged; care staff are not concerned).
+# custom:
+#   id: protocol.personnel.unlisted
+#   severity: significant
+#   source: "PHS Policy IV.C.1: personnel qualified and named (from memory); reportable noncompliance: PHS Policy IV.F.3"
+#   reportable: true
+#   needs: [protocols.csv]
+findings contains f if {
+	count(p.personnel) > 0
+	some e in p.days
+	bad := sort([k | some k, _ in e.staff; not k in p.personnel])
+	count(bad) > 0
+	f := {
+		"check": "protocol.personnel.unlisted",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("%s worked under protocol %s without being listed on it (listed: %s). %s", [concat(", ", bad), input.id, concat(", ", p.personnel), report]),
+		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.staff[k]]),
+	}
+}
+
+# The last continuing review, or the approval when none is recorded.
+reviewed_on := p.last_reviewed_on if p.last_reviewed_on != null
+
+else := p.approved_on
+
+reviewed_what := "last continuing review" if p.last_reviewed_on != null
+
+else := "approval (no continuing review recorded)"
+
+# The last day the review covers: the same date review_every_months later.
+review_covers_until := time.format([
+	time.add_date(time.parse_ns("2006-01-02", reviewed_on), 0, data.limits.protocol.review_every_months, 0),
+	"UTC", "2006-01-02",
+])
+
+# METADATA
+# title: Continuing review overdue
+# description: An event under the protocol, inside its approval, falls more than review_every_months (default 36) after the protocol's last continuing review, or its approval when none is recorded.
+# custom:
+#   id: protocol.review.overdue
+#   severity: minor
+#   source: "PHS Policy IV.C.5: continuing review at least once every 3 years; 9 CFR §2.31(d)(5): at least annually for covered species"
+#   needs: [protocols.csv]
+findings contains f if {
+	some e in p.days
+	e.in_force
+	e.on > review_covers_until
+	f := {
+		"check": "protocol.review.overdue",
+		"subject": input.id,
+		"on": e.on,
+		"message": sprintf("work under protocol %s on %s, more than %d months after its %s on %s (covered until %s)", [input.id, e.on, data.limits.protocol.review_every_months, reviewed_what, reviewed_on, review_covers_until]),
+		"evidence": array.concat([p.ref], e.refs),
 	}
 }

@@ -3,17 +3,20 @@
 # description: |
 #   Training, rabies pre-exposure prophylaxis, respirator fit and employment of the people named
 #   in the records. A handler is the staff_id of a handling row; cull operators are checked for
-#   euthanasia training only.
+#   euthanasia training. The rabies checks cover everyone who works with a rabies-risk species:
+#   handlers, cull operators, and keepers on care rounds of enclosures such a species occupies.
 #   Input (staff): {id, staff: {ref, name, active_from, active_to,
 #     handled: [{on, refs, training: {trained_on, trained_after_event, valid_until},
-#                rabies: null | {refs, status: protected|unprotected|overdue, reason, category, primary_on},
 #                respirator: null | {refs, fit_on, fit_after_event, valid_until}}],
 #     culled: [{on, refs, methods, untrained_methods, trained_on, trained_after_event, valid_until}],
-#     outside_active: [{on, refs}]}}
+#     outside_active: [{on, refs}],
+#     rabies: [{on, refs, work: {handlings, culls, care_rounds},
+#               status: protected|unprotected|overdue|not_required, reason, category, primary_on}]}}
 #   One entry per person per day. valid_until is the last day a training or fit test covers (the
-#   same date N months later); null when there was none on or before the day. rabies is present
-#   only on days the person handled a rabies-risk species; its status follows ACIP 2022 for the
-#   limits' risk category. Rabies questions go to the attending physician or occupational health.
+#   same date N months later); null when there was none on or before the day. rabies has an entry
+#   for each day the person worked with a rabies-risk species; its status follows ACIP 2022 for the
+#   person's rabies_risk_category (staff.csv), or the limits' category when none is recorded.
+#   Rabies questions go to the attending physician or occupational health.
 # scope: package
 # custom:
 #   subjects: [staff]
@@ -81,48 +84,57 @@ euthanasia_reasons(e) := {w |
 	w := lapsed(e, e.on, "euthanasia training")
 }
 
+# What the person did with rabies-risk animals that day, in words.
+rabies_work(w) := concat(", ", [x |
+	some k in ["handlings", "culls", "care_rounds"]
+	w[k] > 0
+	x := sprintf("%d %s", [w[k], work_word[k]])
+])
+
+work_word := {"handlings": "handling(s)", "culls": "cull(s)", "care_rounds": "care round(s) of occupied enclosures"}
+
 # METADATA
-# title: Handler of a rabies-risk species without pre-exposure vaccination
-# description: A handler of a rabies-risk species had not completed the rabies pre-exposure series on the day (rabies_primary_on empty or later).
+# title: Rabies-risk work without pre-exposure vaccination
+# description: A person who worked with a rabies-risk species (handling, culling, or a care round of an enclosure it occupies) had not completed the rabies pre-exposure series on the day (rabies_primary_on empty or later).
 # custom:
 #   id: staff.rabies.unprotected
 #   severity: significant
 #   source: "ACIP 2022 (MMWR 2022;71(18):619-627): 2-dose pre-exposure series, days 0 and 7"
-#   needs: [handling.csv, staff.csv]
+#   needs: [staff.csv]
 findings contains f if {
-	some e in s.handled
-	e.rabies.status == "unprotected"
+	some e in s.rabies
+	e.status == "unprotected"
 	f := {
 		"check": "staff.rabies.unprotected",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s handled %d rabies-risk animal(s): %s. Refer to occupational health; after any bite or scratch the physician decides on post-exposure prophylaxis", [s.name, count(e.rabies.refs), e.rabies.reason]),
-		"evidence": array.concat([s.ref], e.rabies.refs),
+		"message": sprintf("%s worked with rabies-risk animals (%s): %s. Refer to occupational health; after any bite or scratch the physician decides on post-exposure prophylaxis", [s.name, rabies_work(e.work), e.reason]),
+		"evidence": evidence(e),
 	}
 }
 
 # METADATA
 # title: Rabies titer or booster overdue
 # description: |
-#   The rabies pre-exposure follow-up of the limits' ACIP 2022 risk category is overdue on a day the
-#   person handled a rabies-risk species: category 3, more than 3 years after the primary series with
-#   no titer of at least 0.5 IU/mL taken in years 1 to 3 and no booster from day 21 to year 3;
-#   categories 1-2, the latest titer older than 6 or 24 months; any category, a titer below
-#   0.5 IU/mL with no later booster.
+#   The rabies pre-exposure follow-up of the person's ACIP 2022 risk category (rabies_risk_category,
+#   else the limits' category) is overdue on a day the person worked with a rabies-risk species:
+#   category 3, more than 3 years after the primary series with no titer of at least 0.5 IU/mL taken
+#   in years 1 to 3 and no booster from day 21 to year 3; categories 1-2, the latest titer older than
+#   6 or 24 months; any category, a titer below 0.5 IU/mL with no later booster.
 # custom:
 #   id: staff.rabies.followup_overdue
 #   severity: minor
 #   source: "ACIP 2022 (MMWR 2022;71(18):619-627): risk categories 1-3"
-#   needs: [handling.csv, staff.csv]
+#   needs: [staff.csv]
 findings contains f if {
-	some e in s.handled
-	e.rabies.status == "overdue"
+	some e in s.rabies
+	e.status == "overdue"
 	f := {
 		"check": "staff.rabies.followup_overdue",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s handled %d rabies-risk animal(s): %s (ACIP 2022 risk category %d). Refer to occupational health", [s.name, count(e.rabies.refs), e.rabies.reason, e.rabies.category]),
-		"evidence": array.concat([s.ref], e.rabies.refs),
+		"message": sprintf("%s worked with rabies-risk animals (%s): %s (ACIP 2022 risk category %d). Refer to occupational health", [s.name, rabies_work(e.work), e.reason, e.category]),
+		"evidence": evidence(e),
 	}
 }
 

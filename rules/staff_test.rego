@@ -5,9 +5,11 @@ import data.welfare.staff
 # Invented keeper; one day of handling with training, rabies and respirator all in order.
 trained := {"trained_on": "2025-03-01", "trained_after_event": false, "valid_until": "2026-03-01"}
 
-day := {"on": "2026-01-12", "refs": ["handling.csv:2"], "training": trained, "rabies": {"refs": ["handling.csv:2"], "status": "protected", "reason": "", "category": 3, "primary_on": "2024-05-07"}, "respirator": null}
+day := {"on": "2026-01-12", "refs": ["handling.csv:2"], "training": trained, "respirator": null}
 
-keeper(sect) := {"kind": "staff", "id": "S1", "staff": object.union({"ref": "staff.csv:2", "name": "Ilse Varga", "active_from": "2024-01-01", "active_to": null, "handled": [], "culled": [], "outside_active": []}, sect)}
+rab := {"on": "2026-01-12", "refs": ["handling.csv:2"], "work": {"handlings": 1, "culls": 0, "care_rounds": 0}, "status": "protected", "reason": "", "category": 3, "primary_on": "2024-05-07"}
+
+keeper(sect) := {"kind": "staff", "id": "S1", "staff": object.union({"ref": "staff.csv:2", "name": "Ilse Varga", "active_from": "2024-01-01", "active_to": null, "handled": [], "culled": [], "outside_active": [], "rabies": []}, sect)}
 
 checks(sect) := {f.check | some f in staff.findings with input as keeper(sect)}
 
@@ -34,11 +36,28 @@ test_training_after_the_event_fires if {
 
 test_rabies_unprotected_fires if {
 	# ACIP 2022: a completed primary series is the minimum for category 1-4 handlers.
-	checks({"handled": [object.union(day, {"rabies": {"refs": ["handling.csv:2"], "status": "unprotected", "reason": "no rabies pre-exposure series recorded", "category": 3, "primary_on": null}})]}) == {"staff.rabies.unprotected"}
+	checks({"handled": [day], "rabies": [object.union(rab, {"status": "unprotected", "reason": "no rabies pre-exposure series recorded", "primary_on": null})]}) == {"staff.rabies.unprotected"}
+	checks({"handled": [day], "rabies": [rab]}) == set()
 }
 
 test_rabies_overdue_fires_as_minor_followup if {
-	checks({"handled": [object.union(day, {"rabies": {"refs": ["handling.csv:2"], "status": "overdue", "reason": "r", "category": 3, "primary_on": "2021-05-07"}})]}) == {"staff.rabies.followup_overdue"}
+	checks({"handled": [day], "rabies": [object.union(rab, {"status": "overdue", "reason": "r", "primary_on": "2021-05-07"})]}) == {"staff.rabies.followup_overdue"}
+}
+
+# checks.md "Corrections to the first set": the rabies checks cover cull operators and keepers on
+# care rounds of occupied enclosures, not only handlers (ACIP 2022: people who work with reservoir species).
+test_rabies_covers_care_rounds_and_culls if {
+	care := object.union(rab, {"refs": ["daily_care.csv:7"], "work": {"handlings": 0, "culls": 0, "care_rounds": 2}, "status": "unprotected", "reason": "no rabies pre-exposure series recorded", "primary_on": null})
+	some f in staff.findings with input as keeper({"rabies": [care]})
+	f.check == "staff.rabies.unprotected"
+	contains(f.message, "2 care round(s) of occupied enclosures")
+	f.evidence == ["staff.csv:2", "daily_care.csv:7"]
+	cull := object.union(care, {"refs": ["culls.csv:3"], "work": {"handlings": 0, "culls": 1, "care_rounds": 0}})
+	checks({"rabies": [cull]}) == {"staff.rabies.unprotected"}
+}
+
+test_rabies_category_5_needs_nothing if {
+	checks({"rabies": [object.union(rab, {"status": "not_required", "category": 5, "primary_on": null})]}) == set()
 }
 
 resp(fit, until) := {"refs": ["handling.csv:2"], "fit_on": fit, "fit_after_event": false, "valid_until": until}

@@ -120,15 +120,28 @@ func TestLookupCases(t *testing.T) {
 		want      Step
 	}{
 		{
-			// ACGIH/Saskatchewan published example: −35 °C, light noticeable
-			// wind (8 km/h column), moderate work → 40 min, 4 breaks.
-			name: "published example", airC: -35, kmh: 8, activity: "moderate",
+			// The schedule's published example (references.md, corrected): −35 °C, no
+			// noticeable wind, work with little physical movement → one step lower →
+			// 40 min, 4 breaks (Saskatchewan Labour "Cold Conditions Guidelines for
+			// Outside Workers"; ACGIH TLV booklet, cold stress).
+			name: "published example (light work)", airC: -35, kmh: 0, activity: "light",
+			want: Step{Kind: Limit, MaxWorkMin: 40, Breaks: 4, AirRowC: -35, Row: 4, RowWarmestC: -38, Shifted: true, Column: 0, ColumnKmh: 0, Cell: "40/4"},
+		},
+		{
+			// Same source: the moderate-work cell for the same conditions is 55/3.
+			name: "published example's moderate-work cell", airC: -35, kmh: 0, activity: "moderate",
+			want: Step{Kind: Limit, MaxWorkMin: 55, Breaks: 3, AirRowC: -35, Row: 3, RowWarmestC: -35, Column: 0, ColumnKmh: 0, Cell: "55/3"},
+		},
+		{
+			// Same table, 8 km/h column at −35 °C, moderate work: 40/4 (a table
+			// cell, not the published example).
+			name: "8 km/h at -35 moderate", airC: -35, kmh: 8, activity: "moderate",
 			want: Step{Kind: Limit, MaxWorkMin: 40, Breaks: 4, AirRowC: -35, Row: 3, RowWarmestC: -35, Column: 1, ColumnKmh: 8, Cell: "40/4"},
 		},
 		{
 			// Same conditions, light work: the next row colder (−38 to −39)
-			// → 30/5 (ACGIH/Saskatchewan table, light-work note).
-			name: "published example light work", airC: -35, kmh: 8, activity: "light",
+			// → 30/5 (same table, light-work note).
+			name: "8 km/h at -35 light work", airC: -35, kmh: 8, activity: "light",
 			want: Step{Kind: Limit, MaxWorkMin: 30, Breaks: 5, AirRowC: -35, Row: 4, RowWarmestC: -38, Shifted: true, Column: 1, ColumnKmh: 8, Cell: "30/5"},
 		},
 		{

@@ -227,7 +227,8 @@ type person struct {
 	handling, euthanasia, methods    string
 	primary, titerOn, titer, booster string
 	respirator                       string
-	activeTo                         int // January day of active_to; 0 = open
+	riskCategory                     string // rabies_risk_category; empty: the limits' category
+	activeTo                         int    // January day of active_to; 0 = open
 }
 
 type round struct {
@@ -334,9 +335,12 @@ func generate() (*scenario, error) {
 	rng := rand.New(rand.NewPCG(20260101, 42)) // fixed seed: the demo must be reproducible
 	s.buildStation()
 	h := s.buildHealth()
+	s.vetStation()
 	s.buildWeather(rng)
 	s.buildStaff()
+	s.vetStaff()
 	s.buildRounds()
+	s.vetRounds()
 	s.buildStints()
 	if err := s.writeTables(); err != nil {
 		return nil, err
@@ -792,8 +796,9 @@ func (s *scenario) handlingRows() []handlingRow {
 		"Łucja was scratched weighing AF-03 on Jan 23 at 13:15; washed, but reported only on Jan 25 at 14:00 (49 h).")
 	p(fox(at(14, 13, 30), "RF-120", "ST-06", "weighing", 3), "staff.handling.untrained", "ST-06",
 		"Dale (ST-06) weighed RF-120; his handling training (2024-12-02) is more than 12 months old.")
-	p(fox(at(16, 10, 20), "RF-406", "ST-08", "temperament_test", 3), "staff.rabies.unprotected", "ST-08",
-		"Ruben (ST-08) has no rabies pre-exposure series recorded and temperament-tested RF-406.")
+	p(fox(at(16, 10, 20), "RF-406", "ST-10", "temperament_test", 3), "staff.rabies.unprotected", "ST-10",
+		"Mira (ST-10) has no rabies pre-exposure series recorded and temperament-tested RF-406.")
+	hs = append(hs, s.vetHandling()...)
 	p(fox(at(13, 15, 0), "RF-407", "ST-07", "temperament_test", 3), "staff.rabies.followup_overdue", "ST-07",
 		"Priya (ST-07) completed her primary series on 2021-05-10 (over 3 years ago) with no titer or booster since, and handled RF-407.")
 	p(handlingRow{at: at(21, 13, 0), animal: "AF-01", staff: "ST-02", purpose: "sampling", restraint: "sedation", minutes: 15,
@@ -875,17 +880,19 @@ func (s *scenario) writeTables() error {
 	}
 
 	// staff.csv
-	st := newTable("staff.csv", "staff_id,name,role,active_from,active_to,handling_trained_on,euthanasia_trained_on,euthanasia_methods,rabies_primary_on,rabies_titer_on,rabies_titer_iu_ml,rabies_booster_on,respirator_fit_on")
+	st := newTable("staff.csv", "staff_id,name,role,active_from,active_to,handling_trained_on,euthanasia_trained_on,euthanasia_methods,rabies_primary_on,rabies_titer_on,rabies_titer_iu_ml,rabies_booster_on,respirator_fit_on,rabies_risk_category")
 	for _, p := range s.staff {
-		st.add(p.id, p.name, p.role, p.from, p.to, p.handling, p.euthanasia, p.methods, p.primary, p.titerOn, p.titer, p.booster, p.respirator)
+		st.add(p.id, p.name, p.role, p.from, p.to, p.handling, p.euthanasia, p.methods, p.primary, p.titerOn, p.titer, p.booster, p.respirator, p.riskCategory)
 	}
 
 	// protocols.csv
-	pr := newTable("protocols.csv", "protocol_id,title,approved_on,expires_on,species,max_animals,procedures,euthanasia_methods")
-	pr.add("BFR-RF-01", "Temperament selection and winter welfare of farmed red foxes", "2026-01-08", "2029-01-07", "vulpes_vulpes", "120",
-		"temperament_test;health_check;vet_exam;treatment;weighing;transfer", "barbiturate_overdose;electrocution_oral_rectal;gunshot")
-	pr.add("BFR-AF-02", "Winter coat and thermoregulation in arctic foxes", "2023-02-21", "2026-02-20", "vulpes_lagopus", "6",
-		"health_check;vet_exam;treatment;weighing;sampling", "barbiturate_overdose;potassium_chloride")
+	pr := newTable("protocols.csv", "protocol_id,title,approved_on,expires_on,species,max_animals,procedures,euthanasia_methods,personnel,last_reviewed_on,pain_category")
+	pr.add(append([]string{"BFR-RF-01", "Temperament selection and winter welfare of farmed red foxes", "2026-01-08", "2029-01-07", "vulpes_vulpes", "120",
+		"temperament_test;health_check;vet_exam;treatment;weighing;transfer", "barbiturate_overdose;electrocution_oral_rectal;gunshot"}, s.vetProtocolColumns("BFR-RF-01")...)...)
+	pr.add(append([]string{"BFR-AF-02", "Winter coat and thermoregulation in arctic foxes", "2023-02-21", "2026-02-20", "vulpes_lagopus", "6",
+		"health_check;vet_exam;treatment;weighing;sampling", "barbiturate_overdose;potassium_chloride"}, s.vetProtocolColumns("BFR-AF-02")...)...)
+	pr.add(append([]string{"BFR-NV-03", "Nest use of farmed mink in winter", "2021-11-15", "2026-11-14", "neogale_vison", "",
+		"health_check;weighing", ""}, s.vetProtocolColumns("BFR-NV-03")...)...)
 	s.plant("protocol.expiring", "BFR-AF-02", "2026-02-20", "", "BFR-AF-02 expires on 2026-02-20, within 30 days after the period ends.")
 	s.plant("protocol.animals.exceeded", "BFR-AF-02", janDate(14), "",
 		"BFR-AF-02 allows 6 animals; AF-01…AF-06 arrived in October and AF-07 arrived on Jan 14, the seventh.")
@@ -988,7 +995,7 @@ func (s *scenario) writeTables() error {
 	}
 
 	// culls.csv
-	cu := newTable("culls.csv", "culled_at,animal_id,staff_id,reason,method,sedated,death_confirmed,confirmation,protocol_id,disposal")
+	cu := newTable("culls.csv", "culled_at,animal_id,staff_id,reason,method,sedated,anaesthetised,death_confirmed,confirmation,protocol_id,disposal")
 	type cull struct {
 		at                                     time.Time
 		animal, staff, reason, method, sedated string
@@ -1001,8 +1008,8 @@ func (s *scenario) writeTables() error {
 		{at(11, 10, 0), "RF-215", "ST-01", "breeding_selection", "electrocution_oral_rectal", "no", "yes", three, "rendering", "", ""},
 		{at(16, 13, 0), "RF-309", "ST-02", "breeding_selection", "penetrating_captive_bolt", "no", "yes", "secondary_method;no_heartbeat", "rendering",
 			"protocol.method.unapproved", "RF-309 was killed with a penetrating captive bolt (with a secondary method); BFR-RF-01 allows only barbiturate overdose, electrocution and gunshot."},
-		{at(20, 15, 0), "AF-06", "ST-02", "humane_endpoint", "potassium_chloride", "no", "yes", three, "necropsy",
-			"cull.method.conditions_unmet", "AF-06 was given potassium chloride without recorded sedation or anaesthesia."},
+		{at(20, 15, 0), "AF-06", "ST-02", "humane_endpoint", "potassium_chloride", "yes", "yes", three, "necropsy",
+			"cull.method.conditions_unmet", vetCullHow},
 		{at(24, 11, 0), "NV-01", "ST-03", "health", "cervical_dislocation", "no", "yes", three, "incineration",
 			"cull.method.unacceptable", "NV-01 (mink) was killed by cervical dislocation, which the limits do not list for mink."},
 		{at(26, 11, 30), "NV-04", "ST-03", "end_of_study", "carbon_monoxide", "no", "yes", "no_breathing", "incineration",
@@ -1012,7 +1019,7 @@ func (s *scenario) writeTables() error {
 		{at(28, 10, 0), "RF-111", "ST-01", "breeding_selection", "electrocution_oral_rectal", "no", "yes", three, "rendering",
 			"records.cull.mismatch", "RF-111 has a cull row on Jan 28 but animals.csv says left_reason died."},
 	} {
-		cu.add(stamp(c.at), c.animal, c.staff, c.reason, c.method, c.sedated, c.confirmed, c.confirmation, "", c.disposal)
+		cu.add(stamp(c.at), c.animal, c.staff, c.reason, c.method, c.sedated, "", c.confirmed, c.confirmation, "", c.disposal)
 		if c.check == "" {
 			continue
 		}
@@ -1083,11 +1090,12 @@ func (s *scenario) evaluate() {
 
 		// Space and furnishing, with the default limits' figures.
 		add(runs("enclosure.space.insufficient", e.id, func(d int) bool {
-			need := 0.0
+			need, cage := 0.0, 0.0
 			for _, a := range s.occupants(e.id, d) {
-				need += requiredArea(a)
+				n, c := vetRequiredArea(a)
+				need, cage = need+n, max(cage, c)
 			}
-			return occupied(d) && area(e) < need
+			return occupied(d) && area(e) < max(need, cage)
 		})...)
 		add(runs("enclosure.height.insufficient", e.id, func(d int) bool {
 			return slices.ContainsFunc(s.occupants(e.id, d), func(a *animal) bool { return e.heightCm < minHeight[a.species] })
@@ -1127,7 +1135,10 @@ func (s *scenario) evaluate() {
 			return true
 		})...)
 		add(runs("cold.shelter.missing", e.id, func(d int) bool {
-			return needsNest(d) && e.nestBox != "yes" && s.minWC[d] <= -20
+			// 9 CFR §3.4(b): dogs in an outdoor building need a nest box too (a
+			// sheltered building would be their shelter).
+			dogOutside := b.exposure == "outdoor" && slices.ContainsFunc(s.occupants(e.id, d), func(a *animal) bool { return a.species == "canis_familiaris" })
+			return (needsNest(d) || dogOutside) && e.nestBox != "yes" && s.minWC[d] <= -20
 		})...)
 	}
 
@@ -1210,7 +1221,7 @@ var catalogue = []string{
 	"staff.rabies.followup_overdue", "staff.respirator.fit_overdue", "staff.inactive",
 	"ppe.inspection.overdue", "ppe.damaged.used",
 	"protocol.inactive", "protocol.procedure.unapproved", "protocol.method.unapproved",
-	"protocol.animals.exceeded", "protocol.expiring",
+	"protocol.animals.exceeded", "protocol.expiring", vetCatalogue[0], vetCatalogue[1], vetCatalogue[2],
 	"cull.method.unacceptable", "cull.method.conditions_unmet", "cull.death.unconfirmed",
 	"cold.water.checks_insufficient", "cold.bedding.stale", "cold.shelter.missing",
 	"cold.work.over_limit", "cold.work.should_cease", "cold.frostbite.risk",
@@ -1290,13 +1301,17 @@ findings' subjects. This file is generated with the records by
 			fmt.Fprintf(&b, "- %s\n", h)
 		}
 	}
+	b.WriteString("\n## Corrections to the first set\n")
+	for _, n := range vetNotes {
+		fmt.Fprintf(&b, "- %s\n", n)
+	}
 	b.WriteString(`
 ## What keeps everything else clean
 - Every occupied outdoor or sheltered enclosure has two rounds a day recording a water state;
   frozen drinkers are recorded with water_restored yes (except S2-11 above).
 - Bedding goes in on Jan 1, 4, 8, 11, 15, 18, 22, 25 and 29, so no gap reaches 7 days.
 - Every handler's handling training is under 12 months old at each event (except ST-06), and every
-  fox handler is rabies-protected under ACIP category 3 (except ST-07 and ST-08): primary series
+  fox handler is rabies-protected under ACIP category 3 (except ST-07 and ST-10): primary series
   within 3 years, or a titer ≥ 0.5 IU/mL between year 1 and 3, or a booster between day 21 and
   year 3.
 - Bite gloves are inspected every Thursday (Jan 1, 8, 15, 22, 29); every use falls within 7 days of
