@@ -22,7 +22,24 @@ func (e *LoadError) Unwrap() error { return e.Err }
 
 // Error makes a Problem printable and usable as an error, in the same
 // one-line form as LoadError: "daily_care.csv:212: water: "frozn" is not one of ...".
-func (p Problem) Error() string { return position(p.File, p.Line, p.Column, p.Reason) }
+func (p Problem) Error() string {
+	if p.At != "" {
+		return position(p.File+":"+p.At, 0, p.Column, p.Reason)
+	}
+	return position(p.File, p.Line, p.Column, p.Reason)
+}
+
+// Where is the problem's place without its reason: "daily_care.csv:212",
+// "daily_care.xlsx:daily_care!C212", or the file alone for a whole-file problem.
+func (p Problem) Where() string {
+	switch {
+	case p.At != "":
+		return p.File + ":" + p.At
+	case p.Line > 0:
+		return p.File + ":" + strconv.Itoa(p.Line)
+	}
+	return p.File
+}
 
 // String is the problem's one-line form.
 func (p Problem) String() string { return p.Error() }

@@ -173,7 +173,7 @@ func TestRowProblems(t *testing.T) {
 		{
 			name: "date-time in another form",
 			over: map[string]string{careFile: careHead + "15/01/2026 07:00,E1,K1,yes,ok\n"},
-			want: []string{`daily_care.csv:2: checked_at: "15/01/2026 07:00" is not a date-time (YYYY-MM-DDTHH:MM, with optional :SS, or RFC 3339 with an offset)`},
+			want: []string{`daily_care.csv:2: checked_at: "15/01/2026 07:00" is a day-first date: write 2026-01-15T07:00 (YYYY-MM-DDTHH:MM)`},
 		},
 		{
 			name: "boolean not yes or no",
@@ -183,7 +183,7 @@ func TestRowProblems(t *testing.T) {
 		{
 			name: "decimal comma",
 			over: map[string]string{animalsFile: "animal_id,species,arrived_on,mass_kg\nA1,vulpes_vulpes,2025-01-01,\"6,2\"\n"},
-			want: []string{`animals.csv:2: mass_kg: "6,2" is not a number`},
+			want: []string{`animals.csv:2: mass_kg: "6,2" has a decimal comma: write 6.2 (numbers use a point)`},
 		},
 		{
 			name: "whole number",

@@ -2,7 +2,6 @@ package records
 
 import (
 	"fmt"
-	"strings"
 )
 
 // loadedSet holds every file between reading and the cross-record rules.
@@ -81,7 +80,7 @@ func (l *loaded[T]) keep(check func(r *T) *cellError) {
 	for i := range l.rows {
 		r := &l.rows[i]
 		if ce := check(r); ce != nil {
-			pr := Problem{File: l.spec.name, Line: refLine(r), Column: ce.column, Value: ce.value, Reason: ce.reason}
+			pr := l.problem(refLine(r), ce)
 			if l.spec.day != nil {
 				pr.Day = l.spec.day(r)
 			}
@@ -109,14 +108,18 @@ func (l *loaded[T]) refs(rs ...ref) *cellError {
 			continue
 		}
 		if why := r.in.check(r.id); why != "" {
-			return &cellError{field: -1, column: l.plan.header(r.goName), value: r.id, reason: why}
+			return &cellError{field: l.plan.rt.byGo[r.goName], column: l.plan.header(r.goName), value: r.id, reason: why, kind: KindUnknownRef}
 		}
 	}
 	return nil
 }
 
 func (l *loaded[T]) cellErr(goName, value, reason string) *cellError {
-	return &cellError{field: -1, column: l.plan.header(goName), value: value, reason: reason}
+	fi, ok := l.plan.rt.byGo[goName]
+	if !ok {
+		fi = -1
+	}
+	return &cellError{field: fi, column: l.plan.header(goName), value: value, reason: reason}
 }
 
 func rowRef(r any) Ref {
@@ -149,9 +152,12 @@ func rowRef(r any) Ref {
 
 func refLine(r any) int {
 	s := string(rowRef(r))
-	i := strings.LastIndexByte(s, ':')
+	i := len(s)
+	for i > 0 && s[i-1] >= '0' && s[i-1] <= '9' {
+		i--
+	}
 	n := 0
-	for _, c := range s[i+1:] {
+	for _, c := range s[i:] {
 		n = n*10 + int(c-'0')
 	}
 	return n
