@@ -178,7 +178,7 @@ func TestRowProblems(t *testing.T) {
 		{
 			name: "boolean not yes or no",
 			over: map[string]string{enclosuresFile: "enclosure_id,building_id,kind,floor_area_m2,height_cm,nest_box\nE1,S1,cage,1.2,80,maybe\nE2,B2,pen,4.5,100,\n"},
-			want: []string{`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected)`, `enclosures.csv:2: nest_box: "maybe" is not yes or no (yes/no, y/n, true/false, 1/0)`},
+			want: []string{`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected): fix that row first`, `enclosures.csv:2: nest_box: "maybe" is not yes or no (yes/no, y/n, true/false, 1/0)`},
 		},
 		{
 			name: "decimal comma",
@@ -189,8 +189,8 @@ func TestRowProblems(t *testing.T) {
 			name: "whole number",
 			over: map[string]string{enclosuresFile: "enclosure_id,building_id,kind,floor_area_m2,height_cm,max_occupants\nE1,S1,cage,1.2,80,1.5\nE2,B2,pen,4.5,100,0\n"},
 			want: []string{
-				`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected)`,
-				`animals.csv:3: enclosure_id: "E2" is not in enclosures.csv (its row enclosures.csv:3 was rejected)`,
+				`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected): fix that row first`,
+				`animals.csv:3: enclosure_id: "E2" is not in enclosures.csv (its row enclosures.csv:3 was rejected): fix that row first`,
 				`enclosures.csv:2: max_occupants: "1.5" is not a whole number`,
 				`enclosures.csv:3: max_occupants: 0 must be at least 1`,
 			},
@@ -225,7 +225,7 @@ func TestRowProblems(t *testing.T) {
 		{
 			name: "enclosure without floor size",
 			over: map[string]string{enclosuresFile: "enclosure_id,building_id,kind,length_cm,width_cm,height_cm\nE1,S1,cage,120,,80\nE2,B2,pen,200,300,100\n"},
-			want: []string{`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected)`, `enclosures.csv:2: floor_area_m2: is required when length_cm and width_cm are not both given`},
+			want: []string{`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected): fix that row first`, `enclosures.csv:2: floor_area_m2: is required when length_cm and width_cm are not both given`},
 		},
 		{
 			name: "care round without time or place",
@@ -548,8 +548,8 @@ func TestCrossRecord(t *testing.T) {
 			name: "enclosure in an unknown building, and the animal in it",
 			over: map[string]string{enclosuresFile: "enclosure_id,building_id,kind,floor_area_m2,height_cm\nE1,S9,cage,1.2,80\nE2,B2,pen,4.5,100\n"},
 			want: []string{
-				`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected)`,
-				`enclosures.csv:2: building_id: "S9" is not a building in facility.yaml`,
+				`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected): fix that row first`,
+				`enclosures.csv:2: building_id: "S9" is not a building: add it under buildings in facility.yaml`,
 			},
 		},
 		{
@@ -573,7 +573,7 @@ func TestCrossRecord(t *testing.T) {
 				animalsFile:   "animal_id,species,arrived_on,protocol_id\nA1,vulpes_vulpes,2025-01-01,P1\nA2,vulpes_vulpes,2025-01-01,P2\n",
 				protocolsFile: "protocol_id,title,approved_on,expires_on\nP1,Winter housing,2025-06-01,2028-06-01\n",
 			},
-			want: []string{`animals.csv:3: protocol_id: "P2" is not in protocols.csv`},
+			want: []string{`animals.csv:3: protocol_id: "P2" is not in protocols.csv: add a row for it to protocols.csv, or correct the id`},
 		},
 		{
 			name: "housing: unknown animal and enclosure, overlapping stays",
@@ -588,8 +588,8 @@ func TestCrossRecord(t *testing.T) {
 			want: []string{
 				`housing.csv:4: moved_in_on: stay 2025-06-01 … 2025-07-01 overlaps the stay 2025-03-01 … still there at housing.csv:3`,
 				`housing.csv:6: moved_in_on: stay 2025-01-15 … still there overlaps the stay 2025-01-01 … 2025-02-01 at housing.csv:5`,
-				`housing.csv:7: animal_id: "A9" is not in animals.csv`,
-				`housing.csv:8: enclosure_id: "E7" is not in enclosures.csv`,
+				`housing.csv:7: animal_id: "A9" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
+				`housing.csv:8: enclosure_id: "E7" is not in enclosures.csv: add a row for it to enclosures.csv, or correct the id`,
 			},
 		},
 		{
@@ -602,7 +602,7 @@ func TestCrossRecord(t *testing.T) {
 				"A2,E2,2026-01-01,2026-02-01\n" +
 				"A1,E2,2025-02-01,2025-02-15\n"},
 			want: []string{
-				`housing.csv:2: animal_id: "A9" is not in animals.csv`,
+				`housing.csv:2: animal_id: "A9" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
 				`housing.csv:5: moved_in_on: stay 2025-02-01 … 2025-02-15 overlaps the stay 2025-01-01 … 2025-03-01 at housing.csv:3`,
 			},
 		},
@@ -616,10 +616,10 @@ func TestCrossRecord(t *testing.T) {
 				"2026-01-15T07:00,E1,,K7,yes,no,\n" +
 				"2026-01-15T07:00,E1,,K1,yes,yes,A7\n"},
 			want: []string{
-				`daily_care.csv:4: building_id: "S7" is not a building in facility.yaml`,
-				`daily_care.csv:5: enclosure_id: "E9" is not in enclosures.csv`,
-				`daily_care.csv:6: staff_id: "K7" is not in staff.csv`,
-				`daily_care.csv:7: concern_animal_id: "A7" is not in animals.csv`,
+				`daily_care.csv:4: building_id: "S7" is not a building: add it under buildings in facility.yaml`,
+				`daily_care.csv:5: enclosure_id: "E9" is not in enclosures.csv: add a row for it to enclosures.csv, or correct the id`,
+				`daily_care.csv:6: staff_id: "K7" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
+				`daily_care.csv:7: concern_animal_id: "A7" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
 			},
 		},
 		{
@@ -629,9 +629,9 @@ func TestCrossRecord(t *testing.T) {
 				"ppe_checks.csv": "checked_on,item_id,item,condition,assigned_to\n2026-01-02,G1,gauntlet,good,K1\n2026-01-02,G3,gauntlet,worn,K5\n",
 			},
 			want: []string{
-				`handling.csv:3: glove_id: "G2" is not an item_id in ppe_checks.csv`,
-				`handling.csv:4: animal_id: "A3" is not in animals.csv`,
-				`ppe_checks.csv:3: assigned_to: "K5" is not in staff.csv`,
+				`handling.csv:3: glove_id: "G2" is not an item_id in ppe_checks.csv: add an inspection of it to ppe_checks.csv, or correct the id`,
+				`handling.csv:4: animal_id: "A3" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
+				`ppe_checks.csv:3: assigned_to: "K5" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
 			},
 		},
 		{
@@ -646,9 +646,9 @@ func TestCrossRecord(t *testing.T) {
 				"outdoor_work.csv": "staff_id,started_at,ended_at,site_id\nK1,2026-01-15T07:00,2026-01-15T07:40,ROOF\nK9,2026-01-15T07:00,2026-01-15T07:40,MAST\n",
 			},
 			want: []string{
-				`weather.csv:3: site_id: "ROOF" is not a weather site in facility.yaml`,
-				`outdoor_work.csv:2: site_id: "ROOF" is not a weather site in facility.yaml`,
-				`outdoor_work.csv:3: staff_id: "K9" is not in staff.csv`,
+				`weather.csv:3: site_id: "ROOF" is not a weather site: add it under weather_sites in facility.yaml`,
+				`outdoor_work.csv:2: site_id: "ROOF" is not a weather site: add it under weather_sites in facility.yaml`,
+				`outdoor_work.csv:3: staff_id: "K9" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
 			},
 		},
 		{
@@ -662,9 +662,9 @@ func TestCrossRecord(t *testing.T) {
 					"2026-01-20T09:00,A2,V1,pelting,captive_bolt,P8\n",
 			},
 			want: []string{
-				`culls.csv:3: animal_id: "A8" is not in animals.csv`,
-				`culls.csv:4: staff_id: "V8" is not in staff.csv`,
-				`culls.csv:5: protocol_id: "P8" is not in protocols.csv`,
+				`culls.csv:3: animal_id: "A8" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
+				`culls.csv:4: staff_id: "V8" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
+				`culls.csv:5: protocol_id: "P8" is not in protocols.csv: add a row for it to protocols.csv, or correct the id`,
 			},
 		},
 		{
@@ -675,8 +675,8 @@ func TestCrossRecord(t *testing.T) {
 			},
 			want: []string{
 				`staff.csv: required file is missing: 2 rows name a staff_id`,
-				`daily_care.csv:2: staff_id: "K1" is not in staff.csv (staff.csv is missing)`,
-				`daily_care.csv:3: staff_id: "K1" is not in staff.csv (staff.csv is missing)`,
+				`daily_care.csv:2: staff_id: "K1" is not in staff.csv (staff.csv is missing): add staff.csv with a row for it`,
+				`daily_care.csv:3: staff_id: "K1" is not in staff.csv (staff.csv is missing): add staff.csv with a row for it`,
 			},
 		},
 		{
