@@ -14,9 +14,19 @@ type LoadError struct {
 	Column string // the YAML key or CSV column, when there is one
 	Reason string
 	Err    error // the underlying error, if any (for errors.Is, e.g. fs.ErrNotExist)
+	// Also holds the file's further problems, so that a keeper fixes them
+	// all in one go (facility.yaml reports every problem at once).
+	Also []*LoadError
 }
 
-func (e *LoadError) Error() string { return position(e.File, e.Line, e.Column, e.Reason) }
+// Error is the problem's line, then each of Also on a line of its own.
+func (e *LoadError) Error() string {
+	s := position(e.File, e.Line, e.Column, e.Reason)
+	for _, a := range e.Also {
+		s += "\n" + a.Error()
+	}
+	return s
+}
 
 func (e *LoadError) Unwrap() error { return e.Err }
 

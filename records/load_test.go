@@ -751,7 +751,7 @@ func TestLoadErrors(t *testing.T) {
 		{"animals missing", map[string]string{animalsFile: "-"}, "animals.csv: required file is missing", true},
 		{"enclosures missing", map[string]string{enclosuresFile: "-"}, "enclosures.csv: required file is missing", true},
 		{"facility empty", fac(""), "facility.yaml: is empty", false},
-		{"unknown key", fac("name: X\ntime_zone: UTC\ncolour: red\nbuildings:\n  - id: S1\n    exposure: outdoor\n"), "facility.yaml:3: colour: unknown key", false},
+		{"unknown key", fac("name: X\ntime_zone: UTC\ncolour: red\nbuildings:\n  - id: S1\n    exposure: outdoor\n"), "facility.yaml:3: colour: unknown key (the keys here are name, time_zone, buildings, weather_sites)", false},
 		{"bad time zone", fac("name: X\ntime_zone: Mars/Olympus\nbuildings:\n  - id: S1\n    exposure: outdoor\n"),
 			`facility.yaml:2: time_zone: "Mars/Olympus" is not an IANA time zone name (such as America/Winnipeg)`, false},
 		{"syntax", fac("name: X\n  time_zone: [UTC\n"), "facility.yaml:2: mapping values are not allowed in this context", false},
@@ -759,7 +759,7 @@ func TestLoadErrors(t *testing.T) {
 			`facility.yaml:5: buildings[0].exposure: "outside" is not one of outdoor, sheltered, indoor`, false},
 		{"no buildings", fac("name: X\ntime_zone: UTC\n"), "facility.yaml: buildings: is required", false},
 		{"bad weather site", fac("name: X\ntime_zone: UTC\nbuildings:\n  - id: S1\n    exposure: outdoor\n    weather_site: ROOF\nweather_sites: [MAST]\n"),
-			`facility.yaml:6: buildings[0].weather_site: "ROOF" is not one of the weather_sites`, false},
+			`facility.yaml:6: buildings[0].weather_site: "ROOF" is not one of the weather_sites: add it under weather_sites`, false},
 		{"duplicate building", fac("name: X\ntime_zone: UTC\nbuildings:\n  - id: S1\n    exposure: outdoor\n  - id: S1\n    exposure: indoor\n"),
 			`facility.yaml:6: buildings[1].id: "S1" is a duplicate; first at facility.yaml:4`, false},
 	}
