@@ -51,6 +51,22 @@ func (p Problem) Where() string {
 	return p.File
 }
 
+// Row is the place of the problem's row, without the cell:
+// "daily_care.csv:212", "records.xlsx:daily_care!212", or the file (and
+// sheet) for a whole-file problem.
+func (p Problem) Row() Ref {
+	sheet, _, hasCell := strings.Cut(p.At, "!")
+	switch {
+	case p.At != "" && hasCell && p.Line > 0:
+		return Ref(p.File + ":" + sheet + "!" + strconv.Itoa(p.Line))
+	case p.At != "":
+		return Ref(p.File + ":" + sheet)
+	case p.Line > 0:
+		return Ref(p.File + ":" + strconv.Itoa(p.Line))
+	}
+	return Ref(p.File)
+}
+
 // String is the problem's one-line form.
 func (p Problem) String() string { return p.Error() }
 

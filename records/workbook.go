@@ -56,7 +56,7 @@ func readSheet(wb *excelize.File, file, name string) (*sheet, error) {
 	if p, err := wb.GetWorkbookProps(); err == nil && p.Date1904 != nil {
 		date1904 = *p.Date1904
 	}
-	dateStyle := map[int]bool{}
+	dateStyle := map[int]dateForm{}
 	for r, row := range raw {
 		for c, cell := range row {
 			if cell == "" {
@@ -71,13 +71,13 @@ func readSheet(wb *excelize.File, file, name string) (*sheet, error) {
 			if err != nil || id == 0 {
 				continue
 			}
-			isDate, seen := dateStyle[id]
+			form, seen := dateStyle[id]
 			if !seen {
-				isDate = styleIsDate(wb, id)
-				dateStyle[id] = isDate
+				form = styleDate(wb, id)
+				dateStyle[id] = form
 			}
-			if isDate {
-				row[c] = serialText(v, date1904)
+			if form != notDate {
+				row[c] = serialText(v, date1904, form == dateTime)
 			}
 		}
 	}
@@ -90,12 +90,12 @@ func readSheet(wb *excelize.File, file, name string) (*sheet, error) {
 
 // serialText writes a spreadsheet date serial as the records' date or
 // date-time text. Times are rounded to the second, as spreadsheets show them.
-func serialText(v float64, date1904 bool) string {
+func serialText(v float64, date1904, withTime bool) string {
 	t, err := excelize.ExcelDateToTime(v, date1904)
 	if err != nil {
 		return strconv.FormatFloat(v, 'f', -1, 64)
 	}
-	if v == math.Trunc(v) {
+	if !withTime && v == math.Trunc(v) {
 		return t.Format("2006-01-02")
 	}
 	t = t.Round(1e9)
@@ -105,24 +105,39 @@ func serialText(v float64, date1904 bool) string {
 	return t.Format("2006-01-02T15:04")
 }
 
-// styleIsDate reports whether a cell style shows numbers as dates: one of
-// the built-in date and time formats (ECMA-376 Part 1, §18.8.30: ids 14–22
-// and 45–47), or a custom format with a day, month or year code outside
-// quoted text and brackets.
-func styleIsDate(wb *excelize.File, id int) bool {
+// dateForm is how a cell style shows a number.
+type dateForm uint8
+
+const (
+	notDate  dateForm = iota
+	dateOnly          // a day
+	dateTime          // a day and a time of day
+)
+
+// styleDate tells whether a cell style shows numbers as dates: one of the
+// built-in date and time formats (ECMA-376 Part 1, §18.8.30: ids 14–22 and
+// 45–47; 14–17 are dates alone), or a custom format with a day, month or
+// year code outside quoted text and brackets (with an hour code: a time).
+func styleDate(wb *excelize.File, id int) dateForm {
 	st, err := wb.GetStyle(id)
 	if err != nil || st == nil {
-		return false
+		return notDate
 	}
 	if st.CustomNumFmt != nil {
-		return formatIsDate(*st.CustomNumFmt)
+		return formatDate(*st.CustomNumFmt)
 	}
-	n := st.NumFmt
-	return n >= 14 && n <= 22 || n >= 45 && n <= 47
+	switch n := st.NumFmt; {
+	case n >= 14 && n <= 17:
+		return dateOnly
+	case n >= 18 && n <= 22, n >= 45 && n <= 47:
+		return dateTime
+	}
+	return notDate
 }
 
-func formatIsDate(f string) bool {
+func formatDate(f string) dateForm {
 	quoted, bracket := false, false
+	form := notDate
 	for i := 0; i < len(f); i++ {
 		c := f[i]
 		switch {
@@ -136,11 +151,13 @@ func formatIsDate(f string) bool {
 		case c == ']':
 			bracket = false
 		case bracket:
-		case strings.IndexByte("dDmMyY", c) >= 0:
-			return true
+		case c == 'h' || c == 'H' || c == 's' || c == 'S':
+			form = dateTime
+		case strings.IndexByte("dDmMyY", c) >= 0 && form == notDate:
+			form = dateOnly
 		}
 	}
-	return false
+	return form
 }
 
 // sheetReader gives a sheet's rows to the loader, one record at a time.
