@@ -123,8 +123,10 @@ var (
 
 // A value that is not a real date (2026-01-32, planted in the demo) stays
 // text, as a spreadsheet keeps it.
-func isDate(v string) bool      { return dateRe.MatchString(v) && !parsed("2006-01-02", v).IsZero() }
-func isLocalTime(v string) bool { return timeRe.MatchString(v) && !parsed("2006-01-02T15:04", strings.Replace(v, " ", "T", 1)).IsZero() }
+func isDate(v string) bool { return dateRe.MatchString(v) && !parsed("2006-01-02", v).IsZero() }
+func isLocalTime(v string) bool {
+	return timeRe.MatchString(v) && !parsed("2006-01-02T15:04", strings.Replace(v, " ", "T", 1)).IsZero()
+}
 
 func parsed(layout, v string) time.Time {
 	t, err := time.Parse(layout, v)
