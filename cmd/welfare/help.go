@@ -22,7 +22,9 @@ var commands = []struct{ name, usage, summary string }{
 		"List the checks in force with their sources, or run the rules' own tests."},
 	{"limits", "welfare limits [show | check FILE]",
 		"Print the default limits (to copy and edit), or validate a limits file."},
-	{"help", "welfare help [COMMAND]", "Show this help, or one command's flags."},
+	{"init", "welfare init DIR",
+		"Write a starter records folder: a commented facility.yaml and every record file with its header row."},
+	{"help", "welfare help [COMMAND | records [FILE]]", "Show this help, one command's flags, or the records reference (every file and column)."},
 }
 
 func printHelp(w io.Writer) {
@@ -50,6 +52,9 @@ func runHelp(args []string, stdout io.Writer) error {
 		printHelp(stdout)
 		return nil
 	}
+	if args[0] == "records" {
+		return runHelpRecords(args[1:], stdout)
+	}
 	var fs *flag.FlagSet
 	switch args[0] {
 	case "check":
@@ -60,7 +65,7 @@ func runHelp(args []string, stdout io.Writer) error {
 		fs, _ = demoFlags()
 	case "rules":
 		fs, _ = rulesFlags("rules")
-	case "limits", "help":
+	case "limits", "help", "init":
 	default:
 		return usagef("no help for unknown command %q", args[0])
 	}

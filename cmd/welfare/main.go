@@ -79,6 +79,8 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 		return runRules(ctx, rest, stdout, stderr)
 	case "limits":
 		return runLimits(rest, stdout, stderr)
+	case "init":
+		return runInit(ctx, rest, stdout, stderr)
 	}
 	return usagef("unknown command %q", cmd)
 }
