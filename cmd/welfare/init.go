@@ -98,4 +98,3 @@ The columns of every file:
 `, dir, dir)
 	return nil
 }
-
