@@ -175,13 +175,17 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 		}
 	}
 	if issue != nil {
-		pr := l.problem(1, &cellError{field: -1, column: issue.column, reason: issue.reason, kind: issue.kind})
-		l.problems = append(l.problems, pr)
 		l.count.Failed = issue.reason
 		if issue.column != "" {
 			l.count.Failed = issue.column + ": " + issue.reason
 		}
+		if isMissing(issue) && len(unknown) > 0 {
+			issue.reason += "; the header has " + strings.Join(unknown, ", ")
+		}
 		l.drain(rr)
+		// One message for the file, with the count of rows it cost.
+		issue.reason += rowsNotRead(l.count.Read)
+		l.problems = append(l.problems, l.problem(1, &cellError{field: -1, column: issue.column, reason: issue.reason, kind: issue.kind}))
 		return l
 	}
 	l.plan = p
@@ -192,6 +196,17 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 	d.refBase = rr.refBase()
 	l.read(rr, d, e)
 	return l
+}
+
+// rowsNotRead says how many rows a file-level problem kept from being read.
+func rowsNotRead(n int) string {
+	switch n {
+	case 0:
+		return ""
+	case 1:
+		return "; its 1 row is not read"
+	}
+	return fmt.Sprintf("; its %d rows are not read", n)
 }
 
 // estimateRows guesses the row count from the file size and the lines in

@@ -462,31 +462,31 @@ func TestFileLevel(t *testing.T) {
 		{
 			name:  "duplicate column",
 			over:  map[string]string{careFile: "checked_at,enclosure_id,staff_id,observed,Staff_ID\n2026-01-15T07:00,E1,K1,yes,K1\n2026-01-15T08:00,E1,K1,yes,K1\n"},
-			want:  []string{`daily_care.csv:1: Staff_ID: column appears twice (columns 3 and 5)`},
+			want:  []string{`daily_care.csv:1: Staff_ID: column appears twice (columns 3 and 5); its 2 rows are not read`},
 			count: FileCount{File: careFile, Read: 2, Rejected: 2, Failed: "Staff_ID: column appears twice (columns 3 and 5)"},
 		},
 		{
 			name:  "two units for one measurement",
 			over:  map[string]string{"weather.csv": "observed_at,site_id,air_temp_c,air_temp_f\n2026-01-15T07:00,MAST,-40,-40\n"},
-			want:  []string{`weather.csv:1: air_temp_f: two units for one measurement: air_temp_c and air_temp_f; keep one`},
+			want:  []string{`weather.csv:1: air_temp_f: two units for one measurement: air_temp_c and air_temp_f; keep one; its 1 row is not read`},
 			count: FileCount{File: weatherFile, Read: 1, Rejected: 1, Failed: "air_temp_f: two units for one measurement: air_temp_c and air_temp_f; keep one"},
 		},
 		{
 			name:  "missing required column",
 			over:  map[string]string{"handling.csv": "handled_at,animal_id,purpose\n2026-01-15T10:00,A1,weighing\n2026-01-15T11:00,A1,weighing\n2026-01-15T12:00,A1,weighing\n"},
-			want:  []string{`handling.csv:1: staff_id: required column is missing`},
+			want:  []string{`handling.csv:1: staff_id: required column is missing; its 3 rows are not read`},
 			count: FileCount{File: handlingFile, Read: 3, Rejected: 3, Failed: "staff_id: required column is missing"},
 		},
 		{
 			name:  "missing measured column",
 			over:  map[string]string{"weather.csv": "observed_at,site_id,wind_kmh\n2026-01-15T07:00,MAST,20\n"},
-			want:  []string{`weather.csv:1: air_temp_c: required column is missing (give one of air_temp_c or air_temp_f)`},
+			want:  []string{`weather.csv:1: air_temp_c: required column is missing (give one of air_temp_c or air_temp_f); its 1 row is not read`},
 			count: FileCount{File: weatherFile, Read: 1, Rejected: 1, Failed: "air_temp_c: required column is missing (give one of air_temp_c or air_temp_f)"},
 		},
 		{
 			name:  "care without time columns",
 			over:  map[string]string{careFile: "enclosure_id,staff_id,observed\nE1,K1,yes\n"},
-			want:  []string{`daily_care.csv:1: checked_at: required column is missing (give checked_at, or date)`},
+			want:  []string{`daily_care.csv:1: checked_at: required column is missing (give checked_at, or date); its 1 row is not read`},
 			count: FileCount{File: careFile, Read: 1, Rejected: 1, Failed: "checked_at: required column is missing (give checked_at, or date)"},
 		},
 		{
