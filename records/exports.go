@@ -42,6 +42,12 @@ func delimiterIssue(head []string) *headerIssue {
 func (d *decoder) numberReason(cell, what string) string {
 	if fixed, ok := decimalComma(cell); ok {
 		d.kind = KindDecimalComma
+		i := strings.IndexByte(cell, ',')
+		if whole := strings.TrimLeft(cell[:i], "+-"); len(cell)-i-1 == 3 && whole != "0" && len(whole) <= 3 {
+			// 1,234 may be a thousands separator as well as a decimal comma.
+			return fmt.Sprintf("%q has a comma: write %s if it is a decimal comma, or %s if it separates thousands (numbers use a point and no separators)",
+				cell, fixed, strings.Replace(cell, ",", "", 1))
+		}
 		return fmt.Sprintf("%q has a decimal comma: write %s (numbers use a point)", cell, fixed)
 	}
 	return fmt.Sprintf("%q is not %s", cell, what)

@@ -118,3 +118,35 @@ func TestGroupProblems(t *testing.T) {
 		t.Errorf("groups stand for %d problems, want all %d", n, len(ps))
 	}
 }
+
+func TestExportCellReasons(t *testing.T) {
+	d := &decoder{}
+	for _, tt := range []struct {
+		cell, want, kind string
+		date             bool
+	}{
+		{cell: "-35,5", want: `"-35,5" has a decimal comma: write -35.5 (numbers use a point)`, kind: KindDecimalComma},
+		{cell: "1,250", want: `"1,250" has a comma: write 1.250 if it is a decimal comma, or 1250 if it separates thousands (numbers use a point and no separators)`, kind: KindDecimalComma},
+		{cell: "-0,125", want: `"-0,125" has a decimal comma: write -0.125 (numbers use a point)`, kind: KindDecimalComma},
+		{cell: "1,250,000", want: `"1,250,000" is not a number`},
+		{cell: "12,", want: `"12," is not a number`},
+		{cell: "15/01/2026", date: true, want: `"15/01/2026" is a day-first date: write 2026-01-15 (YYYY-MM-DD)`, kind: KindDateOrder},
+		{cell: "01/15/2026", date: true, want: `"01/15/2026" is a month-first date: write 2026-01-15 (YYYY-MM-DD)`, kind: KindDateOrder},
+		{cell: "15.01.2026", date: true, want: `"15.01.2026" is a day-first date: write 2026-01-15 (YYYY-MM-DD)`, kind: KindDateOrder},
+		{cell: "03/04/2026", date: true, want: `"03/04/2026" is a day-first or month-first date: write it as YYYY-MM-DD (2026-04-03 if day first, 2026-03-04 if month first)`, kind: KindDateOrder},
+		{cell: "2026/01/15", date: true, want: `"2026/01/15" is not a date (YYYY-MM-DD)`},
+		{cell: "32/13/2026", date: true, want: `"32/13/2026" is not a date (YYYY-MM-DD)`},
+	} {
+		d.kind = ""
+		var got string
+		if tt.date {
+			_, err := parseDate(tt.cell)
+			got = d.dateReason(tt.cell, err)
+		} else {
+			got = d.numberReason(tt.cell, "a number")
+		}
+		if got != tt.want || d.kind != tt.kind {
+			t.Errorf("%q: got %q (kind %q), want %q (kind %q)", tt.cell, got, d.kind, tt.want, tt.kind)
+		}
+	}
+}
