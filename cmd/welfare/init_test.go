@@ -68,3 +68,23 @@ func TestHelpRecords(t *testing.T) {
 		t.Errorf("help records feeding.csv: exit %d, %s", code, stderr)
 	}
 }
+
+// validate groups a problem repeated on many rows into one message with
+// their lines; the accounting still counts every row.
+func TestValidateGroupsRepeatedProblems(t *testing.T) {
+	code, stdout, _ := runMain(t, "validate", "../../testdata/exports/decimal-comma")
+	if code != exitFindings {
+		t.Fatalf("exit %d, want %d", code, exitFindings)
+	}
+	for _, want := range []string{
+		"weather.csv           13         1        12",
+		`  weather.csv:2: air_temp_c: "-31,5" has a decimal comma: write -31.5 (numbers use a point)` + "\n    … and 11 more rows like it: lines 3–13\n",
+	} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("validate output lacks %q:\n%s", want, stdout)
+		}
+	}
+	if strings.Contains(stdout, "weather.csv:3:") {
+		t.Errorf("a repeated problem is listed row by row:\n%s", stdout)
+	}
+}
