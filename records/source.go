@@ -120,6 +120,11 @@ func kindSheet(fsys fs.FS, file, kind string) (*sheet, error) {
 	return readSheet(wb, file, name)
 }
 
+// IsRecordFile reports whether a path of a records folder is one the
+// loader reads: facility.yaml, a record file, its workbook, or
+// records.xlsx. A checker fingerprint covers exactly these files.
+func IsRecordFile(name string) bool { return isRecordFile(name) }
+
 // isRecordFile reports whether a folder entry is read as records.
 func isRecordFile(name string) bool {
 	if fileOrder(name) < len(Files) || name == workbookFile {
