@@ -145,3 +145,23 @@ func escapeInvalid(s string) string {
 	}
 	return b.String()
 }
+
+// firstInvalidLine is the line of the first byte that is not UTF-8, 0 when
+// all of data is UTF-8.
+func firstInvalidLine(data []byte) int {
+	if utf8.Valid(data) {
+		return 0
+	}
+	line := 1
+	for i := 0; i < len(data); {
+		r, n := utf8.DecodeRune(data[i:])
+		if r == utf8.RuneError && n == 1 {
+			return line
+		}
+		if r == '\n' {
+			line++
+		}
+		i += n
+	}
+	return line
+}

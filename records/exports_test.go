@@ -83,6 +83,22 @@ func TestExportCorpusFacility(t *testing.T) {
 	}
 }
 
+func TestHeaderNotUTF8(t *testing.T) {
+	s := mustLoad(t, folder(map[string]string{"staff.csv": "staff_id,name,r\xf4le\nK1,Ilse Marrow,keeper\n"}))
+	want := []string{"staff.csv:1: the header row is not UTF-8 text: save the file as UTF-8 (it looks like a Windows-1252 or Latin-1 export); its 1 row is not read"}
+	if d := cmp.Diff(want, problemLines(s)); d != "" {
+		t.Errorf("problems (-want +got):\n%s", d)
+	}
+}
+
+func TestFacilityNotUTF8(t *testing.T) {
+	_, err := Load(folder(map[string]string{"facility.yaml": "time_zone: UTC\nname: Station Lef\xe8vre\n"}), testSpecies)
+	want := "facility.yaml:2: is not UTF-8 text: save the file as UTF-8 (it looks like a Windows-1252 or Latin-1 file)"
+	if err == nil || err.Error() != want {
+		t.Errorf("Load error = %v, want %q", err, want)
+	}
+}
+
 func TestGroupProblems(t *testing.T) {
 	p := func(line int, col, reason, kind, value string) Problem {
 		return Problem{File: "weather.csv", Line: line, Column: col, Reason: reason, Kind: kind, Value: value}

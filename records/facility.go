@@ -27,6 +27,10 @@ func loadFacility(fsys fs.FS) (Facility, *time.Location, error) {
 		return fac, nil, &LoadError{File: facilityFile, Reason: "cannot be read: " + err.Error(), Err: err}
 	}
 	data = bytes.TrimPrefix(data, []byte("\ufeff"))
+	if line := firstInvalidLine(data); line > 0 {
+		return fac, nil, &LoadError{File: facilityFile, Line: line,
+			Reason: "is not UTF-8 text: save the file as UTF-8 (it looks like a Windows-1252 or Latin-1 file)"}
+	}
 	var root yaml.Node
 	if err := yaml.Unmarshal(data, &root); err != nil {
 		return fac, nil, yamlError(facilityFile, err) // a syntax error: nothing after it can be read

@@ -164,6 +164,9 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 		return l
 	}
 	issue := delimiterIssue(head)
+	if !validUTF8(head) {
+		issue = &headerIssue{reason: "the header row is not UTF-8 text: save the file as UTF-8 (it looks like a Windows-1252 or Latin-1 export)", kind: KindNotUTF8}
+	}
 	var (
 		p       *plan
 		unknown []string
