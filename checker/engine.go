@@ -829,11 +829,13 @@ func compareRefs(a, b records.Ref) int {
 
 func splitRef(r records.Ref) (string, int) {
 	s := string(r)
-	i := strings.LastIndexByte(s, ':')
+	// FILE:LINE, or a workbook's FILE:SHEET!ROW or FILE:SHEET!CELL (C212).
+	i := strings.LastIndexAny(s, ":!")
 	if i < 0 {
 		return s, -1
 	}
-	n, err := strconv.Atoi(s[i+1:])
+	num := strings.TrimLeft(s[i+1:], "ABCDEFGHIJKLMNOPQRSTUVWXYZ")
+	n, err := strconv.Atoi(num)
 	if err != nil {
 		return s, -1
 	}

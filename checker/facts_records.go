@@ -10,10 +10,7 @@ import (
 func (f *facts) recordsFacts() {
 	rejected := make([]any, 0, len(f.set.Problems))
 	for _, p := range f.set.Problems {
-		ref := p.File
-		if p.Line > 0 {
-			ref = p.File + ":" + itoa(p.Line)
-		}
+		ref := string(p.Row())
 		rejected = append(rejected, map[string]any{
 			"ref": ref, "file": p.File, "line": p.Line, "column": p.Column, "value": p.Value,
 			"reason": p.Reason, "on": dayOrNull(p.Day), "message": p.Error(),

@@ -7,17 +7,22 @@ import (
 	"hash"
 	"io/fs"
 	"strings"
+
+	"welfare/records"
 )
 
-// Fingerprint is the SHA-256 over the inputs a check used: every file of the
-// records folder, every rule file of the sources (tests excluded: they do
-// not change findings) and the limits text, each framed by its name and
+// Fingerprint is the SHA-256 over the inputs a check used: every file the
+// records loader reads (records.IsRecordFile: CSV files and workbooks
+// alike), every rule file of the sources (tests excluded: they do not
+// change findings) and the limits text, each framed by its name and
 // length so that moving bytes between files changes the sum. The same
 // inputs always give the same fingerprint, so a signed report can be tied
 // to the records it came from.
 func Fingerprint(recordsFS fs.FS, sources []Source, limits []byte) (string, error) {
 	h := sha256.New()
-	if err := hashTree(h, "records", recordsFS, func(string) bool { return true }); err != nil {
+	// The files the loader reads (CSV files, workbooks, facility.yaml):
+	// what was checked, and nothing a note left beside them could change.
+	if err := hashTree(h, "records", recordsFS, records.IsRecordFile); err != nil {
 		return "", err
 	}
 	for _, s := range sources {

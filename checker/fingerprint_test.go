@@ -38,6 +38,15 @@ func TestFingerprint(t *testing.T) {
 			}
 		})
 	}
+	// Files the loader does not read do not change it; a workbook does.
+	withNote := fstest.MapFS{"animals.csv": recs["animals.csv"], "facility.yaml": recs["facility.yaml"], "notes.txt": {Data: []byte("x")}, "old/animals.csv": {Data: []byte("x")}}
+	if got, _ := Fingerprint(withNote, rules, []byte("limits")); got != base {
+		t.Error("a file the loader does not read changed the fingerprint")
+	}
+	withBook := fstest.MapFS{"animals.csv": recs["animals.csv"], "facility.yaml": recs["facility.yaml"], "weather.xlsx": {Data: []byte("PK")}}
+	if got, _ := Fingerprint(withBook, rules, []byte("limits")); got == base {
+		t.Error("a workbook did not change the fingerprint")
+	}
 	// Rule tests do not change findings, so they do not change the fingerprint.
 	noTests := []Source{{Name: "rules", FS: fstest.MapFS{"a.rego": {Data: []byte("package welfare.a")}}}}
 	if got, _ := Fingerprint(recs, noTests, []byte("limits")); got != base {

@@ -192,7 +192,66 @@ func alternatives(f *field) string {
 
 // headerIssue is a header problem that makes the whole file unusable.
 type headerIssue struct {
-	column, reason string
+	column, reason, kind string
+	// missing lists the required columns that are missing, each with its
+	// hint ("give one of air_temp_c or air_temp_f"), to name them all in one message.
+	missing []missingColumn
+}
+
+type missingColumn struct{ name, hint string }
+
+// joinMissing puts the missing columns of b into a, so a file with several
+// missing columns gets one message naming each. An issue that is not
+// about missing columns wins: it is reported alone.
+func joinMissing(a, b *headerIssue) *headerIssue {
+	switch {
+	case b == nil:
+		return a
+	case a == nil && !isMissing(b):
+		return b
+	case a != nil && !isMissing(a):
+		return a
+	case b != nil && !isMissing(b):
+		return b
+	}
+	var cols []missingColumn
+	for _, h := range []*headerIssue{a, b} {
+		if h == nil {
+			continue
+		}
+		if len(h.missing) > 0 {
+			cols = append(cols, h.missing...)
+			continue
+		}
+		hint := ""
+		if _, rest, ok := strings.Cut(h.reason, "("); ok {
+			hint = strings.TrimSuffix(rest, ")")
+		}
+		cols = append(cols, missingColumn{h.column, hint})
+	}
+	if len(cols) == 1 {
+		if a != nil {
+			return a
+		}
+		return b
+	}
+	names := make([]string, len(cols))
+	var hints []string
+	for i, c := range cols {
+		names[i] = c.name
+		if c.hint != "" {
+			hints = append(hints, c.name+": "+c.hint)
+		}
+	}
+	reason := fmt.Sprintf("%d required columns are missing", len(cols))
+	if len(hints) > 0 {
+		reason += " (" + strings.Join(hints, "; ") + ")"
+	}
+	return &headerIssue{column: strings.Join(names, ", "), reason: reason, missing: cols}
+}
+
+func isMissing(h *headerIssue) bool {
+	return len(h.missing) > 0 || strings.HasPrefix(h.reason, "required column is missing")
 }
 
 // newPlan resolves a header. It returns warnings for columns that are not
@@ -213,12 +272,12 @@ func newPlan(rt *rowType, header []string) (*plan, []string, *headerIssue) {
 			continue
 		}
 		if j, dup := seen[key]; dup {
-			return nil, nil, &headerIssue{h, fmt.Sprintf("column appears twice (columns %d and %d)", j+1, i+1)}
+			return nil, nil, &headerIssue{column: h, reason: fmt.Sprintf("column appears twice (columns %d and %d)", j+1, i+1)}
 		}
 		seen[key] = i
 		if fi, alt, ok := matchColumn(rt, key); ok {
 			if c := p.colOf[fi]; c >= 0 {
-				return nil, nil, &headerIssue{h, fmt.Sprintf("two units for one measurement: %s and %s; keep one", p.cols[c].header, h)}
+				return nil, nil, &headerIssue{column: h, reason: fmt.Sprintf("two units for one measurement: %s and %s; keep one", p.cols[c].header, h)}
 			}
 			p.cols[i].field, p.cols[i].alt = fi, alt
 			p.colOf[fi] = i
@@ -226,6 +285,7 @@ func newPlan(rt *rowType, header []string) (*plan, []string, *headerIssue) {
 		}
 		unknown = append(unknown, h)
 	}
+	var missing *headerIssue
 	for fi := range rt.fields {
 		f := &rt.fields[fi]
 		if f.required && p.colOf[fi] < 0 {
@@ -233,10 +293,12 @@ func newPlan(rt *rowType, header []string) (*plan, []string, *headerIssue) {
 			if f.unit != "" && len(units[f.unit]) > 1 {
 				reason = "required column is missing (give one of " + alternatives(f) + ")"
 			}
-			return nil, nil, &headerIssue{siName(f), reason}
+			missing = joinMissing(missing, &headerIssue{column: siName(f), reason: reason})
 		}
 	}
-	return p, unknown, nil
+	// The plan is returned with the missing columns, so that the file's
+	// own column rules can add theirs to the one message.
+	return p, unknown, missing
 }
 
 func matchColumn(rt *rowType, key string) (int, *unitAlt, bool) {
@@ -267,6 +329,7 @@ type cellError struct {
 	column string
 	value  string
 	reason string
+	kind   string // Problem.Kind
 }
 
 // decoder reads rows of one file into T values, reusing its scratch space.
@@ -281,6 +344,8 @@ type decoder struct {
 	// cell ("" = valid): validation is a pure function of the cell, and a
 	// million rows repeat a few hundred values.
 	verdicts []map[string]verdict
+	// kind is the Problem.Kind of the reason set last returned, if any.
+	kind string
 }
 
 // verdict is a validated cell: the reason it is invalid ("" when valid) and,
@@ -345,7 +410,7 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 		cell := strings.TrimSpace(raw)
 		if cell == "" {
 			if f.required && first == nil {
-				first = &cellError{col.field, col.header, "", "is required but empty"}
+				first = &cellError{field: col.field, column: col.header, reason: "is required but empty"}
 				d.failed[col.field] = true
 			}
 			continue
@@ -365,8 +430,9 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 		if reason != "" {
 			d.failed[col.field] = true
 			if first == nil {
-				first = &cellError{col.field, col.header, raw, reason}
+				first = &cellError{field: col.field, column: col.header, value: raw, reason: reason, kind: d.kind}
 			}
+			d.kind = ""
 		}
 	}
 	return first
@@ -385,13 +451,13 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 	case kDay:
 		day, err := parseDate(cell)
 		if err != nil {
-			return err.Error()
+			return d.dateReason(cell, err)
 		}
 		fv.SetInt(int64(day))
 	case kTime:
 		t, err := parseDateTime(cell, d.loc)
 		if err != nil {
-			return err.Error()
+			return d.dateReason(cell, err)
 		}
 		*fv.Addr().Interface().(*time.Time) = t
 	case kBool:
@@ -403,7 +469,7 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 	case kFloat, kFloatPtr:
 		v, ok := parseNumber(cell)
 		if !ok {
-			return fmt.Sprintf("%q is not a number", cell)
+			return d.numberReason(cell, "a number")
 		}
 		if col.alt != nil {
 			v = col.alt.toSI(v)
@@ -416,7 +482,7 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 	case kInt, kIntPtr:
 		v, err := strconv.Atoi(cell)
 		if err != nil {
-			return fmt.Sprintf("%q is not a whole number", cell)
+			return d.numberReason(cell, "a whole number")
 		}
 		if f.kind == kInt {
 			fv.SetInt(int64(v))

@@ -21,7 +21,7 @@ func TestEnvironmentFile(t *testing.T) {
 		`environment.csv:3: air_temp_f: is required but empty`,
 		`environment.csv:4: humidity_pct: 101 is outside the plausible range 0 … 100`,
 		`environment.csv:5: ammonia_ppm: -1 must be at least 0`,
-		`environment.csv:6: building_id: "B9" is not a building in facility.yaml`,
+		`environment.csv:6: building_id: "B9" is not a building: add it under buildings in facility.yaml`,
 	}
 	if d := cmp.Diff(want, problemLines(s)); d != "" {
 		t.Errorf("problems (-want +got):\n%s", d)

@@ -14,15 +14,58 @@ type LoadError struct {
 	Column string // the YAML key or CSV column, when there is one
 	Reason string
 	Err    error // the underlying error, if any (for errors.Is, e.g. fs.ErrNotExist)
+	// Also holds the file's further problems, so that a keeper fixes them
+	// all in one go (facility.yaml reports every problem at once).
+	Also []*LoadError
 }
 
-func (e *LoadError) Error() string { return position(e.File, e.Line, e.Column, e.Reason) }
+// Error is the problem's line, then each of Also on a line of its own.
+func (e *LoadError) Error() string {
+	s := position(e.File, e.Line, e.Column, e.Reason)
+	for _, a := range e.Also {
+		s += "\n" + a.Error()
+	}
+	return s
+}
 
 func (e *LoadError) Unwrap() error { return e.Err }
 
 // Error makes a Problem printable and usable as an error, in the same
 // one-line form as LoadError: "daily_care.csv:212: water: "frozn" is not one of ...".
-func (p Problem) Error() string { return position(p.File, p.Line, p.Column, p.Reason) }
+func (p Problem) Error() string {
+	if p.At != "" {
+		return position(p.File+":"+p.At, 0, p.Column, p.Reason)
+	}
+	return position(p.File, p.Line, p.Column, p.Reason)
+}
+
+// Where is the problem's place without its reason: "daily_care.csv:212",
+// "daily_care.xlsx:daily_care!C212", or the file alone for a whole-file problem.
+func (p Problem) Where() string {
+	switch {
+	case p.At != "":
+		return p.File + ":" + p.At
+	case p.Line > 0:
+		return p.File + ":" + strconv.Itoa(p.Line)
+	}
+	return p.File
+}
+
+// Row is the place of the problem's row, without the cell:
+// "daily_care.csv:212", "records.xlsx:daily_care!212", or the file (and
+// sheet) for a whole-file problem.
+func (p Problem) Row() Ref {
+	sheet, _, hasCell := strings.Cut(p.At, "!")
+	switch {
+	case p.At != "" && hasCell && p.Line > 0:
+		return Ref(p.File + ":" + sheet + "!" + strconv.Itoa(p.Line))
+	case p.At != "":
+		return Ref(p.File + ":" + sheet)
+	case p.Line > 0:
+		return Ref(p.File + ":" + strconv.Itoa(p.Line))
+	}
+	return Ref(p.File)
+}
 
 // String is the problem's one-line form.
 func (p Problem) String() string { return p.Error() }

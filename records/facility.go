@@ -1,6 +1,7 @@
 package records
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -25,51 +26,100 @@ func loadFacility(fsys fs.FS) (Facility, *time.Location, error) {
 		}
 		return fac, nil, &LoadError{File: facilityFile, Reason: "cannot be read: " + err.Error(), Err: err}
 	}
-	doc, err := DecodeYAML(facilityFile, data, &fac)
-	if err != nil {
-		return fac, nil, err
+	data = bytes.TrimPrefix(data, []byte("\ufeff"))
+	if line := firstInvalidLine(data); line > 0 {
+		return fac, nil, &LoadError{File: facilityFile, Line: line,
+			Reason: "is not UTF-8 text: save the file as UTF-8 (it looks like a Windows-1252 or Latin-1 file)"}
 	}
-	if bs := mapValue(doc, "buildings"); bs != nil && bs.Kind == yaml.SequenceNode {
-		for i, n := range bs.Content {
-			if i < len(fac.Buildings) {
-				fac.Buildings[i].Line = n.Line
+	var root yaml.Node
+	if err := yaml.Unmarshal(data, &root); err != nil {
+		return fac, nil, yamlError(facilityFile, err) // a syntax error: nothing after it can be read
+	}
+	if len(root.Content) == 0 {
+		return fac, nil, &LoadError{File: facilityFile, Reason: "is empty"}
+	}
+	doc := root.Content[0]
+	// Every problem is collected, so that a keeper fixes them all at once.
+	var probs []*LoadError
+	bad := map[string]bool{} // keys with a problem already
+	add := func(le *LoadError) {
+		for k := le.Column; k != ""; k, _ = cutLast(k) {
+			if bad[k] {
+				return // already reported at the key, or at the block holding it
 			}
+		}
+		bad[le.Column] = true
+		probs = append(probs, le)
+	}
+	dec := yaml.NewDecoder(bytes.NewReader(data))
+	dec.KnownFields(true)
+	if err := dec.Decode(&fac); err != nil {
+		var te *yaml.TypeError
+		if !errors.As(err, &te) {
+			return fac, nil, yamlError(facilityFile, err)
+		}
+		for _, m := range te.Errors {
+			add(facilityTypeProblem(doc, m))
+		}
+	}
+	// The buildings are read one by one, so that a building that is not a
+	// block of keys does not shift the positions of the ones after it.
+	var buildingAt []int // index in fac.Buildings -> index in the file
+	if bs := mapValue(doc, "buildings"); bs != nil && bs.Kind == yaml.SequenceNode {
+		fac.Buildings = fac.Buildings[:0]
+		for i, n := range bs.Content {
+			var b Building
+			if n.Kind != yaml.MappingNode || n.Decode(&b) != nil {
+				continue // reported by the decoder above
+			}
+			b.Line = n.Line
+			fac.Buildings = append(fac.Buildings, b)
+			buildingAt = append(buildingAt, i)
 		}
 	}
 	if err := validate().Struct(&fac); err != nil {
 		var ves validator.ValidationErrors
-		if errors.As(err, &ves) && len(ves) > 0 {
-			fe := ves[0]
-			key := YAMLPath(fe)
-			return fac, nil, &LoadError{File: facilityFile, Line: KeyLine(doc, key), Column: key, Reason: facilityReason(fe)}
+		if !errors.As(err, &ves) {
+			return fac, nil, &LoadError{File: facilityFile, Reason: err.Error(), Err: err}
 		}
-		return fac, nil, &LoadError{File: facilityFile, Reason: err.Error(), Err: err}
+		for _, fe := range ves {
+			key := YAMLPath(fe)
+			var j int
+			if n, _ := fmt.Sscanf(key, "buildings[%d]", &j); n == 1 {
+				_, rest, _ := strings.Cut(key, "]")
+				key = fmt.Sprintf("buildings[%d]%s", fileIndex(buildingAt, j), rest)
+			}
+			add(&LoadError{File: facilityFile, Line: KeyLine(doc, key), Column: key, Reason: facilityReason(fe)})
+		}
 	}
 	loc, err := time.LoadLocation(fac.TimeZone)
-	if err != nil || fac.TimeZone == "Local" {
-		return fac, nil, &LoadError{File: facilityFile, Line: KeyLine(doc, "time_zone"), Column: "time_zone",
-			Reason: fmt.Sprintf("%q is not an IANA time zone name (such as America/Winnipeg)", fac.TimeZone), Err: err}
+	if fac.TimeZone != "" && (err != nil || fac.TimeZone == "Local") {
+		add(&LoadError{File: facilityFile, Line: KeyLine(doc, "time_zone"), Column: "time_zone",
+			Reason: fmt.Sprintf("%q is not an IANA time zone name (such as America/Winnipeg)", fac.TimeZone), Err: err})
 	}
 	sites := map[string]bool{}
 	for i, s := range fac.WeatherSites {
 		if sites[s] {
 			key := fmt.Sprintf("weather_sites[%d]", i)
-			return fac, nil, &LoadError{File: facilityFile, Line: KeyLine(doc, key), Column: key, Reason: fmt.Sprintf("%q is listed twice", s)}
+			add(&LoadError{File: facilityFile, Line: KeyLine(doc, key), Column: key, Reason: fmt.Sprintf("%q is listed twice", s)})
 		}
 		sites[s] = true
 	}
 	seen := map[string]int{}
 	for i, b := range fac.Buildings {
-		if first, dup := seen[b.ID]; dup {
-			return fac, nil, &LoadError{File: facilityFile, Line: b.Line, Column: fmt.Sprintf("buildings[%d].id", i),
-				Reason: fmt.Sprintf("%q is a duplicate; first at %s:%d", b.ID, facilityFile, first)}
+		if first, dup := seen[b.ID]; dup && b.ID != "" {
+			add(&LoadError{File: facilityFile, Line: b.Line, Column: fmt.Sprintf("buildings[%d].id", fileIndex(buildingAt, i)),
+				Reason: fmt.Sprintf("%q is a duplicate; first at %s:%d", b.ID, facilityFile, first)})
 		}
 		seen[b.ID] = b.Line
 		if b.WeatherSite != "" && !sites[b.WeatherSite] {
-			key := fmt.Sprintf("buildings[%d].weather_site", i)
-			return fac, nil, &LoadError{File: facilityFile, Line: KeyLine(doc, key), Column: key,
-				Reason: fmt.Sprintf("%q is not one of the weather_sites", b.WeatherSite)}
+			key := fmt.Sprintf("buildings[%d].weather_site", fileIndex(buildingAt, i))
+			add(&LoadError{File: facilityFile, Line: KeyLine(doc, key), Column: key,
+				Reason: fmt.Sprintf("%q is not one of the weather_sites: add it under weather_sites", b.WeatherSite)})
 		}
+	}
+	if len(probs) > 0 {
+		return fac, nil, joinLoadErrors(probs)
 	}
 	return fac, loc, nil
 }
@@ -84,4 +134,21 @@ func facilityReason(fe validator.FieldError) string {
 		return fmt.Sprintf("%q is not an id (1 to 64 letters, digits or - _ . : /)", fmt.Sprint(fe.Value()))
 	}
 	return fmt.Sprintf("%v fails the %s %s check", fe.Value(), fe.Tag(), fe.Param())
+}
+
+// cutLast drops the last part of a dotted path: "buildings[0].id" →
+// "buildings[0]" → "buildings" → "".
+func cutLast(k string) (string, bool) {
+	if i := strings.LastIndexAny(k, ".["); i >= 0 {
+		return k[:i], true
+	}
+	return "", false
+}
+
+// fileIndex is the position in the file of the i-th building read.
+func fileIndex(at []int, i int) int {
+	if i < len(at) {
+		return at[i]
+	}
+	return i
 }

@@ -141,12 +141,12 @@ func TestHealthCrossRecord(t *testing.T) {
 				treatmentsFile:   treatHead + "C-1,A9,2026-01-06,wound,V1,,,\nC-2,A1,2026-01-06,wound,V9,,,\n",
 			},
 			want: []string{
-				`deaths.csv:2: animal_id: "A9" is not in animals.csv`,
-				`deaths.csv:3: found_by: "K9" is not in staff.csv`,
-				`observations.csv:2: animal_id: "A9" is not in animals.csv`,
-				`observations.csv:3: staff_id: "K9" is not in staff.csv`,
-				`treatments.csv:2: animal_id: "A9" is not in animals.csv`,
-				`treatments.csv:3: prescribed_by: "V9" is not in staff.csv`,
+				`deaths.csv:2: animal_id: "A9" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
+				`deaths.csv:3: found_by: "K9" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
+				`observations.csv:2: animal_id: "A9" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
+				`observations.csv:3: staff_id: "K9" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
+				`treatments.csv:2: animal_id: "A9" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
+				`treatments.csv:3: prescribed_by: "V9" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
 			},
 		},
 		{
@@ -156,7 +156,7 @@ func TestHealthCrossRecord(t *testing.T) {
 				"L-2,A2,2025-05-04,5,,,\n" +
 				"L-3,A1,2024-04-01,5,,,\n"},
 			want: []string{
-				`litters.csv:2: dam_id: "A9" is not in animals.csv`,
+				`litters.csv:2: dam_id: "A9" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
 				`litters.csv:3: dam_id: "A2" is not a female (sex m at animals.csv:3)`,
 				`litters.csv:4: dam_id: "A1" was not at the facility on whelped_on 2024-04-01 (arrived 2024-04-20, still here; animals.csv:2)`,
 			},
@@ -174,7 +174,7 @@ func TestHealthCrossRecord(t *testing.T) {
 			over: map[string]string{staffFile: "-", deathsFile: deathsHead + "A2,2026-01-13T07:40,K1,cold,,,,\n"},
 			want: []string{
 				`staff.csv: required file is missing: 1 row names a staff_id`,
-				`deaths.csv:2: found_by: "K1" is not in staff.csv (staff.csv is missing)`,
+				`deaths.csv:2: found_by: "K1" is not in staff.csv (staff.csv is missing): add staff.csv with a row for it`,
 			},
 		},
 	}

@@ -59,6 +59,7 @@ func fileOrder(name string) int {
 
 // env is what row rules need beyond the row itself.
 type env struct {
+	sources     map[string]*source // by record file name
 	loc         *time.Location
 	species     map[string]bool
 	speciesList string
@@ -106,60 +107,114 @@ type loaded[T any] struct {
 	// rejected maps the ids of rejected rows to their ref, so a reference to
 	// one can say why it is unknown.
 	rejected map[string]Ref
+	// file is the file read (daily_care.csv, daily_care.xlsx, records.xlsx);
+	// sheet and at place problems inside a workbook.
+	file  string
+	sheet string
+	at    func(ci, line int) string
 }
 
 func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
-	l := &loaded[T]{spec: spec, count: FileCount{File: spec.name}}
-	f, err := fsys.Open(spec.name)
-	if err != nil {
-		if !errors.Is(err, fs.ErrNotExist) {
-			l.present = true
-			l.fail("", "cannot be read: "+err.Error())
-		}
+	l := &loaded[T]{spec: spec, count: FileCount{File: spec.name}, file: spec.name}
+	src := e.sources[spec.name]
+	if src == nil {
 		return l
 	}
-	defer f.Close()
 	l.present = true
+	l.file, l.count.File = src.file, src.display
 	rt, err := rowTypeOf(reflect.TypeFor[T]())
 	if err != nil {
 		l.fail("", err.Error())
 		return l
 	}
-	br := bufio.NewReaderSize(f, 1<<16)
-	if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
-		_, _ = br.Discard(3)
+	var rr rowReader
+	if src.csv() {
+		f, err := fsys.Open(src.file)
+		if err != nil {
+			l.fail("", "cannot be read: "+err.Error())
+			return l
+		}
+		defer f.Close()
+		br := bufio.NewReaderSize(f, 1<<16)
+		if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
+			_, _ = br.Discard(3)
+		}
+		l.rows = make([]T, 0, estimateRows(f, br))
+		r := csv.NewReader(br)
+		r.FieldsPerRecord = -1
+		r.ReuseRecord = true
+		rr = &csvReader{r: r, base: src.file + ":"}
+	} else {
+		sh := src.sheet
+		if sh == nil {
+			if sh, err = kindSheet(fsys, src.file, kindOf(spec.name)); err != nil {
+				l.fail("", err.Error())
+				return l
+			}
+		}
+		sr := newSheetReader(sh)
+		l.at, l.sheet = sr.at, sh.name
+		l.rows = make([]T, 0, len(sh.rows))
+		rr = sr
 	}
-	l.rows = make([]T, 0, estimateRows(f, br))
-	r := csv.NewReader(br)
-	r.FieldsPerRecord = -1
-	r.ReuseRecord = true
 
-	head, err := r.Read()
+	head, _, err := rr.next()
 	switch {
 	case err == io.EOF:
 		l.fail("", "no header row (the file is empty)")
 		return l
 	case err != nil:
 		l.fail("", "header row: "+csvReason(err))
-		l.drain(r)
+		l.drain(rr)
 		return l
 	}
-	p, unknown, issue := newPlan(rt, head)
-	if issue == nil && spec.header != nil {
-		issue = spec.header(p)
+	issue := delimiterIssue(head)
+	if !validUTF8(head) {
+		issue = &headerIssue{reason: "the header row is not UTF-8 text: save the file as UTF-8 (it looks like a Windows-1252 or Latin-1 export)", kind: KindNotUTF8}
+	}
+	var (
+		p       *plan
+		unknown []string
+	)
+	if issue == nil {
+		p, unknown, issue = newPlan(rt, head)
+		if p != nil && spec.header != nil {
+			issue = joinMissing(issue, spec.header(p))
+		}
 	}
 	if issue != nil {
-		l.problems = append(l.problems, Problem{File: spec.name, Line: 1, Column: issue.column, Reason: issue.reason})
-		l.count.Failed = issue.column + ": " + issue.reason
-		l.drain(r)
+		l.count.Failed = issue.reason
+		if issue.column != "" {
+			l.count.Failed = issue.column + ": " + issue.reason
+		}
+		if isMissing(issue) && len(unknown) > 0 {
+			issue.reason += "; the header has " + strings.Join(unknown, ", ")
+		}
+		l.drain(rr)
+		// One message for the file, with the count of rows it cost.
+		issue.reason += rowsNotRead(l.count.Read)
+		l.problems = append(l.problems, l.problem(1, &cellError{field: -1, column: issue.column, reason: issue.reason, kind: issue.kind}))
 		return l
 	}
 	l.plan = p
 	for _, u := range unknown {
-		l.warnings = append(l.warnings, Warning{File: spec.name, Column: u, Message: "unknown column, not read"})
+		l.warnings = append(l.warnings, Warning{File: l.count.File, Column: u, Message: "unknown column, not read"})
 	}
-	l.read(r, newDecoder(p, e.loc, spec.name), e)
+	d := newDecoder(p, e.loc, src.file)
+	d.refBase = rr.refBase()
+	l.read(rr, d, e)
 	return l
+}
+
+// rowsNotRead says how many rows a file-level problem kept from being read.
+func rowsNotRead(n int) string {
+	switch n {
+	case 0:
+		return ""
+	case 1:
+		return "; its 1 row is not read"
+	}
+	return fmt.Sprintf("; its %d rows are not read", n)
 }
 
 // estimateRows guesses the row count from the file size and the lines in
@@ -181,14 +236,35 @@ func estimateRows(f fs.File, br *bufio.Reader) int {
 
 // fail marks the whole file unusable.
 func (l *loaded[T]) fail(column, reason string) {
-	l.problems = append(l.problems, Problem{File: l.spec.name, Column: column, Reason: reason})
+	l.problems = append(l.problems, Problem{File: l.file, Column: column, Reason: reason, At: l.sheetAt()})
 	l.count.Failed = reason
 }
 
+// sheetAt is the At of a whole-file problem: the sheet of records.xlsx.
+func (l *loaded[T]) sheetAt() string {
+	if l.file == workbookFile {
+		return l.sheet
+	}
+	return ""
+}
+
+// problem positions a rejected row (or a header problem, on line 1).
+func (l *loaded[T]) problem(line int, ce *cellError) Problem {
+	pr := Problem{File: l.file, Line: line, Column: ce.column, Value: strings.Clone(ce.value), Reason: ce.reason, Kind: ce.kind}
+	if l.at != nil {
+		ci := -1
+		if ce.field >= 0 && l.plan != nil {
+			ci = l.plan.colOf[ce.field]
+		}
+		pr.At = l.at(ci, line)
+	}
+	return pr
+}
+
 // drain counts the rows of a file that failed as a whole: each is read and rejected.
-func (l *loaded[T]) drain(r *csv.Reader) {
+func (l *loaded[T]) drain(r rowReader) {
 	for {
-		_, err := r.Read()
+		_, _, err := r.next()
 		if err == io.EOF {
 			return
 		}
@@ -209,7 +285,7 @@ func csvReason(err error) string {
 	return err.Error()
 }
 
-func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
+func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 	spec, p := l.spec, d.p
 	check := rowCheck{p: p, env: e}
 	var zero T
@@ -222,7 +298,7 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 		idField = p.rt.byGo[spec.idName]
 	}
 	for {
-		rec, err := r.Read()
+		rec, line, err := r.next()
 		if err == io.EOF {
 			return
 		}
@@ -234,10 +310,9 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 			}
 			l.count.Read++
 			l.count.Rejected++
-			l.problems = append(l.problems, Problem{File: spec.name, Line: pe.StartLine, Reason: csvReason(err)})
+			l.problems = append(l.problems, Problem{File: l.file, Line: pe.StartLine, Reason: csvReason(err)})
 			continue
 		}
-		line, _ := r.FieldPos(0)
 		l.count.Read++
 		var ce *cellError
 		l.rows = append(l.rows, zero)
@@ -247,6 +322,8 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 			ce = &cellError{field: -1, reason: fmt.Sprintf("row has %d cells but the header has %d", len(rec), len(p.cols))}
 		case blank(rec):
 			ce = &cellError{field: -1, reason: "row is empty (every cell is blank)"}
+		case !validUTF8(rec):
+			ce = notUTF8(p, rec)
 		default:
 			ce = d.decode(reflect.ValueOf(row).Elem(), rec)
 			if ce == nil && spec.row != nil {
@@ -258,7 +335,7 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 					if first, dup := firstAt[id]; dup {
 						if ce == nil {
 							check.rec = rec
-							ce = check.fail(spec.idName, fmt.Sprintf("%q is a duplicate; first at %s:%d", id, spec.name, first))
+							ce = check.fail(spec.idName, fmt.Sprintf("%q is a duplicate; first at %s", id, d.ref(first)))
 						}
 					} else {
 						firstAt[id] = line
@@ -270,7 +347,7 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 			}
 		}
 		if ce != nil {
-			pr := Problem{File: spec.name, Line: line, Column: ce.column, Value: strings.Clone(ce.value), Reason: ce.reason}
+			pr := l.problem(line, ce)
 			if spec.day != nil {
 				pr.Day = spec.day(row)
 			}
@@ -319,7 +396,7 @@ var (
 		name: enclosuresFile,
 		header: func(p *plan) *headerIssue {
 			if !p.has("FloorAreaM2") && !(p.has("LengthCm") && p.has("WidthCm")) {
-				return &headerIssue{"floor_area_m2", "required column is missing (give floor_area_m2, or both length_cm and width_cm)"}
+				return &headerIssue{column: "floor_area_m2", reason: "required column is missing (give floor_area_m2, or both length_cm and width_cm)"}
 			}
 			return nil
 		},
@@ -362,13 +439,14 @@ var (
 	careSpec = &fileSpec[CareRound]{
 		name: careFile,
 		header: func(p *plan) *headerIssue {
+			var issue *headerIssue
 			if !p.has("At") && !p.has("Day") {
-				return &headerIssue{"checked_at", "required column is missing (give checked_at, or date)"}
+				issue = &headerIssue{column: "checked_at", reason: "required column is missing (give checked_at, or date)"}
 			}
 			if !p.has("EnclosureID") && !p.has("BuildingID") {
-				return &headerIssue{"enclosure_id", "required column is missing (give enclosure_id, or building_id)"}
+				issue = joinMissing(issue, &headerIssue{column: "enclosure_id", reason: "required column is missing (give enclosure_id, or building_id)"})
 			}
-			return nil
+			return issue
 		},
 		row: func(r *CareRound, c *rowCheck) *cellError {
 			switch {
@@ -447,15 +525,19 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	for _, e := range entries {
 		names[e.Name()] = true
 	}
+	s := &Set{Facility: fac, Location: loc, Present: map[string]bool{facilityFile: true}}
+	sources, sheetWarnings, err := findSources(fsys, names)
+	if err != nil {
+		return nil, err
+	}
 	for _, req := range []string{animalsFile, enclosuresFile} {
-		if !names[req] {
+		if sources[req] == nil {
 			return nil, &LoadError{File: req, Reason: "required file is missing", Err: fs.ErrNotExist}
 		}
 	}
-	s := &Set{Facility: fac, Location: loc, Present: map[string]bool{facilityFile: true}}
 	for _, e := range entries {
 		name := e.Name()
-		if fileOrder(name) < len(Files) {
+		if isRecordFile(name) {
 			continue
 		}
 		msg := "unknown file, not read"
@@ -468,7 +550,8 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 		s.Warnings = append(s.Warnings, Warning{File: name, Message: msg})
 	}
 
-	e := &env{loc: loc}
+	s.Warnings = append(s.Warnings, sheetWarnings...)
+	e := &env{loc: loc, sources: sources}
 	if len(opt.Species) > 0 {
 		e.species = map[string]bool{}
 		for _, sp := range opt.Species {
@@ -531,7 +614,7 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	s.Problems = append(s.Problems, ld.extra...)
 	sort.SliceStable(s.Problems, func(i, j int) bool {
 		a, b := s.Problems[i], s.Problems[j]
-		if oa, ob := fileOrder(a.File), fileOrder(b.File); oa != ob {
+		if oa, ob := kindOrder(&a), kindOrder(&b); oa != ob {
 			return oa < ob
 		}
 		return a.Line < b.Line

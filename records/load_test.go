@@ -176,24 +176,24 @@ func TestRowProblems(t *testing.T) {
 		{
 			name: "date-time in another form",
 			over: map[string]string{careFile: careHead + "15/01/2026 07:00,E1,K1,yes,ok\n"},
-			want: []string{`daily_care.csv:2: checked_at: "15/01/2026 07:00" is not a date-time (YYYY-MM-DDTHH:MM, with optional :SS, or RFC 3339 with an offset)`},
+			want: []string{`daily_care.csv:2: checked_at: "15/01/2026 07:00" is a day-first date: write 2026-01-15T07:00 (YYYY-MM-DDTHH:MM)`},
 		},
 		{
 			name: "boolean not yes or no",
 			over: map[string]string{enclosuresFile: "enclosure_id,building_id,kind,floor_area_m2,height_cm,nest_box\nE1,S1,cage,1.2,80,maybe\nE2,B2,pen,4.5,100,\n"},
-			want: []string{`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected)`, `enclosures.csv:2: nest_box: "maybe" is not yes or no (yes/no, y/n, true/false, 1/0)`},
+			want: []string{`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected): fix that row first`, `enclosures.csv:2: nest_box: "maybe" is not yes or no (yes/no, y/n, true/false, 1/0)`},
 		},
 		{
 			name: "decimal comma",
 			over: map[string]string{animalsFile: "animal_id,species,arrived_on,mass_kg\nA1,vulpes_vulpes,2025-01-01,\"6,2\"\n"},
-			want: []string{`animals.csv:2: mass_kg: "6,2" is not a number`},
+			want: []string{`animals.csv:2: mass_kg: "6,2" has a decimal comma: write 6.2 (numbers use a point)`},
 		},
 		{
 			name: "whole number",
 			over: map[string]string{enclosuresFile: "enclosure_id,building_id,kind,floor_area_m2,height_cm,max_occupants\nE1,S1,cage,1.2,80,1.5\nE2,B2,pen,4.5,100,0\n"},
 			want: []string{
-				`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected)`,
-				`animals.csv:3: enclosure_id: "E2" is not in enclosures.csv (its row enclosures.csv:3 was rejected)`,
+				`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected): fix that row first`,
+				`animals.csv:3: enclosure_id: "E2" is not in enclosures.csv (its row enclosures.csv:3 was rejected): fix that row first`,
 				`enclosures.csv:2: max_occupants: "1.5" is not a whole number`,
 				`enclosures.csv:3: max_occupants: 0 must be at least 1`,
 			},
@@ -228,7 +228,7 @@ func TestRowProblems(t *testing.T) {
 		{
 			name: "enclosure without floor size",
 			over: map[string]string{enclosuresFile: "enclosure_id,building_id,kind,length_cm,width_cm,height_cm\nE1,S1,cage,120,,80\nE2,B2,pen,200,300,100\n"},
-			want: []string{`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected)`, `enclosures.csv:2: floor_area_m2: is required when length_cm and width_cm are not both given`},
+			want: []string{`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected): fix that row first`, `enclosures.csv:2: floor_area_m2: is required when length_cm and width_cm are not both given`},
 		},
 		{
 			name: "care round without time or place",
@@ -465,31 +465,31 @@ func TestFileLevel(t *testing.T) {
 		{
 			name:  "duplicate column",
 			over:  map[string]string{careFile: "checked_at,enclosure_id,staff_id,observed,Staff_ID\n2026-01-15T07:00,E1,K1,yes,K1\n2026-01-15T08:00,E1,K1,yes,K1\n"},
-			want:  []string{`daily_care.csv:1: Staff_ID: column appears twice (columns 3 and 5)`},
+			want:  []string{`daily_care.csv:1: Staff_ID: column appears twice (columns 3 and 5); its 2 rows are not read`},
 			count: FileCount{File: careFile, Read: 2, Rejected: 2, Failed: "Staff_ID: column appears twice (columns 3 and 5)"},
 		},
 		{
 			name:  "two units for one measurement",
 			over:  map[string]string{"weather.csv": "observed_at,site_id,air_temp_c,air_temp_f\n2026-01-15T07:00,MAST,-40,-40\n"},
-			want:  []string{`weather.csv:1: air_temp_f: two units for one measurement: air_temp_c and air_temp_f; keep one`},
+			want:  []string{`weather.csv:1: air_temp_f: two units for one measurement: air_temp_c and air_temp_f; keep one; its 1 row is not read`},
 			count: FileCount{File: weatherFile, Read: 1, Rejected: 1, Failed: "air_temp_f: two units for one measurement: air_temp_c and air_temp_f; keep one"},
 		},
 		{
 			name:  "missing required column",
 			over:  map[string]string{"handling.csv": "handled_at,animal_id,purpose\n2026-01-15T10:00,A1,weighing\n2026-01-15T11:00,A1,weighing\n2026-01-15T12:00,A1,weighing\n"},
-			want:  []string{`handling.csv:1: staff_id: required column is missing`},
+			want:  []string{`handling.csv:1: staff_id: required column is missing; its 3 rows are not read`},
 			count: FileCount{File: handlingFile, Read: 3, Rejected: 3, Failed: "staff_id: required column is missing"},
 		},
 		{
 			name:  "missing measured column",
 			over:  map[string]string{"weather.csv": "observed_at,site_id,wind_kmh\n2026-01-15T07:00,MAST,20\n"},
-			want:  []string{`weather.csv:1: air_temp_c: required column is missing (give one of air_temp_c or air_temp_f)`},
+			want:  []string{`weather.csv:1: air_temp_c: required column is missing (give one of air_temp_c or air_temp_f); its 1 row is not read`},
 			count: FileCount{File: weatherFile, Read: 1, Rejected: 1, Failed: "air_temp_c: required column is missing (give one of air_temp_c or air_temp_f)"},
 		},
 		{
 			name:  "care without time columns",
 			over:  map[string]string{careFile: "enclosure_id,staff_id,observed\nE1,K1,yes\n"},
-			want:  []string{`daily_care.csv:1: checked_at: required column is missing (give checked_at, or date)`},
+			want:  []string{`daily_care.csv:1: checked_at: required column is missing (give checked_at, or date); its 1 row is not read`},
 			count: FileCount{File: careFile, Read: 1, Rejected: 1, Failed: "checked_at: required column is missing (give checked_at, or date)"},
 		},
 		{
@@ -551,8 +551,8 @@ func TestCrossRecord(t *testing.T) {
 			name: "enclosure in an unknown building, and the animal in it",
 			over: map[string]string{enclosuresFile: "enclosure_id,building_id,kind,floor_area_m2,height_cm\nE1,S9,cage,1.2,80\nE2,B2,pen,4.5,100\n"},
 			want: []string{
-				`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected)`,
-				`enclosures.csv:2: building_id: "S9" is not a building in facility.yaml`,
+				`animals.csv:2: enclosure_id: "E1" is not in enclosures.csv (its row enclosures.csv:2 was rejected): fix that row first`,
+				`enclosures.csv:2: building_id: "S9" is not a building: add it under buildings in facility.yaml`,
 			},
 		},
 		{
@@ -576,7 +576,7 @@ func TestCrossRecord(t *testing.T) {
 				animalsFile:   "animal_id,species,arrived_on,protocol_id\nA1,vulpes_vulpes,2025-01-01,P1\nA2,vulpes_vulpes,2025-01-01,P2\n",
 				protocolsFile: "protocol_id,title,approved_on,expires_on\nP1,Winter housing,2025-06-01,2028-06-01\n",
 			},
-			want: []string{`animals.csv:3: protocol_id: "P2" is not in protocols.csv`},
+			want: []string{`animals.csv:3: protocol_id: "P2" is not in protocols.csv: add a row for it to protocols.csv, or correct the id`},
 		},
 		{
 			name: "housing: unknown animal and enclosure, overlapping stays",
@@ -591,8 +591,8 @@ func TestCrossRecord(t *testing.T) {
 			want: []string{
 				`housing.csv:4: moved_in_on: stay 2025-06-01 … 2025-07-01 overlaps the stay 2025-03-01 … still there at housing.csv:3`,
 				`housing.csv:6: moved_in_on: stay 2025-01-15 … still there overlaps the stay 2025-01-01 … 2025-02-01 at housing.csv:5`,
-				`housing.csv:7: animal_id: "A9" is not in animals.csv`,
-				`housing.csv:8: enclosure_id: "E7" is not in enclosures.csv`,
+				`housing.csv:7: animal_id: "A9" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
+				`housing.csv:8: enclosure_id: "E7" is not in enclosures.csv: add a row for it to enclosures.csv, or correct the id`,
 			},
 		},
 		{
@@ -605,7 +605,7 @@ func TestCrossRecord(t *testing.T) {
 				"A2,E2,2026-01-01,2026-02-01\n" +
 				"A1,E2,2025-02-01,2025-02-15\n"},
 			want: []string{
-				`housing.csv:2: animal_id: "A9" is not in animals.csv`,
+				`housing.csv:2: animal_id: "A9" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
 				`housing.csv:5: moved_in_on: stay 2025-02-01 … 2025-02-15 overlaps the stay 2025-01-01 … 2025-03-01 at housing.csv:3`,
 			},
 		},
@@ -619,10 +619,10 @@ func TestCrossRecord(t *testing.T) {
 				"2026-01-15T07:00,E1,,K7,yes,no,\n" +
 				"2026-01-15T07:00,E1,,K1,yes,yes,A7\n"},
 			want: []string{
-				`daily_care.csv:4: building_id: "S7" is not a building in facility.yaml`,
-				`daily_care.csv:5: enclosure_id: "E9" is not in enclosures.csv`,
-				`daily_care.csv:6: staff_id: "K7" is not in staff.csv`,
-				`daily_care.csv:7: concern_animal_id: "A7" is not in animals.csv`,
+				`daily_care.csv:4: building_id: "S7" is not a building: add it under buildings in facility.yaml`,
+				`daily_care.csv:5: enclosure_id: "E9" is not in enclosures.csv: add a row for it to enclosures.csv, or correct the id`,
+				`daily_care.csv:6: staff_id: "K7" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
+				`daily_care.csv:7: concern_animal_id: "A7" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
 			},
 		},
 		{
@@ -632,9 +632,9 @@ func TestCrossRecord(t *testing.T) {
 				"ppe_checks.csv": "checked_on,item_id,item,condition,assigned_to\n2026-01-02,G1,gauntlet,good,K1\n2026-01-02,G3,gauntlet,worn,K5\n",
 			},
 			want: []string{
-				`handling.csv:3: glove_id: "G2" is not an item_id in ppe_checks.csv`,
-				`handling.csv:4: animal_id: "A3" is not in animals.csv`,
-				`ppe_checks.csv:3: assigned_to: "K5" is not in staff.csv`,
+				`handling.csv:3: glove_id: "G2" is not an item_id in ppe_checks.csv: add an inspection of it to ppe_checks.csv, or correct the id`,
+				`handling.csv:4: animal_id: "A3" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
+				`ppe_checks.csv:3: assigned_to: "K5" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
 			},
 		},
 		{
@@ -649,9 +649,9 @@ func TestCrossRecord(t *testing.T) {
 				"outdoor_work.csv": "staff_id,started_at,ended_at,site_id\nK1,2026-01-15T07:00,2026-01-15T07:40,ROOF\nK9,2026-01-15T07:00,2026-01-15T07:40,MAST\n",
 			},
 			want: []string{
-				`weather.csv:3: site_id: "ROOF" is not a weather site in facility.yaml`,
-				`outdoor_work.csv:2: site_id: "ROOF" is not a weather site in facility.yaml`,
-				`outdoor_work.csv:3: staff_id: "K9" is not in staff.csv`,
+				`weather.csv:3: site_id: "ROOF" is not a weather site: add it under weather_sites in facility.yaml`,
+				`outdoor_work.csv:2: site_id: "ROOF" is not a weather site: add it under weather_sites in facility.yaml`,
+				`outdoor_work.csv:3: staff_id: "K9" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
 			},
 		},
 		{
@@ -665,9 +665,9 @@ func TestCrossRecord(t *testing.T) {
 					"2026-01-20T09:00,A2,V1,pelting,captive_bolt,P8\n",
 			},
 			want: []string{
-				`culls.csv:3: animal_id: "A8" is not in animals.csv`,
-				`culls.csv:4: staff_id: "V8" is not in staff.csv`,
-				`culls.csv:5: protocol_id: "P8" is not in protocols.csv`,
+				`culls.csv:3: animal_id: "A8" is not in animals.csv: add a row for it to animals.csv, or correct the id`,
+				`culls.csv:4: staff_id: "V8" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
+				`culls.csv:5: protocol_id: "P8" is not in protocols.csv: add a row for it to protocols.csv, or correct the id`,
 			},
 		},
 		{
@@ -678,8 +678,8 @@ func TestCrossRecord(t *testing.T) {
 			},
 			want: []string{
 				`staff.csv: required file is missing: 2 rows name a staff_id`,
-				`daily_care.csv:2: staff_id: "K1" is not in staff.csv (staff.csv is missing)`,
-				`daily_care.csv:3: staff_id: "K1" is not in staff.csv (staff.csv is missing)`,
+				`daily_care.csv:2: staff_id: "K1" is not in staff.csv (staff.csv is missing): add staff.csv with a row for it`,
+				`daily_care.csv:3: staff_id: "K1" is not in staff.csv (staff.csv is missing): add staff.csv with a row for it`,
 			},
 		},
 		{
@@ -754,7 +754,7 @@ func TestLoadErrors(t *testing.T) {
 		{"animals missing", map[string]string{animalsFile: "-"}, "animals.csv: required file is missing", true},
 		{"enclosures missing", map[string]string{enclosuresFile: "-"}, "enclosures.csv: required file is missing", true},
 		{"facility empty", fac(""), "facility.yaml: is empty", false},
-		{"unknown key", fac("name: X\ntime_zone: UTC\ncolour: red\nbuildings:\n  - id: S1\n    exposure: outdoor\n"), "facility.yaml:3: colour: unknown key", false},
+		{"unknown key", fac("name: X\ntime_zone: UTC\ncolour: red\nbuildings:\n  - id: S1\n    exposure: outdoor\n"), "facility.yaml:3: colour: unknown key (the keys here are name, time_zone, buildings, weather_sites)", false},
 		{"bad time zone", fac("name: X\ntime_zone: Mars/Olympus\nbuildings:\n  - id: S1\n    exposure: outdoor\n"),
 			`facility.yaml:2: time_zone: "Mars/Olympus" is not an IANA time zone name (such as America/Winnipeg)`, false},
 		{"syntax", fac("name: X\n  time_zone: [UTC\n"), "facility.yaml:2: mapping values are not allowed in this context", false},
@@ -762,7 +762,7 @@ func TestLoadErrors(t *testing.T) {
 			`facility.yaml:5: buildings[0].exposure: "outside" is not one of outdoor, sheltered, indoor`, false},
 		{"no buildings", fac("name: X\ntime_zone: UTC\n"), "facility.yaml: buildings: is required", false},
 		{"bad weather site", fac("name: X\ntime_zone: UTC\nbuildings:\n  - id: S1\n    exposure: outdoor\n    weather_site: ROOF\nweather_sites: [MAST]\n"),
-			`facility.yaml:6: buildings[0].weather_site: "ROOF" is not one of the weather_sites`, false},
+			`facility.yaml:6: buildings[0].weather_site: "ROOF" is not one of the weather_sites: add it under weather_sites`, false},
 		{"duplicate building", fac("name: X\ntime_zone: UTC\nbuildings:\n  - id: S1\n    exposure: outdoor\n  - id: S1\n    exposure: indoor\n"),
 			`facility.yaml:6: buildings[1].id: "S1" is a duplicate; first at facility.yaml:4`, false},
 	}

@@ -2,7 +2,6 @@ package records
 
 import (
 	"fmt"
-	"strings"
 )
 
 // loadedSet holds every file between reading and the cross-record rules.
@@ -35,6 +34,7 @@ type index struct {
 	failed   bool
 	ids      map[string]bool
 	rejected map[string]Ref
+	fix      string // how to add a missing id, for sets not kept in a file of rows
 }
 
 func newIndex[T any](l *loaded[T]) *index {
@@ -50,21 +50,28 @@ func (ix *index) check(id string) string {
 	if ix.ids[id] {
 		return ""
 	}
-	why := ""
+	why, fix := "", ix.fix
 	switch {
 	case !ix.present:
 		why = fmt.Sprintf(" (%s is missing)", ix.file)
+		fix = fmt.Sprintf("add %s with a row for it", ix.file)
 	case ix.failed:
 		why = fmt.Sprintf(" (%s could not be used)", ix.file)
+		fix = fmt.Sprintf("fix the problem with %s first", ix.file)
 	case ix.rejected[id] != "":
 		why = fmt.Sprintf(" (its row %s was rejected)", ix.rejected[id])
+		fix = "fix that row first"
 	}
-	return fmt.Sprintf("%q is not %s%s", id, ix.what, why)
+	if fix == "" {
+		fix = fmt.Sprintf("add a row for it to %s, or correct the id", ix.file)
+	}
+	return fmt.Sprintf("%q is not %s%s: %s", id, ix.what, why, fix)
 }
 
-// nameSet is a set of ids defined in facility.yaml or seen in a file.
-func nameSet(what string) *index {
-	return &index{what: what, present: true, ids: map[string]bool{}}
+// nameSet is a set of ids defined in facility.yaml or seen in a file; fix
+// says how a keeper adds a missing one.
+func nameSet(what, fix string) *index {
+	return &index{what: what, fix: fix, present: true, ids: map[string]bool{}}
 }
 
 // ref is one reference a row makes: the Go field naming the column, the id
@@ -86,7 +93,7 @@ func (l *loaded[T]) keep(check func(r *T) *cellError) {
 	for i := range l.rows {
 		r := &l.rows[i]
 		if ce := check(r); ce != nil {
-			pr := Problem{File: l.spec.name, Line: refLine(r), Column: ce.column, Value: ce.value, Reason: ce.reason}
+			pr := l.problem(refLine(r), ce)
 			if l.spec.day != nil {
 				pr.Day = l.spec.day(r)
 			}
@@ -114,14 +121,18 @@ func (l *loaded[T]) refs(rs ...ref) *cellError {
 			continue
 		}
 		if why := r.in.check(r.id); why != "" {
-			return &cellError{field: -1, column: l.plan.header(r.goName), value: r.id, reason: why}
+			return &cellError{field: l.plan.rt.byGo[r.goName], column: l.plan.header(r.goName), value: r.id, reason: why, kind: KindUnknownRef}
 		}
 	}
 	return nil
 }
 
 func (l *loaded[T]) cellErr(goName, value, reason string) *cellError {
-	return &cellError{field: -1, column: l.plan.header(goName), value: value, reason: reason}
+	fi, ok := l.plan.rt.byGo[goName]
+	if !ok {
+		fi = -1
+	}
+	return &cellError{field: fi, column: l.plan.header(goName), value: value, reason: reason}
 }
 
 func rowRef(r any) Ref {
@@ -164,9 +175,12 @@ func rowRef(r any) Ref {
 
 func refLine(r any) int {
 	s := string(rowRef(r))
-	i := strings.LastIndexByte(s, ':')
+	i := len(s)
+	for i > 0 && s[i-1] >= '0' && s[i-1] <= '9' {
+		i--
+	}
 	n := 0
-	for _, c := range s[i+1:] {
+	for _, c := range s[i:] {
 		n = n*10 + int(c-'0')
 	}
 	return n
@@ -175,11 +189,11 @@ func refLine(r any) int {
 // crossCheck applies the rules that span files, in dependency order so that
 // a rejected enclosure also rejects the rows that name it.
 func (ld *loadedSet) crossCheck(fac *Facility) {
-	buildings := nameSet("a building in facility.yaml")
+	buildings := nameSet("a building", "add it under buildings in facility.yaml")
 	for _, b := range fac.Buildings {
 		buildings.ids[b.ID] = true
 	}
-	sites := nameSet("a weather site in facility.yaml")
+	sites := nameSet("a weather site", "add it under weather_sites in facility.yaml")
 	for _, w := range fac.WeatherSites {
 		sites.ids[w] = true
 	}
@@ -232,7 +246,7 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 	})
 	var items *index
 	if ld.ppe.present {
-		items = nameSet("an item_id in " + ppeFile)
+		items = nameSet("an item_id in "+ppeFile, "add an inspection of it to "+ppeFile+", or correct the id")
 		for _, p := range ld.ppe.rows {
 			items.ids[p.ItemID] = true
 		}

@@ -294,6 +294,14 @@ type Problem struct {
 	// Day is the row's date when it could be read (zero otherwise), so a
 	// rejected row can be placed in the checked period.
 	Day Day `json:"-"`
+	// At is the place inside a workbook, "daily_care!C212" (sheet, cell) or
+	// "daily_care!212" for a whole row; empty for CSV files and facility.yaml,
+	// whose Line says it all.
+	At string `json:"at,omitempty"`
+	// Kind names a problem that repeats across rows ("decimal_comma",
+	// "date_order", "not_utf8", "unknown_reference"), so that a terminal
+	// can group them (GroupProblems); empty for the rest.
+	Kind string `json:"-"`
 }
 
 // Warning is something read but not used: an unknown file or column.

@@ -163,6 +163,9 @@ func runHelp(_ context.Context, args []string, stdout, _ io.Writer) error {
 	if err != nil {
 		return err
 	}
+	if len(pos) > 0 && pos[0] == "records" {
+		return runHelpRecords(pos[1:], stdout)
+	}
 	switch len(pos) {
 	case 0:
 		_, err := io.WriteString(stdout, overviewHelp())

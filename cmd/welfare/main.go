@@ -95,6 +95,7 @@ func init() {
 		"demo":     {runDemo, func() *flag.FlagSet { fs, _ := demoFlags(); return fs }},
 		"rules":    {runRules, func() *flag.FlagSet { fs, _ := rulesFlags(); return fs }},
 		"limits":   {runLimits, limitsFlags},
+		"init":     {runInit, initFlags},
 		"help":     {runHelp, helpFlags},
 	}
 }

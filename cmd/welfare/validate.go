@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strings"
 
 	"welfare/records"
 )
@@ -72,8 +73,10 @@ func printProblems(w io.Writer, set *records.Set) {
 	}
 	if len(set.Problems) > 0 {
 		fmt.Fprintf(w, "\n%d rejected row(s) and file problem(s):\n", len(set.Problems))
-		for _, p := range set.Problems {
-			fmt.Fprintf(w, "  %s\n", p.Error())
+		// A problem repeated on many rows is shown once with their lines;
+		// --json and --csv of check still list every row.
+		for _, g := range records.GroupProblems(set.Problems) {
+			fmt.Fprintf(w, "  %s\n", strings.ReplaceAll(g.String(), "\n", "\n    "))
 		}
 	} else {
 		fmt.Fprintln(w, "\nEvery row was accepted.")
