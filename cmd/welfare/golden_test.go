@@ -9,7 +9,6 @@ import (
 	"github.com/google/go-cmp/cmp"
 )
 
-
 const goldenDemo = "../../testdata/golden/demo"
 
 // golden compares got with the golden file name, or rewrites it with -update.
