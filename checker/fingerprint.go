@@ -1,23 +1,29 @@
 package checker
 
 import (
+	"context"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
 	"hash"
+	"io"
 	"io/fs"
 	"strings"
+
+	"welfare/records"
 )
 
-// Fingerprint is the SHA-256 over the inputs a check used: every file of the
-// records folder, every rule file of the sources (tests excluded: they do
+// Fingerprint is the SHA-256 over the inputs a check used: the record files
+// the loader reads (records.FilesRead: regular files inside the folder, so
+// an unknown file, a named pipe or a link leading outside is not in it),
+// every rule file of the sources (tests excluded: they do
 // not change findings) and the limits text, each framed by its name and
 // length so that moving bytes between files changes the sum. The same
 // inputs always give the same fingerprint, so a signed report can be tied
 // to the records it came from.
 func Fingerprint(recordsFS fs.FS, sources []Source, limits []byte) (string, error) {
 	h := sha256.New()
-	if err := hashTree(h, "records", recordsFS, func(string) bool { return true }); err != nil {
+	if err := hashRecords(h, recordsFS); err != nil {
 		return "", err
 	}
 	for _, s := range sources {
@@ -28,6 +34,26 @@ func Fingerprint(recordsFS fs.FS, sources []Source, limits []byte) (string, erro
 	}
 	frame(h, "limits", limits)
 	return hex.EncodeToString(h.Sum(nil)), nil
+}
+
+// hashRecords hashes each record file through the loader's own bounded
+// reader, streaming: its frame holds the file's length and SHA-256.
+func hashRecords(h hash.Hash, fsys fs.FS) error {
+	for _, name := range records.FilesRead(fsys) {
+		f, err := records.OpenFile(context.Background(), fsys, name)
+		if err != nil {
+			return fmt.Errorf("fingerprint: %s: %w", name, err)
+		}
+		sub := sha256.New()
+		n, err := io.Copy(sub, f)
+		f.Close()
+		if err != nil {
+			return fmt.Errorf("fingerprint: %s: %w", name, err)
+		}
+		fmt.Fprintf(h, "records/%s\x00%d\x00", name, n)
+		h.Write(sub.Sum(nil))
+	}
+	return nil
 }
 
 func hashTree(h hash.Hash, prefix string, fsys fs.FS, keep func(string) bool) error {

@@ -2,7 +2,7 @@ package records
 
 import (
 	"bufio"
-	"bytes"
+	"context"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -22,6 +22,9 @@ type Options struct {
 	// naming any other species is rejected. When empty, species are checked
 	// for form only and a warning says so.
 	Species []string
+	// Now is the clock for the plausible window of dates (see dateWindow);
+	// nil means time.Now.
+	Now func() time.Time
 }
 
 // The record files in the order records.md documents them; accounting and
@@ -55,6 +58,7 @@ func fileOrder(name string) int {
 // env is what row rules need beyond the row itself.
 type env struct {
 	loc         *time.Location
+	window      window
 	species     map[string]bool
 	speciesList string
 }
@@ -103,9 +107,13 @@ type loaded[T any] struct {
 	rejected map[string]Ref
 }
 
-func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
+func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 	l := &loaded[T]{spec: spec, count: FileCount{File: spec.name}}
-	f, err := fsys.Open(spec.name)
+	if reason, present := refusal(fsys, spec.name); !present || reason != "" {
+		// A refused file is a warning of Load, and is not present.
+		return l
+	}
+	f, err := OpenFile(ctx, fsys, spec.name)
 	if err != nil {
 		if !errors.Is(err, fs.ErrNotExist) {
 			l.present = true
@@ -120,14 +128,11 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 		l.fail("", err.Error())
 		return l
 	}
-	br := bufio.NewReaderSize(f, 1<<16)
+	br := bufio.NewReaderSize(f, 4096)
 	if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
 		_, _ = br.Discard(3)
 	}
-	l.rows = make([]T, 0, estimateRows(f, br))
-	r := csv.NewReader(br)
-	r.FieldsPerRecord = -1
-	r.ReuseRecord = true
+	r := newCSVReader(br)
 
 	head, err := r.Read()
 	switch {
@@ -135,9 +140,23 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 		l.fail("", "no header row (the file is empty)")
 		return l
 	case err != nil:
+		var pe *csv.ParseError
+		if !errors.As(err, &pe) {
+			l.fail("", "cannot be read: "+err.Error())
+			return l
+		}
 		l.fail("", "header row: "+csvReason(err))
 		l.drain(r)
 		return l
+	}
+	for i, h := range head {
+		if why := textIssue(h); why != "" {
+			reason := fmt.Sprintf("column %d of the header %s", i+1, why)
+			l.problems = append(l.problems, Problem{File: spec.name, Line: 1, Value: printable(h), Reason: reason})
+			l.count.Failed = reason
+			l.drain(r)
+			return l
+		}
 	}
 	p, unknown, issue := newPlan(rt, head)
 	if issue == nil && spec.header != nil {
@@ -153,25 +172,8 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 	for _, u := range unknown {
 		l.warnings = append(l.warnings, Warning{File: spec.name, Column: u, Message: "unknown column, not read"})
 	}
-	l.read(r, newDecoder(p, e.loc, spec.name), e)
+	l.read(r, newDecoder(p, e, spec.name), e)
 	return l
-}
-
-// estimateRows guesses the row count from the file size and the lines in
-// the first buffer, so that a million-row file is not grown (and copied)
-// twenty times over.
-func estimateRows(f fs.File, br *bufio.Reader) int {
-	st, err := f.Stat()
-	if err != nil || st.Size() <= 0 {
-		return 0
-	}
-	head, _ := br.Peek(br.Size())
-	lines := bytes.Count(head, []byte{'\n'})
-	if lines < 2 || len(head) == 0 {
-		return lines
-	}
-	per := len(head) / lines
-	return int(st.Size()/int64(per)) + lines/8 + 16
 }
 
 // fail marks the whole file unusable.
@@ -181,7 +183,7 @@ func (l *loaded[T]) fail(column, reason string) {
 }
 
 // drain counts the rows of a file that failed as a whole: each is read and rejected.
-func (l *loaded[T]) drain(r *csv.Reader) {
+func (l *loaded[T]) drain(r *csvReader) {
 	for {
 		_, err := r.Read()
 		if err == io.EOF {
@@ -189,6 +191,7 @@ func (l *loaded[T]) drain(r *csv.Reader) {
 		}
 		var pe *csv.ParseError
 		if err != nil && !errors.As(err, &pe) {
+			l.stop(err)
 			return
 		}
 		l.count.Read++
@@ -196,15 +199,30 @@ func (l *loaded[T]) drain(r *csv.Reader) {
 	}
 }
 
+// stop ends a file that cannot be read to its end (too large, a line over
+// the cap, an interrupted run): none of its rows is used, since a file read
+// in part would make the checks judge part of the records.
+func (l *loaded[T]) stop(err error) {
+	l.count.Rejected += l.count.Accepted
+	l.count.Accepted = 0
+	l.rows = nil
+	l.rejected = nil
+	l.fail("", "cannot be read: "+err.Error())
+}
+
 func csvReason(err error) string {
 	var pe *csv.ParseError
+	var qe *quoteError
+	if errors.As(err, &qe) {
+		return qe.Error()
+	}
 	if errors.As(err, &pe) {
 		return fmt.Sprintf("%v (line %d, character %d)", pe.Err, pe.Line, pe.Column)
 	}
 	return err.Error()
 }
 
-func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
+func (l *loaded[T]) read(r *csvReader, d *decoder, e *env) {
 	spec, p := l.spec, d.p
 	check := rowCheck{p: p, env: e}
 	var zero T
@@ -224,7 +242,7 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 		if err != nil {
 			var pe *csv.ParseError
 			if !errors.As(err, &pe) {
-				l.fail("", "cannot be read: "+err.Error())
+				l.stop(err)
 				return
 			}
 			l.count.Read++
@@ -232,7 +250,7 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 			l.problems = append(l.problems, Problem{File: spec.name, Line: pe.StartLine, Reason: csvReason(err)})
 			continue
 		}
-		line, _ := r.FieldPos(0)
+		line := r.start
 		l.count.Read++
 		var ce *cellError
 		l.rows = append(l.rows, zero)
@@ -240,6 +258,11 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 		switch {
 		case len(rec) != len(p.cols):
 			ce = &cellError{field: -1, reason: fmt.Sprintf("row has %d cells but the header has %d", len(rec), len(p.cols))}
+			if r.end > r.start {
+				ce.reason += fmt.Sprintf(" (the row runs from line %d to line %d: is a quote left open?)", r.start, r.end)
+			}
+		case textCheck(rec, p) != nil:
+			ce = textCheck(rec, p)
 		case blank(rec):
 			ce = &cellError{field: -1, reason: "row is empty (every cell is blank)"}
 		default:
@@ -265,7 +288,7 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 			}
 		}
 		if ce != nil {
-			pr := Problem{File: spec.name, Line: line, Column: ce.column, Value: strings.Clone(ce.value), Reason: ce.reason}
+			pr := Problem{File: spec.name, Line: line, Column: ce.column, Value: printable(ce.value), Reason: shortenReason(ce.reason, ce.value)}
 			if spec.day != nil {
 				pr.Day = spec.day(row)
 			}
@@ -277,6 +300,25 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 		reflect.ValueOf(row).Elem().Field(p.rt.ref).SetString(string(d.ref(line)))
 		l.count.Accepted++
 	}
+}
+
+// textCheck rejects a row with a cell that is not text (invalid UTF-8, a
+// NUL byte) or is over the cell cap, positioned at the cell's column.
+func textCheck(rec []string, p *plan) *cellError {
+	for ci, cell := range rec {
+		if why := textIssue(cell); why != "" {
+			col := fmt.Sprintf("column %d", ci+1)
+			if ci < len(p.cols) && p.cols[ci].header != "" {
+				col = p.cols[ci].header
+			}
+			field := -1
+			if ci < len(p.cols) {
+				field = p.cols[ci].field
+			}
+			return &cellError{field: field, column: col, value: cell, reason: why}
+		}
+	}
+	return nil
 }
 
 func blank(rec []string) bool {
@@ -430,11 +472,19 @@ func dayOfTime(t time.Time) Day {
 // The error is for the folder as a whole and is a *LoadError; every
 // row-level problem is in the Set instead.
 func Load(fsys fs.FS, opt Options) (*Set, error) {
+	return LoadContext(context.Background(), fsys, opt)
+}
+
+// LoadContext is Load that stops soon after ctx is done, returning ctx's
+// error. Only regular files inside the folder are read (a named pipe, a
+// device or a link leading outside is refused with a warning), each within
+// the caps MaxLineBytes, MaxFieldBytes and MaxFileBytes.
+func LoadContext(ctx context.Context, fsys fs.FS, opt Options) (*Set, error) {
 	entries, err := fs.ReadDir(fsys, ".")
 	if err != nil {
 		return nil, &LoadError{File: ".", Reason: "cannot read the records folder: " + err.Error(), Err: err}
 	}
-	fac, loc, err := loadFacility(fsys)
+	fac, loc, err := loadFacility(ctx, fsys)
 	if err != nil {
 		return nil, err
 	}
@@ -446,8 +496,16 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 		if !names[req] {
 			return nil, &LoadError{File: req, Reason: "required file is missing", Err: fs.ErrNotExist}
 		}
+		if reason, _ := refusal(fsys, req); reason != "" {
+			return nil, &LoadError{File: req, Reason: "required file " + reason}
+		}
 	}
 	s := &Set{Facility: fac, Location: loc, Present: map[string]bool{facilityFile: true}}
+	for _, name := range Files[1:] {
+		if reason, present := refusal(fsys, name); present && reason != "" {
+			s.Warnings = append(s.Warnings, Warning{File: name, Message: reason})
+		}
+	}
 	for _, e := range entries {
 		name := e.Name()
 		if fileOrder(name) < len(Files) {
@@ -463,7 +521,7 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 		s.Warnings = append(s.Warnings, Warning{File: name, Message: msg})
 	}
 
-	e := &env{loc: loc}
+	e := &env{loc: loc, window: dateWindow(opt.Now, loc)}
 	if len(opt.Species) > 0 {
 		e.species = map[string]bool{}
 		for _, sp := range opt.Species {
@@ -482,18 +540,21 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 		ld loadedSet
 	)
 	// Files are independent until the cross-record rules, so they load in parallel.
-	wg.Go(func() { ld.animals = loadFile(fsys, animalSpec, e) })
-	wg.Go(func() { ld.enclosures = loadFile(fsys, enclosureSpec, e) })
-	wg.Go(func() { ld.housing = loadFile(fsys, housingSpec, e) })
-	wg.Go(func() { ld.staff = loadFile(fsys, staffSpec, e) })
-	wg.Go(func() { ld.protocols = loadFile(fsys, protocolSpec, e) })
-	wg.Go(func() { ld.care = loadFile(fsys, careSpec, e) })
-	wg.Go(func() { ld.handling = loadFile(fsys, handlingSpec, e) })
-	wg.Go(func() { ld.ppe = loadFile(fsys, ppeSpec, e) })
-	wg.Go(func() { ld.weather = loadFile(fsys, weatherSpec, e) })
-	wg.Go(func() { ld.work = loadFile(fsys, workSpec, e) })
-	wg.Go(func() { ld.culls = loadFile(fsys, cullSpec, e) })
+	wg.Go(func() { ld.animals = loadFile(ctx, fsys, animalSpec, e) })
+	wg.Go(func() { ld.enclosures = loadFile(ctx, fsys, enclosureSpec, e) })
+	wg.Go(func() { ld.housing = loadFile(ctx, fsys, housingSpec, e) })
+	wg.Go(func() { ld.staff = loadFile(ctx, fsys, staffSpec, e) })
+	wg.Go(func() { ld.protocols = loadFile(ctx, fsys, protocolSpec, e) })
+	wg.Go(func() { ld.care = loadFile(ctx, fsys, careSpec, e) })
+	wg.Go(func() { ld.handling = loadFile(ctx, fsys, handlingSpec, e) })
+	wg.Go(func() { ld.ppe = loadFile(ctx, fsys, ppeSpec, e) })
+	wg.Go(func() { ld.weather = loadFile(ctx, fsys, weatherSpec, e) })
+	wg.Go(func() { ld.work = loadFile(ctx, fsys, workSpec, e) })
+	wg.Go(func() { ld.culls = loadFile(ctx, fsys, cullSpec, e) })
 	wg.Wait()
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 
 	ld.crossCheck(&fac)
 
@@ -512,6 +573,7 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	s.Staff, s.Protocols, s.Care, s.Handling = ld.staff.rows, ld.protocols.rows, ld.care.rows, ld.handling.rows
 	s.PPEChecks, s.Weather, s.Work, s.Culls = ld.ppe.rows, ld.weather.rows, ld.work.rows, ld.culls.rows
 	s.Problems = append(s.Problems, ld.extra...)
+	s.Warnings = groupWarnings(s.Warnings)
 	sort.SliceStable(s.Problems, func(i, j int) bool {
 		a, b := s.Problems[i], s.Problems[j]
 		if oa, ob := fileOrder(a.File), fileOrder(b.File); oa != ob {

@@ -20,7 +20,7 @@ func validateFlags() (*flag.FlagSet, *validateOpts) {
 
 // runValidate prints the accounting and every problem; it exits 1 when any
 // row was rejected so a record keeper can script "fix until clean".
-func runValidate(_ context.Context, args []string, stdout, stderr io.Writer) error {
+func runValidate(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs, o := validateFlags()
 	if err := parseFlags(fs, args, stdout); err != nil {
 		return err
@@ -32,7 +32,7 @@ func runValidate(_ context.Context, args []string, stdout, stderr io.Writer) err
 	if err != nil {
 		return err
 	}
-	_, set, err := loadRecords(fs.Arg(0), lim)
+	_, set, err := loadRecords(ctx, fs.Arg(0), lim)
 	if err != nil {
 		return err
 	}
