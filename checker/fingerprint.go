@@ -40,15 +40,19 @@ func Fingerprint(recordsFS fs.FS, sources []Source, limits []byte) (string, erro
 // reader, streaming: its frame holds the file's length and SHA-256.
 func hashRecords(h hash.Hash, fsys fs.FS) error {
 	for _, name := range records.FilesRead(fsys) {
+		// A file the loader could not read (over its cap) is framed with
+		// the reason, as the report shows it unused.
 		f, err := records.OpenFile(context.Background(), fsys, name)
 		if err != nil {
-			return fmt.Errorf("fingerprint: %s: %w", name, err)
+			fmt.Fprintf(h, "records/%s\x00unread\x00%s\x00", name, err)
+			continue
 		}
 		sub := sha256.New()
 		n, err := io.Copy(sub, f)
 		f.Close()
 		if err != nil {
-			return fmt.Errorf("fingerprint: %s: %w", name, err)
+			fmt.Fprintf(h, "records/%s\x00unread\x00%s\x00", name, err)
+			continue
 		}
 		fmt.Fprintf(h, "records/%s\x00%d\x00", name, n)
 		h.Write(sub.Sum(nil))

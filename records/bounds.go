@@ -145,9 +145,9 @@ type tooLargeError struct {
 
 func (e *tooLargeError) Error() string {
 	if e.size < 0 {
-		return "is larger than the limit of " + byteSize(e.limit) + " a file (split it, for example by year)"
+		return "is larger than the limit of " + capSize(e.limit) + " a file (split it, for example by year)"
 	}
-	return "is " + byteSize(e.size) + ", larger than the limit of " + byteSize(e.limit) + " a file (split it, for example by year)"
+	return "is " + byteSize(e.size) + ", larger than the limit of " + capSize(e.limit) + " a file (split it, for example by year)"
 }
 
 // capped reads a file up to its cap and stops when the context is done.
@@ -179,6 +179,17 @@ func (c *capped) Read(p []byte) (int, error) {
 }
 
 func (c *capped) Close() error { return c.f.Close() }
+
+// capSize writes a cap in binary units: "64 KiB", "1 MiB".
+func capSize(n int64) string {
+	switch {
+	case n >= 1<<20 && n%(1<<20) == 0:
+		return strconv.FormatInt(n>>20, 10) + " MiB"
+	case n >= 1<<10 && n%(1<<10) == 0:
+		return strconv.FormatInt(n>>10, 10) + " KiB"
+	}
+	return strconv.FormatInt(n, 10) + " bytes"
+}
 
 // byteSize writes a size in decimal units: "812 bytes", "64 KB", "50 MB".
 func byteSize(n int64) string {
@@ -243,7 +254,7 @@ func shortenReason(reason, value string) string {
 // field cap. It returns "" for a good cell.
 func textIssue(cell string) string {
 	if len(cell) > MaxFieldBytes {
-		return fmt.Sprintf("cell is %s, longer than the limit of %s a cell", byteSize(int64(len(cell))), byteSize(MaxFieldBytes))
+		return fmt.Sprintf("cell is %s, longer than the limit of %s a cell", byteSize(int64(len(cell))), capSize(MaxFieldBytes))
 	}
 	if i := strings.IndexByte(cell, 0); i >= 0 {
 		return fmt.Sprintf("contains a NUL byte (character %d): not text", i+1)

@@ -46,7 +46,7 @@ type heldLine struct {
 type lineTooLongError struct{ line int }
 
 func (e *lineTooLongError) Error() string {
-	return fmt.Sprintf("line %d is longer than the limit of %s a line: not a records file, or damaged", e.line, byteSize(MaxLineBytes))
+	return fmt.Sprintf("line %d is longer than the limit of %s a line: not a records file, or damaged", e.line, capSize(MaxLineBytes))
 }
 
 // quoteError is a quote that opened a cell and did not close it properly.
@@ -175,7 +175,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 					r.recBuf = append(r.recBuf, line[pos:]...)
 					if len(r.recBuf)-fieldStart > MaxFieldBytes {
 						qe := &quoteError{line: openLine, col: openCol, lines: r.end - openLine + 1,
-							how: "is still open after " + byteSize(MaxFieldBytes)}
+							how: "is still open after " + capSize(MaxFieldBytes)}
 						return r.recover(line, r.end, &csv.ParseError{StartLine: r.start, Line: r.start, Column: openCol, Err: qe})
 					}
 					r.hold(line, r.end)
