@@ -115,6 +115,12 @@ func (r *csvReader) readLine() ([]byte, int, error) {
 		return nil, 0, err
 	}
 	r.numLine++
+	if err == io.EOF && line[len(line)-1] == '\r' {
+		line = line[:len(line)-1] // as encoding/csv: a CR before the end of the file is dropped
+		if len(line) == 0 {
+			return []byte{'\n'}, r.numLine, nil // a blank line
+		}
+	}
 	if n := len(line); n >= 2 && line[n-2] == '\r' && line[n-1] == '\n' {
 		line[n-2] = '\n'
 		line = line[:n-1]
