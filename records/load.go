@@ -102,6 +102,10 @@ type loaded[T any] struct {
 	problems []Problem
 	warnings []Warning
 	plan     *plan
+	// chunks are the full blocks of accepted rows while reading: rows grow
+	// by blocks as they are read (never sized from the file's length) and
+	// are joined once at the end, sized by the rows actually accepted.
+	chunks [][]T
 	// rejected maps the ids of rejected rows to their ref, so a reference to
 	// one can say why it is unknown.
 	rejected map[string]Ref
@@ -205,7 +209,7 @@ func (l *loaded[T]) drain(r *csvReader) {
 func (l *loaded[T]) stop(err error) {
 	l.count.Rejected += l.count.Accepted
 	l.count.Accepted = 0
-	l.rows = nil
+	l.rows, l.chunks = nil, nil
 	l.rejected = nil
 	l.fail("", "cannot be read: "+err.Error())
 }
@@ -226,6 +230,7 @@ func (l *loaded[T]) read(r *csvReader, d *decoder, e *env) {
 	spec, p := l.spec, d.p
 	check := rowCheck{p: p, env: e}
 	var zero T
+	defer l.flatten()
 	firstAt := map[string]int{}
 	if spec.id != nil {
 		l.rejected = map[string]Ref{}
@@ -253,16 +258,23 @@ func (l *loaded[T]) read(r *csvReader, d *decoder, e *env) {
 		line := r.start
 		l.count.Read++
 		var ce *cellError
+		if len(l.rows) == cap(l.rows) {
+			l.grow()
+		}
 		l.rows = append(l.rows, zero)
 		row := &l.rows[len(l.rows)-1]
+		var text *cellError
+		if len(rec) == len(p.cols) {
+			text = textCheck(rec, p)
+		}
 		switch {
 		case len(rec) != len(p.cols):
 			ce = &cellError{field: -1, reason: fmt.Sprintf("row has %d cells but the header has %d", len(rec), len(p.cols))}
 			if r.end > r.start {
 				ce.reason += fmt.Sprintf(" (the row runs from line %d to line %d: is a quote left open?)", r.start, r.end)
 			}
-		case textCheck(rec, p) != nil:
-			ce = textCheck(rec, p)
+		case text != nil:
+			ce = text
 		case blank(rec):
 			ce = &cellError{field: -1, reason: "row is empty (every cell is blank)"}
 		default:
@@ -319,6 +331,36 @@ func textCheck(rec []string, p *plan) *cellError {
 		}
 	}
 	return nil
+}
+
+// maxChunk is the most rows in one block while reading.
+const maxChunk = 1 << 14
+
+// grow puts the full block of rows aside and starts a new one.
+func (l *loaded[T]) grow() {
+	next := 256
+	if c := cap(l.rows); c > 0 {
+		l.chunks = append(l.chunks, l.rows)
+		next = min(2*c, maxChunk)
+	}
+	l.rows = make([]T, 0, next)
+}
+
+// flatten joins the blocks of rows into one slice.
+func (l *loaded[T]) flatten() {
+	if len(l.chunks) == 0 {
+		return
+	}
+	n := len(l.rows)
+	for _, c := range l.chunks {
+		n += len(c)
+	}
+	all := make([]T, 0, n)
+	for _, c := range l.chunks {
+		all = append(all, c...)
+	}
+	l.rows = append(all, l.rows...)
+	l.chunks = nil
 }
 
 func blank(rec []string) bool {
