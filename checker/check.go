@@ -44,6 +44,9 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 	if p.From.IsZero() || p.To.IsZero() {
 		return nil, fmt.Errorf("no dated records to check: give --from and --to")
 	}
+	if err := defaultSpan(cfg.Period, p); err != nil {
+		return nil, err
+	}
 	if p.To < p.From {
 		return nil, fmt.Errorf("the period ends (%s) before it starts (%s)", p.To, p.From)
 	}
@@ -126,6 +129,24 @@ var domainFacts = []func(*facts){
 // (care rounds, handling, weather, outdoor work, culls). Inspections of
 // equipment are left out: the last glove check before the period is
 // evidence for it, not part of it.
+// MaxDefaultYears is the longest period taken from the records' dates alone:
+// a longer span is most often a typing slip in one date, so the user is
+// asked to choose the period.
+const MaxDefaultYears = 2
+
+// defaultSpan refuses a period worked out from the records (asked is the
+// period as given) that is longer than MaxDefaultYears.
+func defaultSpan(asked, p Period) error {
+	if !asked.From.IsZero() && !asked.To.IsZero() {
+		return nil
+	}
+	if p.To > p.From.AddYears(MaxDefaultYears) {
+		return fmt.Errorf("the records' dates run from %s to %s, more than %d years: give --from and --to to choose the period to check",
+			p.From, p.To, MaxDefaultYears)
+	}
+	return nil
+}
+
 func recordSpan(set *records.Set) (from, to records.Day) {
 	see := func(d records.Day) {
 		if d.IsZero() {

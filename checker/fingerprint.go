@@ -1,28 +1,29 @@
 package checker
 
 import (
+	"context"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
 	"hash"
+	"io"
 	"io/fs"
 	"strings"
 
 	"welfare/records"
 )
 
-// Fingerprint is the SHA-256 over the inputs a check used: every file the
-// records loader reads (records.IsRecordFile: CSV files and workbooks
-// alike), every rule file of the sources (tests excluded: they do not
-// change findings) and the limits text, each framed by its name and
+// Fingerprint is the SHA-256 over the inputs a check used: the record files
+// the loader reads (records.FilesRead: regular files inside the folder, CSV files and workbooks alike, so
+// an unknown file, a named pipe or a link leading outside is not in it),
+// every rule file of the sources (tests excluded: they do
+// not change findings) and the limits text, each framed by its name and
 // length so that moving bytes between files changes the sum. The same
 // inputs always give the same fingerprint, so a signed report can be tied
 // to the records it came from.
 func Fingerprint(recordsFS fs.FS, sources []Source, limits []byte) (string, error) {
 	h := sha256.New()
-	// The files the loader reads (CSV files, workbooks, facility.yaml):
-	// what was checked, and nothing a note left beside them could change.
-	if err := hashTree(h, "records", recordsFS, records.IsRecordFile); err != nil {
+	if err := hashRecords(h, recordsFS); err != nil {
 		return "", err
 	}
 	for _, s := range sources {
@@ -33,6 +34,30 @@ func Fingerprint(recordsFS fs.FS, sources []Source, limits []byte) (string, erro
 	}
 	frame(h, "limits", limits)
 	return hex.EncodeToString(h.Sum(nil)), nil
+}
+
+// hashRecords hashes each record file through the loader's own bounded
+// reader, streaming: its frame holds the file's length and SHA-256.
+func hashRecords(h hash.Hash, fsys fs.FS) error {
+	for _, name := range records.FilesRead(fsys) {
+		// A file the loader could not read (over its cap) is framed with
+		// the reason, as the report shows it unused.
+		f, err := records.OpenFile(context.Background(), fsys, name)
+		if err != nil {
+			fmt.Fprintf(h, "records/%s\x00unread\x00%s\x00", name, err)
+			continue
+		}
+		sub := sha256.New()
+		n, err := io.Copy(sub, f)
+		f.Close()
+		if err != nil {
+			fmt.Fprintf(h, "records/%s\x00unread\x00%s\x00", name, err)
+			continue
+		}
+		fmt.Fprintf(h, "records/%s\x00%d\x00", name, n)
+		h.Write(sub.Sum(nil))
+	}
+	return nil
 }
 
 func hashTree(h hash.Hash, prefix string, fsys fs.FS, keep func(string) bool) error {

@@ -336,6 +336,7 @@ type cellError struct {
 type decoder struct {
 	p       *plan
 	loc     *time.Location
+	win     window // the plausible window of dates
 	strs    map[string]string
 	floats  []float64 // slab for *float64 fields: one allocation per thousand rows, not per cell
 	failed  []bool    // per field: the cell did not decode, so validator errors on it are noise
@@ -354,8 +355,8 @@ type verdict struct {
 	val, reason string
 }
 
-func newDecoder(p *plan, loc *time.Location, file string) *decoder {
-	d := &decoder{p: p, loc: loc, strs: map[string]string{}, failed: make([]bool, len(p.rt.fields)), refBase: file + ":"}
+func newDecoder(p *plan, e *env, file string) *decoder {
+	d := &decoder{p: p, loc: e.loc, win: e.window, strs: map[string]string{}, failed: make([]bool, len(p.rt.fields)), refBase: file + ":"}
 	d.verdicts = make([]map[string]verdict, len(p.cols))
 	for ci, c := range p.cols {
 		if c.field >= 0 && p.rt.fields[c.field].vtag != "" {
@@ -453,11 +454,17 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		if err != nil {
 			return d.dateReason(cell, err)
 		}
+		if why := d.win.check(day, laterColumns[f.name], cell); why != "" {
+			return why
+		}
 		fv.SetInt(int64(day))
 	case kTime:
 		t, err := parseDateTime(cell, d.loc)
 		if err != nil {
 			return d.dateReason(cell, err)
+		}
+		if why := d.win.check(DayOf(t), laterColumns[f.name], cell); why != "" {
+			return why
 		}
 		*fv.Addr().Interface().(*time.Time) = t
 	case kBool:

@@ -2,8 +2,10 @@ package records
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"strings"
 	"time"
@@ -17,9 +19,9 @@ const facilityFile = "facility.yaml"
 
 // loadFacility reads facility.yaml strictly: every failure is a LoadError
 // with the line and key, since no record can be placed without it.
-func loadFacility(fsys fs.FS) (Facility, *time.Location, error) {
+func loadFacility(ctx context.Context, fsys fs.FS) (Facility, *time.Location, error) {
 	var fac Facility
-	data, err := fs.ReadFile(fsys, facilityFile)
+	data, err := readFacility(ctx, fsys)
 	if err != nil {
 		if errors.Is(err, fs.ErrNotExist) {
 			return fac, nil, &LoadError{File: facilityFile, Reason: "required file is missing", Err: err}
@@ -122,6 +124,17 @@ func loadFacility(fsys fs.FS) (Facility, *time.Location, error) {
 		return fac, nil, joinLoadErrors(probs)
 	}
 	return fac, loc, nil
+}
+
+// readFacility reads facility.yaml as OpenFile allows: a regular file in the
+// folder, at most MaxFacilityBytes.
+func readFacility(ctx context.Context, fsys fs.FS) ([]byte, error) {
+	f, err := OpenFile(ctx, fsys, facilityFile)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	return io.ReadAll(f)
 }
 
 func facilityReason(fe validator.FieldError) string {

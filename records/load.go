@@ -2,7 +2,7 @@ package records
 
 import (
 	"bufio"
-	"bytes"
+	"context"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -22,6 +22,9 @@ type Options struct {
 	// naming any other species is rejected. When empty, species are checked
 	// for form only and a warning says so.
 	Species []string
+	// Now is the clock for the plausible window of dates (see dateWindow);
+	// nil means time.Now.
+	Now func() time.Time
 }
 
 // The record files in the order records.md documents them; accounting and
@@ -61,6 +64,7 @@ func fileOrder(name string) int {
 type env struct {
 	sources     map[string]*source // by record file name
 	loc         *time.Location
+	window      window
 	species     map[string]bool
 	speciesList string
 }
@@ -104,6 +108,10 @@ type loaded[T any] struct {
 	problems []Problem
 	warnings []Warning
 	plan     *plan
+	// chunks are the full blocks of accepted rows while reading: rows grow
+	// by blocks as they are read (never sized from the file's length) and
+	// are joined once at the end, sized by the rows actually accepted.
+	chunks [][]T
 	// rejected maps the ids of rejected rows to their ref, so a reference to
 	// one can say why it is unknown.
 	rejected map[string]Ref
@@ -114,10 +122,14 @@ type loaded[T any] struct {
 	at    func(ci, line int) string
 }
 
-func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
+func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 	l := &loaded[T]{spec: spec, count: FileCount{File: spec.name}, file: spec.name}
 	src := e.sources[spec.name]
 	if src == nil {
+		return l
+	}
+	if reason, present := refusal(fsys, src.file); !present || reason != "" {
+		// A refused file is a warning of Load, and is not present.
 		return l
 	}
 	l.present = true
@@ -129,21 +141,17 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 	}
 	var rr rowReader
 	if src.csv() {
-		f, err := fsys.Open(src.file)
+		f, err := OpenFile(ctx, fsys, src.file)
 		if err != nil {
 			l.fail("", "cannot be read: "+err.Error())
 			return l
 		}
 		defer f.Close()
-		br := bufio.NewReaderSize(f, 1<<16)
+		br := bufio.NewReaderSize(f, 4096)
 		if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
 			_, _ = br.Discard(3)
 		}
-		l.rows = make([]T, 0, estimateRows(f, br))
-		r := csv.NewReader(br)
-		r.FieldsPerRecord = -1
-		r.ReuseRecord = true
-		rr = &csvReader{r: r, base: src.file + ":"}
+		rr = &csvRows{r: newCSVReader(br), base: src.file + ":"}
 	} else {
 		sh := src.sheet
 		if sh == nil {
@@ -164,6 +172,11 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 		l.fail("", "no header row (the file is empty)")
 		return l
 	case err != nil:
+		var pe *csv.ParseError
+		if !errors.As(err, &pe) {
+			l.fail("", "cannot be read: "+err.Error())
+			return l
+		}
 		l.fail("", "header row: "+csvReason(err))
 		l.drain(rr)
 		return l
@@ -171,6 +184,14 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 	issue := delimiterIssue(head)
 	if !validUTF8(head) {
 		issue = &headerIssue{reason: "the header row is not UTF-8 text: save the file as UTF-8 (it looks like a Windows-1252 or Latin-1 export)", kind: KindNotUTF8}
+	}
+	if issue == nil {
+		for i, h := range head {
+			if why := textIssue(h); why != "" {
+				issue = &headerIssue{reason: fmt.Sprintf("column %d of the header %s", i+1, why)}
+				break
+			}
+		}
 	}
 	var (
 		p       *plan
@@ -200,7 +221,7 @@ func loadFile[T any](fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
 	for _, u := range unknown {
 		l.warnings = append(l.warnings, Warning{File: l.count.File, Column: u, Message: "unknown column, not read"})
 	}
-	d := newDecoder(p, e.loc, src.file)
+	d := newDecoder(p, e, src.file)
 	d.refBase = rr.refBase()
 	l.read(rr, d, e)
 	return l
@@ -215,23 +236,6 @@ func rowsNotRead(n int) string {
 		return "; its 1 row is not read"
 	}
 	return fmt.Sprintf("; its %d rows are not read", n)
-}
-
-// estimateRows guesses the row count from the file size and the lines in
-// the first buffer, so that a million-row file is not grown (and copied)
-// twenty times over.
-func estimateRows(f fs.File, br *bufio.Reader) int {
-	st, err := f.Stat()
-	if err != nil || st.Size() <= 0 {
-		return 0
-	}
-	head, _ := br.Peek(br.Size())
-	lines := bytes.Count(head, []byte{'\n'})
-	if lines < 2 || len(head) == 0 {
-		return lines
-	}
-	per := len(head) / lines
-	return int(st.Size()/int64(per)) + lines/8 + 16
 }
 
 // fail marks the whole file unusable.
@@ -250,7 +254,7 @@ func (l *loaded[T]) sheetAt() string {
 
 // problem positions a rejected row (or a header problem, on line 1).
 func (l *loaded[T]) problem(line int, ce *cellError) Problem {
-	pr := Problem{File: l.file, Line: line, Column: ce.column, Value: strings.Clone(ce.value), Reason: ce.reason, Kind: ce.kind}
+	pr := Problem{File: l.file, Line: line, Column: ce.column, Value: printable(ce.value), Reason: shortenReason(ce.reason, ce.value), Kind: ce.kind}
 	if l.at != nil {
 		ci := -1
 		if ce.field >= 0 && l.plan != nil {
@@ -270,6 +274,7 @@ func (l *loaded[T]) drain(r rowReader) {
 		}
 		var pe *csv.ParseError
 		if err != nil && !errors.As(err, &pe) {
+			l.stop(err)
 			return
 		}
 		l.count.Read++
@@ -277,8 +282,23 @@ func (l *loaded[T]) drain(r rowReader) {
 	}
 }
 
+// stop ends a file that cannot be read to its end (too large, a line over
+// the cap, an interrupted run): none of its rows is used, since a file read
+// in part would make the checks judge part of the records.
+func (l *loaded[T]) stop(err error) {
+	l.count.Rejected += l.count.Accepted
+	l.count.Accepted = 0
+	l.rows, l.chunks = nil, nil
+	l.rejected = nil
+	l.fail("", "cannot be read: "+err.Error())
+}
+
 func csvReason(err error) string {
 	var pe *csv.ParseError
+	var qe *quoteError
+	if errors.As(err, &qe) {
+		return qe.Error()
+	}
 	if errors.As(err, &pe) {
 		return fmt.Sprintf("%v (line %d, character %d)", pe.Err, pe.Line, pe.Column)
 	}
@@ -289,6 +309,7 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 	spec, p := l.spec, d.p
 	check := rowCheck{p: p, env: e}
 	var zero T
+	defer l.flatten()
 	firstAt := map[string]int{}
 	if spec.id != nil {
 		l.rejected = map[string]Ref{}
@@ -305,7 +326,7 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		if err != nil {
 			var pe *csv.ParseError
 			if !errors.As(err, &pe) {
-				l.fail("", "cannot be read: "+err.Error())
+				l.stop(err)
 				return
 			}
 			l.count.Read++
@@ -315,15 +336,31 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		}
 		l.count.Read++
 		var ce *cellError
+		if len(l.rows) == cap(l.rows) {
+			l.grow()
+		}
 		l.rows = append(l.rows, zero)
 		row := &l.rows[len(l.rows)-1]
+		var text *cellError
+		if len(rec) == len(p.cols) {
+			text = textCheck(rec, p)
+		}
 		switch {
 		case len(rec) != len(p.cols):
 			ce = &cellError{field: -1, reason: fmt.Sprintf("row has %d cells but the header has %d", len(rec), len(p.cols))}
+			if sp, ok := r.(interface{ span() (int, int) }); ok {
+				if start, end := sp.span(); end > start {
+					ce.reason += fmt.Sprintf(" (the row runs from line %d to line %d: is a quote left open?)", start, end)
+				}
+			}
+		case !validUTF8(rec):
+			// Before the per-cell check: an export in another encoding gets
+			// the keeper's fix (save as UTF-8), grouped over its rows.
+			ce = notUTF8(p, rec)
+		case text != nil:
+			ce = text
 		case blank(rec):
 			ce = &cellError{field: -1, reason: "row is empty (every cell is blank)"}
-		case !validUTF8(rec):
-			ce = notUTF8(p, rec)
 		default:
 			ce = d.decode(reflect.ValueOf(row).Elem(), rec)
 			if ce == nil && spec.row != nil {
@@ -359,6 +396,55 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		reflect.ValueOf(row).Elem().Field(p.rt.ref).SetString(string(d.ref(line)))
 		l.count.Accepted++
 	}
+}
+
+// textCheck rejects a row with a cell that is not text (invalid UTF-8, a
+// NUL byte) or is over the cell cap, positioned at the cell's column.
+func textCheck(rec []string, p *plan) *cellError {
+	for ci, cell := range rec {
+		if why := textIssue(cell); why != "" {
+			col := fmt.Sprintf("column %d", ci+1)
+			if ci < len(p.cols) && p.cols[ci].header != "" {
+				col = p.cols[ci].header
+			}
+			field := -1
+			if ci < len(p.cols) {
+				field = p.cols[ci].field
+			}
+			return &cellError{field: field, column: col, value: cell, reason: why}
+		}
+	}
+	return nil
+}
+
+// maxChunk is the most rows in one block while reading.
+const maxChunk = 1 << 14
+
+// grow puts the full block of rows aside and starts a new one.
+func (l *loaded[T]) grow() {
+	next := 256
+	if c := cap(l.rows); c > 0 {
+		l.chunks = append(l.chunks, l.rows)
+		next = min(2*c, maxChunk)
+	}
+	l.rows = make([]T, 0, next)
+}
+
+// flatten joins the blocks of rows into one slice.
+func (l *loaded[T]) flatten() {
+	if len(l.chunks) == 0 {
+		return
+	}
+	n := len(l.rows)
+	for _, c := range l.chunks {
+		n += len(c)
+	}
+	all := make([]T, 0, n)
+	for _, c := range l.chunks {
+		all = append(all, c...)
+	}
+	l.rows = append(all, l.rows...)
+	l.chunks = nil
 }
 
 func blank(rec []string) bool {
@@ -513,11 +599,19 @@ func dayOfTime(t time.Time) Day {
 // The error is for the folder as a whole and is a *LoadError; every
 // row-level problem is in the Set instead.
 func Load(fsys fs.FS, opt Options) (*Set, error) {
+	return LoadContext(context.Background(), fsys, opt)
+}
+
+// LoadContext is Load that stops soon after ctx is done, returning ctx's
+// error. Only regular files inside the folder are read (a named pipe, a
+// device or a link leading outside is refused with a warning), each within
+// the caps MaxLineBytes, MaxFieldBytes and MaxFileBytes.
+func LoadContext(ctx context.Context, fsys fs.FS, opt Options) (*Set, error) {
 	entries, err := fs.ReadDir(fsys, ".")
 	if err != nil {
 		return nil, &LoadError{File: ".", Reason: "cannot read the records folder: " + err.Error(), Err: err}
 	}
-	fac, loc, err := loadFacility(fsys)
+	fac, loc, err := loadFacility(ctx, fsys)
 	if err != nil {
 		return nil, err
 	}
@@ -533,6 +627,14 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	for _, req := range []string{animalsFile, enclosuresFile} {
 		if sources[req] == nil {
 			return nil, &LoadError{File: req, Reason: "required file is missing", Err: fs.ErrNotExist}
+		}
+		if reason, _ := refusal(fsys, req); reason != "" {
+			return nil, &LoadError{File: req, Reason: "required file " + reason}
+		}
+	}
+	for _, name := range Files[1:] {
+		if reason, present := refusal(fsys, name); present && reason != "" {
+			s.Warnings = append(s.Warnings, Warning{File: name, Message: reason})
 		}
 	}
 	for _, e := range entries {
@@ -551,7 +653,7 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	}
 
 	s.Warnings = append(s.Warnings, sheetWarnings...)
-	e := &env{loc: loc, sources: sources}
+	e := &env{loc: loc, sources: sources, window: dateWindow(opt.Now, loc)}
 	if len(opt.Species) > 0 {
 		e.species = map[string]bool{}
 		for _, sp := range opt.Species {
@@ -570,23 +672,26 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 		ld loadedSet
 	)
 	// Files are independent until the cross-record rules, so they load in parallel.
-	wg.Go(func() { ld.animals = loadFile(fsys, animalSpec, e) })
-	wg.Go(func() { ld.enclosures = loadFile(fsys, enclosureSpec, e) })
-	wg.Go(func() { ld.housing = loadFile(fsys, housingSpec, e) })
-	wg.Go(func() { ld.staff = loadFile(fsys, staffSpec, e) })
-	wg.Go(func() { ld.protocols = loadFile(fsys, protocolSpec, e) })
-	wg.Go(func() { ld.care = loadFile(fsys, careSpec, e) })
-	wg.Go(func() { ld.handling = loadFile(fsys, handlingSpec, e) })
-	wg.Go(func() { ld.ppe = loadFile(fsys, ppeSpec, e) })
-	wg.Go(func() { ld.weather = loadFile(fsys, weatherSpec, e) })
-	wg.Go(func() { ld.work = loadFile(fsys, workSpec, e) })
-	wg.Go(func() { ld.culls = loadFile(fsys, cullSpec, e) })
-	wg.Go(func() { ld.deaths = loadFile(fsys, deathSpec, e) })
-	wg.Go(func() { ld.observations = loadFile(fsys, observationSpec, e) })
-	wg.Go(func() { ld.treatments = loadFile(fsys, treatmentSpec, e) })
-	wg.Go(func() { ld.litters = loadFile(fsys, litterSpec, e) })
-	wg.Go(func() { ld.environment = loadFile(fsys, environmentSpec, e) })
+	wg.Go(func() { ld.animals = loadFile(ctx, fsys, animalSpec, e) })
+	wg.Go(func() { ld.enclosures = loadFile(ctx, fsys, enclosureSpec, e) })
+	wg.Go(func() { ld.housing = loadFile(ctx, fsys, housingSpec, e) })
+	wg.Go(func() { ld.staff = loadFile(ctx, fsys, staffSpec, e) })
+	wg.Go(func() { ld.protocols = loadFile(ctx, fsys, protocolSpec, e) })
+	wg.Go(func() { ld.care = loadFile(ctx, fsys, careSpec, e) })
+	wg.Go(func() { ld.handling = loadFile(ctx, fsys, handlingSpec, e) })
+	wg.Go(func() { ld.ppe = loadFile(ctx, fsys, ppeSpec, e) })
+	wg.Go(func() { ld.weather = loadFile(ctx, fsys, weatherSpec, e) })
+	wg.Go(func() { ld.work = loadFile(ctx, fsys, workSpec, e) })
+	wg.Go(func() { ld.culls = loadFile(ctx, fsys, cullSpec, e) })
+	wg.Go(func() { ld.deaths = loadFile(ctx, fsys, deathSpec, e) })
+	wg.Go(func() { ld.observations = loadFile(ctx, fsys, observationSpec, e) })
+	wg.Go(func() { ld.treatments = loadFile(ctx, fsys, treatmentSpec, e) })
+	wg.Go(func() { ld.litters = loadFile(ctx, fsys, litterSpec, e) })
+	wg.Go(func() { ld.environment = loadFile(ctx, fsys, environmentSpec, e) })
 	wg.Wait()
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 
 	ld.crossCheck(&fac)
 
@@ -612,6 +717,7 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	s.PPEChecks, s.Weather, s.Work, s.Culls = ld.ppe.rows, ld.weather.rows, ld.work.rows, ld.culls.rows
 	s.Deaths, s.Observations, s.Treatments, s.Litters = ld.deaths.rows, ld.observations.rows, ld.treatments.rows, ld.litters.rows
 	s.Problems = append(s.Problems, ld.extra...)
+	s.Warnings = groupWarnings(s.Warnings)
 	sort.SliceStable(s.Problems, func(i, j int) bool {
 		a, b := s.Problems[i], s.Problems[j]
 		if oa, ob := kindOrder(&a), kindOrder(&b); oa != ob {

@@ -1,7 +1,6 @@
 package records
 
 import (
-	"encoding/csv"
 	"fmt"
 	"io"
 	"io/fs"
@@ -20,21 +19,25 @@ type rowReader interface {
 	refBase() string // what a row's Ref starts with: "daily_care.csv:"
 }
 
-type csvReader struct {
-	r    *csv.Reader
+// csvRows reads a CSV file's rows with the bounded csvReader.
+type csvRows struct {
+	r    *csvReader
 	base string
 }
 
-func (c *csvReader) next() ([]string, int, error) {
+func (c *csvRows) next() ([]string, int, error) {
 	rec, err := c.r.Read()
 	if err != nil {
 		return nil, 0, err
 	}
-	line, _ := c.r.FieldPos(0)
-	return rec, line, nil
+	return rec, c.r.start, nil
 }
 
-func (c *csvReader) refBase() string { return c.base }
+func (c *csvRows) refBase() string { return c.base }
+
+// span is the first and last line of the row just read: more than one when a
+// quoted cell runs over lines.
+func (c *csvRows) span() (int, int) { return c.r.start, c.r.end }
 
 // source is where the rows of one record kind come from.
 type source struct {

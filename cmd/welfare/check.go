@@ -99,7 +99,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if err != nil {
 		return err
 	}
-	fsys, set, err := loadRecords(dir, lim)
+	fsys, set, err := loadRecords(ctx, dir, lim)
 	if err != nil {
 		return err
 	}

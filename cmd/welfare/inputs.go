@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"fmt"
 	"io/fs"
 	"os"
@@ -63,7 +64,7 @@ func ruleSources(dirs []string, rulesOnly bool) ([]checker.Source, error) {
 }
 
 // loadRecords reads a records folder with the species of the limits in force.
-func loadRecords(dir string, lim *limitsIn) (fs.FS, *records.Set, error) {
+func loadRecords(ctx context.Context, dir string, lim *limitsIn) (fs.FS, *records.Set, error) {
 	st, err := os.Stat(dir)
 	if err != nil {
 		return nil, nil, fmt.Errorf("records folder: %w", err)
@@ -71,8 +72,12 @@ func loadRecords(dir string, lim *limitsIn) (fs.FS, *records.Set, error) {
 	if !st.IsDir() {
 		return nil, nil, fmt.Errorf("records folder: %s is not a folder", dir)
 	}
-	fsys := os.DirFS(dir)
-	set, err := records.Load(fsys, records.Options{Species: lim.limits.SpeciesCodes()})
+	// Reads stay inside the folder: a link leading out of it is not followed.
+	fsys, err := records.OpenFolder(dir)
+	if err != nil {
+		return nil, nil, fmt.Errorf("records folder: %w", err)
+	}
+	set, err := records.LoadContext(ctx, fsys, records.Options{Species: lim.limits.SpeciesCodes()})
 	if err != nil {
 		return nil, nil, err
 	}

@@ -21,7 +21,7 @@ func validateFlags() (*flag.FlagSet, *validateOpts) {
 
 // runValidate prints the accounting and every problem; it exits 1 when any
 // row was rejected so a record keeper can script "fix until clean".
-func runValidate(_ context.Context, args []string, stdout, stderr io.Writer) error {
+func runValidate(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs, o := validateFlags()
 	pos, err := parseArgs(fs, args)
 	if err != nil {
@@ -34,7 +34,7 @@ func runValidate(_ context.Context, args []string, stdout, stderr io.Writer) err
 	if err != nil {
 		return err
 	}
-	_, set, err := loadRecords(pos[0], lim)
+	_, set, err := loadRecords(ctx, pos[0], lim)
 	if err != nil {
 		return err
 	}
