@@ -22,7 +22,15 @@ type Options struct {
 	// naming any other species is rejected. When empty, species are checked
 	// for form only and a warning says so.
 	Species []string
+	// Progress, when set, is called now and then with the number of rows
+	// read since its last call, from the goroutines that read the files
+	// (so it must be safe for concurrent use). It only reports; it cannot
+	// change what is loaded.
+	Progress func(rows int)
 }
+
+// progressEvery is how many rows a file reads between Progress calls.
+const progressEvery = 8192
 
 // The record files in the order records.md documents them; accounting and
 // problems follow this order.
@@ -57,6 +65,7 @@ type env struct {
 	loc         *time.Location
 	species     map[string]bool
 	speciesList string
+	progress    func(rows int)
 }
 
 // rowCheck gives a file's row rules the row's cells, to cite columns as
@@ -217,6 +226,9 @@ func (l *loaded[T]) read(r *csv.Reader, d *decoder, e *env) {
 		idField = p.rt.byGo[spec.idName]
 	}
 	for {
+		if e.progress != nil && l.count.Read%progressEvery == progressEvery-1 {
+			e.progress(progressEvery)
+		}
 		rec, err := r.Read()
 		if err == io.EOF {
 			return
@@ -463,7 +475,7 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 		s.Warnings = append(s.Warnings, Warning{File: name, Message: msg})
 	}
 
-	e := &env{loc: loc}
+	e := &env{loc: loc, progress: opt.Progress}
 	if len(opt.Species) > 0 {
 		e.species = map[string]bool{}
 		for _, sp := range opt.Species {

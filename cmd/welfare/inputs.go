@@ -64,6 +64,11 @@ func ruleSources(dirs []string, rulesOnly bool) ([]checker.Source, error) {
 
 // loadRecords reads a records folder with the species of the limits in force.
 func loadRecords(dir string, lim *limitsIn) (fs.FS, *records.Set, error) {
+	return loadRecordsCounted(dir, lim, nil)
+}
+
+// loadRecordsCounted is loadRecords telling progress (when not nil) the rows read.
+func loadRecordsCounted(dir string, lim *limitsIn, progress func(rows int)) (fs.FS, *records.Set, error) {
 	st, err := os.Stat(dir)
 	if err != nil {
 		return nil, nil, fmt.Errorf("records folder: %w", err)
@@ -72,7 +77,7 @@ func loadRecords(dir string, lim *limitsIn) (fs.FS, *records.Set, error) {
 		return nil, nil, fmt.Errorf("records folder: %s is not a folder", dir)
 	}
 	fsys := os.DirFS(dir)
-	set, err := records.Load(fsys, records.Options{Species: lim.limits.SpeciesCodes()})
+	set, err := records.Load(fsys, records.Options{Species: lim.limits.SpeciesCodes(), Progress: progress})
 	if err != nil {
 		return nil, nil, err
 	}
