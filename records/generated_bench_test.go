@@ -17,12 +17,10 @@ import (
 
 // BenchmarkGenerated reads a generated folder (welfare generate --days 365
 // --seed 7) at 1,000 and 10,000 animals two ways, so their ratio is measured
-// in one run:
-//
-//   - csv-floor: a plain one-pass encoding/csv read of the same CSV files,
-//     one after the other, parsing only the first column as a date: what
-//     reading costs before any checking;
-//   - load: records.Load, everything validate does.
+// in one run: csv-floor is a plain one-pass encoding/csv read of the same
+// CSV files, one after the other, parsing only the first column as a date
+// (what reading costs before any checking); load is records.Load,
+// everything validate does.
 //
 //	go test ./records -run '^$' -bench 'Generated/animals=1000$/' -benchmem
 func BenchmarkGenerated(b *testing.B) {

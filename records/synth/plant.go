@@ -256,12 +256,20 @@ var plants = []plantFunc{
 	})},
 	{"cold.frostbite.risk", each(func(g *gen) { g.snap(-25) })}, // wind chill about −37
 	{"cold.work.over_limit", each(func(g *gen) {
-		p, i := g.freshStaff(), g.snap(-30) // a row with a work limit of 40–55 min at 20 km/h
+		i, ok := g.snap(-30) // a row with a work limit of 40–55 min at 20 km/h
+		if !ok {
+			return
+		}
+		p := g.freshStaff()
 		g.stint(p.id, i, "06:00", "07:30")
 		g.plant("cold.work.over_limit", p.id, i, -1)
 	})},
 	{"cold.work.should_cease", each(func(g *gen) {
-		p, i := g.freshStaff(), g.snap(-40) // non-emergency work should cease at 20 km/h
+		i, ok := g.snap(-40) // non-emergency work should cease at 20 km/h
+		if !ok {
+			return
+		}
+		p := g.freshStaff()
 		g.stint(p.id, i, "06:00", "06:20")
 		g.plant("cold.work.should_cease", p.id, i, -1)
 	})},
@@ -343,15 +351,20 @@ func (g *gen) hardWindow(n int) (int, bool) {
 }
 
 // snap makes the 06:00 reading of a hard day (not yet a snap) air °C with
-// 20 km/h wind, and returns the day.
-func (g *gen) snap(air float64) int {
-	for {
-		i := g.someDay(hard)
-		if _, ok := g.snapAir[i]; !ok {
-			g.snapAir[i] = air
-			return i
+// 20 km/h wind, and returns the day; false when every hard day is taken.
+func (g *gen) snap(air float64) (int, bool) {
+	var free []int
+	for i, k := range g.kinds {
+		if _, taken := g.snapAir[i]; k == hard && !taken {
+			free = append(free, i)
 		}
 	}
+	if len(free) == 0 {
+		return 0, false
+	}
+	i := free[g.rng.IntN(len(free))]
+	g.snapAir[i] = air
+	return i, true
 }
 
 func (g *gen) mod(c, i int) *careMod {
