@@ -13,11 +13,10 @@ import (
 )
 
 // BenchmarkGenerated times the checker's steps on a generated folder
-// (welfare generate --days 365 --seed 7) at 1,000 and 10,000 animals:
-//
-//   - facts: every subject's document from the loaded records;
-//   - rules: every shipped rule on those documents (facts built beforehand);
-//   - check: both, as Check runs them, with the findings sorted.
+// (welfare generate --days 365 --seed 7) at 1,000 and 10,000 animals: facts
+// builds every subject's document from the loaded records; rules evaluates
+// every shipped rule on documents built beforehand; check is both, as Check
+// runs them, and requires the findings to number the planted ones.
 //
 //	go test ./checker -run '^$' -bench 'Generated/animals=1000$/' -benchmem
 func BenchmarkGenerated(b *testing.B) {
