@@ -170,16 +170,19 @@ func (p *phases) sample() {
 func (p *phases) draw() {
 	p.mu.Lock()
 	defer p.mu.Unlock()
-	if p.name == "" || time.Since(p.start) < progressAfter {
+	elapsed := time.Since(p.start)
+	if p.name == "" || elapsed < progressAfter {
 		return
 	}
 	if p.bar == nil {
-		opts := []progressbar.Option{progressbar.OptionSetWriter(p.tty), progressbar.OptionSetDescription(p.name),
-			progressbar.OptionSpinnerType(14), progressbar.OptionClearOnFinish(), progressbar.OptionSetElapsedTime(true)}
-		if p.unit != "" {
-			opts = append(opts, progressbar.OptionShowCount(), progressbar.OptionShowIts(), progressbar.OptionSetItsString(p.unit))
-		}
-		p.bar = progressbar.NewOptions64(-1, opts...)
+		p.bar = progressbar.NewOptions64(-1, progressbar.OptionSetWriter(p.tty), progressbar.OptionSpinnerType(14),
+			progressbar.OptionClearOnFinish(), progressbar.OptionSetElapsedTime(false))
 	}
-	_ = p.bar.Set64(p.count.Load())
+	// The rate is the step's own, from its start, not the display's.
+	desc := fmt.Sprintf("%s %.0fs", p.name, elapsed.Seconds())
+	if n := p.count.Load(); p.unit != "" {
+		desc = fmt.Sprintf("%s %.0fs: %d %s, %.0f %s/s", p.name, elapsed.Seconds(), n, p.unit, float64(n)/elapsed.Seconds(), p.unit)
+	}
+	p.bar.Describe(desc)
+	_ = p.bar.Add(1)
 }
