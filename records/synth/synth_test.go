@@ -45,8 +45,6 @@ func TestFindingsEqualPlanted(t *testing.T) {
 	for _, p := range planted {
 		kinds[p.Check] = true
 	}
-	lim, _, _ := limits(t)
-	_ = lim
 	for _, c := range engine(t).Checks() {
 		if !kinds[c.ID] {
 			t.Errorf("no planted instance of %s: add a plant in plant.go", c.ID)
