@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 
 	"welfare/records/synth"
@@ -37,6 +38,10 @@ func runGenerate(_ context.Context, args []string, stdout, _ io.Writer) error {
 	if o.animals < synth.MinAnimals || o.days < synth.MinDays || o.days > synth.MaxDays {
 		return &usageError{cmd: "generate", msg: fmt.Sprintf("--animals %d --days %d: at least %d animals and %d to %d days",
 			o.animals, o.days, synth.MinAnimals, synth.MinDays, synth.MaxDays)}
+	}
+	// Never write over a records folder: the generated files have the same names.
+	if entries, err := os.ReadDir(pos[0]); err == nil && len(entries) > 0 {
+		return &usageError{cmd: "generate", msg: fmt.Sprintf("%s is not empty: give a new or empty folder (generate would overwrite its record files)", pos[0])}
 	}
 	planted, err := synth.Generate(pos[0], synth.Options{Animals: o.animals, Days: o.days, Seed: o.seed})
 	if err != nil {

@@ -94,7 +94,16 @@ func TestGenerateThenCheck(t *testing.T) {
 	if diff := cmp.Diff(want, got); diff != "" {
 		t.Errorf("findings (-PLANTED.json +check):\n%s", diff)
 	}
-	if code, _, _ := runMain(t, "generate", "--animals", "5", dir); code != 2 {
+	if code, _, _ := runMain(t, "generate", "--animals", "5", t.TempDir()); code != 2 {
 		t.Errorf("generate --animals 5: exit %d, want 2", code)
+	}
+	before, err := os.ReadFile(filepath.Join(dir, "animals.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	code, _, stderr := runMain(t, "generate", "--seed", "4", dir)
+	after, _ := os.ReadFile(filepath.Join(dir, "animals.csv"))
+	if code != 2 || !strings.Contains(stderr, "not empty") || string(after) != string(before) {
+		t.Errorf("generate into a full folder: exit %d, files changed %v:\n%s", code, string(after) != string(before), stderr)
 	}
 }

@@ -2,8 +2,8 @@
 // in an invented scenario, with a small number of planted problems of every
 // check kind and the list of what it planted (PLANTED.json).
 //
-// The scenario: an invented fur-research farm, "Hollowmere Test Farm", of
-// sheds of fifty single outdoor cages (red foxes, arctic foxes and mink), a
+// The scenario: the invented Birchfall Fur Research Station's scale-test
+// farm, sheds of fifty single outdoor cages (red foxes, arctic foxes and mink), a
 // few keepers, a veterinarian and protocols. The weather runs through a
 // winter, a summer and back: hard-cold days at the start and end of the
 // period (minimum wind chill about −24), freezing days around them and mild
@@ -306,7 +306,7 @@ func yes(b bool) string {
 
 func (g *gen) write(dir string) error {
 	var sb strings.Builder
-	sb.WriteString("name: Hollowmere Test Farm (invented, generated)\ntime_zone: " + timeZone + "\nbuildings:\n")
+	sb.WriteString("name: Birchfall Fur Research Station, generated scale farm (invented)\ntime_zone: " + timeZone + "\nbuildings:\n")
 	for s := 0; s*cagesPerShed < len(g.cages); s++ {
 		fmt.Fprintf(&sb, "  - {id: S%03d, exposure: outdoor, weather_site: %s}\n", s+1, site)
 	}
