@@ -25,6 +25,10 @@ type Config struct {
 	Only []string
 	// Fingerprint identifies the inputs (see Fingerprint); copied to the result.
 	Fingerprint string
+	// Progress, when set, is told when each phase starts ("facts", then
+	// "rules", with done 0) and, during "rules", how many subjects have been
+	// evaluated so far. It only reports, for timings and a progress display.
+	Progress func(phase string, done int)
 }
 
 // Check computes the facts of every subject, evaluates the rules on them
@@ -50,6 +54,11 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 	if p.To < p.From {
 		return nil, fmt.Errorf("the period ends (%s) before it starts (%s)", p.To, p.From)
 	}
+	progress := cfg.Progress
+	if progress == nil {
+		progress = func(string, int) {}
+	}
+	progress("facts", 0)
 	f := newFacts(set, cfg.Limits, p)
 	for _, add := range domainFacts {
 		add(f)
@@ -93,6 +102,8 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		}
 	}
 
+	progress("rules", 0)
+	evaluated := 0
 	for _, kind := range cfg.Engine.Kinds() {
 		inputs := f.inputs(kind)
 		if len(inputs) == 0 {
@@ -102,6 +113,8 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		if err != nil {
 			return nil, err
 		}
+		evaluated += len(inputs)
+		progress("rules", evaluated)
 		for _, fd := range found {
 			if skipped[fd.Check] || (len(only) > 0 && !only[fd.Domain]) {
 				continue

@@ -25,7 +25,15 @@ type Options struct {
 	// Now is the clock for the plausible window of dates (see dateWindow);
 	// nil means time.Now.
 	Now func() time.Time
+	// Progress, when set, is called now and then with the number of rows
+	// read since its last call, from the goroutines that read the files
+	// (so it must be safe for concurrent use). It only reports; it cannot
+	// change what is loaded.
+	Progress func(rows int)
 }
+
+// progressEvery is how many rows a file reads between Progress calls.
+const progressEvery = 8192
 
 // The record files in the order records.md documents them; accounting and
 // problems follow this order.
@@ -67,6 +75,7 @@ type env struct {
 	window      window
 	species     map[string]bool
 	speciesList string
+	progress    func(rows int)
 }
 
 // rowCheck gives a file's row rules the row's cells, to cite columns as
@@ -319,6 +328,9 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		idField = p.rt.byGo[spec.idName]
 	}
 	for {
+		if e.progress != nil && l.count.Read%progressEvery == progressEvery-1 {
+			e.progress(progressEvery)
+		}
 		rec, line, err := r.next()
 		if err == io.EOF {
 			return
@@ -653,7 +665,7 @@ func LoadContext(ctx context.Context, fsys fs.FS, opt Options) (*Set, error) {
 	}
 
 	s.Warnings = append(s.Warnings, sheetWarnings...)
-	e := &env{loc: loc, sources: sources, window: dateWindow(opt.Now, loc)}
+	e := &env{loc: loc, sources: sources, window: dateWindow(opt.Now, loc), progress: opt.Progress}
 	if len(opt.Species) > 0 {
 		e.species = map[string]bool{}
 		for _, sp := range opt.Species {

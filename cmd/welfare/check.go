@@ -28,6 +28,7 @@ type checkOpts struct {
 	failOn         string
 	maxPerCheck    int
 	timeoutPerEval time.Duration
+	timings        bool
 }
 
 func checkFlags() (*flag.FlagSet, *checkOpts) {
@@ -48,6 +49,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never)")
 	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; all are in JSON, CSV and PDF)")
 	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", 5*time.Second, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
+	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time (load, facts, rules, reports) and peak heap to stderr")
 	return fs, o
 }
 
@@ -83,6 +85,9 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 			return usagef("--generated-at %q is not an RFC 3339 time (2026-01-31T18:00:00Z)", o.generatedAt)
 		}
 	}
+	ph := newPhases(stderr, o.timings)
+	defer ph.finish()
+	ph.enter("compile", "")
 	lim, err := loadLimits(o.limits)
 	if err != nil {
 		return err
@@ -99,10 +104,12 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if err != nil {
 		return err
 	}
-	fsys, set, err := loadRecords(ctx, dir, lim)
+	ph.enter("load", "rows")
+	fsys, set, err := loadRecordsCounted(ctx, dir, lim, ph.add)
 	if err != nil {
 		return err
 	}
+	ph.enter("fingerprint", "")
 	fp, err := checker.Fingerprint(fsys, sources, lim.src)
 	if err != nil {
 		return err
@@ -110,10 +117,17 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	res, err := checker.Check(ctx, checker.Config{
 		Records: set, Limits: lim.limits, LimitsSource: lim.src, Engine: engine,
 		Period: period, Only: only, Fingerprint: fp,
+		Progress: func(phase string, done int) {
+			if done == 0 {
+				ph.enter(phase, map[string]string{"rules": "subjects"}[phase])
+			}
+			ph.set(done)
+		},
 	})
 	if err != nil {
 		return err
 	}
+	ph.enter("reports", "")
 
 	if o.on != "" {
 		err = reports.WriteMorning(stdout, res, period.From)

@@ -65,6 +65,11 @@ func ruleSources(dirs []string, rulesOnly bool) ([]checker.Source, error) {
 
 // loadRecords reads a records folder with the species of the limits in force.
 func loadRecords(ctx context.Context, dir string, lim *limitsIn) (fs.FS, *records.Set, error) {
+	return loadRecordsCounted(ctx, dir, lim, nil)
+}
+
+// loadRecordsCounted is loadRecords telling progress (when not nil) the rows read.
+func loadRecordsCounted(ctx context.Context, dir string, lim *limitsIn, progress func(rows int)) (fs.FS, *records.Set, error) {
 	st, err := os.Stat(dir)
 	if err != nil {
 		return nil, nil, fmt.Errorf("records folder: %w", err)
@@ -77,7 +82,7 @@ func loadRecords(ctx context.Context, dir string, lim *limitsIn) (fs.FS, *record
 	if err != nil {
 		return nil, nil, fmt.Errorf("records folder: %w", err)
 	}
-	set, err := records.LoadContext(ctx, fsys, records.Options{Species: lim.limits.SpeciesCodes()})
+	set, err := records.LoadContext(ctx, fsys, records.Options{Species: lim.limits.SpeciesCodes(), Progress: progress})
 	if err != nil {
 		return nil, nil, err
 	}

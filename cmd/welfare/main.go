@@ -92,6 +92,7 @@ func init() {
 	commands = map[string]command{
 		"validate": {runValidate, func() *flag.FlagSet { fs, _ := validateFlags(); return fs }},
 		"check":    {runCheck, func() *flag.FlagSet { fs, _ := checkFlags(); return fs }},
+		"generate": {runGenerate, func() *flag.FlagSet { fs, _ := generateFlags(); return fs }},
 		"demo":     {runDemo, func() *flag.FlagSet { fs, _ := demoFlags(); return fs }},
 		"rules":    {runRules, func() *flag.FlagSet { fs, _ := rulesFlags(); return fs }},
 		"limits":   {runLimits, limitsFlags},

@@ -10,12 +10,16 @@ import (
 	"welfare/records"
 )
 
-type validateOpts struct{ limits string }
+type validateOpts struct {
+	limits  string
+	timings bool
+}
 
 func validateFlags() (*flag.FlagSet, *validateOpts) {
 	o := &validateOpts{}
 	fs := flag.NewFlagSet("validate", flag.ContinueOnError)
 	fs.StringVar(&o.limits, "limits", "", "limits `FILE` whose species profiles are known (default: the built-in limits)")
+	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time and peak heap to stderr")
 	return fs, o
 }
 
@@ -34,10 +38,14 @@ func runValidate(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	if err != nil {
 		return err
 	}
-	_, set, err := loadRecords(ctx, pos[0], lim)
+	ph := newPhases(stderr, o.timings)
+	defer ph.finish()
+	ph.enter("load", "rows")
+	_, set, err := loadRecordsCounted(ctx, pos[0], lim, ph.add)
 	if err != nil {
 		return err
 	}
+	ph.enter("report", "")
 	printAccounting(stdout, set)
 	printProblems(stdout, set)
 	if set.Rejected() > 0 {

@@ -1,0 +1,104 @@
+package checker
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"os"
+	"testing"
+
+	"welfare/records"
+	"welfare/records/synth"
+	"welfare/rules"
+)
+
+// BenchmarkGenerated times the checker's steps on a generated folder
+// (welfare generate --days 365 --seed 7) at 1,000 and 10,000 animals: facts
+// builds every subject's document from the loaded records; rules evaluates
+// every shipped rule on documents built beforehand; check is both, as Check
+// runs them, and requires the findings to number the planted ones.
+//
+//	go test ./checker -run '^$' -bench 'Generated/animals=1000$/' -benchmem
+func BenchmarkGenerated(b *testing.B) {
+	lim, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	data, err := lim.Data()
+	if err != nil {
+		b.Fatal(err)
+	}
+	ctx := context.Background()
+	engine, err := NewEngine(ctx, []Source{{Name: "rules", FS: rules.FS()}}, data, EngineOptions{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, n := range []int{1000, 10000} {
+		b.Run(fmt.Sprintf("animals=%d", n), func(b *testing.B) {
+			set, planted := generatedSet(b, n, lim)
+			from, to := recordSpan(set)
+			period := Period{From: from, To: to}
+			buildFacts := func() *facts {
+				f := newFacts(set, lim, period)
+				for _, add := range domainFacts {
+					add(f)
+				}
+				return f
+			}
+			b.Run("facts", func(b *testing.B) {
+				b.ReportAllocs()
+				for b.Loop() {
+					buildFacts()
+				}
+			})
+			b.Run("rules", func(b *testing.B) {
+				f := buildFacts()
+				kinds := map[string][]map[string]any{}
+				for _, k := range engine.Kinds() {
+					kinds[k] = f.inputs(k)
+				}
+				b.ReportAllocs()
+				for b.Loop() {
+					for _, k := range engine.Kinds() {
+						if len(kinds[k]) == 0 {
+							continue
+						}
+						if _, err := engine.Evaluate(ctx, k, kinds[k]); err != nil {
+							b.Fatal(err)
+						}
+					}
+				}
+			})
+			b.Run("check", func(b *testing.B) {
+				b.ReportAllocs()
+				var found int
+				for b.Loop() {
+					res, err := Check(ctx, Config{Records: set, Limits: lim, Engine: engine, Period: period})
+					if err != nil {
+						b.Fatal(err)
+					}
+					found = len(res.Findings)
+				}
+				if found != planted {
+					b.Fatalf("%d findings, %d planted", found, planted)
+				}
+				b.ReportMetric(float64(found), "findings")
+			})
+		})
+	}
+}
+
+// generatedSet generates and loads a folder of n animals over a year.
+func generatedSet(b *testing.B, n int, lim *rules.Limits) (*records.Set, int) {
+	b.Helper()
+	dir := b.TempDir()
+	planted, err := synth.Generate(dir, synth.Options{Animals: n, Days: 365, Seed: 7})
+	if err != nil {
+		b.Fatal(err)
+	}
+	set, err := records.Load(os.DirFS(dir), records.Options{Species: lim.SpeciesCodes()})
+	if err != nil {
+		b.Fatal(err)
+	}
+	return set, len(planted)
+}

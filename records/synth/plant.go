@@ -1,0 +1,420 @@
+package synth
+
+import (
+	"fmt"
+	"strconv"
+)
+
+// A plant places problems of one check kind. To plant a new kind, add one
+// entry here: reserve fresh subjects (g.animal, g.freshStaff, …), change
+// their rows, and record each finding the change must cause with g.plant.
+// Keep the baseline clean: the change must cause exactly the findings
+// recorded and nothing else.
+type plantFunc struct {
+	check string
+	plant func(g *gen)
+}
+
+// perKind is how many problems of each kind are planted: one per 2,500
+// animals, at least one.
+func (g *gen) perKind() int { return max(1, g.opt.Animals/2500) }
+
+// each runs f perKind times.
+func each(f func(g *gen)) func(g *gen) {
+	return func(g *gen) {
+		for range g.perKind() {
+			f(g)
+		}
+	}
+}
+
+var plants = []plantFunc{
+	// records
+	{"records.row.rejected", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		p := g.plant("records.row.rejected", "", i, -1) // subject: the row's FILE:LINE, set when written
+		g.mod(a.cage, i).rejected = p
+	})},
+	{"records.event.after_departure", each(func(g *gen) {
+		a, i := g.animal(fox), g.dayIn(warm, 0, g.opt.Days-4)
+		a.leftOn, a.leftReason, a.noHandlingFrom = i+1, "transferred", i
+		g.handle(a, i+3, "11:00", g.keeperOf(a.cage), nil)
+		g.plant("records.event.after_departure", a.id, i+3, -1)
+	})},
+	{"records.cull.mismatch", each(func(g *gen) {
+		a, i := g.animal(fox), g.dayIn(warm, 0, g.opt.Days-2)
+		g.cull(a, i, "V01", "barbiturate_overdose", nil)
+		a.leftOn = i + 2 // the cull's day + 1
+		g.plant("records.cull.mismatch", a.id, i, -1)
+	})},
+
+	// care
+	{"care.observation.missed", each(func(g *gen) {
+		a, i := g.animal(anySpecies), g.someDay(warm)
+		g.mod(a.cage, i).noObserve = true
+		g.plant("care.observation.missed", g.cages[a.cage].id, i, -1)
+	})},
+	{"care.feeding.missed", each(func(g *gen) {
+		a, i := g.animal(anySpecies), g.someDay(warm)
+		g.mod(a.cage, i).noFeed = true
+		g.plant("care.feeding.missed", g.cages[a.cage].id, i, -1)
+	})},
+	{"care.water.unavailable", each(func(g *gen) {
+		a, i := g.animal(anySpecies), g.someDay(warm)
+		g.mod(a.cage, i).waterEmpty = true
+		g.plant("care.water.unavailable", g.cages[a.cage].id, i, -1)
+	})},
+	{"care.health.unattended", each(func(g *gen) {
+		a, i := g.animal(anySpecies), g.someDay(warm)
+		g.mod(a.cage, i).concern = a.id
+		g.plant("care.health.unattended", g.cages[a.cage].id, i, -1)
+	})},
+
+	// enclosures: whole-period runs of the occupant's stay
+	{"enclosure.space.insufficient", each(func(g *gen) {
+		a := g.animal(fox)
+		g.cages[a.cage].lengthCm, g.cages[a.cage].widthCm = 80, 80 // 0.64 m² < 0.8 m²
+		g.plant("enclosure.space.insufficient", g.cages[a.cage].id, 0, g.opt.Days-1)
+	})},
+	{"enclosure.height.insufficient", each(func(g *gen) {
+		a := g.animal(fox)
+		g.cages[a.cage].heightCm = 60 // < 70 cm
+		g.plant("enclosure.height.insufficient", g.cages[a.cage].id, 0, g.opt.Days-1)
+	})},
+	{"enclosure.capacity.exceeded", each(func(g *gen) {
+		a, b := g.animal(fox), g.animal(fox)
+		c := &g.cages[a.cage]
+		c.lengthCm, c.widthCm = 200, 100 // 2 m²: room for two by area, but max_occupants 1
+		b.cage = a.cage
+		g.plant("enclosure.capacity.exceeded", c.id, 0, g.opt.Days-1)
+	})},
+	{"enclosure.nest_box.missing", each(func(g *gen) {
+		a := g.animal(fox)
+		g.cages[a.cage].nestBox = "no"
+		g.plant("enclosure.nest_box.missing", g.cages[a.cage].id, 0, g.opt.Days-1)
+		// The same cage lacks shelter on every hard-cold day.
+		g.runs("cold.shelter.missing", g.cages[a.cage].id, func(i int) bool { return g.kinds[i] == hard })
+	})},
+	{"enclosure.platform.missing", each(func(g *gen) {
+		a := g.animal(fox)
+		g.cages[a.cage].platform = "no"
+		g.plant("enclosure.platform.missing", g.cages[a.cage].id, 0, g.opt.Days-1)
+	})},
+
+	// handling of one animal, by a trained and vaccinated keeper
+	{"handling.glove.inadequate", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[6] = "leather" })
+		g.plant("handling.glove.inadequate", a.id, i, -1)
+	})},
+	{"handling.ppe.missing", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[8] = "" })
+		g.plant("handling.ppe.missing", a.id, i, -1)
+	})},
+	{"handling.duration.exceeded", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[5] = "9" }) // weighing: 5 min at most
+		g.plant("handling.duration.exceeded", a.id, i, -1)
+	})},
+	{"handling.bite.not_washed", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) {
+			r[9], r[11], r[12] = "yes", "no", stamp(i, "15:00")
+		})
+		g.plant("handling.bite.not_washed", a.id, i, -1)
+	})},
+	{"handling.bite.not_reported", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[10], r[11] = "yes", "yes" })
+		g.plant("handling.bite.not_reported", a.id, i, -1)
+	})},
+
+	// staff: a person of their own, handling one fox
+	{"staff.handling.untrained", each(func(g *gen) {
+		p, a, i := g.freshStaff(), g.animal(fox), g.someDay(warm)
+		p.handling = ""
+		g.handle(a, i, "14:00", p.id, nil)
+		g.plant("staff.handling.untrained", p.id, i, -1)
+	})},
+	{"staff.euthanasia.untrained", each(func(g *gen) {
+		p, a, i := g.freshStaff(), g.animal(fox), g.someDay(warm)
+		g.cull(a, i, p.id, "barbiturate_overdose", nil)
+		g.plant("staff.euthanasia.untrained", p.id, i, -1)
+	})},
+	{"staff.rabies.unprotected", each(func(g *gen) {
+		p, a, i := g.freshStaff(), g.animal(fox), g.someDay(warm)
+		p.primary = ""
+		g.handle(a, i, "14:00", p.id, nil)
+		g.plant("staff.rabies.unprotected", p.id, i, -1)
+	})},
+	{"staff.rabies.followup_overdue", each(func(g *gen) {
+		p, a, i := g.freshStaff(), g.animal(fox), g.someDay(warm)
+		p.primary = dayOf(Start.AddDate(-4, 0, 0)) // more than 3 years, no titer (ACIP 2022, category 3)
+		g.handle(a, i, "14:00", p.id, nil)
+		g.plant("staff.rabies.followup_overdue", p.id, i, -1)
+	})},
+	{"staff.respirator.fit_overdue", each(func(g *gen) {
+		p, a, i := g.freshStaff(), g.animal(fox), g.someDay(warm)
+		g.handle(a, i, "14:00", p.id, func(r []string) { r[8] = "coverall;respirator" })
+		g.plant("staff.respirator.fit_overdue", p.id, i, -1)
+	})},
+	{"staff.inactive", each(func(g *gen) {
+		p, a, i := g.freshStaff(), g.animal(fox), g.dayIn(warm, 1, g.opt.Days)
+		p.activeTo = day(i - 1)
+		g.handle(a, i, "14:00", p.id, nil)
+		g.plant("staff.inactive", p.id, i, -1)
+	})},
+
+	// protective equipment: one glove each
+	{"ppe.inspection.overdue", each(func(g *gen) {
+		a, i := g.animal(fox), g.dayIn(warm, 10, g.opt.Days)
+		item := g.item()
+		g.ppe = append(g.ppe, event{day: i - 10, row: []string{day(i - 10), item, "glove", "", "good", "kept"}})
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[7] = item })
+		g.plant("ppe.inspection.overdue", item, i, -1)
+	})},
+	{"ppe.damaged.used", each(func(g *gen) {
+		a, i := g.animal(fox), g.dayIn(warm, 2, g.opt.Days)
+		item := g.item()
+		g.ppe = append(g.ppe, event{day: i - 2, row: []string{day(i - 2), item, "glove", "", "damaged", "kept"}})
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[7] = item })
+		g.plant("ppe.damaged.used", item, i, -1)
+	})},
+
+	// protocols: one of their own each
+	{"protocol.inactive", each(func(g *gen) {
+		a, i := g.animal(fox), g.dayIn(warm, 1, g.opt.Days)
+		p := g.freshProtocol()
+		p.expires = day(i - 1)
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[13] = p.id })
+		g.plant("protocol.inactive", p.id, i, -1)
+	})},
+	{"protocol.procedure.unapproved", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		p := g.freshProtocol()
+		p.procedures = "weighing"
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[3], r[13] = "health_check", p.id })
+		g.plant("protocol.procedure.unapproved", p.id, i, -1)
+	})},
+	{"protocol.method.unapproved", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		p := g.freshProtocol()
+		g.cull(a, i, "V01", "gunshot", func(r []string) { r[8] = p.id }) // conditional for foxes, not in the protocol
+		g.plant("protocol.method.unapproved", p.id, i, -1)
+	})},
+	{"protocol.animals.exceeded", each(func(g *gen) {
+		a, b, i := g.animal(fox), g.animal(fox), g.dayIn(warm, 1, g.opt.Days)
+		p := g.freshProtocol()
+		p.approved, p.maxAnimals = day(i), "1" // both animals held under it from its approval
+		for _, x := range []*animal{a, b} {
+			x.protocol, x.noHandlingFrom = p.id, 0 // no weighings before the approval
+		}
+		g.plant("protocol.animals.exceeded", p.id, i, -1)
+	})},
+	{"protocol.expiring", each(func(g *gen) {
+		p := g.freshProtocol()
+		p.expires = day(g.opt.Days - 1 + 10) // within the 30-day warning
+		g.plant("protocol.expiring", p.id, g.opt.Days-1+10, -1)
+	})},
+
+	// culls, by the trained veterinarian
+	{"cull.method.unacceptable", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		g.cull(a, i, "V01", "cervical_dislocation", nil)
+		g.plant("cull.method.unacceptable", a.id, i, -1)
+	})},
+	{"cull.method.conditions_unmet", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		g.cull(a, i, "V01", "potassium_chloride", nil) // not sedated
+		g.plant("cull.method.conditions_unmet", a.id, i, -1)
+	})},
+	{"cull.death.unconfirmed", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		g.cull(a, i, "V01", "barbiturate_overdose", func(r []string) { r[6], r[7] = "no", "" })
+		g.plant("cull.death.unconfirmed", a.id, i, -1)
+	})},
+
+	// cold
+	{"cold.water.checks_insufficient", each(func(g *gen) {
+		a, i := g.animal(anySpecies), g.someDay(freeze)
+		g.mod(a.cage, i).skipPM = true
+		g.plant("cold.water.checks_insufficient", g.cages[a.cage].id, i, -1)
+	})},
+	{"cold.bedding.stale", each(func(g *gen) {
+		// No bedding for eight days a..a+7: the hard days a+6 and a+7 are
+		// 7 and 8 days after the last bedding (bedding every 7 days at −20).
+		a := g.animal(anySpecies)
+		s, ok := g.hardWindow(8)
+		if !ok {
+			return
+		}
+		for i := s; i < s+8; i++ {
+			g.mod(a.cage, i).noBedding = true
+		}
+		g.plant("cold.bedding.stale", g.cages[a.cage].id, s+6, s+7)
+	})},
+	{"cold.frostbite.risk", each(func(g *gen) { g.snap(-25) })}, // wind chill about −37
+	{"cold.work.over_limit", each(func(g *gen) {
+		i, ok := g.snap(-30) // a row with a work limit of 40–55 min at 20 km/h
+		if !ok {
+			return
+		}
+		p := g.freshStaff()
+		g.stint(p.id, i, "06:00", "07:30")
+		g.plant("cold.work.over_limit", p.id, i, -1)
+	})},
+	{"cold.work.should_cease", each(func(g *gen) {
+		i, ok := g.snap(-40) // non-emergency work should cease at 20 km/h
+		if !ok {
+			return
+		}
+		p := g.freshStaff()
+		g.stint(p.id, i, "06:00", "06:20")
+		g.plant("cold.work.should_cease", p.id, i, -1)
+	})},
+	// the frostbite runs of all snaps, once every snap is placed
+	{"cold.frostbite.risk", func(g *gen) {
+		g.runs("cold.frostbite.risk", site, func(i int) bool { _, ok := g.snapAir[i]; return ok })
+	}},
+}
+
+// ---- helpers for plants
+
+func anySpecies(string) bool { return true }
+
+func fox(species string) bool { return species == "vulpes_vulpes" || species == "vulpes_lagopus" }
+
+// plant records a finding from day index on to until (-1: a single day).
+func (g *gen) plant(check, subject string, on, until int) *Planted {
+	p := &Planted{Check: check, Subject: subject, On: day(on)}
+	if until >= 0 && until != on {
+		p.Until = day(until)
+	}
+	g.planted = append(g.planted, p)
+	return p
+}
+
+// runs plants one finding per run of consecutive days on which bad holds.
+func (g *gen) runs(check, subject string, bad func(int) bool) {
+	for i := 0; i < g.opt.Days; i++ {
+		if !bad(i) {
+			continue
+		}
+		e := i
+		for e+1 < g.opt.Days && bad(e+1) {
+			e++
+		}
+		g.plant(check, subject, i, e)
+		i = e
+	}
+}
+
+// animal reserves a fresh animal of a species that ok accepts, in a cage no
+// other plant uses, and stops its baseline weighings on planted days only.
+func (g *gen) animal(ok func(string) bool) *animal {
+	for {
+		a := &g.animals[g.rng.IntN(len(g.animals))]
+		if a.reserved || g.cages[a.cage].reserved || !ok(a.species) {
+			continue
+		}
+		a.reserved, g.cages[a.cage].reserved = true, true
+		return a
+	}
+}
+
+func (g *gen) someDay(k dayKind) int { return g.dayIn(k, 0, g.opt.Days) }
+
+// dayIn picks a day index in [lo, hi) of kind k.
+func (g *gen) dayIn(k dayKind, lo, hi int) int {
+	var ds []int
+	for i := lo; i < hi; i++ {
+		if g.kinds[i] == k {
+			ds = append(ds, i)
+		}
+	}
+	return ds[g.rng.IntN(len(ds))]
+}
+
+// hardWindow picks a start s with days s+n-2 and s+n-1 hard.
+func (g *gen) hardWindow(n int) (int, bool) {
+	var ss []int
+	for s := 0; s+n <= g.opt.Days; s++ {
+		if g.kinds[s+n-2] == hard && g.kinds[s+n-1] == hard {
+			ss = append(ss, s)
+		}
+	}
+	if len(ss) == 0 {
+		return 0, false
+	}
+	return ss[g.rng.IntN(len(ss))], true
+}
+
+// snap makes the 06:00 reading of a hard day (not yet a snap) air °C with
+// 20 km/h wind, and returns the day; false when every hard day is taken.
+func (g *gen) snap(air float64) (int, bool) {
+	var free []int
+	for i, k := range g.kinds {
+		if _, taken := g.snapAir[i]; k == hard && !taken {
+			free = append(free, i)
+		}
+	}
+	if len(free) == 0 {
+		return 0, false
+	}
+	i := free[g.rng.IntN(len(free))]
+	g.snapAir[i] = air
+	return i, true
+}
+
+func (g *gen) mod(c, i int) *careMod {
+	k := [2]int{c, i}
+	m := g.care[k]
+	if m == nil {
+		m = &careMod{}
+		g.care[k] = m
+	}
+	return m
+}
+
+// freshStaff adds a keeper of their own, trained and vaccinated, whom a
+// plant then changes.
+func (g *gen) freshStaff() *person {
+	n := len(g.staff) + 1
+	g.staff = append(g.staff, person{id: fmt.Sprintf("P%03d", n), name: "Relief Keeper " + strconv.Itoa(n), role: "keeper",
+		handling: day(0), primary: dayOf(Start.AddDate(-1, 0, 0))})
+	return &g.staff[len(g.staff)-1]
+}
+
+func (g *gen) freshProtocol() *protocol {
+	n := len(g.protocols) + 1
+	g.protocols = append(g.protocols, protocol{id: fmt.Sprintf("HM-%02d", n), title: "Sub-study " + strconv.Itoa(n),
+		approved: dayOf(Start.AddDate(-1, 0, 0)), expires: dayOf(Start.AddDate(3, 0, 0)),
+		species: "vulpes_vulpes;vulpes_lagopus", procedures: "weighing;health_check", methods: "barbiturate_overdose"})
+	return &g.protocols[len(g.protocols)-1]
+}
+
+func (g *gen) item() string { return fmt.Sprintf("GL-%03d", len(g.ppe)+1) }
+
+// handle adds a clean weighing of a at day i, changed by edit.
+func (g *gen) handle(a *animal, i int, hhmm, staff string, edit func([]string)) {
+	r := []string{stamp(i, hhmm), a.id, staff, "weighing", "gloved_hand", "2", "bite_resistant", "", "coverall", "no", "no", "", "", ""}
+	if edit != nil {
+		edit(r)
+	}
+	g.handling = append(g.handling, event{day: i, at: hhmm, row: r})
+}
+
+// cull adds a clean cull of a at day i (the animal leaves that day), changed by edit.
+func (g *gen) cull(a *animal, i int, staff, method string, edit func([]string)) {
+	r := []string{stamp(i, "11:00"), a.id, staff, "end_of_study", method, "no", "yes", "no_heartbeat;no_corneal_reflex", "", "incineration"}
+	if edit != nil {
+		edit(r)
+	}
+	a.leftOn, a.leftReason, a.noHandlingFrom = i+1, "culled", i
+	g.culls = append(g.culls, event{day: i, at: "11:00", row: r})
+}
+
+func (g *gen) stint(staff string, i int, from, to string) {
+	g.stints = append(g.stints, event{day: i, at: from, row: []string{staff, stamp(i, from), stamp(i, to), site, "moderate"}})
+}

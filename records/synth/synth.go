@@ -1,0 +1,529 @@
+// Package synth writes a deterministic synthetic records folder of any size
+// in an invented scenario, with a small number of planted problems of every
+// check kind and the list of what it planted (PLANTED.json).
+//
+// The scenario: the invented Birchfall Fur Research Station's scale-test
+// farm, sheds of fifty single outdoor cages (red foxes, arctic foxes and mink), a
+// few keepers, a veterinarian and protocols. The weather runs through a
+// winter, a summer and back: hard-cold days at the start and end of the
+// period (minimum wind chill about −24), freezing days around them and mild
+// to warm days in the middle. The clean baseline is chosen so that it
+// produces no finding: every cage is observed and fed every day, checked
+// twice on freezing days, bedded daily; every keeper is trained and
+// vaccinated; every cage is big enough; no reading reaches the frostbite line.
+//
+// Each planted problem is placed by construction by one plant function (see
+// plants in plant.go): it changes a few rows of a subject no other plant
+// touches and records the finding it must cause. The planted list is never
+// computed by running the checker.
+package synth
+
+import (
+	"bufio"
+	"encoding/json"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+)
+
+// Options are the size and seed of a generated folder.
+type Options struct {
+	Animals int    // single cages, one animal each, in sheds of fifty
+	Days    int    // length of the period, from Start
+	Seed    uint64 // same seed, same bytes
+}
+
+// Limits of the generator's sizes: fewer animals or days leave no room for
+// one planted problem of every kind on its own subject and in its season.
+const (
+	MinAnimals = 100
+	MinDays    = 60
+	MaxDays    = 366
+)
+
+// Start is the first day of every generated period (a winter day).
+var Start = time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)
+
+// Planted is one finding the checker must report on the folder.
+type Planted struct {
+	Check   string `json:"check"`
+	Subject string `json:"subject"`
+	On      string `json:"on"`
+	Until   string `json:"until"` // last day of a run; empty for a single day
+}
+
+// PlantedFile is the answer key's file name in the generated folder.
+const PlantedFile = "PLANTED.json"
+
+const (
+	cagesPerShed = 50
+	site         = "YARD"
+	timeZone     = "America/Winnipeg"
+)
+
+// dayKind is the planned weather of a day.
+type dayKind int8
+
+const (
+	warm   dayKind = iota // minimum air at or above 2 °C
+	freeze                // minimum air −5 °C, wind chill about −9
+	hard                  // minimum air −15 °C with 20 km/h wind: wind chill about −24
+)
+
+type cage struct {
+	id, shed, species string
+	lengthCm, widthCm int
+	heightCm, maxOcc  int
+	nestBox, platform string
+	reserved          bool // taken by a plant
+	animals           []int
+}
+
+type animal struct {
+	id, species, sex string
+	cage             int
+	born, arrived    time.Time
+	leftOn           int // day index + 1 of left_on; 0: still here
+	leftReason       string
+	protocol         string
+	noHandlingFrom   int // day index from which baseline weighings stop; -1: never stop
+	reserved         bool
+}
+
+type person struct {
+	id, name, role                   string
+	activeTo                         string
+	handling, euthanasia, methods    string
+	primary, titerOn, titer, respFit string
+}
+
+type protocol struct {
+	id, title, approved, expires string
+	species, maxAnimals          string
+	procedures, methods          string
+}
+
+// careMod changes one cage's rounds on one day.
+type careMod struct {
+	noObserve, noFeed, waterEmpty, skipPM, noBedding bool
+	concern                                          string // animal id of a health concern
+	rejected                                         *Planted
+}
+
+type event struct {
+	day  int
+	at   string // local time HH:MM, for ordering
+	row  []string
+	line *Planted // when set, Subject is filled with FILE:LINE
+}
+
+type gen struct {
+	opt       Options
+	rng       *rand.Rand
+	kinds     []dayKind
+	snapAir   map[int]float64 // day -> the 06:00 reading's air temperature on a planted cold snap
+	cages     []cage
+	animals   []animal
+	staff     []person
+	protocols []protocol
+	care      map[[2]int]*careMod
+	handling  []event
+	culls     []event
+	ppe       []event
+	stints    []event
+	planted   []*Planted
+	keepers   []string
+}
+
+// Generate writes the records folder and PLANTED.json into dir (created if
+// needed) and returns the planted findings.
+func Generate(dir string, opt Options) ([]Planted, error) {
+	if opt.Animals < MinAnimals {
+		return nil, fmt.Errorf("--animals %d: at least %d, so every planted problem has its own animal", opt.Animals, MinAnimals)
+	}
+	if opt.Days < MinDays || opt.Days > MaxDays {
+		return nil, fmt.Errorf("--days %d: between %d and %d (a cold and a warm stretch, within one year of training records)", opt.Days, MinDays, MaxDays)
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return nil, err
+	}
+	g := newGen(opt)
+	for _, p := range plants {
+		p.plant(g)
+	}
+	if err := g.write(dir); err != nil {
+		return nil, err
+	}
+	out := make([]Planted, len(g.planted))
+	for i, p := range g.planted {
+		out[i] = *p
+	}
+	SortPlanted(out)
+	b, err := json.MarshalIndent(out, "", "  ")
+	if err != nil {
+		return nil, err
+	}
+	if err := os.WriteFile(filepath.Join(dir, PlantedFile), append(b, '\n'), 0o644); err != nil {
+		return nil, err
+	}
+	return out, nil
+}
+
+// SortPlanted orders findings by check, subject, on and until.
+func SortPlanted(ps []Planted) {
+	sort.Slice(ps, func(i, j int) bool {
+		a, b := ps[i], ps[j]
+		if a.Check != b.Check {
+			return a.Check < b.Check
+		}
+		if a.Subject != b.Subject {
+			return a.Subject < b.Subject
+		}
+		if a.On != b.On {
+			return a.On < b.On
+		}
+		return a.Until < b.Until
+	})
+}
+
+func newGen(opt Options) *gen {
+	g := &gen{opt: opt, rng: rand.New(rand.NewPCG(opt.Seed, 0x5eed)), snapAir: map[int]float64{}, care: map[[2]int]*careMod{}}
+	// Season: cos over the period, 1 (winter) at both ends, −1 (summer) in the middle.
+	for i := range opt.Days {
+		s := math.Cos(2 * math.Pi * float64(i) / float64(opt.Days))
+		k := warm
+		switch {
+		case s > 0.6:
+			k = hard
+		case s > 0.2:
+			k = freeze
+		}
+		g.kinds = append(g.kinds, k)
+	}
+	species := []string{"vulpes_vulpes", "vulpes_lagopus", "vulpes_vulpes", "neogale_vison"}
+	for i := range opt.Animals {
+		shed := i / cagesPerShed
+		sp := species[shed%len(species)]
+		c := cage{id: fmt.Sprintf("S%03d-%02d", shed+1, i%cagesPerShed+1), shed: fmt.Sprintf("S%03d", shed+1), species: sp,
+			lengthCm: 120, widthCm: 85, heightCm: 78, maxOcc: 1, nestBox: "yes", platform: "yes"}
+		if sp == "neogale_vison" {
+			c.lengthCm, c.widthCm, c.heightCm, c.platform = 70, 40, 46, "no"
+		}
+		sex := "f"
+		if i%2 == 1 {
+			sex = "m"
+		}
+		g.animals = append(g.animals, animal{id: fmt.Sprintf("A%05d", i+1), species: sp, sex: sex, cage: i,
+			born: Start.AddDate(-2, 0, -(i % 90)), arrived: Start.AddDate(-1, -6, -(i % 60)), noHandlingFrom: -1})
+		c.animals = []int{i}
+		g.cages = append(g.cages, c)
+	}
+	names := []string{"Wren Halloway", "Ives Marchetti", "Oona Brackley", "Tobin Ashgrove", "Sela Varnholt",
+		"Piet Okonedo", "Maren Coldwell", "Jory Teasdale", "Linnea Forsk", "Cato Rimmel"}
+	sheds := (opt.Animals + cagesPerShed - 1) / cagesPerShed
+	for k := range max(1, (sheds+9)/10) {
+		id := fmt.Sprintf("K%02d", k+1)
+		g.keepers = append(g.keepers, id)
+		g.staff = append(g.staff, person{id: id, name: names[k%len(names)] + suffix(k/len(names)), role: "keeper",
+			handling: day(0), primary: dayOf(Start.AddDate(-1, 0, 0))})
+	}
+	g.staff = append(g.staff, person{id: "V01", name: "Dr Halvard Enqvist", role: "veterinarian", handling: day(0),
+		euthanasia: day(0), methods: "barbiturate_overdose;gunshot;cervical_dislocation;potassium_chloride",
+		primary: dayOf(Start.AddDate(-1, 0, 0))})
+	g.protocols = append(g.protocols, protocol{id: "HM-01", title: "Winter coat and husbandry study",
+		approved: dayOf(Start.AddDate(-1, 0, 0)), expires: dayOf(Start.AddDate(3, 0, 0)),
+		species: "vulpes_vulpes;vulpes_lagopus;neogale_vison", procedures: "weighing;health_check;vet_exam",
+		methods: "barbiturate_overdose"})
+	return g
+}
+
+func suffix(n int) string {
+	if n == 0 {
+		return ""
+	}
+	return " " + strconv.Itoa(n+1)
+}
+
+// day is the date of day index i of the period.
+func day(i int) string { return dayOf(Start.AddDate(0, 0, i)) }
+
+func dayOf(t time.Time) string { return t.Format("2006-01-02") }
+
+func stamp(i int, hhmm string) string { return day(i) + "T" + hhmm }
+
+// ---- writing
+
+type csvFile struct {
+	f    *os.File
+	w    *bufio.Writer
+	line int
+	name string
+}
+
+func create(dir, name string, header ...string) (*csvFile, error) {
+	f, err := os.Create(filepath.Join(dir, name))
+	if err != nil {
+		return nil, err
+	}
+	c := &csvFile{f: f, w: bufio.NewWriterSize(f, 1<<16), name: name}
+	c.row(header...)
+	return c, nil
+}
+
+// row writes one record; the generator's cells never need quoting.
+func (c *csvFile) row(cells ...string) int {
+	for i, s := range cells {
+		if i > 0 {
+			c.w.WriteByte(',')
+		}
+		c.w.WriteString(s)
+	}
+	c.w.WriteByte('\n')
+	c.line++
+	return c.line
+}
+
+func (c *csvFile) close() error {
+	if err := c.w.Flush(); err != nil {
+		c.f.Close()
+		return err
+	}
+	return c.f.Close()
+}
+
+func yes(b bool) string {
+	if b {
+		return "yes"
+	}
+	return "no"
+}
+
+func (g *gen) write(dir string) error {
+	var sb strings.Builder
+	sb.WriteString("name: Birchfall Fur Research Station, generated scale farm (invented)\ntime_zone: " + timeZone + "\nbuildings:\n")
+	for s := 0; s*cagesPerShed < len(g.cages); s++ {
+		fmt.Fprintf(&sb, "  - {id: S%03d, exposure: outdoor, weather_site: %s}\n", s+1, site)
+	}
+	sb.WriteString("weather_sites: [" + site + "]\n")
+	if err := os.WriteFile(filepath.Join(dir, "facility.yaml"), []byte(sb.String()), 0o644); err != nil {
+		return err
+	}
+	steps := []func(string) error{g.writeEnclosures, g.writeAnimals, g.writeStaff, g.writeProtocols,
+		g.writeCare, g.writeHandling, g.writeEvents("culls.csv", g.culls,
+			"culled_at", "animal_id", "staff_id", "reason", "method", "sedated", "death_confirmed", "confirmation", "protocol_id", "disposal"),
+		g.writeEvents("ppe_checks.csv", g.ppe, "checked_on", "item_id", "item", "assigned_to", "condition", "action"),
+		g.writeWeather, g.writeStints}
+	for _, step := range steps {
+		if err := step(dir); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+func (g *gen) writeEnclosures(dir string) error {
+	c, err := create(dir, "enclosures.csv", "enclosure_id", "building_id", "kind", "length_cm", "width_cm", "height_cm", "max_occupants", "nest_box", "platform")
+	if err != nil {
+		return err
+	}
+	for _, e := range g.cages {
+		c.row(e.id, e.shed, "cage", strconv.Itoa(e.lengthCm), strconv.Itoa(e.widthCm), strconv.Itoa(e.heightCm), strconv.Itoa(e.maxOcc), e.nestBox, e.platform)
+	}
+	return c.close()
+}
+
+func (g *gen) writeAnimals(dir string) error {
+	c, err := create(dir, "animals.csv", "animal_id", "species", "sex", "born_on", "arrived_on", "left_on", "left_reason", "enclosure_id", "protocol_id")
+	if err != nil {
+		return err
+	}
+	for _, a := range g.animals {
+		left := ""
+		if a.leftOn > 0 {
+			left = day(a.leftOn - 1)
+		}
+		c.row(a.id, a.species, a.sex, dayOf(a.born), dayOf(a.arrived), left, a.leftReason, g.cages[a.cage].id, a.protocol)
+	}
+	return c.close()
+}
+
+func (g *gen) writeStaff(dir string) error {
+	c, err := create(dir, "staff.csv", "staff_id", "name", "role", "active_to", "handling_trained_on", "euthanasia_trained_on",
+		"euthanasia_methods", "rabies_primary_on", "rabies_titer_on", "rabies_titer_iu_ml", "respirator_fit_on")
+	if err != nil {
+		return err
+	}
+	for _, p := range g.staff {
+		c.row(p.id, p.name, p.role, p.activeTo, p.handling, p.euthanasia, p.methods, p.primary, p.titerOn, p.titer, p.respFit)
+	}
+	return c.close()
+}
+
+func (g *gen) writeProtocols(dir string) error {
+	c, err := create(dir, "protocols.csv", "protocol_id", "title", "approved_on", "expires_on", "species", "max_animals", "procedures", "euthanasia_methods")
+	if err != nil {
+		return err
+	}
+	for _, p := range g.protocols {
+		c.row(p.id, p.title, p.approved, p.expires, p.species, p.maxAnimals, p.procedures, p.methods)
+	}
+	return c.close()
+}
+
+// cold reports whether day i needs two water checks (minimum air below 0 °C).
+func (g *gen) cold(i int) bool { return g.kinds[i] != warm }
+
+func (g *gen) keeperOf(c int) string { return g.keepers[c/cagesPerShed/10] }
+
+func (g *gen) writeCare(dir string) error {
+	c, err := create(dir, "daily_care.csv", "checked_at", "enclosure_id", "staff_id", "observed", "fed", "water", "water_restored", "bedding_added", "health_concern", "concern_animal_id")
+	if err != nil {
+		return err
+	}
+	for i := range g.opt.Days {
+		am, pm := stamp(i, "07:30"), stamp(i, "15:30")
+		for ci := range g.cages {
+			e := &g.cages[ci]
+			k := g.keeperOf(ci)
+			m := g.care[[2]int{ci, i}]
+			if m == nil {
+				c.row(am, e.id, k, "yes", "yes", "ok", "", "yes", "no", "")
+				if g.cold(i) {
+					c.row(pm, e.id, k, "yes", "no", "ok", "", "no", "no", "")
+				}
+				continue
+			}
+			water, restored := "ok", ""
+			if m.waterEmpty {
+				water, restored = "empty", "no"
+			}
+			concern := m.concern != ""
+			c.row(am, e.id, k, yes(!m.noObserve), yes(!m.noFeed), water, restored, yes(!m.noBedding), yes(concern), m.concern)
+			if g.cold(i) && !m.skipPM {
+				c.row(pm, e.id, k, yes(!m.noObserve), "no", "ok", "", "no", "no", "")
+			}
+			if m.rejected != nil {
+				line := c.row(stamp(i, "19:00"), e.id, k, "yes", "no", "frozn", "", "no", "no", "")
+				m.rejected.Subject = fmt.Sprintf("daily_care.csv:%d", line)
+			}
+		}
+	}
+	return c.close()
+}
+
+func (g *gen) writeHandling(dir string) error {
+	c, err := create(dir, "handling.csv", "handled_at", "animal_id", "staff_id", "purpose", "restraint", "duration_min",
+		"glove", "glove_id", "ppe", "bite", "scratch", "wound_washed", "exposure_reported_at", "protocol_id")
+	if err != nil {
+		return err
+	}
+	extra := byDay(g.handling)
+	for i := range g.opt.Days {
+		// Each animal is weighed once every 30 days, on a day set by its number.
+		for ai := i % 30; ai < len(g.animals); ai += 30 {
+			a := &g.animals[ai]
+			if a.noHandlingFrom >= 0 && i >= a.noHandlingFrom {
+				continue
+			}
+			c.row(stamp(i, "10:00"), a.id, g.keeperOf(a.cage), "weighing", "gloved_hand", "2", "bite_resistant", "", "coverall", "no", "no", "", "", "")
+		}
+		for _, e := range extra[i] {
+			c.row(e.row...)
+		}
+	}
+	return c.close()
+}
+
+func byDay(evs []event) map[int][]event {
+	m := map[int][]event{}
+	for _, e := range evs {
+		m[e.day] = append(m[e.day], e)
+	}
+	for _, l := range m {
+		sort.SliceStable(l, func(i, j int) bool { return l[i].at < l[j].at })
+	}
+	return m
+}
+
+func (g *gen) writeEvents(name string, evs []event, header ...string) func(string) error {
+	return func(dir string) error {
+		c, err := create(dir, name, header...)
+		if err != nil {
+			return err
+		}
+		sorted := append([]event(nil), evs...)
+		sort.SliceStable(sorted, func(i, j int) bool {
+			if sorted[i].day != sorted[j].day {
+				return sorted[i].day < sorted[j].day
+			}
+			return sorted[i].at < sorted[j].at
+		})
+		for _, e := range sorted {
+			c.row(e.row...)
+		}
+		return c.close()
+	}
+}
+
+// Reading hours and the shape of the day: coldest at 06:00.
+var (
+	readingHours = [8]int{0, 3, 6, 9, 12, 15, 18, 21}
+	warmthShape  = [8]float64{3, 1, 0, 2, 6, 8, 5, 4} // °C above the day's minimum
+)
+
+// air and wind of day i at reading h (0..7).
+func (g *gen) reading(i, h int) (air, wind float64) {
+	wind = 10
+	var low float64
+	switch g.kinds[i] {
+	case hard:
+		low = -15
+		if h == 2 {
+			wind = 20
+			if a, ok := g.snapAir[i]; ok {
+				return a, wind
+			}
+		}
+	case freeze:
+		low = -5
+	default:
+		s := math.Cos(2 * math.Pi * float64(i) / float64(g.opt.Days))
+		low = 2 + 14*math.Min(1, (0.2-s)/1.2)
+	}
+	return math.Round((low+warmthShape[h])*10) / 10, wind
+}
+
+func (g *gen) writeWeather(dir string) error {
+	c, err := create(dir, "weather.csv", "observed_at", "site_id", "air_temp_c", "wind_kmh")
+	if err != nil {
+		return err
+	}
+	for i := range g.opt.Days {
+		for h, hour := range readingHours {
+			air, wind := g.reading(i, h)
+			c.row(stamp(i, fmt.Sprintf("%02d:00", hour)), site, strconv.FormatFloat(air, 'f', 1, 64), strconv.Itoa(int(wind)))
+		}
+	}
+	return c.close()
+}
+
+func (g *gen) writeStints(dir string) error {
+	c, err := create(dir, "outdoor_work.csv", "staff_id", "started_at", "ended_at", "site_id", "activity")
+	if err != nil {
+		return err
+	}
+	extra := byDay(g.stints)
+	for i := range g.opt.Days {
+		for _, e := range extra[i] {
+			c.row(e.row...)
+		}
+		c.row(g.keepers[0], stamp(i, "09:00"), stamp(i, "09:30"), site, "moderate")
+	}
+	return c.close()
+}

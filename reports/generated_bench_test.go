@@ -1,0 +1,83 @@
+package reports_test
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"testing"
+	"time"
+
+	"welfare/checker"
+	"welfare/records"
+	"welfare/records/synth"
+	"welfare/reports"
+	"welfare/reports/pdf"
+	"welfare/rules"
+)
+
+// BenchmarkGenerated writes the reports of a check of a generated folder
+// (welfare generate --days 365 --seed 7) at 1,000 and 10,000 animals: the
+// report step of `welfare check --pdf --json`, whose size follows the
+// records (care coverage, weather) as well as the findings.
+//
+//	go test ./reports -run '^$' -bench 'Generated/animals=1000$/' -benchmem
+func BenchmarkGenerated(b *testing.B) {
+	for _, n := range []int{1000, 10000} {
+		b.Run(fmt.Sprintf("animals=%d", n), func(b *testing.B) {
+			res := generatedResult(b, n)
+			writers := []struct {
+				name  string
+				write func(io.Writer) error
+			}{
+				{"text", func(w io.Writer) error { return reports.WriteText(w, res, reports.TextOptions{MaxPerCheck: 20}) }},
+				{"json", func(w io.Writer) error { return reports.WriteJSON(w, res) }},
+				{"pdf", func(w io.Writer) error {
+					return pdf.Write(w, res, reports.PDFOptions{GeneratedAt: time.Date(2027, 1, 1, 0, 0, 0, 0, time.UTC)})
+				}},
+			}
+			for _, wr := range writers {
+				b.Run(wr.name, func(b *testing.B) {
+					b.ReportAllocs()
+					for b.Loop() {
+						if err := wr.write(io.Discard); err != nil {
+							b.Fatal(err)
+						}
+					}
+				})
+			}
+		})
+	}
+}
+
+func generatedResult(b *testing.B, n int) *checker.Result {
+	b.Helper()
+	dir := b.TempDir()
+	if _, err := synth.Generate(dir, synth.Options{Animals: n, Days: 365, Seed: 7}); err != nil {
+		b.Fatal(err)
+	}
+	src := rules.DefaultLimits()
+	lim, err := rules.LoadLimits(bytes.NewReader(src), "limits.yaml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	data, err := lim.Data()
+	if err != nil {
+		b.Fatal(err)
+	}
+	set, err := records.Load(os.DirFS(dir), records.Options{Species: lim.SpeciesCodes()})
+	if err != nil {
+		b.Fatal(err)
+	}
+	ctx := context.Background()
+	engine, err := checker.NewEngine(ctx, []checker.Source{{Name: "rules", FS: rules.FS()}}, data, checker.EngineOptions{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	res, err := checker.Check(ctx, checker.Config{Records: set, Limits: lim, LimitsSource: src, Engine: engine})
+	if err != nil {
+		b.Fatal(err)
+	}
+	return res
+}
