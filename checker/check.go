@@ -9,27 +9,23 @@ import (
 	"welfare/rules"
 )
 
-// Config is one check run: the loaded records, the limits and rules in
+// config is one check run: the loaded records, the limits and rules in
 // force, and the period to check.
-type Config struct {
+type config struct {
 	Records *records.Set
 	Limits  *rules.Limits
-	// LimitsSource is the text of the limits file in force, for the report's
-	// "limits in force" with each value's source comment.
-	LimitsSource []byte
-	// Engine holds the compiled rules (see NewEngine).
-	Engine *Engine
+	// Engine holds the compiled rules (see newEngine).
+	Engine *engine
 	// Period to check; a zero From or To is taken from the records' dates.
 	Period Period
 	// Only keeps the findings of these domains (all when empty).
 	Only []string
-	// Fingerprint identifies the inputs (see Fingerprint); copied to the result.
-	Fingerprint string
 }
 
-// Check computes the facts of every subject, evaluates the rules on them
-// and returns the findings with everything a report needs.
-func Check(ctx context.Context, cfg Config) (*Result, error) {
+// check computes the facts of every subject, evaluates the rules on them
+// and returns the findings with everything a report needs but the
+// fingerprint (Policy.Check adds it).
+func check(ctx context.Context, cfg config) (*Result, error) {
 	set := cfg.Records
 	p := cfg.Period
 	if p.From.IsZero() || p.To.IsZero() {
@@ -55,18 +51,16 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 	res := &Result{
 		Facility:    set.Facility.Name,
 		Period:      p,
-		Fingerprint: cfg.Fingerprint,
 		Accounting:  set.Accounting,
 		Warnings:    set.Warnings,
 		Checks:      cfg.Engine.Checks(),
 		Care:        f.coverage,
+		SiteOf:      siteOf(set),
 		Weather:     f.weather,
 		ColdLines: ColdLines{Bedding: cfg.Limits.Cold.BeddingWindChill, Shelter: cfg.Limits.Cold.ShelterWindChill,
 			Frostbite: cfg.Limits.Cold.FrostbiteWindChill},
 	}
-	if len(cfg.LimitsSource) > 0 {
-		res.Limits = limitLines(cfg.LimitsSource)
-	}
+	res.Limits = cfg.Limits.Lines()
 
 	only := map[string]bool{}
 	for _, d := range cfg.Only {
@@ -154,4 +148,29 @@ func recordSpan(set *records.Set) (from, to records.Day) {
 		see(records.DayOf(set.Culls[i].At))
 	}
 	return from, to
+}
+
+// siteOf maps the subjects of cold findings to the weather site whose
+// chart they belong on: an enclosure to its building's site, a keeper to
+// the site of their first stint, a site to itself.
+func siteOf(set *records.Set) map[string]string {
+	m := map[string]string{}
+	bsite := map[string]string{}
+	for _, b := range set.Facility.Buildings {
+		bsite[b.ID] = b.WeatherSite
+	}
+	for _, e := range set.Enclosures {
+		if s := bsite[e.BuildingID]; s != "" {
+			m[e.ID] = s
+		}
+	}
+	for _, w := range set.Work {
+		if _, ok := m[w.StaffID]; !ok {
+			m[w.StaffID] = w.SiteID
+		}
+	}
+	for _, s := range set.Facility.WeatherSites {
+		m[s] = s
+	}
+	return m
 }

@@ -34,8 +34,8 @@ type Source struct {
 	FS   fs.FS
 }
 
-// EngineOptions tune policy evaluation. The zero value is usable.
-type EngineOptions struct {
+// Options tune policy evaluation. The zero value is usable.
+type Options struct {
 	// Timeout is the time budget of one policy evaluation for one subject
 	// (default 5s). User rules are untrusted, so a runaway loop must not hang
 	// an inspection.
@@ -64,14 +64,22 @@ func (e *RulesError) Error() string {
 	return strings.Join(e.Problems, "\n")
 }
 
-// Engine holds compiled welfare rules and one prepared query per rule
+// engine holds compiled welfare rules and one prepared query per rule
 // package. It is safe for concurrent use once built.
-type Engine struct {
-	opt      EngineOptions
+type engine struct {
+	opt      Options
 	checks   map[string]CheckInfo
 	sorted   []CheckInfo
 	kinds    map[string][]*packageQuery
 	override map[string]string // check id -> severity or "off", from data.limits.severity
+	files    []ruleFile        // the rule files compiled, in the order read
+}
+
+// ruleFile is one rule file as read: its source, its path in the source,
+// and its text.
+type ruleFile struct {
+	source, path string
+	data         []byte
 }
 
 // packageQuery is the prepared `findings` query of one rule package.
@@ -80,11 +88,11 @@ type packageQuery struct {
 	query rego.PreparedEvalQuery
 }
 
-// NewEngine parses and compiles the rules of sources (files ending in
+// newEngine parses and compiles the rules of sources (files ending in
 // _test.rego are left out), reads their METADATA, and prepares one query per
 // rule package. limits are available to the rules as data.limits. A problem
 // in the rules is returned as a *RulesError.
-func NewEngine(ctx context.Context, sources []Source, limits map[string]any, opt EngineOptions) (*Engine, error) {
+func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt Options) (*engine, error) {
 	if opt.Timeout <= 0 {
 		opt.Timeout = 5 * time.Second
 	}
@@ -95,7 +103,7 @@ func NewEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 	if err != nil {
 		return nil, err
 	}
-	modules, err := parseSources(sources, false)
+	modules, files, err := parseSources(sources, false)
 	if err != nil {
 		return nil, err
 	}
@@ -114,11 +122,12 @@ func NewEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 		return nil, err
 	}
 
-	e := &Engine{
+	e := &engine{
 		opt:      opt,
 		checks:   checks,
 		kinds:    map[string][]*packageQuery{},
 		override: override,
+		files:    files,
 	}
 	for _, c := range checks {
 		e.sorted = append(e.sorted, c)
@@ -146,7 +155,7 @@ func NewEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 }
 
 // Checks lists the metadata of every check the rules define, sorted by id.
-func (e *Engine) Checks() []CheckInfo {
+func (e *engine) Checks() []CheckInfo {
 	out := make([]CheckInfo, len(e.sorted))
 	for i, c := range e.sorted {
 		c.Needs = slices.Clone(c.Needs)
@@ -157,7 +166,7 @@ func (e *Engine) Checks() []CheckInfo {
 }
 
 // Kinds lists the subject kinds at least one rule package receives, sorted.
-func (e *Engine) Kinds() []string {
+func (e *engine) Kinds() []string {
 	var out []string
 	for k := range e.kinds {
 		out = append(out, k)
@@ -209,13 +218,14 @@ func newCompiler(caps *ast.Capabilities) *ast.Compiler {
 
 // parseSources reads every .rego file of sources. With tests false, files
 // ending in _test.rego are skipped; with true they are included.
-func parseSources(sources []Source, tests bool) (map[string]*ast.Module, error) {
+func parseSources(sources []Source, tests bool) (map[string]*ast.Module, []ruleFile, error) {
 	modules := map[string]*ast.Module{}
+	var files []ruleFile
 	var problems []string
 	opts := ast.ParserOptions{ProcessAnnotation: true, RegoVersion: ast.RegoV1}
 	for _, src := range sources {
 		if src.FS == nil {
-			return nil, fmt.Errorf("rules source %q has no files", src.Name)
+			return nil, nil, fmt.Errorf("rules source %q has no files", src.Name)
 		}
 		err := fs.WalkDir(src.FS, ".", func(p string, d fs.DirEntry, err error) error {
 			if err != nil {
@@ -239,6 +249,7 @@ func parseSources(sources []Source, tests bool) (map[string]*ast.Module, error) 
 			if err != nil {
 				return err
 			}
+			files = append(files, ruleFile{source: src.Name, path: p, data: b})
 			m, err := ast.ParseModuleWithOpts(name, string(b), opts)
 			if err != nil {
 				problems = append(problems, formatASTErrors(err)...)
@@ -252,13 +263,13 @@ func parseSources(sources []Source, tests bool) (map[string]*ast.Module, error) 
 			return nil
 		})
 		if err != nil {
-			return nil, fmt.Errorf("reading rules %s: %w", src.Name, err)
+			return nil, nil, fmt.Errorf("reading rules %s: %w", src.Name, err)
 		}
 	}
 	if len(problems) > 0 {
-		return nil, &RulesError{Problems: problems}
+		return nil, nil, &RulesError{Problems: problems}
 	}
-	return modules, nil
+	return modules, files, nil
 }
 
 func formatASTErrors(err error) []string {
@@ -579,7 +590,7 @@ func stringKeys(v any) any {
 // in parallel, each evaluation under the time budget. It returns the
 // findings of this call, runs collapsed, sorted by domain, check, subject
 // and day.
-func (e *Engine) Evaluate(ctx context.Context, kind string, inputs []map[string]any) ([]Finding, error) {
+func (e *engine) Evaluate(ctx context.Context, kind string, inputs []map[string]any) ([]Finding, error) {
 	if !slices.Contains(SubjectKinds, kind) {
 		return nil, fmt.Errorf("unknown subject kind %q (known: %s)", kind, strings.Join(SubjectKinds, ", "))
 	}
@@ -641,7 +652,7 @@ func inputSubject(input map[string]any) string {
 	return "(no id)"
 }
 
-func (e *Engine) evaluateOne(ctx context.Context, queries []*packageQuery, input map[string]any) ([]Finding, error) {
+func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, input map[string]any) ([]Finding, error) {
 	subject := inputSubject(input)
 	val, err := ast.InterfaceToValue(input)
 	if err != nil {
@@ -697,7 +708,7 @@ var findingKeys = map[string]bool{
 
 // toFinding converts one object of a findings set. keep is false when the
 // limits turn the check off.
-func (e *Engine) toFinding(raw any) (f Finding, keep bool, err error) {
+func (e *engine) toFinding(raw any) (f Finding, keep bool, err error) {
 	obj, ok := raw.(map[string]any)
 	if !ok {
 		return f, false, errors.New("is not an object")

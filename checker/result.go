@@ -2,6 +2,7 @@ package checker
 
 import (
 	"welfare/records"
+	"welfare/rules"
 )
 
 // Result is everything one check run found, and everything a report needs to
@@ -21,6 +22,9 @@ type Result struct {
 	Limits []LimitLine `json:"-"`
 	// Care is the share of occupied enclosure-days with complete care records.
 	Care CareCoverage `json:"care_coverage"`
+	// SiteOf maps the subject of a cold finding (an enclosure, a keeper or a
+	// weather site) to the weather site whose chart it belongs on.
+	SiteOf map[string]string `json:"-"`
 	// Weather is the daily cold summary per weather site, for the cold-season chart.
 	Weather []SiteDays `json:"-"`
 	// ColdLines are the wind chills the cold checks compared against (from
@@ -39,12 +43,8 @@ type Period struct {
 	To   records.Day `json:"to"`
 }
 
-// LimitLine is one value of the limits file: "cold.bedding_days = 7  [F] ...".
-type LimitLine struct {
-	Key    string `json:"key"`
-	Value  string `json:"value"`
-	Source string `json:"source"`
-}
+// LimitLine is one value of the limits in force (see rules.Limits.Lines).
+type LimitLine = rules.LimitLine
 
 // CareCoverage counts occupied enclosure-days and those with complete care
 // records (an observed round and a feeding recorded).

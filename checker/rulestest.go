@@ -16,14 +16,14 @@ import (
 // evaluation's default budget.
 const testTimeout = 5 * time.Second
 
-// RunTests runs the Rego tests (files ending in _test.rego) of sources
+// runTests runs the Rego tests (files ending in _test.rego) of sources
 // together with the rules they test, under the same sandbox as NewEngine
 // and with limits as data.limits. It writes one PASS, FAIL or SKIP line per
 // test to w, in file order, then a summary; verbose adds each test's print
 // output and duration. A rule set that does not parse or compile is
 // returned as a *RulesError; failing tests are counted, not returned.
-func RunTests(ctx context.Context, sources []Source, limits map[string]any, w io.Writer, verbose bool) (passed, failed int, err error) {
-	modules, err := parseSources(sources, true)
+func runTests(ctx context.Context, sources []Source, limits map[string]any, w io.Writer, verbose bool) (passed, failed int, err error) {
+	modules, _, err := parseSources(sources, true)
 	if err != nil {
 		return 0, 0, err
 	}

@@ -22,6 +22,10 @@ type Limits struct {
 	Protocol  ProtoLim  `yaml:"protocol" json:"protocol"`
 	Cold      Cold      `yaml:"cold" json:"cold"`
 	Juveniles Juveniles `yaml:"juveniles" json:"juveniles"`
+
+	// name and src are the file and text ParseLimits read.
+	name string
+	src  []byte
 }
 
 // Species is one species profile.

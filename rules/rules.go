@@ -36,14 +36,12 @@ func DefaultLimits() []byte {
 	return b
 }
 
-// LoadLimits decodes and validates a limits file strictly: an unknown key,
-// a value of the wrong type or out of range is a *records.LoadError naming
-// the file, the line and the key, as facility.yaml problems are.
-func LoadLimits(r io.Reader, name string) (*Limits, error) {
-	src, err := io.ReadAll(r)
-	if err != nil {
-		return nil, &records.LoadError{File: name, Reason: "cannot be read: " + err.Error(), Err: err}
-	}
+// ParseLimits decodes and validates the limits file src, read from name,
+// strictly: an unknown key, a value of the wrong type or out of range is a
+// *records.LoadError naming the file, the line and the key, as
+// facility.yaml problems are. The limits keep their text, for the report's
+// "limits in force" (Lines) and the run's fingerprint (Source).
+func ParseLimits(name string, src []byte) (*Limits, error) {
 	var l Limits
 	doc, err := records.DecodeYAML(name, src, &l)
 	if err != nil {
@@ -52,8 +50,30 @@ func LoadLimits(r io.Reader, name string) (*Limits, error) {
 	if key, reason := validateLimits(&l); reason != "" {
 		return nil, &records.LoadError{File: name, Line: records.KeyLine(doc, key), Column: key, Reason: reason}
 	}
+	l.name, l.src = name, src
 	return &l, nil
 }
+
+// LoadLimits is ParseLimits on the text read from r.
+func LoadLimits(r io.Reader, name string) (*Limits, error) {
+	src, err := io.ReadAll(r)
+	if err != nil {
+		return nil, &records.LoadError{File: name, Reason: "cannot be read: " + err.Error(), Err: err}
+	}
+	return ParseLimits(name, src)
+}
+
+// Default parses the shipped limits.yaml.
+func Default() (*Limits, error) {
+	return ParseLimits("limits.yaml (built in)", DefaultLimits())
+}
+
+// Name is the file the limits were read from.
+func (l *Limits) Name() string { return l.name }
+
+// Source is the text the limits were parsed from (nil for limits built in
+// Go), the bytes a check's fingerprint covers.
+func (l *Limits) Source() []byte { return l.src }
 
 var (
 	checkIDRe = regexp.MustCompile(`^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*)+$`)
@@ -129,7 +149,8 @@ func describe(fe validator.FieldError) string {
 }
 
 // Data returns the limits as the plain JSON document the rules read as
-// data.limits (map keys are strings, numbers are float64).
+// data.limits (map keys are strings, numbers are float64): the one
+// conversion of the limits for Rego.
 func (l *Limits) Data() (map[string]any, error) {
 	b, err := json.Marshal(l)
 	if err != nil {

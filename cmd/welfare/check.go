@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"slices"
 	"strings"
 	"time"
 
@@ -88,26 +89,19 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if err != nil {
 		return err
 	}
-	engine, err := checker.NewEngine(ctx, sources, lim.data, checker.EngineOptions{Timeout: o.timeoutPerEval})
+	policy, err := checker.Compile(ctx, lim, sources, checker.Options{Timeout: o.timeoutPerEval})
 	if err != nil {
 		return err
 	}
-	only, err := parseOnly(o.only, engine.Checks())
+	only, err := parseOnly(o.only, policy.Domains())
 	if err != nil {
 		return err
 	}
-	fsys, set, err := loadRecords(dir, lim)
+	fsys, err := recordsFolder(dir)
 	if err != nil {
 		return err
 	}
-	fp, err := checker.Fingerprint(fsys, sources, lim.src)
-	if err != nil {
-		return err
-	}
-	res, err := checker.Check(ctx, checker.Config{
-		Records: set, Limits: lim.limits, LimitsSource: lim.src, Engine: engine,
-		Period: period, Only: only, Fingerprint: fp,
-	})
+	res, err := policy.Check(ctx, fsys, period, only)
 	if err != nil {
 		return err
 	}
@@ -127,7 +121,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		{o.jsonOut, func(w io.Writer) error { return reports.WriteJSON(w, res) }},
 		{o.csvOut, func(w io.Writer) error { return reports.WriteCSV(w, res) }},
 		{o.pdfOut, func(w io.Writer) error {
-			return reports.WritePDF(w, res, reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: siteOf(set)})
+			return reports.WritePDF(w, res, reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: res.SiteOf})
 		}},
 	}
 	for _, out := range outputs {
@@ -164,31 +158,6 @@ func writeFile(path string, write func(io.Writer) error) error {
 		return fmt.Errorf("%s: %w", path, err)
 	}
 	return f.Close()
-}
-
-// siteOf maps the subjects of cold findings to the weather site whose
-// chart they belong on: an enclosure to its building's site, a keeper to
-// the site of their stints, a site to itself.
-func siteOf(set *records.Set) map[string]string {
-	m := map[string]string{}
-	bsite := map[string]string{}
-	for _, b := range set.Facility.Buildings {
-		bsite[b.ID] = b.WeatherSite
-	}
-	for _, e := range set.Enclosures {
-		if s := bsite[e.BuildingID]; s != "" {
-			m[e.ID] = s
-		}
-	}
-	for _, w := range set.Work {
-		if _, ok := m[w.StaffID]; !ok {
-			m[w.StaffID] = w.SiteID
-		}
-	}
-	for _, s := range set.Facility.WeatherSites {
-		m[s] = s
-	}
-	return m
 }
 
 func failOnRank(s string) (int, error) {
@@ -236,22 +205,14 @@ func parsePeriod(o *checkOpts) (checker.Period, error) {
 
 // parseOnly checks --only against the domains of the rules in force, so a
 // committee's own package is as selectable as the shipped ones.
-func parseOnly(s string, checks []checker.CheckInfo) ([]string, error) {
+func parseOnly(s string, names []string) ([]string, error) {
 	if s == "" {
 		return nil, nil
-	}
-	known := map[string]bool{}
-	var names []string
-	for _, c := range checks {
-		if !known[c.Domain] {
-			known[c.Domain] = true
-			names = append(names, c.Domain)
-		}
 	}
 	var out []string
 	for _, d := range strings.Split(s, ",") {
 		d = strings.TrimSpace(d)
-		if !known[d] {
+		if !slices.Contains(names, d) {
 			return nil, usagef("--only: %q is not a domain of the rules in force (%s)", d, strings.Join(names, ", "))
 		}
 		out = append(out, d)

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"fmt"
 	"io/fs"
 	"os"
@@ -12,32 +11,16 @@ import (
 	"welfare/rules"
 )
 
-// limitsIn is the limits in force and the text they came from.
-type limitsIn struct {
-	limits *rules.Limits
-	src    []byte
-	data   map[string]any
-}
-
 // loadLimits reads --limits FILE, or the shipped defaults when empty.
-func loadLimits(path string) (*limitsIn, error) {
-	src, name := rules.DefaultLimits(), "limits.yaml (built in)"
-	if path != "" {
-		b, err := os.ReadFile(path)
-		if err != nil {
-			return nil, fmt.Errorf("limits: %w", err)
-		}
-		src, name = b, path
+func loadLimits(path string) (*rules.Limits, error) {
+	if path == "" {
+		return rules.Default()
 	}
-	l, err := rules.LoadLimits(bytes.NewReader(src), name)
+	b, err := os.ReadFile(path)
 	if err != nil {
-		return nil, err
+		return nil, fmt.Errorf("limits: %w", err)
 	}
-	data, err := l.Data()
-	if err != nil {
-		return nil, err
-	}
-	return &limitsIn{limits: l, src: src, data: data}, nil
+	return rules.ParseLimits(path, b)
 }
 
 // ruleSources are the shipped rules (unless rulesOnly) plus each --rules DIR.
@@ -62,17 +45,25 @@ func ruleSources(dirs []string, rulesOnly bool) ([]checker.Source, error) {
 	return out, nil
 }
 
-// loadRecords reads a records folder with the species of the limits in force.
-func loadRecords(dir string, lim *limitsIn) (fs.FS, *records.Set, error) {
+// recordsFolder opens a records folder for reading.
+func recordsFolder(dir string) (fs.FS, error) {
 	st, err := os.Stat(dir)
 	if err != nil {
-		return nil, nil, fmt.Errorf("records folder: %w", err)
+		return nil, fmt.Errorf("records folder: %w", err)
 	}
 	if !st.IsDir() {
-		return nil, nil, fmt.Errorf("records folder: %s is not a folder", dir)
+		return nil, fmt.Errorf("records folder: %s is not a folder", dir)
 	}
-	fsys := os.DirFS(dir)
-	set, err := records.Load(fsys, records.Options{Species: lim.limits.SpeciesCodes()})
+	return os.DirFS(dir), nil
+}
+
+// loadRecords reads a records folder with the species of the limits in force.
+func loadRecords(dir string, lim *rules.Limits) (fs.FS, *records.Set, error) {
+	fsys, err := recordsFolder(dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	set, err := records.Load(fsys, records.Options{Species: lim.SpeciesCodes()})
 	if err != nil {
 		return nil, nil, err
 	}

@@ -49,25 +49,27 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		return err
 	}
 	switch verb {
-	case "list":
-		engine, err := checker.NewEngine(ctx, sources, lim.data, checker.EngineOptions{})
-		if err != nil {
-			return err
-		}
-		printChecks(stdout, engine.Checks(), lim.limits.Severity)
-		return nil
-	case "test":
-		// RunTests prints each test and the closing "N passed, M failed".
-		_, failed, err := checker.RunTests(ctx, sources, lim.data, stdout, o.verbose)
-		if err != nil {
-			return err
-		}
-		if failed > 0 {
-			return errFindings
-		}
+	case "list", "test":
+	default:
+		return usagef("rules: unknown verb %q (list or test)", verb)
+	}
+	policy, err := checker.Compile(ctx, lim, sources, checker.Options{})
+	if err != nil {
+		return err
+	}
+	if verb == "list" {
+		printChecks(stdout, policy.Checks(), lim.Severity)
 		return nil
 	}
-	return usagef("rules: unknown verb %q (list or test)", verb)
+	// Test prints each test and the closing "N passed, M failed".
+	_, failed, err := policy.Test(ctx, stdout, o.verbose)
+	if err != nil {
+		return err
+	}
+	if failed > 0 {
+		return errFindings
+	}
+	return nil
 }
 
 func printChecks(w io.Writer, checks []checker.CheckInfo, overrides map[string]string) {
