@@ -49,14 +49,14 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 	}
 
 	res := &Result{
-		Facility:    set.Facility.Name,
-		Period:      p,
-		Accounting:  set.Accounting,
-		Warnings:    set.Warnings,
-		Checks:      cfg.Engine.Checks(),
-		Care:        f.coverage,
-		SiteOf:      siteOf(set),
-		Weather:     f.weather,
+		Facility:   set.Facility.Name,
+		Period:     p,
+		Accounting: set.Accounting,
+		Warnings:   set.Warnings,
+		Checks:     cfg.Engine.Checks(),
+		Care:       f.coverage,
+		SiteOf:     siteOf(set),
+		Weather:    f.weather,
 		ColdLines: ColdLines{Bedding: cfg.Limits.Cold.BeddingWindChill, Shelter: cfg.Limits.Cold.ShelterWindChill,
 			Frostbite: cfg.Limits.Cold.FrostbiteWindChill},
 	}
