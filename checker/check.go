@@ -44,8 +44,8 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		return nil, fmt.Errorf("the period ends (%s) before it starts (%s)", p.To, p.From)
 	}
 	f := newFacts(set, cfg.Limits, p)
-	for _, add := range domainFacts {
-		add(f)
+	for _, d := range domains {
+		d.facts(f)
 	}
 
 	res := &Result{
@@ -105,15 +105,6 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		res.Findings = []Finding{}
 	}
 	return res, nil
-}
-
-// domainFacts are the fact builders, one per domain, run in order. Each adds
-// its sections to the subjects' documents. Domains in other files add
-// theirs in an init func.
-var domainFacts = []func(*facts){
-	(*facts).enclosureFacts,
-	(*facts).careFacts,
-	(*facts).recordsFacts,
 }
 
 // recordSpan is the first and last day of the facility's event records

@@ -554,20 +554,3 @@ findings contains f if {
 	// Output:
 	// hygiene.cleaning.missed B1-03 2026-01-12 minor [daily_care.csv:40]
 }
-
-func TestEngineLimitsFromYAMLMaps(t *testing.T) {
-	// YAML decoders may give map[any]any for tables with non-string keys;
-	// the rules must still see them as data.limits objects.
-	limits := map[string]any{"cold": map[any]any{"frostbite_wind_chill_c": -28, 16: "km/h column"}}
-	e := engNew(t, engBasic(), limits, checker.EngineOptions{})
-	site := map[string]any{"id": "S-1", "runs": []any{
-		map[string]any{"from": "2026-01-10", "to": "2026-01-10", "min_wind_chill_c": -30, "refs": []any{}},
-	}}
-	fs, err := e.Evaluate(context.Background(), "site", []map[string]any{site})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if len(fs) != 1 || fs[0].Check != "cold.frostbite.risk" {
-		t.Errorf("findings = %+v, want one cold.frostbite.risk", fs)
-	}
-}

@@ -9,7 +9,6 @@ import (
 	"welfare/rules"
 )
 
-func init() { domainFacts = append(domainFacts, (*facts).staffFacts) }
 
 // staffDay gathers what one person did on one day. Every fact about a person
 // (training, vaccination, fit test, employment) is a property of the day,

@@ -38,10 +38,7 @@ func runTests(ctx context.Context, sources []Source, limits map[string]any, w io
 	if _, _, err := readMetadata(rulesOnly); err != nil {
 		return 0, 0, err
 	}
-	store, err := limitsStore(limits)
-	if err != nil {
-		return 0, 0, err
-	}
+	store := limitsStore(limits)
 	// print output is shown for failing tests (and all tests when
 	// verbose); the engine itself drops print calls.
 	compiler := newCompiler(sandboxCapabilities()).WithEnablePrintStatements(true)

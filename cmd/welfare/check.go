@@ -38,7 +38,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.from, "from", "", "first `DAY` of the period (YYYY-MM-DD; default: the first dated record)")
 	fs.StringVar(&o.to, "to", "", "last `DAY` of the period (default: the last dated record)")
 	fs.StringVar(&o.on, "on", "", "check one `DAY` and print the morning view (sites' cold, problems to fix now)")
-	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report (records, care, enclosure, handling, staff, ppe, protocol, cull, cold, or a committee's own)")
+	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report ("+strings.Join(checker.Domains(), ", ")+", or a committee's own)")
 	fs.StringVar(&o.limits, "limits", "", "limits `FILE` (replaces the built-in limits; see 'welfare limits show')")
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
 	fs.BoolVar(&o.rulesOnly, "rules-only", false, "use only the --rules folders, not the built-in rules")

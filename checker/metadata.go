@@ -1,0 +1,226 @@
+package checker
+
+import (
+	"errors"
+	"fmt"
+	"regexp"
+	"slices"
+	"sort"
+	"strings"
+
+	"github.com/open-policy-agent/opa/v1/ast"
+)
+
+// rulePackage is one package under welfare that defines findings.
+type rulePackage struct {
+	name     string
+	subjects []string
+}
+
+var checkIDPattern = regexp.MustCompile(`^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*){1,3}$`)
+
+// readMetadata finds the rule packages and their checks in the compiled
+// modules and validates their METADATA.
+func readMetadata(modules map[string]*ast.Module) ([]rulePackage, map[string]CheckInfo, error) {
+	var problems []string
+	at := func(loc *ast.Location, format string, args ...any) {
+		msg := fmt.Sprintf(format, args...)
+		if loc != nil {
+			msg = fmt.Sprintf("%s:%d:%d: %s", loc.File, loc.Row, loc.Col, msg)
+		}
+		problems = append(problems, msg)
+	}
+
+	// Modules in file order, so messages and "first definition" are stable.
+	files := make([]string, 0, len(modules))
+	for f := range modules {
+		files = append(files, f)
+	}
+	sort.Strings(files)
+
+	type pkgState struct {
+		firstLoc     *ast.Location // package line of the first file that defines findings
+		hasFindings  bool
+		subjects     []string
+		subjectsLoc  *ast.Location
+		subjectsSeen bool
+	}
+	pkgs := map[string]*pkgState{}
+	var order []string
+	checks := map[string]CheckInfo{}
+
+	for _, f := range files {
+		m := modules[f]
+		name := strings.TrimPrefix(m.Package.Path.String(), "data.")
+		if !strings.HasPrefix(name, "welfare.") {
+			continue
+		}
+		st := pkgs[name]
+		if st == nil {
+			st = &pkgState{}
+			pkgs[name] = st
+			order = append(order, name)
+		}
+		for _, a := range m.Annotations {
+			if a.Scope != "package" {
+				continue
+			}
+			raw, ok := a.Custom["subjects"]
+			if !ok {
+				continue
+			}
+			subjects, err := metaStrings(raw)
+			if err != nil || len(subjects) == 0 {
+				at(a.Location, "package %s: custom.subjects must be a non-empty list of subject kinds (%s)", name, strings.Join(SubjectKinds, ", "))
+				continue
+			}
+			for _, s := range subjects {
+				if !slices.Contains(SubjectKinds, s) {
+					at(a.Location, "package %s: unknown subject kind %q in custom.subjects (known: %s)", name, s, strings.Join(SubjectKinds, ", "))
+				}
+			}
+			if st.subjectsSeen && !slices.Equal(st.subjects, subjects) {
+				at(a.Location, "package %s: custom.subjects %v differs from %v given at %s", name, subjects, st.subjects, regoLoc(st.subjectsLoc))
+				continue
+			}
+			st.subjects, st.subjectsLoc, st.subjectsSeen = subjects, a.Location, true
+		}
+		for _, r := range m.Rules {
+			if r.Head.Ref()[0].Value.Compare(ast.Var("findings")) == 0 && !st.hasFindings {
+				st.hasFindings = true
+				st.firstLoc = m.Package.Location
+			}
+			for _, a := range r.Annotations {
+				if a.Scope != "rule" {
+					continue
+				}
+				info, ok := metaCheck(a, name, f, at)
+				if !ok {
+					continue
+				}
+				if prev, dup := checks[info.ID]; dup {
+					if prev.Package != info.Package {
+						at(a.Location, "check %s is already defined in package %s (%s)", info.ID, prev.Package, prev.File)
+					} else if !sameCheck(prev, info) {
+						at(a.Location, "check %s has two different METADATA blocks in package %s", info.ID, name)
+					}
+					continue
+				}
+				checks[info.ID] = info
+			}
+		}
+	}
+
+	var out []rulePackage
+	for _, name := range order {
+		st := pkgs[name]
+		if !st.hasFindings {
+			continue
+		}
+		if !st.subjectsSeen {
+			at(st.firstLoc, "package %s defines findings but has no package METADATA with custom.subjects (one or more of %s)", name, strings.Join(SubjectKinds, ", "))
+			continue
+		}
+		out = append(out, rulePackage{name: name, subjects: st.subjects})
+	}
+	for id, c := range checks {
+		for _, p := range out {
+			if p.name == c.Package {
+				c.Subjects = slices.Clone(p.subjects)
+				checks[id] = c
+			}
+		}
+	}
+	if len(problems) > 0 {
+		return nil, nil, &RulesError{Problems: problems}
+	}
+	return out, checks, nil
+}
+
+// checkInfo reads one rule METADATA block; ok is false when the block names
+// no check (a helper rule's documentation) or is invalid (reported via at).
+func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, string, ...any)) (CheckInfo, bool) {
+	raw, has := a.Custom["id"]
+	if !has {
+		return CheckInfo{}, false
+	}
+	id, _ := raw.(string)
+	if !checkIDPattern.MatchString(id) {
+		at(a.Location, "custom.id %v is not a check id of the form domain.topic.problem (or domain.problem)", raw)
+		return CheckInfo{}, false
+	}
+	info := CheckInfo{
+		ID:          id,
+		Domain:      strings.SplitN(id, ".", 2)[0],
+		Title:       a.Title,
+		Description: a.Description,
+		Package:     pkg,
+		File:        file,
+	}
+	good := true
+	if info.Title == "" {
+		at(a.Location, "check %s: METADATA needs a title", id)
+		good = false
+	}
+	if info.Description == "" {
+		at(a.Location, "check %s: METADATA needs a description", id)
+		good = false
+	}
+	sev, _ := a.Custom["severity"].(string)
+	if Severity(sev).Rank() == 0 {
+		at(a.Location, "check %s: custom.severity must be significant, minor or note, not %v", id, a.Custom["severity"])
+		good = false
+	}
+	info.Severity = Severity(sev)
+	src, _ := a.Custom["source"].(string)
+	if strings.TrimSpace(src) == "" {
+		at(a.Location, "check %s: METADATA needs custom.source (a published source, common practice or facility choice)", id)
+		good = false
+	}
+	info.Source = src
+	if r, has := a.Custom["runs"]; has {
+		b, isBool := r.(bool)
+		if !isBool {
+			at(a.Location, "check %s: custom.runs must be true or false, not %v", id, r)
+			good = false
+		}
+		info.Runs = b
+	}
+	if n, has := a.Custom["needs"]; has {
+		needs, err := metaStrings(n)
+		if err != nil {
+			at(a.Location, "check %s: custom.needs must be a list of record file names", id)
+			good = false
+		}
+		info.Needs = needs
+	}
+	return info, good
+}
+
+func sameCheck(a, b CheckInfo) bool {
+	return a.Title == b.Title && a.Description == b.Description && a.Severity == b.Severity &&
+		a.Source == b.Source && a.Runs == b.Runs && slices.Equal(a.Needs, b.Needs)
+}
+
+func metaStrings(v any) ([]string, error) {
+	list, ok := v.([]any)
+	if !ok {
+		return nil, errors.New("not a list")
+	}
+	out := make([]string, 0, len(list))
+	for _, x := range list {
+		s, ok := x.(string)
+		if !ok || s == "" {
+			return nil, errors.New("not a list of names")
+		}
+		out = append(out, s)
+	}
+	return out, nil
+}
+
+func regoLoc(l *ast.Location) string {
+	if l == nil {
+		return "?"
+	}
+	return fmt.Sprintf("%s:%d:%d", l.File, l.Row, l.Col)
+}
