@@ -9,9 +9,9 @@ import (
 	"sort"
 	"time"
 
+	"github.com/open-policy-agent/opa/v1/rego"
 	"github.com/open-policy-agent/opa/v1/storage"
 	"github.com/open-policy-agent/opa/v1/storage/inmem"
-	"github.com/open-policy-agent/opa/v1/rego"
 )
 
 // Options tune policy evaluation. The zero value is usable.

@@ -26,7 +26,6 @@ import (
 // carries its figures (unrounded wind chill, air temperature, counts) so the
 // rules compare them against data.limits again and word the message.
 
-
 // siteWeather is one weather site's readings and daily minima.
 type siteWeather struct {
 	id       string

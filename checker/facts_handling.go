@@ -4,7 +4,6 @@ import (
 	"welfare/records"
 )
 
-
 // handlingFacts adds to each handled animal's document its "handling"
 // section: one entry per handling row of the period, with what the row
 // recorded. The rules judge it against the species' bite risk and the

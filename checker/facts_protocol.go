@@ -6,7 +6,6 @@ import (
 	"welfare/records"
 )
 
-
 // maxOverRefs caps the evidence of protocol.animals.exceeded: the message
 // gives the full count, and a report does not need a thousand row numbers.
 const maxOverRefs = 10

@@ -9,7 +9,6 @@ import (
 	"welfare/rules"
 )
 
-
 // staffDay gathers what one person did on one day. Every fact about a person
 // (training, vaccination, fit test, employment) is a property of the day,
 // not of the row, so a keeper who handled forty foxes on one day gets one
