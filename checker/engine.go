@@ -77,7 +77,11 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 		return nil, err
 	}
 	caps := sandboxCapabilities()
-	compiler := newCompiler(caps)
+	schemas, err := typeInputs(modules)
+	if err != nil {
+		return nil, err
+	}
+	compiler := newCompiler(caps).WithSchemas(schemas).WithUseTypeCheckAnnotations(true)
 	compiler.Compile(modules)
 	if compiler.Failed() {
 		return nil, compileError(compiler.Errors)

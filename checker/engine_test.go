@@ -516,7 +516,9 @@ func BenchmarkEvaluate10kSubjects(b *testing.B) {
 func ExampleEngine_Evaluate() {
 	rules := fstest.MapFS{"clean.rego": {Data: []byte(`# METADATA
 # title: Hygiene
-# description: Enclosure cleaning.
+# description: Enclosure cleaning, judged on hand-made documents.
+# schemas:
+#   - input: {type: object}
 # scope: package
 # custom:
 #   subjects: [enclosure]
@@ -553,4 +555,45 @@ findings contains f if {
 	}
 	// Output:
 	// hygiene.cleaning.missed B1-03 2026-01-12 minor [daily_care.csv:40]
+}
+
+// TestRuleReadingAFieldTheInputLacksFailsToCompile: a committee's typo in an
+// input field is a compile error at the rule's file, row and column, not a
+// rule that silently never fires. The enclosure input has care.unobserved
+// (rules/schemas/enclosure.json); "unobsrved" is not in it.
+func TestRuleReadingAFieldTheInputLacksFailsToCompile(t *testing.T) {
+	body := "findings contains f if {\n\tsome r in input.care.unobsrved\n" +
+		"\tf := {\"check\": \"sandbox.probe.fired\", \"subject\": input.id, \"on\": r.from, \"message\": \"m\", \"evidence\": []}\n}\n"
+	tests := []struct {
+		name, header string
+		want         string
+	}{
+		{"one kind", engHeader, "user/typo.rego:17:12: undefined ref: input.care.unobsrved"},
+		{"several kinds", strings.Replace(engHeader, "[enclosure]", "[site, enclosure, staff]", 1),
+			"user/typo.rego:17:12: undefined ref: input.care.unobsrved"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			files := map[string]string{"typo.rego": tt.header + body}
+			_, err := checker.NewEngine(context.Background(), engUser(files), nil, checker.EngineOptions{})
+			var rerr *checker.RulesError
+			if !errors.As(err, &rerr) {
+				t.Fatalf("error = %v (%T), want a *checker.RulesError", err, err)
+			}
+			if !strings.HasPrefix(err.Error(), tt.want) {
+				t.Errorf("error = %q, want it to start with %q", err, tt.want)
+			}
+			// The rule's own tests stop at the same place.
+			var out strings.Builder
+			_, _, err = checker.RunTests(context.Background(), engUser(files), nil, &out, false)
+			if err == nil || !strings.HasPrefix(err.Error(), tt.want) {
+				t.Errorf("rule tests: error = %v, want it to start with %q", err, tt.want)
+			}
+			// Spelt right, the same rule compiles.
+			fixed := map[string]string{"typo.rego": tt.header + strings.Replace(body, "unobsrved", "unobserved", 1)}
+			if _, err := checker.NewEngine(context.Background(), engUser(fixed), nil, checker.EngineOptions{}); err != nil {
+				t.Errorf("the corrected rule does not compile: %v", err)
+			}
+		})
+	}
 }

@@ -41,7 +41,13 @@ func runTests(ctx context.Context, sources []Source, limits map[string]any, w io
 	store := limitsStore(limits)
 	// print output is shown for failing tests (and all tests when
 	// verbose); the engine itself drops print calls.
-	compiler := newCompiler(sandboxCapabilities()).WithEnablePrintStatements(true)
+	// The rules under test are typed as they are for a check.
+	schemas, err := typeInputs(modules)
+	if err != nil {
+		return 0, 0, err
+	}
+	compiler := newCompiler(sandboxCapabilities()).WithEnablePrintStatements(true).
+		WithSchemas(schemas).WithUseTypeCheckAnnotations(true)
 	runner := tester.NewRunner().
 		SetCompiler(compiler).
 		SetStore(store).

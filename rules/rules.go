@@ -19,7 +19,7 @@ import (
 	"welfare/records"
 )
 
-//go:embed *.rego limits.yaml
+//go:embed *.rego limits.yaml schemas/*.json
 var shipped embed.FS
 
 // FS returns the shipped rules: the .rego policies with their _test.rego

@@ -5,9 +5,11 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strings"
 	"text/tabwriter"
 
 	"welfare/checker"
+	"welfare/rules"
 )
 
 type rulesOpts struct {
@@ -31,9 +33,12 @@ func rulesFlags(name string) (*flag.FlagSet, *rulesOpts) {
 // welfare committee does before it trusts an edited rule.
 func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	if len(args) == 0 {
-		return usagef("rules needs list or test")
+		return usagef("rules needs list, test or input")
 	}
 	verb := args[0]
+	if verb == "input" {
+		return printInput(args[1:], stdout)
+	}
 	fs, o := rulesFlags("rules")
 	if err := parseFlags(fs, args[1:], stdout); err != nil {
 		return err
@@ -51,7 +56,7 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 	switch verb {
 	case "list", "test":
 	default:
-		return usagef("rules: unknown verb %q (list or test)", verb)
+		return usagef("rules: unknown verb %q (list, test or input)", verb)
 	}
 	policy, err := checker.Compile(ctx, lim, sources, checker.Options{})
 	if err != nil {
@@ -84,4 +89,26 @@ func printChecks(w io.Writer, checks []checker.CheckInfo, overrides map[string]s
 	}
 	tw.Flush()
 	fmt.Fprintln(w, "\nSources marked 'from memory' are to be verified against the current text before relying on them.")
+}
+
+// printInput prints the input document of one subject kind as a table: the
+// fields a committee's rule can read, from the schema the compiler checks
+// rules against.
+func printInput(args []string, w io.Writer) error {
+	if len(args) != 1 {
+		return usagef("rules input needs one subject KIND (%s)", strings.Join(rules.InputKinds(), ", "))
+	}
+	s, err := rules.InputSchema(args[0])
+	if err != nil {
+		return usagef("rules input: %v", err)
+	}
+	fmt.Fprintf(w, "input (%s): %s\n\n", args[0], s.Description)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "field\ttype\tmeaning")
+	for _, f := range s.Fields() {
+		fmt.Fprintf(tw, "input.%s\t%s\t%s\n", f.Path, f.Type, f.Description)
+	}
+	tw.Flush()
+	fmt.Fprintln(w, "\nA list's entries are written NAME[]; a map's keys {KEY}. A rule that reads a field not listed here does not compile.")
+	return nil
 }
