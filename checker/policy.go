@@ -98,3 +98,12 @@ func (p *Policy) Test(ctx context.Context, w io.Writer, verbose bool) (passed, f
 	}
 	return runTests(ctx, p.sources, data, w, verbose)
 }
+
+// RuleTests runs the same tests as Test and returns one result per test.
+func (p *Policy) RuleTests(ctx context.Context) ([]RuleTest, error) {
+	data, err := p.limits.Data()
+	if err != nil {
+		return nil, fmt.Errorf("limits: %w", err)
+	}
+	return ruleTests(ctx, p.sources, data)
+}
