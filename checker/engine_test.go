@@ -167,6 +167,21 @@ func TestNewEngineRulesErrors(t *testing.T) {
 			want: []string{"user/b.rego:9:1: check sandbox.probe.fired is already defined in package welfare.sandbox (user/a.rego)"},
 		},
 		{
+			name: "finding with another package's check",
+			files: map[string]string{
+				"a.rego": engHeader + "findings contains \"x\" if false\n",
+				"b.rego": strings.Replace(strings.Replace(engHeader, "welfare.sandbox", "welfare.other", 1), "sandbox.probe.fired", "other.probe.fired", 1) +
+					"findings contains f if {\n\tf := {\"check\": \"sandbox.probe.fired\", \"subject\": input.id}\n}\n",
+			},
+			want: []string{"user/b.rego:17:17: check sandbox.probe.fired belongs to package welfare.sandbox (user/a.rego), not welfare.other"},
+		},
+		{
+			name: "finding with a check nobody defines",
+			files: map[string]string{"none.rego": engHeader +
+				"findings contains f if {\n\tf := {\"check\": \"sandbox.probe.typo\", \"subject\": input.id}\n}\n"},
+			want: []string{"user/none.rego:17:17: check sandbox.probe.typo has no METADATA in package welfare.sandbox (title, description, custom.id, custom.severity, custom.source)"},
+		},
+		{
 			name: "unused variable under strict mode",
 			files: map[string]string{"strict.rego": engHeader +
 				"findings contains \"x\" if {\n\tunused := 1\n\tfalse\n}\n"},
@@ -227,7 +242,9 @@ func TestEvaluateBadFindings(t *testing.T) {
 			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","subject":"E-01"}: missing "on"`},
 		{"bad date", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-02-30", "message": "m", "evidence": []}`,
 			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-02-30","subject":"E-01"}: on: "2026-02-30" is not a date (YYYY-MM-DD)`},
-		{"check without metadata", `{"check": "sandbox.probe.other", "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": []}`,
+		// A literal id without METADATA does not compile (TestNewEngineRulesErrors);
+		// a computed one is caught when the finding is decoded.
+		{"check without metadata", `{"check": concat(".", ["sandbox", "probe", "other"]), "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": []}`,
 			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.other","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01"}: check "sandbox.probe.other" has no METADATA (title, description, custom.id, custom.severity, custom.source)`},
 		{"misspelt field", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "untill": "2026-01-02", "message": "m", "evidence": []}`,
 			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01","untill":"2026-01-02"}: unknown field "untill" (fields: check, subject, on, until, message, evidence, severity)`},

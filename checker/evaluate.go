@@ -111,7 +111,7 @@ func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, input
 			return nil, fmt.Errorf("%s: subject %s: findings must be a set of objects, got %T", q.name, subject, rs[0].Expressions[0].Value)
 		}
 		for _, raw := range list {
-			f, keep, err := e.toFinding(raw)
+			f, keep, err := e.toFinding(q.name, raw)
 			if err != nil {
 				return nil, fmt.Errorf("%s: subject %s: finding %s: %w", q.name, subject, compactJSON(raw), err)
 			}

@@ -16,7 +16,7 @@ var findingKeys = map[string]bool{
 
 // toFinding converts one object of a findings set. keep is false when the
 // limits turn the check off.
-func (e *engine) toFinding(raw any) (f Finding, keep bool, err error) {
+func (e *engine) toFinding(pkg string, raw any) (f Finding, keep bool, err error) {
 	obj, ok := raw.(map[string]any)
 	if !ok {
 		return f, false, errors.New("is not an object")
@@ -47,6 +47,9 @@ func (e *engine) toFinding(raw any) (f Finding, keep bool, err error) {
 	info, ok := e.checks[check]
 	if !ok {
 		return f, false, fmt.Errorf("check %q has no METADATA (title, description, custom.id, custom.severity, custom.source)", check)
+	}
+	if info.Package != pkg {
+		return f, false, fmt.Errorf("check %q belongs to package %s, not %s", check, info.Package, pkg)
 	}
 	f.Check, f.Domain, f.Title, f.Source = check, info.Domain, info.Title, info.Source
 	if f.Subject, err = str("subject", true); err != nil {

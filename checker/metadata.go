@@ -3,12 +3,13 @@ package checker
 import (
 	"errors"
 	"fmt"
-	"regexp"
 	"slices"
 	"sort"
 	"strings"
 
 	"github.com/open-policy-agent/opa/v1/ast"
+
+	"welfare/rules"
 )
 
 // rulePackage is one package under welfare that defines findings.
@@ -16,8 +17,6 @@ type rulePackage struct {
 	name     string
 	subjects []string
 }
-
-var checkIDPattern = regexp.MustCompile(`^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*){1,3}$`)
 
 // readMetadata finds the rule packages and their checks in the compiled
 // modules and validates their METADATA.
@@ -111,6 +110,43 @@ func readMetadata(modules map[string]*ast.Module) ([]rulePackage, map[string]Che
 		}
 	}
 
+	// A finding's check id must be one its own package's METADATA defines:
+	// a literal "check" in a findings rule is checked here, the rest when
+	// the finding is decoded.
+	for _, f := range files {
+		m := modules[f]
+		name := strings.TrimPrefix(m.Package.Path.String(), "data.")
+		if !strings.HasPrefix(name, "welfare.") {
+			continue
+		}
+		for _, r := range m.Rules {
+			if r.Head.Ref()[0].Value.Compare(ast.Var("findings")) != 0 {
+				continue
+			}
+			ast.WalkTerms(r, func(t *ast.Term) bool {
+				obj, ok := t.Value.(ast.Object)
+				if !ok {
+					return false
+				}
+				v := obj.Get(ast.StringTerm("check"))
+				if v == nil {
+					return false
+				}
+				id, ok := v.Value.(ast.String)
+				if !ok {
+					return false
+				}
+				switch c, known := checks[string(id)]; {
+				case !known:
+					at(v.Location, "check %s has no METADATA in package %s (title, description, custom.id, custom.severity, custom.source)", string(id), name)
+				case c.Package != name:
+					at(v.Location, "check %s belongs to package %s (%s), not %s", string(id), c.Package, c.File, name)
+				}
+				return false
+			})
+		}
+	}
+
 	var out []rulePackage
 	for _, name := range order {
 		st := pkgs[name]
@@ -145,7 +181,7 @@ func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, stri
 		return CheckInfo{}, false
 	}
 	id, _ := raw.(string)
-	if !checkIDPattern.MatchString(id) {
+	if !rules.CheckID.MatchString(id) {
 		at(a.Location, "custom.id %v is not a check id of the form domain.topic.problem (or domain.problem)", raw)
 		return CheckInfo{}, false
 	}

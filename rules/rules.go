@@ -75,16 +75,18 @@ func (l *Limits) Name() string { return l.name }
 // Go), the bytes a check's fingerprint covers.
 func (l *Limits) Source() []byte { return l.src }
 
-var (
-	checkIDRe = regexp.MustCompile(`^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*)+$`)
-	cellRe    = regexp.MustCompile(`^(N|C|[1-9][0-9]*/[0-9]+)$`)
-)
+// CheckID is the form of a check id everywhere (rule METADATA, findings,
+// the limits' severity overrides): domain.topic.problem or domain.problem,
+// lower_snake_case parts.
+var CheckID = regexp.MustCompile(`^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*){1,3}$`)
+
+var cellRe = regexp.MustCompile(`^(N|C|[1-9][0-9]*/[0-9]+)$`)
 
 func newValidator() *validator.Validate {
 	v := validator.New(validator.WithRequiredStructEnabled())
 	v.RegisterTagNameFunc(func(f reflect.StructField) string { return yamlName(f.Tag.Get("yaml")) })
 	_ = v.RegisterValidation("code", func(fl validator.FieldLevel) bool { return records.IsCode(fl.Field().String()) })
-	_ = v.RegisterValidation("check_id", func(fl validator.FieldLevel) bool { return checkIDRe.MatchString(fl.Field().String()) })
+	_ = v.RegisterValidation("check_id", func(fl validator.FieldLevel) bool { return CheckID.MatchString(fl.Field().String()) })
 	_ = v.RegisterValidation("warmup_cell", func(fl validator.FieldLevel) bool { return cellRe.MatchString(fl.Field().String()) })
 	return v
 }
