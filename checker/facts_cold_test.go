@@ -193,17 +193,6 @@ func TestColdSiteDays(t *testing.T) {
 	}
 }
 
-// coldest13 is the coldest moment of 2026-01-13: −40 °C, 10 km/h, wind chill
-// −51 (Environment Canada table), in the "2–5 min" band (ECCC: −48 to −54).
-func coldest13(from, until string, days int) map[string]any {
-	return map[string]any{
-		"from": from, "until": until, "days": days,
-		"min_wind_chill_c": cold.WindChillC(-40, 10), "wind_chill_display": -51,
-		"air_c": -40.0, "wind_kmh": 10.0, "coldest_on": "2026-01-13", "coldest_ref": "weather.csv:10",
-		"band": "exposed skin can freeze in 2–5 min",
-	}
-}
-
 func with(m map[string]any, kv ...any) map[string]any {
 	out := map[string]any{}
 	for k, v := range m {
@@ -215,43 +204,86 @@ func with(m map[string]any, kv ...any) map[string]any {
 	return out
 }
 
+// yardDay is one cold day at the YARD site as the rules see it: its coldest
+// reading against the Environment Canada wind chill table — (−15, 30 km/h)
+// → −26, (−25, 20) → −37 (its worked example), (−40, 10) → −51 — and the
+// ECCC hazard band of that value.
+func yardDay(on string, kv ...any) map[string]any {
+	days := map[string]map[string]any{
+		"2026-01-11": {"air_c": -15.0, "wind_kmh": 30.0, "min_wind_chill_c": cold.WindChillC(-15, 30), "wind_chill_display": -26,
+			"band": "low (risk of hypothermia with long exposure)", "ref": "weather.csv:4"},
+		"2026-01-12": {"air_c": -25.0, "wind_kmh": 20.0, "min_wind_chill_c": cold.WindChillC(-25, 20), "wind_chill_display": -37,
+			"band": "exposed skin can freeze in 10–30 min", "ref": "weather.csv:6"},
+		"2026-01-13": {"air_c": -40.0, "wind_kmh": 10.0, "min_wind_chill_c": cold.WindChillC(-40, 10), "wind_chill_display": -51,
+			"band": "exposed skin can freeze in 2–5 min", "ref": "weather.csv:10"},
+	}
+	return with(with(days[on], "on", on), kv...)
+}
+
 func TestColdSiteAndEnclosureFacts(t *testing.T) {
 	f := coldFactsOf(t, coldSet(), coldPeriod)
 	noWeather := []any{map[string]any{"from": "2026-01-14", "until": "2026-01-14", "days": 1}}
-	water := func(on string, air float64, airRef string) any {
-		return map[string]any{"on": on, "min_air_c": air, "checks": 1, "evidence": []any{"enclosures.csv:3", airRef}}
+	water := func(enc, on string, air float64, checks int, airRef string) any {
+		return map[string]any{"on": on, "min_air_c": air, "checks": checks, "evidence": []any{enc, airRef}}
 	}
-	run := with(coldest13("2026-01-11", "2026-01-13", 3), "evidence", []any{"enclosures.csv:3", "weather.csv:10"})
+	// The days at or below each limit are listed with their figures, whatever
+	// the figures say: the rules decide (rules/cold_test.rego).
+	bedding := func(enc, on, last string, since int) any {
+		return yardDay(on, "last_bedding", last, "days_since_bedding", since, "evidence", []any{enc, yardDay(on)["ref"]})
+	}
+	shelter := func(enc, on string) any {
+		return yardDay(on, "needs_nest_box", true, "evidence", []any{enc, yardDay(on)["ref"]})
+	}
 	tests := []struct {
 		kind, id string
 		want     any
 	}{
 		{"site", "YARD", map[string]any{
 			"readings_recorded": true,
-			// −25/20 → −37 on 01-12 and −40/10 → −51 on 01-13 are at or
-			// below −28; −15/30 → −26 on 01-11 is not (ECCC table and bands).
-			"frostbite":             []any{coldest13("2026-01-12", "2026-01-13", 2)},
-			"days_without_readings": noWeather,
+			// −37 on 01-12 and −51 on 01-13 are at or below −28; −26 on
+			// 01-11 is not (ECCC table and bands).
+			"days_at_or_below_frostbite_limit": []any{yardDay("2026-01-12"), yardDay("2026-01-13")},
+			"days_without_readings":            noWeather,
 		}},
 		{"enclosure", "N-01", map[string]any{
 			// Two water checks a day (the building round and its own
 			// round; "frozen" is a recorded state), fresh bedding on 01-11
-			// and a nest box: nothing selected.
+			// and a nest box.
 			"exposure": "outdoor", "weather_site": "YARD", "nest_box": true,
-			"water": []any{}, "bedding_stale": []any{}, "shelter_missing": []any{},
+			"days_at_or_below_water_limit": []any{
+				water("enclosures.csv:2", "2026-01-10", 0, 2, "weather.csv:2"),
+				water("enclosures.csv:2", "2026-01-11", -15, 2, "weather.csv:4"),
+				water("enclosures.csv:2", "2026-01-12", -25, 2, "weather.csv:6"),
+				water("enclosures.csv:2", "2026-01-13", -40, 2, "weather.csv:10"),
+			},
+			"days_at_or_below_bedding_limit": []any{
+				bedding("enclosures.csv:2", "2026-01-11", "2026-01-11", 0),
+				bedding("enclosures.csv:2", "2026-01-12", "2026-01-11", 1),
+				bedding("enclosures.csv:2", "2026-01-13", "2026-01-11", 2),
+			},
+			"days_at_or_below_shelter_limit": []any{
+				shelter("enclosures.csv:2", "2026-01-11"), shelter("enclosures.csv:2", "2026-01-12"), shelter("enclosures.csv:2", "2026-01-13"),
+			},
 			"days_without_weather": noWeather,
 		}},
 		{"enclosure", "N-02", map[string]any{
 			"exposure": "outdoor", "weather_site": "YARD", "nest_box": false,
-			// Below 0 °C from 01-11; not_checked does not count.
-			"water": []any{
-				water("2026-01-11", -15, "weather.csv:4"),
-				water("2026-01-12", -25, "weather.csv:6"),
-				water("2026-01-13", -40, "weather.csv:10"),
+			// At or below 0 °C from 01-10; not_checked does not count.
+			"days_at_or_below_water_limit": []any{
+				water("enclosures.csv:3", "2026-01-10", 0, 1, "weather.csv:2"),
+				water("enclosures.csv:3", "2026-01-11", -15, 1, "weather.csv:4"),
+				water("enclosures.csv:3", "2026-01-12", -25, 1, "weather.csv:6"),
+				water("enclosures.csv:3", "2026-01-13", -40, 1, "weather.csv:10"),
 			},
-			// Last bedding 01-04: 01-11 is D−7, outside D−6…D.
-			"bedding_stale":        []any{with(run, "last_bedding", "2026-01-04")},
-			"shelter_missing":      []any{run},
+			// Last bedding 01-04: 01-11 is 7 days on.
+			"days_at_or_below_bedding_limit": []any{
+				bedding("enclosures.csv:3", "2026-01-11", "2026-01-04", 7),
+				bedding("enclosures.csv:3", "2026-01-12", "2026-01-04", 8),
+				bedding("enclosures.csv:3", "2026-01-13", "2026-01-04", 9),
+			},
+			"days_at_or_below_shelter_limit": []any{
+				shelter("enclosures.csv:3", "2026-01-11"), shelter("enclosures.csv:3", "2026-01-12"), shelter("enclosures.csv:3", "2026-01-13"),
+			},
 			"days_without_weather": noWeather,
 		}},
 		{"enclosure", "B-01", nil}, // indoor: no cold section
@@ -355,10 +387,10 @@ func TestColdBeddingLooksBeforePeriod(t *testing.T) {
 	tests := []struct {
 		name      string
 		beddingOn string
-		wantStale []any
+		wantSince any // days_since_bedding of 01-11; the rule finds 7 or more stale
 	}{
-		{"bedding on D-6 keeps D fresh", "2026-01-05", []any{}},
-		{"bedding on D-7 is stale", "2026-01-04", []any{"2026-01-11"}},
+		{"bedding on D-6", "2026-01-05", 6},
+		{"bedding on D-7", "2026-01-04", 7},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -373,12 +405,12 @@ func TestColdBeddingLooksBeforePeriod(t *testing.T) {
 				}
 			}
 			f := coldFactsOf(t, set, Period{From: coldDay("2026-01-11"), To: coldDay("2026-01-11")})
-			got := []any{}
-			for _, r := range f.docs["enclosure"]["N-02"]["cold"].(map[string]any)["bedding_stale"].([]any) {
-				got = append(got, r.(map[string]any)["from"])
+			days := f.docs["enclosure"]["N-02"]["cold"].(map[string]any)["days_at_or_below_bedding_limit"].([]any)
+			if len(days) != 1 {
+				t.Fatalf("cold days at or below the bedding limit = %v, want 2026-01-11 only", days)
 			}
-			if diff := cmp.Diff(tc.wantStale, got); diff != "" {
-				t.Errorf("stale runs (-want +got):\n%s", diff)
+			if diff := cmp.Diff(tc.wantSince, days[0].(map[string]any)["days_since_bedding"]); diff != "" {
+				t.Errorf("days since bedding (-want +got):\n%s", diff)
 			}
 		})
 	}

@@ -5,17 +5,19 @@
 #   work/warm-up schedule for keepers' outdoor stints, and frostbite weather at each site.
 #   Wind chill is the 2001 North American index (°C, km/h) of each reading, unrounded; a
 #   reading without wind counts as calm (wind chill = air temperature). A day's figures are
-#   the minimum over its readings. The facts select the days with the limits in force and
-#   give their figures; these rules compare the figures against data.limits.cold again and
-#   word the messages. Days with no reading at the site are not judged by the checks that
-#   need the weather: they are listed as days_without_weather / days_without_readings.
-#   Input (site): {id, cold: {readings_recorded, frostbite: [RUN], days_without_readings: [{from, until, days}]}}.
+#   the minimum over its readings. The facts pre-select, with the limits in force, the days at or
+#   below each limit (inclusive) and give each day's figures; these rules make the deciding
+#   comparisons against data.limits.cold on each day, group the days they judge into runs of
+#   consecutive days and word the messages. Days with no reading at the site are not judged by the
+#   checks that need the weather: they are listed as days_without_weather / days_without_readings.
+#   DAY = {on, min_wind_chill_c, wind_chill_display, air_c, wind_kmh, band, ref}: the day's coldest reading.
+#   Input (site): {id, cold: {readings_recorded, days_at_or_below_frostbite_limit: [DAY],
+#     days_without_readings: [{from, until, days}]}}.
 #   Input (enclosure, outdoor or sheltered buildings only): {id, ref, ..., cold: {exposure,
-#     weather_site, nest_box, water: [{on, min_air_c, checks, evidence}] (occupied days below
-#     water_check_below_c with fewer than water_checks_min water checks), bedding_stale: [RUN +
-#     last_bedding, evidence], shelter_missing: [RUN + evidence], days_without_weather: [{from, until, days}]}}.
-#   RUN = {from, until, days, min_wind_chill_c, wind_chill_display, air_c, wind_kmh, coldest_on,
-#     coldest_ref, band}: the coldest reading of the run.
+#     weather_site, nest_box, days_at_or_below_water_limit: [{on, min_air_c, checks, evidence}],
+#     days_at_or_below_bedding_limit: [DAY + last_bedding, days_since_bedding, evidence],
+#     days_at_or_below_shelter_limit: [DAY + needs_nest_box, evidence],
+#     days_without_weather: [{from, until, days}]}}.
 #   Input (staff): {id, cold: {stints: [{on, ref, site, started_at, ended_at, minutes, activity,
 #     emergency, reading: null | {ref, at, air_c, wind_kmh, wind_chill_c, wind_chill_display,
 #     hours_before_start}, step: {kind (no_limit, limit, cease, unknown), text, cell, max_work_min,
@@ -31,6 +33,32 @@ wind_text(kmh) := sprintf("wind %v km/h", [kmh]) if kmh != null
 
 else := "wind not recorded"
 
+# day_n numbers a day, so that consecutive days differ by one.
+day_n(on) := time.parse_ns("2006-01-02", on) / 86400000000000
+
+# runs groups days (DAY entries the rule has judged) into runs of consecutive days. A run has
+# its first and last day, its length, its first day's entry, and the coldest reading of the
+# run (the lowest wind chill; the earliest of equal days).
+runs(days) := {r |
+	nums := {day_n(d.on) | some d in days}
+	some first in days
+	n := day_n(first.on)
+	not (n - 1) in nums
+	e := min({m | some m in nums; m >= n; not (m + 1) in nums})
+	members := [d | some d in days; day_n(d.on) >= n; day_n(d.on) <= e]
+	some last in members
+	day_n(last.on) == e
+	coldest_wc := min([d.min_wind_chill_c | some d in members])
+	coldest_on := min([d.on | some d in members; d.min_wind_chill_c == coldest_wc])
+	some c in members
+	c.on == coldest_on
+	r := {
+		"from": first.on, "until": last.on, "days": count(members), "first": first,
+		"min_wind_chill_c": c.min_wind_chill_c, "wind_chill_display": c.wind_chill_display,
+		"air_c": c.air_c, "wind_kmh": c.wind_kmh, "coldest_on": c.on, "coldest_ref": c.ref, "band": c.band,
+	}
+}
+
 # conditions describes the coldest reading of a run for a keeper.
 conditions(r) := sprintf("coldest wind chill %d on %s (air %v °C, %s)", [r.wind_chill_display, r.coldest_on, r.air_c, wind_text(r.wind_kmh)])
 
@@ -43,7 +71,7 @@ conditions(r) := sprintf("coldest wind chill %d on %s (air %v °C, %s)", [r.wind
 #   source: common practice
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
-	some w in input.cold.water
+	some w in input.cold.days_at_or_below_water_limit
 	w.min_air_c < lim.water_check_below_c
 	w.checks < lim.water_checks_min
 	f := {
@@ -65,19 +93,28 @@ findings contains f if {
 #   runs: true
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
-	some r in input.cold.bedding_stale
-	r.min_wind_chill_c <= lim.bedding_wind_chill
+	stale := [d |
+		some d in input.cold.days_at_or_below_bedding_limit
+		d.min_wind_chill_c <= lim.bedding_wind_chill
+		bedding_due(d)
+	]
+	some r in runs(stale)
 	f := {
 		"check": "cold.bedding.stale",
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("no bedding added in the %d days up to each of %d day(s) with wind chill at or below %v; %s; %s", [lim.bedding_days, r.days, lim.bedding_wind_chill, conditions(r), last_bedding(r)]),
-		"evidence": r.evidence,
+		"message": sprintf("no bedding added in the %d days up to each of %d day(s) with wind chill at or below %v; %s; %s", [lim.bedding_days, r.days, lim.bedding_wind_chill, conditions(r), last_bedding(r.first)]),
+		"evidence": [input.ref, r.coldest_ref],
 	}
 }
 
-last_bedding(r) := sprintf("bedding last added %s", [r.last_bedding]) if r.last_bedding != null
+# Bedding is due on a day when none was ever added, or the last was the limit's days or more before it.
+bedding_due(d) if d.days_since_bedding == null
+
+bedding_due(d) if d.days_since_bedding >= lim.bedding_days
+
+last_bedding(d) := sprintf("bedding last added %s", [d.last_bedding]) if d.last_bedding != null
 
 else := "no bedding added on record"
 
@@ -91,16 +128,20 @@ else := "no bedding added on record"
 #   runs: true
 #   needs: [weather.csv]
 findings contains f if {
-	some r in input.cold.shelter_missing
 	not input.cold.nest_box
-	r.min_wind_chill_c <= lim.shelter_wind_chill
+	bare := [d |
+		some d in input.cold.days_at_or_below_shelter_limit
+		d.needs_nest_box
+		d.min_wind_chill_c <= lim.shelter_wind_chill
+	]
+	some r in runs(bare)
 	f := {
 		"check": "cold.shelter.missing",
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
 		"message": sprintf("no nest box recorded for nest-box animals on %d day(s) with wind chill at or below %v; %s", [r.days, lim.shelter_wind_chill, conditions(r)]),
-		"evidence": r.evidence,
+		"evidence": [input.ref, r.coldest_ref],
 	}
 }
 
@@ -166,8 +207,11 @@ else := ""
 #   runs: true
 #   needs: [weather.csv]
 findings contains f if {
-	some r in input.cold.frostbite
-	r.min_wind_chill_c <= lim.frostbite_wind_chill
+	frost := [d |
+		some d in input.cold.days_at_or_below_frostbite_limit
+		d.min_wind_chill_c <= lim.frostbite_wind_chill
+	]
+	some r in runs(frost)
 	f := {
 		"check": "cold.frostbite.risk",
 		"subject": input.id,
