@@ -4,10 +4,12 @@ import (
 	"bytes"
 	"context"
 	"fmt"
+	"io/fs"
 	"os"
 	"sort"
 	"strings"
 	"testing"
+	"testing/fstest"
 	"time"
 
 	"github.com/google/go-cmp/cmp"
@@ -597,5 +599,60 @@ func TestColdDemoMatchesAnswerKey(t *testing.T) {
 	sort.Slice(got, less(got))
 	if diff := cmp.Diff(want, got); diff != "" {
 		t.Errorf("cold findings on the demo (-answer key +got):\n%s", diff)
+	}
+}
+
+// TestColdRuleDecides: with the frostbite limit set exactly to 2026-01-12's
+// lowest wind chill (−25 °C, 20 km/h; the Environment Canada worked example),
+// the shipped rule (<=) reports 01-12…01-13, and the same rule edited to <
+// reports 01-13 alone: the facts did not decide for the rule.
+func TestColdRuleDecides(t *testing.T) {
+	lim := coldLimits(t)
+	lim.Cold.FrostbiteWindChill = cold.WindChillC(-25, 20)
+	data, err := lim.Data()
+	if err != nil {
+		t.Fatal(err)
+	}
+	shipped, err := fs.ReadFile(rules.FS(), "cold.rego")
+	if err != nil {
+		t.Fatal(err)
+	}
+	const rule = "d.min_wind_chill_c <= lim.frostbite_wind_chill"
+	if !strings.Contains(string(shipped), rule) {
+		t.Fatalf("cold.rego no longer compares %q", rule)
+	}
+	edited := strings.Replace(string(shipped), rule, "d.min_wind_chill_c < lim.frostbite_wind_chill", 1)
+	tests := []struct {
+		name, src string
+		want      [][2]string
+	}{
+		{"at or below", string(shipped), [][2]string{{"2026-01-12", "2026-01-13"}}},
+		{"strictly below", edited, [][2]string{{"2026-01-13", ""}}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			src := []Source{{Name: "committee", FS: fstest.MapFS{"cold.rego": {Data: []byte(tc.src)}}}}
+			e, err := NewEngine(context.Background(), src, data, EngineOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			res, err := Check(context.Background(), Config{Records: coldSet(), Limits: lim, Engine: e, Period: coldPeriod, Only: []string{"cold"}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got [][2]string
+			for _, f := range res.Findings {
+				if f.Check == "cold.frostbite.risk" {
+					until := ""
+					if f.Until != 0 {
+						until = f.Until.String()
+					}
+					got = append(got, [2]string{f.On.String(), until})
+				}
+			}
+			if diff := cmp.Diff(tc.want, got); diff != "" {
+				t.Errorf("frostbite findings (-want +got):\n%s", diff)
+			}
+		})
 	}
 }
