@@ -1,12 +1,10 @@
 package checker
 
 import (
-	"fmt"
 	"slices"
 	"sort"
 
 	"welfare/records"
-	"welfare/rules"
 )
 
 // staffDay gathers what one person did on one day. Every fact about a person
@@ -152,11 +150,7 @@ func (f *facts) handlerDay(s *records.Staff, sd *staffDay) map[string]any {
 		"respirator": nil,
 	}
 	if len(sd.rabies) > 0 {
-		status, reason := rabiesStatus(s, d, f.lim.Staff.Rabies)
-		out["rabies"] = map[string]any{
-			"refs": refs(sd.rabies...), "status": status, "reason": reason,
-			"category": f.lim.Staff.Rabies.RiskCategory, "primary_on": dayOrNull(s.RabiesPrimaryOn),
-		}
+		out["rabies"] = rabiesRecord(s, d, sd.rabies)
 	}
 	if len(sd.respirator) > 0 {
 		r := trainedAt(s.RespiratorFitOn, f.lim.Staff.RespiratorFitMonths, d)
@@ -185,71 +179,21 @@ func (f *facts) operatorDay(s *records.Staff, sd *staffDay) map[string]any {
 	return out
 }
 
-// rabiesStatus is a person's rabies pre-exposure status on day d under the
-// ACIP 2022 schedule (MMWR 2022;71(18):619–627) for the risk category the
-// limits select. rabies_primary_on is the day the 2-dose series (days 0
-// and 7) was completed, and ACIP counts the titer and booster windows
-// "after completion of the 2-dose primary series", so the windows run from
-// that day. Titers and boosters dated after d are not yet known at d.
-//
-// status is "unprotected" (no completed primary series on d), "overdue"
-// (primary series done, follow-up missing) or "protected"; reason says why
-// in a keeper's words.
-func rabiesStatus(s *records.Staff, d records.Day, lim rules.RabiesLimit) (status, reason string) {
-	p := s.RabiesPrimaryOn
-	if p.IsZero() {
-		return "unprotected", "no rabies pre-exposure series recorded"
+// rabiesRecord is a person's rabies pre-exposure record as known on day d:
+// the day the 2-dose series was completed, and the latest titer (with its
+// value) and booster dated on or before d (null when none; a titer or
+// booster dated after d is not yet known at d). The rules judge it by the
+// ACIP 2022 schedule of the limits' risk category.
+func rabiesRecord(s *records.Staff, d records.Day, handled []records.Ref) map[string]any {
+	r := map[string]any{
+		"refs": refs(handled...), "primary_on": dayOrNull(s.RabiesPrimaryOn),
+		"titer_on": nil, "titer_iu_ml": nil, "booster_on": nil,
 	}
-	if p > d {
-		return "unprotected", fmt.Sprintf("rabies pre-exposure series completed only on %s", p)
+	if s.RabiesTiterIUmL != nil && !s.RabiesTiterOn.IsZero() && s.RabiesTiterOn <= d {
+		r["titer_on"], r["titer_iu_ml"] = s.RabiesTiterOn.String(), *s.RabiesTiterIUmL
 	}
-	if lim.RiskCategory == 4 {
-		return "protected", ""
+	if !s.RabiesBoosterOn.IsZero() && s.RabiesBoosterOn <= d {
+		r["booster_on"] = s.RabiesBoosterOn.String()
 	}
-	minTiter := lim.MinTiterIUmL
-	titerOn, booster := s.RabiesTiterOn, s.RabiesBoosterOn
-	hasTiter := s.RabiesTiterIUmL != nil && !titerOn.IsZero() && titerOn <= d
-	hasBooster := !booster.IsZero() && booster <= d
-	var titer float64
-	if hasTiter {
-		titer = *s.RabiesTiterIUmL
-	}
-	// In every category a titer below the minimum calls for a booster.
-	if hasTiter && titer < minTiter && (!hasBooster || booster < titerOn) {
-		return "overdue", fmt.Sprintf("titer %g IU/mL on %s is below %g IU/mL and no booster was given after it", titer, titerOn, minTiter)
-	}
-	switch lim.RiskCategory {
-	case 1, 2:
-		every := lim.TiterEveryMonths[lim.RiskCategory]
-		if every <= 0 {
-			// ACIP 2022: category 1 every 6 months, category 2 every 2 years.
-			every = map[int]int{1: 6, 2: 24}[lim.RiskCategory]
-		}
-		since, what := p, "the pre-exposure series"
-		if hasTiter && titerOn > p {
-			since, what = titerOn, "the last titer"
-		}
-		if due := since.AddMonths(every); d > due {
-			return "overdue", fmt.Sprintf("risk category %d needs a titer every %d months; none since %s (%s), due by %s", lim.RiskCategory, every, what, since, due)
-		}
-	case 3:
-		end := p.AddYears(3)
-		if d <= end {
-			return "protected", ""
-		}
-		from := p.AddYears(1)
-		titerInWindow := hasTiter && titerOn >= from && titerOn <= end
-		if titerInWindow && titer >= minTiter {
-			return "protected", ""
-		}
-		// A low titer in the window answered by a booster.
-		if titerInWindow && hasBooster && booster >= titerOn {
-			return "protected", ""
-		}
-		if hasBooster && booster >= p+21 && booster <= end {
-			return "protected", ""
-		}
-		return "overdue", fmt.Sprintf("more than 3 years since the pre-exposure series (%s) with no titer of at least %g IU/mL taken %s to %s and no booster given %s to %s", p, minTiter, from, end, p+21, end)
-	}
-	return "protected", ""
+	return r
 }

@@ -2,6 +2,7 @@ package checker
 
 import (
 	"bytes"
+	"context"
 	"testing"
 	"time"
 
@@ -86,20 +87,49 @@ func TestRabiesStatus(t *testing.T) {
 		{name: "category 2: low titer needs a booster", category: 2, titerOn: "2025-01-10", titer: iu(0.3), event: "2025-02-01", want: "overdue"},
 		{name: "category 4: primary series only", category: 4, event: "2031-01-01", want: "protected"},
 	}
+	// The facts give the record as known on the day; the shipped staff rules
+	// judge it: no finding is protected, staff.rabies.unprotected and
+	// staff.rabies.followup_overdue are the other two.
+	status := map[string]string{"staff.rabies.unprotected": "unprotected", "staff.rabies.followup_overdue": "overdue"}
+	engines := map[int]*Engine{}
+	for _, c := range []int{1, 2, 3, 4} {
+		lim := peopleLimits(t)
+		lim.Staff.Rabies.RiskCategory = c
+		data, err := lim.Data()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if engines[c], err = NewEngine(context.Background(), []Source{{Name: "rules", FS: rules.FS()}}, data, EngineOptions{}); err != nil {
+			t.Fatal(err)
+		}
+	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			lim := peopleLimits(t).Staff.Rabies
-			lim.RiskCategory = tt.category
 			s := &records.Staff{ID: "S1", RabiesTiterOn: pday(t, tt.titerOn), RabiesTiterIUmL: tt.titer, RabiesBoosterOn: pday(t, tt.booster)}
 			if tt.name != "no series recorded" {
 				s.RabiesPrimaryOn = pday(t, primary)
 			}
-			got, reason := rabiesStatus(s, pday(t, tt.event), lim)
-			if got != tt.want {
-				t.Errorf("status = %q (%s), want %q", got, reason, tt.want)
+			day := pday(t, tt.event)
+			doc := map[string]any{"kind": "staff", "id": "S1", "staff": map[string]any{
+				"ref": "staff.csv:2", "name": "Ilse Varga", "active_from": nil, "active_to": nil, "culled": []any{}, "outside_active": []any{},
+				"handled": []any{map[string]any{
+					"on": day.String(), "refs": []any{"handling.csv:2"}, "respirator": nil,
+					"training": map[string]any{"trained_on": "2021-12-01", "trained_after_event": false, "valid_until": day.String()},
+					"rabies":   rabiesRecord(s, day, []records.Ref{"handling.csv:2"}),
+				}},
+			}}
+			found, err := engines[tt.category].Evaluate(context.Background(), "staff", []map[string]any{doc})
+			if err != nil {
+				t.Fatal(err)
 			}
-			if (got == "protected") != (reason == "") {
-				t.Errorf("reason %q does not match status %q", reason, got)
+			got, msg := "protected", ""
+			for _, f := range found {
+				if st, ok := status[f.Check]; ok {
+					got, msg = st, f.Message
+				}
+			}
+			if got != tt.want {
+				t.Errorf("status = %q (%s), want %q", got, msg, tt.want)
 			}
 		})
 	}
@@ -150,8 +180,8 @@ func TestStaffFacts(t *testing.T) {
 			"on": "2026-01-12", "refs": []any{"handling.csv:4", "handling.csv:8"},
 			"training": map[string]any{"trained_on": nil, "trained_after_event": false, "valid_until": nil},
 			// Only the fox is a rabies-risk species (limits: mink rabies_risk false).
-			"rabies": map[string]any{"refs": []any{"handling.csv:4"}, "status": "unprotected",
-				"reason": "no rabies pre-exposure series recorded", "category": 3, "primary_on": nil},
+			"rabies": map[string]any{"refs": []any{"handling.csv:4"}, "primary_on": nil,
+				"titer_on": nil, "titer_iu_ml": nil, "booster_on": nil},
 			"respirator": nil,
 		}},
 		"culled": []any{},

@@ -6,14 +6,16 @@
 #   euthanasia training only.
 #   Input (staff): {id, staff: {ref, name, active_from, active_to,
 #     handled: [{on, refs, training: {trained_on, trained_after_event, valid_until},
-#                rabies: null | {refs, status: protected|unprotected|overdue, reason, category, primary_on},
+#                rabies: null | {refs, primary_on, titer_on, titer_iu_ml, booster_on},
 #                respirator: null | {refs, fit_on, fit_after_event, valid_until}}],
 #     culled: [{on, refs, methods, untrained_methods, trained_on, trained_after_event, valid_until}],
 #     outside_active: [{on, refs}]}}
 #   One entry per person per day. valid_until is the last day a training or fit test covers (the
 #   same date N months later); null when there was none on or before the day. rabies is present
-#   only on days the person handled a rabies-risk species; its status follows ACIP 2022 for the
-#   limits' risk category. Rabies questions go to the attending physician or occupational health.
+#   only on days the person handled a rabies-risk species, with the pre-exposure series, the latest
+#   titer and the latest booster recorded on or before the day (null: none); these rules judge them
+#   by ACIP 2022 for the limits' risk category. Rabies questions go to the attending physician or
+#   occupational health.
 # scope: package
 # custom:
 #   subjects: [staff]
@@ -22,6 +24,81 @@ package welfare.staff
 s := input.staff
 
 evidence(e) := array.concat([s.ref], e.refs)
+
+rabies := data.limits.staff.rabies
+
+# date_plus(day, years, months, days) is a calendar date that far after day (Go's normalisation: 31 Aug + 6 months = 3 Mar).
+date_plus(day, y, m, d) := time.format([time.add_date(time.parse_ns("2006-01-02", day), y, m, d), "UTC", "2006-01-02"])
+
+# rabies_status judges a handler's rabies pre-exposure record r on day on by ACIP 2022 (MMWR
+# 2022;71(18):619-627) for the limits' risk category: {status: protected|unprotected|overdue, reason}.
+# The series is complete on rabies_primary_on (the day-7 dose); ACIP counts the titer and booster
+# windows from it.
+rabies_status(r, on) := {"status": "unprotected", "reason": "no rabies pre-exposure series recorded"} if {
+	r.primary_on == null
+} else := {"status": "unprotected", "reason": sprintf("rabies pre-exposure series completed only on %s", [r.primary_on])} if {
+	r.primary_on > on
+} else := {"status": "protected", "reason": ""} if {
+	# Category 4: the primary series only.
+	rabies.risk_category == 4
+} else := {"status": "overdue", "reason": sprintf("titer %v IU/mL on %s is below %v IU/mL and no booster was given after it", [r.titer_iu_ml, r.titer_on, rabies.min_titer_iu_ml])} if {
+	# In every category a titer below the minimum calls for a booster.
+	r.titer_iu_ml != null
+	r.titer_iu_ml < rabies.min_titer_iu_ml
+	not booster_since(r, r.titer_on)
+} else := periodic_titer(r, on) if {
+	rabies.risk_category in {1, 2}
+} else := category_3(r, on) if {
+	rabies.risk_category == 3
+} else := {"status": "protected", "reason": ""}
+
+booster_since(r, day) if {
+	r.booster_on != null
+	r.booster_on >= day
+}
+
+# Categories 1 and 2: a titer every titer_every_months, counted from the series or the last titer after it.
+periodic_titer(r, on) := {"status": "overdue", "reason": reason} if {
+	months := object.get(rabies, ["titer_every_months", sprintf("%d", [rabies.risk_category])], acip_titer_months[rabies.risk_category])
+	[since, what] := last_titer_or_series(r)
+	due := date_plus(since, 0, months, 0)
+	on > due
+	reason := sprintf("risk category %d needs a titer every %d months; none since %s (%s), due by %s", [rabies.risk_category, months, what, since, due])
+} else := {"status": "protected", "reason": ""}
+
+# ACIP 2022 titer intervals, for limits that leave titer_every_months out.
+acip_titer_months := {1: 6, 2: 24}
+
+last_titer_or_series(r) := [r.titer_on, "the last titer"] if {
+	r.titer_on != null
+	r.titer_on > r.primary_on
+} else := [r.primary_on, "the pre-exposure series"]
+
+# Category 3: after 3 years, a titer of at least the minimum taken in years 1-3, a booster after a
+# low titer in that window, or a booster from day 21 to year 3.
+category_3(r, on) := {"status": "protected", "reason": ""} if {
+	on <= date_plus(r.primary_on, 3, 0, 0)
+} else := {"status": "protected", "reason": ""} if {
+	titer_in_window(r)
+	r.titer_iu_ml >= rabies.min_titer_iu_ml
+} else := {"status": "protected", "reason": ""} if {
+	titer_in_window(r)
+	booster_since(r, r.titer_on)
+} else := {"status": "protected", "reason": ""} if {
+	booster_since(r, date_plus(r.primary_on, 0, 0, 21))
+	r.booster_on <= date_plus(r.primary_on, 3, 0, 0)
+} else := {"status": "overdue", "reason": reason} if {
+	reason := sprintf("more than 3 years since the pre-exposure series (%s) with no titer of at least %v IU/mL taken %s to %s and no booster given %s to %s", [
+		r.primary_on, rabies.min_titer_iu_ml, date_plus(r.primary_on, 1, 0, 0), date_plus(r.primary_on, 3, 0, 0),
+		date_plus(r.primary_on, 0, 0, 21), date_plus(r.primary_on, 3, 0, 0),
+	])
+}
+
+titer_in_window(r) if {
+	r.titer_on != null
+	r.titer_on >= date_plus(r.primary_on, 1, 0, 0)
+	r.titer_on <= date_plus(r.primary_on, 3, 0, 0)
+}
 
 # Why a training record does not cover day e.on, or undefined when it does.
 lapsed(t, on, what) := sprintf("no %s recorded", [what]) if {
@@ -91,12 +168,13 @@ euthanasia_reasons(e) := {w |
 #   needs: [handling.csv, staff.csv]
 findings contains f if {
 	some e in s.handled
-	e.rabies.status == "unprotected"
+	st := rabies_status(e.rabies, e.on)
+	st.status == "unprotected"
 	f := {
 		"check": "staff.rabies.unprotected",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s handled %d rabies-risk animal(s): %s. Refer to occupational health; after any bite or scratch the physician decides on post-exposure prophylaxis", [s.name, count(e.rabies.refs), e.rabies.reason]),
+		"message": sprintf("%s handled %d rabies-risk animal(s): %s. Refer to occupational health; after any bite or scratch the physician decides on post-exposure prophylaxis", [s.name, count(e.rabies.refs), st.reason]),
 		"evidence": array.concat([s.ref], e.rabies.refs),
 	}
 }
@@ -116,12 +194,13 @@ findings contains f if {
 #   needs: [handling.csv, staff.csv]
 findings contains f if {
 	some e in s.handled
-	e.rabies.status == "overdue"
+	st := rabies_status(e.rabies, e.on)
+	st.status == "overdue"
 	f := {
 		"check": "staff.rabies.followup_overdue",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s handled %d rabies-risk animal(s): %s (ACIP 2022 risk category %d). Refer to occupational health", [s.name, count(e.rabies.refs), e.rabies.reason, e.rabies.category]),
+		"message": sprintf("%s handled %d rabies-risk animal(s): %s (ACIP 2022 risk category %d). Refer to occupational health", [s.name, count(e.rabies.refs), st.reason, rabies.risk_category]),
 		"evidence": array.concat([s.ref], e.rabies.refs),
 	}
 }

@@ -5,7 +5,7 @@ import data.welfare.staff
 # Invented keeper; one day of handling with training, rabies and respirator all in order.
 trained := {"trained_on": "2025-03-01", "trained_after_event": false, "valid_until": "2026-03-01"}
 
-day := {"on": "2026-01-12", "refs": ["handling.csv:2"], "training": trained, "rabies": {"refs": ["handling.csv:2"], "status": "protected", "reason": "", "category": 3, "primary_on": "2024-05-07"}, "respirator": null}
+day := {"on": "2026-01-12", "refs": ["handling.csv:2"], "training": trained, "rabies": {"refs": ["handling.csv:2"], "primary_on": "2024-05-07", "titer_on": null, "titer_iu_ml": null, "booster_on": null}, "respirator": null}
 
 keeper(sect) := {"kind": "staff", "id": "S1", "staff": object.union({"ref": "staff.csv:2", "name": "Ilse Varga", "active_from": "2024-01-01", "active_to": null, "handled": [], "culled": [], "outside_active": []}, sect)}
 
@@ -34,11 +34,34 @@ test_training_after_the_event_fires if {
 
 test_rabies_unprotected_fires if {
 	# ACIP 2022: a completed primary series is the minimum for category 1-4 handlers.
-	checks({"handled": [object.union(day, {"rabies": {"refs": ["handling.csv:2"], "status": "unprotected", "reason": "no rabies pre-exposure series recorded", "category": 3, "primary_on": null}})]}) == {"staff.rabies.unprotected"}
+	some f in staff.findings with input as keeper({"handled": [object.union(day, {"rabies": object.union(day.rabies, {"primary_on": null})})]})
+	f.check == "staff.rabies.unprotected"
+	contains(f.message, "no rabies pre-exposure series recorded")
 }
 
 test_rabies_overdue_fires_as_minor_followup if {
-	checks({"handled": [object.union(day, {"rabies": {"refs": ["handling.csv:2"], "status": "overdue", "reason": "r", "category": 3, "primary_on": "2021-05-07"}})]}) == {"staff.rabies.followup_overdue"}
+	# ACIP 2022, risk category 3 (shipped limits): more than 3 years after the series with no
+	# titer in years 1-3 and no booster from day 21 to year 3.
+	some f in staff.findings with input as keeper({"handled": [object.union(day, {"rabies": object.union(day.rabies, {"primary_on": "2021-05-07"})})]})
+	f.check == "staff.rabies.followup_overdue"
+	contains(f.message, "more than 3 years since the pre-exposure series (2021-05-07) with no titer of at least 0.5 IU/mL taken 2022-05-07 to 2024-05-07 and no booster given 2021-05-28 to 2024-05-07 (ACIP 2022 risk category 3)")
+}
+
+test_rabies_category_1_titer_every_6_months if {
+	# ACIP 2022: category 1, a titer every 6 months; 2025-07-12 is the day after 6 months.
+	rec := object.union(day.rabies, {"primary_on": "2022-01-10", "titer_on": "2025-07-11", "titer_iu_ml": 1})
+	cat1 := object.union(data.limits.staff.rabies, {"risk_category": 1})
+	some f in staff.findings with input as keeper({"handled": [object.union(day, {"rabies": rec})]}) with data.limits.staff.rabies as cat1
+	f.check == "staff.rabies.followup_overdue"
+	contains(f.message, "risk category 1 needs a titer every 6 months; none since the last titer (2025-07-11), due by 2026-01-11")
+}
+
+test_rabies_low_titer_needs_a_booster if {
+	# ACIP 2022: a titer below 0.5 IU/mL calls for a booster.
+	rec := object.union(day.rabies, {"titer_on": "2025-06-01", "titer_iu_ml": 0.3})
+	some f in staff.findings with input as keeper({"handled": [object.union(day, {"rabies": rec})]})
+	contains(f.message, "titer 0.3 IU/mL on 2025-06-01 is below 0.5 IU/mL and no booster was given after it")
+	checks({"handled": [object.union(day, {"rabies": object.union(rec, {"booster_on": "2025-06-10"})})]}) == set()
 }
 
 resp(fit, until) := {"refs": ["handling.csv:2"], "fit_on": fit, "fit_after_event": false, "valid_until": until}
