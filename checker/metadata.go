@@ -18,8 +18,10 @@ type rulePackage struct {
 	subjects []string
 }
 
-// readMetadata finds the rule packages and their checks in the compiled
-// modules and validates their METADATA.
+// readMetadata finds the rule packages and their checks in the modules and
+// validates their METADATA, read from OPA's annotation set (the same set
+// the compiler builds; it refuses a second package METADATA block in one
+// package).
 func readMetadata(modules map[string]*ast.Module) ([]rulePackage, map[string]CheckInfo, error) {
 	var problems []string
 	at := func(loc *ast.Location, format string, args ...any) {
@@ -36,34 +38,53 @@ func readMetadata(modules map[string]*ast.Module) ([]rulePackage, map[string]Che
 		files = append(files, f)
 	}
 	sort.Strings(files)
+	mods := make([]*ast.Module, len(files))
+	for i, f := range files {
+		mods[i] = modules[f]
+	}
+	as, errs := ast.BuildAnnotationSet(mods)
+	if len(errs) > 0 {
+		return nil, nil, compileError(errs)
+	}
 
+	// The packages under welfare that define findings, in file order.
 	type pkgState struct {
 		firstLoc     *ast.Location // package line of the first file that defines findings
-		hasFindings  bool
 		subjects     []string
-		subjectsLoc  *ast.Location
 		subjectsSeen bool
 	}
 	pkgs := map[string]*pkgState{}
 	var order []string
-	checks := map[string]CheckInfo{}
-
-	for _, f := range files {
-		m := modules[f]
+	for _, m := range mods {
 		name := strings.TrimPrefix(m.Package.Path.String(), "data.")
+		if !strings.HasPrefix(name, "welfare.") || pkgs[name] != nil {
+			continue
+		}
+		if slices.ContainsFunc(m.Rules, isFindings) {
+			pkgs[name] = &pkgState{firstLoc: m.Package.Location}
+			order = append(order, name)
+		}
+	}
+
+	// Every METADATA block in file order: package blocks give the subjects,
+	// rule blocks with custom.id the checks.
+	refs := as.Flatten()
+	slices.SortStableFunc(refs, func(x, y *ast.AnnotationsRef) int {
+		return compareLoc(x.Annotations.Location, y.Annotations.Location)
+	})
+	checks := map[string]CheckInfo{}
+	for _, ar := range refs {
+		a := ar.Annotations
+		pkg := ar.GetPackage()
+		if pkg == nil {
+			continue
+		}
+		name := strings.TrimPrefix(pkg.Path.String(), "data.")
 		if !strings.HasPrefix(name, "welfare.") {
 			continue
 		}
-		st := pkgs[name]
-		if st == nil {
-			st = &pkgState{}
-			pkgs[name] = st
-			order = append(order, name)
-		}
-		for _, a := range m.Annotations {
-			if a.Scope != "package" {
-				continue
-			}
+		switch a.Scope {
+		case "package":
 			raw, ok := a.Custom["subjects"]
 			if !ok {
 				continue
@@ -78,35 +99,23 @@ func readMetadata(modules map[string]*ast.Module) ([]rulePackage, map[string]Che
 					at(a.Location, "package %s: unknown subject kind %q in custom.subjects (known: %s)", name, s, strings.Join(SubjectKinds, ", "))
 				}
 			}
-			if st.subjectsSeen && !slices.Equal(st.subjects, subjects) {
-				at(a.Location, "package %s: custom.subjects %v differs from %v given at %s", name, subjects, st.subjects, regoLoc(st.subjectsLoc))
+			if st := pkgs[name]; st != nil {
+				st.subjects, st.subjectsSeen = subjects, true
+			}
+		case "rule":
+			info, ok := metaCheck(a, name, a.Location.File, at)
+			if !ok {
 				continue
 			}
-			st.subjects, st.subjectsLoc, st.subjectsSeen = subjects, a.Location, true
-		}
-		for _, r := range m.Rules {
-			if r.Head.Ref()[0].Value.Compare(ast.Var("findings")) == 0 && !st.hasFindings {
-				st.hasFindings = true
-				st.firstLoc = m.Package.Location
+			if prev, dup := checks[info.ID]; dup {
+				if prev.Package != info.Package {
+					at(a.Location, "check %s is already defined in package %s (%s)", info.ID, prev.Package, prev.File)
+				} else if !sameCheck(prev, info) {
+					at(a.Location, "check %s has two different METADATA blocks in package %s", info.ID, name)
+				}
+				continue
 			}
-			for _, a := range r.Annotations {
-				if a.Scope != "rule" {
-					continue
-				}
-				info, ok := metaCheck(a, name, f, at)
-				if !ok {
-					continue
-				}
-				if prev, dup := checks[info.ID]; dup {
-					if prev.Package != info.Package {
-						at(a.Location, "check %s is already defined in package %s (%s)", info.ID, prev.Package, prev.File)
-					} else if !sameCheck(prev, info) {
-						at(a.Location, "check %s has two different METADATA blocks in package %s", info.ID, name)
-					}
-					continue
-				}
-				checks[info.ID] = info
-			}
+			checks[info.ID] = info
 		}
 	}
 
@@ -120,7 +129,7 @@ func readMetadata(modules map[string]*ast.Module) ([]rulePackage, map[string]Che
 			continue
 		}
 		for _, r := range m.Rules {
-			if r.Head.Ref()[0].Value.Compare(ast.Var("findings")) != 0 {
+			if !isFindings(r) {
 				continue
 			}
 			ast.WalkTerms(r, func(t *ast.Term) bool {
@@ -150,9 +159,6 @@ func readMetadata(modules map[string]*ast.Module) ([]rulePackage, map[string]Che
 	var out []rulePackage
 	for _, name := range order {
 		st := pkgs[name]
-		if !st.hasFindings {
-			continue
-		}
 		if !st.subjectsSeen {
 			at(st.firstLoc, "package %s defines findings but has no package METADATA with custom.subjects (one or more of %s)", name, strings.Join(SubjectKinds, ", "))
 			continue
@@ -254,9 +260,19 @@ func metaStrings(v any) ([]string, error) {
 	return out, nil
 }
 
-func regoLoc(l *ast.Location) string {
-	if l == nil {
-		return "?"
+// isFindings reports whether r is a rule of a package's findings set.
+func isFindings(r *ast.Rule) bool {
+	return r.Head.Ref()[0].Value.Compare(ast.Var("findings")) == 0
+}
+
+func compareLoc(a, b *ast.Location) int {
+	switch {
+	case a == nil || b == nil:
+		return 0
+	case a.File != b.File:
+		return strings.Compare(a.File, b.File)
+	case a.Row != b.Row:
+		return a.Row - b.Row
 	}
-	return fmt.Sprintf("%s:%d:%d", l.File, l.Row, l.Col)
+	return a.Col - b.Col
 }
