@@ -129,8 +129,6 @@ func (f *facts) protocolFacts() {
 		}
 		d := f.doc("protocol", p.ID)
 		d["protocol"] = map[string]any{
-			"ref":                     string(p.Ref),
-			"title":                   p.Title,
 			"approved_on":             p.ApprovedOn.String(),
 			"expires_on":              p.ExpiresOn.String(),
 			"expires_after_period_by": int(p.ExpiresOn - f.period.To),

@@ -115,8 +115,6 @@ func (f *facts) staffFacts() {
 		}
 		d := f.doc("staff", id)
 		d["staff"] = map[string]any{
-			"ref":            string(s.Ref),
-			"name":           s.Name,
 			"active_from":    dayOrNull(s.ActiveFrom),
 			"active_to":      dayOrNull(s.ActiveTo),
 			"handled":        handled,

@@ -110,8 +110,8 @@ func TestRabiesStatus(t *testing.T) {
 				s.RabiesPrimaryOn = pday(t, primary)
 			}
 			day := pday(t, tt.event)
-			doc := map[string]any{"kind": "staff", "id": "S1", "staff": map[string]any{
-				"ref": "staff.csv:2", "name": "Ilse Varga", "active_from": nil, "active_to": nil, "culled": []any{}, "outside_active": []any{},
+			doc := map[string]any{"kind": "staff", "id": "S1", "name": "Ilse Varga", "ref": "staff.csv:2", "staff": map[string]any{
+				"active_from": nil, "active_to": nil, "culled": []any{}, "outside_active": []any{},
 				"handled": []any{map[string]any{
 					"on": day.String(), "refs": []any{"handling.csv:2"}, "respirator": nil,
 					"training": map[string]any{"trained_on": "2021-12-01", "trained_after_event": false, "valid_until": day.String()},
@@ -173,9 +173,13 @@ func TestStaffFacts(t *testing.T) {
 	f := newFacts(set, peopleLimits(t), peoplePeriod)
 	f.staffFacts()
 
+	// Name and row are where every document has them.
+	if got := [2]any{f.docs["staff"]["S2"]["name"], f.docs["staff"]["S2"]["ref"]}; got != [2]any{"Oskar Lind", "staff.csv:3"} {
+		t.Errorf("S2 name and ref = %v, want Oskar Lind, staff.csv:3", got)
+	}
 	s2 := f.docs["staff"]["S2"]["staff"].(map[string]any)
 	want := map[string]any{
-		"ref": "staff.csv:3", "name": "Oskar Lind", "active_from": "2025-01-01", "active_to": "2026-01-05",
+		"active_from": "2025-01-01", "active_to": "2026-01-05",
 		"handled": []any{map[string]any{
 			"on": "2026-01-12", "refs": []any{"handling.csv:4", "handling.csv:8"},
 			"training": map[string]any{"trained_on": nil, "trained_after_event": false, "valid_until": nil},

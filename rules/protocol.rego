@@ -3,7 +3,7 @@
 # description: |
 #   Handlings and culls against the approved protocol they fall under (the row's protocol_id, else
 #   the animal's), and the protocol's animal count and expiry.
-#   Input (protocol): {id, protocol: {ref, title, approved_on, expires_on, expires_after_period_by,
+#   Input (protocol): {id, name (the title), ref, protocol: {approved_on, expires_on, expires_after_period_by,
 #     max_animals, procedures, euthanasia_methods,
 #     days: [{on, in_force, refs, purposes: {purpose: [refs]}, methods: {method: [refs]}}],
 #     animals: {count, exceeded_on, over_refs, over_animals}}}
@@ -40,7 +40,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": e.on,
 		"message": sprintf("%d handling or cull row(s) under protocol %s on %s, %s", [count(e.refs), input.id, e.on, when(e.on)]),
-		"evidence": array.concat([p.ref], e.refs),
+		"evidence": array.concat([input.ref], e.refs),
 	}
 }
 
@@ -62,7 +62,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": e.on,
 		"message": sprintf("%s under protocol %s, which approves only %s", [concat(", ", bad), input.id, concat(", ", p.procedures)]),
-		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.purposes[k]]),
+		"evidence": array.concat([input.ref], [r | some k in bad; some r in e.purposes[k]]),
 	}
 }
 
@@ -84,7 +84,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": e.on,
 		"message": sprintf("cull by %s under protocol %s, which approves only %s; the attending veterinarian and the committee decide on any change of method", [concat(", ", bad), input.id, concat(", ", p.euthanasia_methods)]),
-		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.methods[k]]),
+		"evidence": array.concat([input.ref], [r | some k in bad; some r in e.methods[k]]),
 	}
 }
 
@@ -104,7 +104,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": p.animals.exceeded_on,
 		"message": sprintf("%d animals held under protocol %s, which approves %d; the count went over on %s (first over the limit: %s)", [p.animals.count, input.id, p.max_animals, p.animals.exceeded_on, concat(", ", p.animals.over_animals)]),
-		"evidence": array.concat([p.ref], p.animals.over_refs),
+		"evidence": array.concat([input.ref], p.animals.over_refs),
 	}
 }
 
@@ -123,7 +123,7 @@ findings contains f if {
 		"check": "protocol.expiring",
 		"subject": input.id,
 		"on": p.expires_on,
-		"message": sprintf("protocol %s (%s) expires on %s, %d day(s) after the checked period; renew it before work continues", [input.id, p.title, p.expires_on, p.expires_after_period_by]),
-		"evidence": [p.ref],
+		"message": sprintf("protocol %s (%s) expires on %s, %d day(s) after the checked period; renew it before work continues", [input.id, input.name, p.expires_on, p.expires_after_period_by]),
+		"evidence": [input.ref],
 	}
 }

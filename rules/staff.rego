@@ -4,7 +4,7 @@
 #   Training, rabies pre-exposure prophylaxis, respirator fit and employment of the people named
 #   in the records. A handler is the staff_id of a handling row; cull operators are checked for
 #   euthanasia training only.
-#   Input (staff): {id, staff: {ref, name, active_from, active_to,
+#   Input (staff): {id, name, ref, staff: {active_from, active_to,
 #     handled: [{on, refs, training: {trained_on, trained_after_event, valid_until},
 #                rabies: null | {refs, primary_on, titer_on, titer_iu_ml, booster_on},
 #                respirator: null | {refs, fit_on, fit_after_event, valid_until}}],
@@ -23,7 +23,7 @@ package welfare.staff
 
 s := input.staff
 
-evidence(e) := array.concat([s.ref], e.refs)
+evidence(e) := array.concat([input.ref], e.refs)
 
 rabies := data.limits.staff.rabies
 
@@ -124,7 +124,7 @@ findings contains f if {
 		"check": "staff.handling.untrained",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s handled %d animal(s): %s (refresher every %d months)", [s.name, count(e.refs), why, data.limits.staff.handling_training_months]),
+		"message": sprintf("%s handled %d animal(s): %s (refresher every %d months)", [input.name, count(e.refs), why, data.limits.staff.handling_training_months]),
 		"evidence": evidence(e),
 	}
 }
@@ -144,7 +144,7 @@ findings contains f if {
 		"check": "staff.euthanasia.untrained",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s performed %d cull(s) by %s: %s. Euthanasia must be done only by people trained for the method, as the attending veterinarian and the AVMA Guidelines direct", [s.name, count(e.refs), concat(", ", e.methods), why]),
+		"message": sprintf("%s performed %d cull(s) by %s: %s. Euthanasia must be done only by people trained for the method, as the attending veterinarian and the AVMA Guidelines direct", [input.name, count(e.refs), concat(", ", e.methods), why]),
 		"evidence": evidence(e),
 	}
 }
@@ -174,8 +174,8 @@ findings contains f if {
 		"check": "staff.rabies.unprotected",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s handled %d rabies-risk animal(s): %s. Refer to occupational health; after any bite or scratch the physician decides on post-exposure prophylaxis", [s.name, count(e.rabies.refs), st.reason]),
-		"evidence": array.concat([s.ref], e.rabies.refs),
+		"message": sprintf("%s handled %d rabies-risk animal(s): %s. Refer to occupational health; after any bite or scratch the physician decides on post-exposure prophylaxis", [input.name, count(e.rabies.refs), st.reason]),
+		"evidence": array.concat([input.ref], e.rabies.refs),
 	}
 }
 
@@ -200,8 +200,8 @@ findings contains f if {
 		"check": "staff.rabies.followup_overdue",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s handled %d rabies-risk animal(s): %s (ACIP 2022 risk category %d). Refer to occupational health", [s.name, count(e.rabies.refs), st.reason, rabies.risk_category]),
-		"evidence": array.concat([s.ref], e.rabies.refs),
+		"message": sprintf("%s handled %d rabies-risk animal(s): %s (ACIP 2022 risk category %d). Refer to occupational health", [input.name, count(e.rabies.refs), st.reason, rabies.risk_category]),
+		"evidence": array.concat([input.ref], e.rabies.refs),
 	}
 }
 
@@ -222,8 +222,8 @@ findings contains f if {
 		"check": "staff.respirator.fit_overdue",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s wore a respirator: %s (fit test every %d months)", [s.name, why, data.limits.staff.respirator_fit_months]),
-		"evidence": array.concat([s.ref], r.refs),
+		"message": sprintf("%s wore a respirator: %s (fit test every %d months)", [input.name, why, data.limits.staff.respirator_fit_months]),
+		"evidence": array.concat([input.ref], r.refs),
 	}
 }
 
@@ -247,7 +247,7 @@ findings contains f if {
 		"check": "staff.inactive",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s is named on %d row(s) on %s, outside their employment %s", [s.name, count(e.refs), e.on, window]),
+		"message": sprintf("%s is named on %d row(s) on %s, outside their employment %s", [input.name, count(e.refs), e.on, window]),
 		"evidence": evidence(e),
 	}
 }

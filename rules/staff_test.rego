@@ -7,7 +7,7 @@ trained := {"trained_on": "2025-03-01", "trained_after_event": false, "valid_unt
 
 day := {"on": "2026-01-12", "refs": ["handling.csv:2"], "training": trained, "rabies": {"refs": ["handling.csv:2"], "primary_on": "2024-05-07", "titer_on": null, "titer_iu_ml": null, "booster_on": null}, "respirator": null}
 
-keeper(sect) := {"kind": "staff", "id": "S1", "staff": object.union({"ref": "staff.csv:2", "name": "Ilse Varga", "active_from": "2024-01-01", "active_to": null, "handled": [], "culled": [], "outside_active": []}, sect)}
+keeper(sect) := {"kind": "staff", "id": "S1", "name": "Ilse Varga", "ref": "staff.csv:2", "staff": object.union({"active_from": "2024-01-01", "active_to": null, "handled": [], "culled": [], "outside_active": []}, sect)}
 
 checks(sect) := {f.check | some f in staff.findings with input as keeper(sect)}
 
