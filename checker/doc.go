@@ -63,7 +63,9 @@
 // that creates its documents. A new domain needs an entry in domains (in
 // report order) and its fact builder.
 //
-// Each document carries kind and id at the top; a subject's own row is ref
-// (FILE:LINE) where it has one row; lists of entries carry on (the day)
-// and their rows as ref or refs.
+// Every document carries kind, id, name and ref at the top (facts.doc puts
+// them there: name is a person's name, a protocol's title or the
+// facility's name, ref the FILE:LINE of the subject's own row, null when
+// there is none); lists of entries carry on (the day) and their rows as
+// ref, refs or evidence.
 package checker
