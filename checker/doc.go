@@ -25,8 +25,8 @@
 // that edits a rule (< to <=) or a limit sees the outcome change. Go does
 // not pre-judge and does not word findings. Where volume forces Go to
 // pre-select (a year of daily entries per cage), it selects with the
-// limit inclusively, the field's name says so
-// (days_at_or_below_water_limit), and the rule still makes the deciding
+// limits inclusively, the field's name says so
+// (days_at_or_past_bedding_limits), and the rule still makes the deciding
 // comparison on each entry.
 //
 // # Files, by job

@@ -22,12 +22,21 @@ import (
 //     the work/warm-up schedule step for it.
 //
 // Go measures, Rego judges: a year of 10,000 enclosures must not reach the
-// rules day by day, so Go pre-selects the days at or below each limit
-// (inclusive, and the field says so: days_at_or_below_bedding_limit), and
-// the rules make the deciding comparisons on each day (wind chill against
-// the limit, days since bedding, water checks, nest box) and group the
-// days they judge into runs. A committee that changes <= to < in a rule
-// sees the change.
+// rules day by day, so Go pre-selects the days that could be findings,
+// comparing with the limits inclusively, and the field's name says so:
+//
+//   - days_at_or_below_water_limits: lowest air temperature at or below
+//     cold.water_check_below_c and at most cold.water_checks_min water checks;
+//   - days_at_or_past_bedding_limits: lowest wind chill at or below
+//     cold.bedding_wind_chill and bedding added cold.bedding_days or more
+//     days before (or never);
+//   - days_at_or_below_shelter_limit_without_nest_box: lowest wind chill at
+//     or below cold.shelter_wind_chill in an enclosure recorded without one;
+//   - days_at_or_below_frostbite_limit (a site).
+//
+// The rules make the deciding comparisons on each day and group the days
+// they judge into runs, so a committee that changes <= to < (or >= to >) in
+// a rule sees the change.
 
 // siteWeather is one weather site's readings and daily minima.
 type siteWeather struct {
@@ -248,17 +257,16 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				if !ok {
 					continue
 				}
-				if dc.MinAirC <= lc.WaterCheckBelowC {
+				if checks := int(c.on(e.ID, e.BuildingID, d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
 					air := s.coldestAir[d-f.period.From]
 					water = append(water, map[string]any{
-						"on": d.String(), "min_air_c": dc.MinAirC,
-						"checks":   int(c.on(e.ID, e.BuildingID, d).waterChecks),
+						"on": d.String(), "min_air_c": dc.MinAirC, "checks": checks,
 						"evidence": refs(e.Ref, air.Ref),
 					})
 				}
-				if dc.MinWindChillC <= lc.BeddingWindChill {
+				last := bed.last(e.ID, e.BuildingID, d)
+				if dc.MinWindChillC <= lc.BeddingWindChill && (last == 0 || int(d-last) >= lc.BeddingDays) {
 					day, w, _ := f.coldDayDoc(s, d)
-					last := bed.last(e.ID, e.BuildingID, d)
 					day["last_bedding"], day["days_since_bedding"] = nil, nil
 					if last != 0 {
 						day["last_bedding"], day["days_since_bedding"] = last.String(), int(d-last)
@@ -266,7 +274,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 					day["evidence"] = refs(e.Ref, w.Ref)
 					bedding = append(bedding, day)
 				}
-				if dc.MinWindChillC <= lc.ShelterWindChill {
+				if dc.MinWindChillC <= lc.ShelterWindChill && !e.NestBox.IsYes() {
 					day, w, _ := f.coldDayDoc(s, d)
 					day["needs_nest_box"] = needsNest
 					day["evidence"] = refs(e.Ref, w.Ref)
@@ -281,10 +289,10 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			"exposure":                       b.Exposure,
 			"weather_site":                   nilIfEmpty(b.WeatherSite),
 			"nest_box":                       e.NestBox.IsYes(),
-			"days_at_or_below_water_limit":   water,
-			"days_at_or_below_bedding_limit": bedding,
-			"days_at_or_below_shelter_limit": shelter,
-			"days_without_weather":           unknown,
+			"days_at_or_below_water_limits":  water,
+			"days_at_or_past_bedding_limits": bedding,
+			"days_at_or_below_shelter_limit_without_nest_box": shelter,
+			"days_without_weather":                            unknown,
 		}
 	}
 }

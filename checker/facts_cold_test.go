@@ -222,8 +222,9 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 	water := func(enc, on string, air float64, checks int, airRef string) any {
 		return map[string]any{"on": on, "min_air_c": air, "checks": checks, "evidence": []any{enc, airRef}}
 	}
-	// The days at or below each limit are listed with their figures, whatever
-	// the figures say: the rules decide (rules/cold_test.rego).
+	// The days that could be findings, selected with the limits inclusively
+	// (two checks against a minimum of two is listed), with their figures:
+	// the rules decide (rules/cold_test.rego).
 	bedding := func(enc, on, last string, since int) any {
 		return yardDay(on, "last_bedding", last, "days_since_bedding", since, "evidence", []any{enc, yardDay(on)["ref"]})
 	}
@@ -246,38 +247,33 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 			// round; "frozen" is a recorded state), fresh bedding on 01-11
 			// and a nest box.
 			"exposure": "outdoor", "weather_site": "YARD", "nest_box": true,
-			"days_at_or_below_water_limit": []any{
+			"days_at_or_below_water_limits": []any{
 				water("enclosures.csv:2", "2026-01-10", 0, 2, "weather.csv:2"),
 				water("enclosures.csv:2", "2026-01-11", -15, 2, "weather.csv:4"),
 				water("enclosures.csv:2", "2026-01-12", -25, 2, "weather.csv:6"),
 				water("enclosures.csv:2", "2026-01-13", -40, 2, "weather.csv:10"),
 			},
-			"days_at_or_below_bedding_limit": []any{
-				bedding("enclosures.csv:2", "2026-01-11", "2026-01-11", 0),
-				bedding("enclosures.csv:2", "2026-01-12", "2026-01-11", 1),
-				bedding("enclosures.csv:2", "2026-01-13", "2026-01-11", 2),
-			},
-			"days_at_or_below_shelter_limit": []any{
-				shelter("enclosures.csv:2", "2026-01-11"), shelter("enclosures.csv:2", "2026-01-12"), shelter("enclosures.csv:2", "2026-01-13"),
-			},
-			"days_without_weather": noWeather,
+			// Bedding 0–2 days old and a nest box: not selected.
+			"days_at_or_past_bedding_limits":                  []any{},
+			"days_at_or_below_shelter_limit_without_nest_box": []any{},
+			"days_without_weather":                            noWeather,
 		}},
 		{"enclosure", "N-02", map[string]any{
 			"exposure": "outdoor", "weather_site": "YARD", "nest_box": false,
 			// At or below 0 °C from 01-10; not_checked does not count.
-			"days_at_or_below_water_limit": []any{
+			"days_at_or_below_water_limits": []any{
 				water("enclosures.csv:3", "2026-01-10", 0, 1, "weather.csv:2"),
 				water("enclosures.csv:3", "2026-01-11", -15, 1, "weather.csv:4"),
 				water("enclosures.csv:3", "2026-01-12", -25, 1, "weather.csv:6"),
 				water("enclosures.csv:3", "2026-01-13", -40, 1, "weather.csv:10"),
 			},
 			// Last bedding 01-04: 01-11 is 7 days on.
-			"days_at_or_below_bedding_limit": []any{
+			"days_at_or_past_bedding_limits": []any{
 				bedding("enclosures.csv:3", "2026-01-11", "2026-01-04", 7),
 				bedding("enclosures.csv:3", "2026-01-12", "2026-01-04", 8),
 				bedding("enclosures.csv:3", "2026-01-13", "2026-01-04", 9),
 			},
-			"days_at_or_below_shelter_limit": []any{
+			"days_at_or_below_shelter_limit_without_nest_box": []any{
 				shelter("enclosures.csv:3", "2026-01-11"), shelter("enclosures.csv:3", "2026-01-12"), shelter("enclosures.csv:3", "2026-01-13"),
 			},
 			"days_without_weather": noWeather,
@@ -383,10 +379,10 @@ func TestColdBeddingLooksBeforePeriod(t *testing.T) {
 	tests := []struct {
 		name      string
 		beddingOn string
-		wantSince any // days_since_bedding of 01-11; the rule finds 7 or more stale
+		wantSince []any // days_since_bedding of the days selected (7 or more, or never)
 	}{
-		{"bedding on D-6", "2026-01-05", 6},
-		{"bedding on D-7", "2026-01-04", 7},
+		{"bedding on D-6 keeps D fresh", "2026-01-05", []any{}},
+		{"bedding on D-7 is listed", "2026-01-04", []any{7}},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -401,12 +397,12 @@ func TestColdBeddingLooksBeforePeriod(t *testing.T) {
 				}
 			}
 			f := coldFactsOf(t, set, Period{From: coldDay("2026-01-11"), To: coldDay("2026-01-11")})
-			days := f.docs["enclosure"]["N-02"]["cold"].(map[string]any)["days_at_or_below_bedding_limit"].([]any)
-			if len(days) != 1 {
-				t.Fatalf("cold days at or below the bedding limit = %v, want 2026-01-11 only", days)
+			got := []any{}
+			for _, d := range f.docs["enclosure"]["N-02"]["cold"].(map[string]any)["days_at_or_past_bedding_limits"].([]any) {
+				got = append(got, d.(map[string]any)["days_since_bedding"])
 			}
-			if diff := cmp.Diff(tc.wantSince, days[0].(map[string]any)["days_since_bedding"]); diff != "" {
-				t.Errorf("days since bedding (-want +got):\n%s", diff)
+			if diff := cmp.Diff(tc.wantSince, got); diff != "" {
+				t.Errorf("days since bedding of the days listed (-want +got):\n%s", diff)
 			}
 		})
 	}

@@ -5,18 +5,19 @@
 #   work/warm-up schedule for keepers' outdoor stints, and frostbite weather at each site.
 #   Wind chill is the 2001 North American index (°C, km/h) of each reading, unrounded; a
 #   reading without wind counts as calm (wind chill = air temperature). A day's figures are
-#   the minimum over its readings. The facts pre-select, with the limits in force, the days at or
-#   below each limit (inclusive) and give each day's figures; these rules make the deciding
-#   comparisons against data.limits.cold on each day, group the days they judge into runs of
-#   consecutive days and word the messages. Days with no reading at the site are not judged by the
-#   checks that need the weather: they are listed as days_without_weather / days_without_readings.
+#   the minimum over its readings. The facts pre-select the days that could be findings, comparing
+#   with the limits in force inclusively (the field names say which), and give each day's figures;
+#   these rules make the deciding comparisons against data.limits.cold on each day, group the days
+#   they judge into runs of consecutive days and word the messages. Days with no reading at the
+#   site are not judged by the checks that need the weather: they are listed as
+#   days_without_weather / days_without_readings.
 #   DAY = {on, min_wind_chill_c, wind_chill_display, air_c, wind_kmh, band, ref}: the day's coldest reading.
 #   Input (site): {id, cold: {readings_recorded, days_at_or_below_frostbite_limit: [DAY],
 #     days_without_readings: [{from, until, days}]}}.
 #   Input (enclosure, outdoor or sheltered buildings only): {id, ref, ..., cold: {exposure,
-#     weather_site, nest_box, days_at_or_below_water_limit: [{on, min_air_c, checks, evidence}],
-#     days_at_or_below_bedding_limit: [DAY + last_bedding, days_since_bedding, evidence],
-#     days_at_or_below_shelter_limit: [DAY + needs_nest_box, evidence],
+#     weather_site, nest_box, days_at_or_below_water_limits: [{on, min_air_c, checks, evidence}],
+#     days_at_or_past_bedding_limits: [DAY + last_bedding, days_since_bedding, evidence],
+#     days_at_or_below_shelter_limit_without_nest_box: [DAY + needs_nest_box, evidence],
 #     days_without_weather: [{from, until, days}]}}.
 #   Input (staff): {id, cold: {stints: [{on, ref, site, started_at, ended_at, minutes, activity,
 #     emergency, reading: null | {ref, at, air_c, wind_kmh, wind_chill_c, wind_chill_display,
@@ -36,28 +37,30 @@ else := "wind not recorded"
 # day_n numbers a day, so that consecutive days differ by one.
 day_n(on) := time.parse_ns("2006-01-02", on) / 86400000000000
 
-# runs groups days (DAY entries the rule has judged) into runs of consecutive days. A run has
-# its first and last day, its length, its first day's entry, and the coldest reading of the
-# run (the lowest wind chill; the earliest of equal days).
+# runs groups days (DAY entries in day order, as the facts give them, that the rule has judged)
+# into runs of consecutive days. A run has its first and last day, its length, its first day's
+# entry, and the coldest reading of the run (the lowest wind chill; the earliest of equal days).
+# It pairs the k-th run start with the k-th run end, so it reads each day a fixed number of times.
 runs(days) := {r |
-	nums := {day_n(d.on) | some d in days}
-	some first in days
-	n := day_n(first.on)
-	not (n - 1) in nums
-	e := min({m | some m in nums; m >= n; not (m + 1) in nums})
-	members := [d | some d in days; day_n(d.on) >= n; day_n(d.on) <= e]
-	some last in members
-	day_n(last.on) == e
+	n := [day_n(d.on) | some d in days]
+	starts := [i | some i, _ in days; not follows(n, i)]
+	ends := [i | some i, _ in days; not followed(n, i)]
+	some k, s in starts
+	e := ends[k]
+	members := array.slice(days, s, e + 1)
 	coldest_wc := min([d.min_wind_chill_c | some d in members])
-	coldest_on := min([d.on | some d in members; d.min_wind_chill_c == coldest_wc])
-	some c in members
-	c.on == coldest_on
+	c := members[min([i | some i, d in members; d.min_wind_chill_c == coldest_wc])]
 	r := {
-		"from": first.on, "until": last.on, "days": count(members), "first": first,
+		"from": days[s].on, "until": days[e].on, "days": count(members), "first": days[s],
 		"min_wind_chill_c": c.min_wind_chill_c, "wind_chill_display": c.wind_chill_display,
 		"air_c": c.air_c, "wind_kmh": c.wind_kmh, "coldest_on": c.on, "coldest_ref": c.ref, "band": c.band,
 	}
 }
+
+# follows: day i is the day after day i-1; followed: day i+1 is the day after day i.
+follows(n, i) if n[i - 1] == n[i] - 1
+
+followed(n, i) if n[i + 1] == n[i] + 1
 
 # conditions describes the coldest reading of a run for a keeper.
 conditions(r) := sprintf("coldest wind chill %d on %s (air %v °C, %s)", [r.wind_chill_display, r.coldest_on, r.air_c, wind_text(r.wind_kmh)])
@@ -71,7 +74,7 @@ conditions(r) := sprintf("coldest wind chill %d on %s (air %v °C, %s)", [r.wind
 #   source: common practice
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
-	some w in input.cold.days_at_or_below_water_limit
+	some w in input.cold.days_at_or_below_water_limits
 	w.min_air_c < lim.water_check_below_c
 	w.checks < lim.water_checks_min
 	f := {
@@ -94,7 +97,7 @@ findings contains f if {
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
 	stale := [d |
-		some d in input.cold.days_at_or_below_bedding_limit
+		some d in input.cold.days_at_or_past_bedding_limits
 		d.min_wind_chill_c <= lim.bedding_wind_chill
 		bedding_due(d)
 	]
@@ -130,7 +133,7 @@ else := "no bedding added on record"
 findings contains f if {
 	not input.cold.nest_box
 	bare := [d |
-		some d in input.cold.days_at_or_below_shelter_limit
+		some d in input.cold.days_at_or_below_shelter_limit_without_nest_box
 		d.needs_nest_box
 		d.min_wind_chill_c <= lim.shelter_wind_chill
 	]

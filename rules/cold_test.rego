@@ -10,8 +10,8 @@ import data.welfare.cold
 enc(cold_facts) := {"kind": "enclosure", "id": "SHED1-03", "ref": "enclosures.csv:4", "cold": object.union(
 	{
 		"exposure": "outdoor", "weather_site": "YARD", "nest_box": false,
-		"days_at_or_below_water_limit": [], "days_at_or_below_bedding_limit": [],
-		"days_at_or_below_shelter_limit": [], "days_without_weather": [],
+		"days_at_or_below_water_limits": [], "days_at_or_past_bedding_limits": [],
+		"days_at_or_below_shelter_limit_without_nest_box": [], "days_without_weather": [],
 	},
 	cold_facts,
 )}
@@ -72,7 +72,7 @@ test_clean_enclosure_no_findings if {
 }
 
 # Water: at least 2 checks below 0 °C (common practice).
-water(air, checks) := {"days_at_or_below_water_limit": [{"on": "2026-01-12", "min_air_c": air, "checks": checks, "evidence": ["enclosures.csv:4", "weather.csv:38"]}]}
+water(air, checks) := {"days_at_or_below_water_limits": [{"on": "2026-01-12", "min_air_c": air, "checks": checks, "evidence": ["enclosures.csv:4", "weather.csv:38"]}]}
 
 test_one_water_check_on_freezing_day_fires if {
 	some f in cold.findings with input as enc(water(-0.5, 1))
@@ -94,7 +94,7 @@ test_water_at_exactly_zero_is_quiet if {
 
 # Bedding: wind chill at or below −20 (facility choice), none added in 7 days.
 test_bedding_stale_at_exactly_minus_20_fires if {
-	some f in cold.findings with input as enc({"days_at_or_below_bedding_limit": bedding_days(two_days(-20), "2026-01-02", 10)})
+	some f in cold.findings with input as enc({"days_at_or_past_bedding_limits": bedding_days(two_days(-20), "2026-01-02", 10)})
 	f.check == "cold.bedding.stale"
 	f.on == "2026-01-12"
 	f.until == "2026-01-13"
@@ -105,49 +105,49 @@ test_bedding_stale_at_exactly_minus_20_fires if {
 }
 
 test_bedding_just_above_minus_20_is_quiet if {
-	count(cold.findings) == 0 with input as enc({"days_at_or_below_bedding_limit": bedding_days([day("2026-01-13", -19.9)], "2026-01-02", 10)})
+	count(cold.findings) == 0 with input as enc({"days_at_or_past_bedding_limits": bedding_days([day("2026-01-13", -19.9)], "2026-01-02", 10)})
 }
 
 test_bedding_added_6_days_before_is_fresh if {
-	count(cold.findings) == 0 with input as enc({"days_at_or_below_bedding_limit": bedding_days([day("2026-01-13", -30)], "2026-01-07", 6)})
+	count(cold.findings) == 0 with input as enc({"days_at_or_past_bedding_limits": bedding_days([day("2026-01-13", -30)], "2026-01-07", 6)})
 }
 
 test_bedding_added_7_days_before_is_stale if {
-	some f in cold.findings with input as enc({"days_at_or_below_bedding_limit": bedding_days([day("2026-01-13", -30)], "2026-01-06", 7)})
+	some f in cold.findings with input as enc({"days_at_or_past_bedding_limits": bedding_days([day("2026-01-13", -30)], "2026-01-06", 7)})
 	f.check == "cold.bedding.stale"
 	f.on == "2026-01-13"
 }
 
 test_bedding_turns_stale_within_a_cold_spell if {
 	# 6 days on the 12th (fresh), 7 on the 13th (stale): the run starts on the 13th.
-	some f in cold.findings with input as enc({"days_at_or_below_bedding_limit": bedding_days(two_days(-25), "2026-01-06", 6)})
+	some f in cold.findings with input as enc({"days_at_or_past_bedding_limits": bedding_days(two_days(-25), "2026-01-06", 6)})
 	f.on == "2026-01-13"
 	f.until == "2026-01-13"
 }
 
 test_bedding_never_added_says_so if {
-	some f in cold.findings with input as enc({"days_at_or_below_bedding_limit": bedding_days(two_days(-25), null, null)})
+	some f in cold.findings with input as enc({"days_at_or_past_bedding_limits": bedding_days(two_days(-25), null, null)})
 	contains(f.message, "no bedding added on record")
 }
 
 # Shelter: nest box at or below −20 (common practice).
 test_shelter_missing_at_exactly_minus_20_fires if {
-	some f in cold.findings with input as enc({"days_at_or_below_shelter_limit": shelter_days(two_days(-20), true)})
+	some f in cold.findings with input as enc({"days_at_or_below_shelter_limit_without_nest_box": shelter_days(two_days(-20), true)})
 	f.check == "cold.shelter.missing"
 	f.on == "2026-01-12"
 	f.until == "2026-01-13"
 }
 
 test_shelter_just_above_minus_20_is_quiet if {
-	count(cold.findings) == 0 with input as enc({"days_at_or_below_shelter_limit": shelter_days([day("2026-01-13", -19.99)], true)})
+	count(cold.findings) == 0 with input as enc({"days_at_or_below_shelter_limit_without_nest_box": shelter_days([day("2026-01-13", -19.99)], true)})
 }
 
 test_shelter_with_nest_box_is_quiet if {
-	count(cold.findings) == 0 with input as enc({"nest_box": true, "days_at_or_below_shelter_limit": shelter_days(two_days(-30), true)})
+	count(cold.findings) == 0 with input as enc({"nest_box": true, "days_at_or_below_shelter_limit_without_nest_box": shelter_days(two_days(-30), true)})
 }
 
 test_shelter_for_animals_without_nest_box_need_is_quiet if {
-	count(cold.findings) == 0 with input as enc({"days_at_or_below_shelter_limit": shelter_days(two_days(-30), false)})
+	count(cold.findings) == 0 with input as enc({"days_at_or_below_shelter_limit_without_nest_box": shelter_days(two_days(-30), false)})
 }
 
 # Frostbite: −28 and colder (Environment and Climate Change Canada hazard bands).

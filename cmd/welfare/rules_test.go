@@ -15,7 +15,7 @@ func TestRulesInput(t *testing.T) {
 	}{
 		{[]string{"rules", "input", "enclosure"}, exitOK, []string{
 			"input.care.unobserved[].days", "integer",
-			"input.cold.days_at_or_below_bedding_limit[].days_since_bedding", "integer or null",
+			"input.cold.days_at_or_past_bedding_limits[].days_since_bedding", "integer or null",
 			"input.ref", "string or null",
 		}},
 		{[]string{"rules", "input", "staff"}, exitOK, []string{"input.name", "input.staff.handled[].rabies.primary_on", "day (YYYY-MM-DD) or null"}},
