@@ -217,7 +217,7 @@ func (s *Schema) validate(path string, v any, out *[]string) {
 }
 
 func jsonType(v any) string {
-	switch x := v.(type) {
+	switch v.(type) {
 	case nil:
 		return "null"
 	case string:
@@ -227,9 +227,6 @@ func jsonType(v any) string {
 	case int, int64:
 		return "integer"
 	case float64:
-		if isWhole(x) {
-			return "number"
-		}
 		return "number"
 	case map[string]any:
 		return "object"
