@@ -16,6 +16,7 @@ import (
 // judges records by. Build it with Compile; it is safe for concurrent use.
 type Policy struct {
 	limits  *rules.Limits
+	data    map[string]any // the limits as data.limits, converted once
 	sources []Source
 	engine  *engine
 }
@@ -37,7 +38,7 @@ func Compile(ctx context.Context, limits *rules.Limits, sources []Source, opt Op
 	if err != nil {
 		return nil, err
 	}
-	return &Policy{limits: limits, sources: sources, engine: e}, nil
+	return &Policy{limits: limits, data: data, sources: sources, engine: e}, nil
 }
 
 // Limits are the limits in force.
@@ -92,18 +93,10 @@ func (p *Policy) Check(ctx context.Context, recordsFS fs.FS, period Period, only
 // w, in file order, then a summary; verbose adds each test's print output
 // and duration. Failing tests are counted, not returned.
 func (p *Policy) Test(ctx context.Context, w io.Writer, verbose bool) (passed, failed int, err error) {
-	data, err := p.limits.Data()
-	if err != nil {
-		return 0, 0, fmt.Errorf("limits: %w", err)
-	}
-	return runTests(ctx, p.sources, data, w, verbose)
+	return runTests(ctx, p.sources, p.data, w, verbose)
 }
 
 // RuleTests runs the same tests as Test and returns one result per test.
 func (p *Policy) RuleTests(ctx context.Context) ([]RuleTest, error) {
-	data, err := p.limits.Data()
-	if err != nil {
-		return nil, fmt.Errorf("limits: %w", err)
-	}
-	return ruleTests(ctx, p.sources, data)
+	return ruleTests(ctx, p.sources, p.data)
 }
