@@ -9,31 +9,25 @@ import (
 	"welfare/rules"
 )
 
-// Config is one check run: the loaded records, the limits and rules in
+// config is one check run: the loaded records, the limits and rules in
 // force, and the period to check.
-type Config struct {
+type config struct {
 	Records *records.Set
 	Limits  *rules.Limits
-	// LimitsSource is the text of the limits file in force, for the report's
-	// "limits in force" with each value's source comment.
-	LimitsSource []byte
-	// Engine holds the compiled rules (see NewEngine).
-	Engine *Engine
+	// Engine holds the compiled rules (see newEngine).
+	Engine *engine
 	// Period to check; a zero From or To is taken from the records' dates.
 	Period Period
 	// Only keeps the findings of these domains (all when empty).
 	Only []string
-	// Fingerprint identifies the inputs (see Fingerprint); copied to the result.
-	Fingerprint string
-	// Progress, when set, is told when each phase starts ("facts", then
-	// "rules", with done 0) and, during "rules", how many subjects have been
-	// evaluated so far. It only reports, for timings and a progress display.
+	// Progress: see Options.Progress.
 	Progress func(phase string, done int)
 }
 
-// Check computes the facts of every subject, evaluates the rules on them
-// and returns the findings with everything a report needs.
-func Check(ctx context.Context, cfg Config) (*Result, error) {
+// check computes the facts of every subject, evaluates the rules on them
+// and returns the findings with everything a report needs but the
+// fingerprint (Policy.Check adds it).
+func check(ctx context.Context, cfg config) (*Result, error) {
 	set := cfg.Records
 	p := cfg.Period
 	if p.From.IsZero() || p.To.IsZero() {
@@ -60,25 +54,23 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 	}
 	progress("facts", 0)
 	f := newFacts(set, cfg.Limits, p)
-	for _, add := range domainFacts {
-		add(f)
+	for _, d := range domains {
+		d.facts(f)
 	}
 
 	res := &Result{
-		Facility:    set.Facility.Name,
-		Period:      p,
-		Fingerprint: cfg.Fingerprint,
-		Accounting:  set.Accounting,
-		Warnings:    set.Warnings,
-		Checks:      cfg.Engine.Checks(),
-		Care:        f.coverage,
-		Weather:     f.weather,
+		Facility:   set.Facility.Name,
+		Period:     p,
+		Accounting: set.Accounting,
+		Warnings:   set.Warnings,
+		Checks:     cfg.Engine.Checks(),
+		Care:       f.coverage,
+		SiteOf:     siteOf(set),
+		Weather:    f.weather,
 		ColdLines: ColdLines{Bedding: cfg.Limits.Cold.BeddingWindChill, Shelter: cfg.Limits.Cold.ShelterWindChill,
 			Frostbite: cfg.Limits.Cold.FrostbiteWindChill},
 	}
-	if len(cfg.LimitsSource) > 0 {
-		res.Limits = limitLines(cfg.LimitsSource)
-	}
+	res.Limits = cfg.Limits.Lines()
 
 	only := map[string]bool{}
 	for _, d := range cfg.Only {
@@ -127,15 +119,6 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		res.Findings = []Finding{}
 	}
 	return res, nil
-}
-
-// domainFacts are the fact builders, one per domain, run in order. Each adds
-// its sections to the subjects' documents. Domains in other files add
-// theirs in an init func.
-var domainFacts = []func(*facts){
-	(*facts).enclosureFacts,
-	(*facts).careFacts,
-	(*facts).recordsFacts,
 }
 
 // recordSpan is the first and last day of the facility's event records
@@ -188,4 +171,29 @@ func recordSpan(set *records.Set) (from, to records.Day) {
 		see(records.DayOf(set.Culls[i].At))
 	}
 	return from, to
+}
+
+// siteOf maps the subjects of cold findings to the weather site whose
+// chart they belong on: an enclosure to its building's site, a keeper to
+// the site of their first stint, a site to itself.
+func siteOf(set *records.Set) map[string]string {
+	m := map[string]string{}
+	bsite := map[string]string{}
+	for _, b := range set.Facility.Buildings {
+		bsite[b.ID] = b.WeatherSite
+	}
+	for _, e := range set.Enclosures {
+		if s := bsite[e.BuildingID]; s != "" {
+			m[e.ID] = s
+		}
+	}
+	for _, w := range set.Work {
+		if _, ok := m[w.StaffID]; !ok {
+			m[w.StaffID] = w.SiteID
+		}
+	}
+	for _, s := range set.Facility.WeatherSites {
+		m[s] = s
+	}
+	return m
 }

@@ -1,7 +1,6 @@
 package checker_test
 
 import (
-	"bytes"
 	"context"
 	"fmt"
 
@@ -13,27 +12,21 @@ import (
 
 // Check the built-in demo station's January with the shipped rules and
 // default limits.
-func ExampleCheck() {
+func ExamplePolicy_Check() {
 	ctx := context.Background()
-	lim, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
+	lim, err := rules.Default()
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	data, _ := lim.Data()
-	engine, err := checker.NewEngine(ctx, []checker.Source{{Name: "rules", FS: rules.FS()}}, data, checker.EngineOptions{})
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
-	set, err := records.Load(demo.FS(), records.Options{Species: lim.SpeciesCodes()})
+	policy, err := checker.Compile(ctx, lim, []checker.Source{{Name: "rules", FS: rules.FS()}}, checker.Options{})
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
 	from, _ := records.ParseDay("2026-01-01")
 	to, _ := records.ParseDay("2026-01-31")
-	res, err := checker.Check(ctx, checker.Config{Records: set, Limits: lim, Engine: engine, Period: checker.Period{From: from, To: to}, Only: []string{"enclosure"}})
+	res, err := policy.Check(ctx, demo.FS(), checker.Period{From: from, To: to}, []string{"enclosure"})
 	if err != nil {
 		fmt.Println(err)
 		return

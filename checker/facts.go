@@ -163,8 +163,11 @@ func (f *facts) buildStays() map[string][]stay {
 	return out
 }
 
-// doc returns the input document of one subject, creating it with its kind
-// and id on first use.
+// doc returns the input document of one subject, creating it on first use
+// with what every document has in the same place: kind, id, name (the
+// person's name, the protocol's title, the facility's name; null for
+// subjects without one) and ref (the FILE:LINE of the subject's own row;
+// null for subjects without one).
 func (f *facts) doc(kind, id string) map[string]any {
 	byID := f.docs[kind]
 	if byID == nil {
@@ -173,7 +176,28 @@ func (f *facts) doc(kind, id string) map[string]any {
 	}
 	d := byID[id]
 	if d == nil {
-		d = map[string]any{"kind": kind, "id": id}
+		var name, ref any
+		switch kind {
+		case "facility":
+			name = f.set.Facility.Name
+		case "animal":
+			if a := f.animals[id]; a != nil {
+				ref = string(a.Ref)
+			}
+		case "enclosure":
+			if e := f.enclosures[id]; e != nil {
+				ref = string(e.Ref)
+			}
+		case "staff":
+			if s := f.staff[id]; s != nil {
+				name, ref = s.Name, string(s.Ref)
+			}
+		case "protocol":
+			if p := f.protocols[id]; p != nil {
+				name, ref = p.Title, string(p.Ref)
+			}
+		}
+		d = map[string]any{"kind": kind, "id": id, "name": name, "ref": ref}
 		byID[id] = d
 	}
 	return d

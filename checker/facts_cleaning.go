@@ -21,8 +21,6 @@ import (
 // the period count, so the first days of a period are judged on the rounds
 // before it.
 
-func init() { domainFacts = append(domainFacts, (*facts).cleaningFacts) }
-
 func (f *facts) cleaningFacts() {
 	type index struct {
 		first   records.Day

@@ -1,7 +1,6 @@
 package checker
 
 import (
-	"math"
 	"sort"
 	"time"
 
@@ -11,22 +10,33 @@ import (
 
 // Cold-season facts. Every subject gets a "cold" section:
 //
-//   - site: the days at or below the frostbite wind chill as runs, and the
-//     days of the period without a reading (checks that need the weather are
-//     not judged on those days);
-//   - enclosure (outdoor or sheltered buildings only): the occupied cold days
-//     with too few water checks, and runs of days with stale bedding or an
-//     absent nest box in hard cold, and the occupied days whose weather is
+//   - site: the days at or below the frostbite wind chill, each with its
+//     coldest reading, and the days of the period without a reading (checks
+//     that need the weather are not judged on those days);
+//   - enclosure (outdoor or sheltered buildings only): the occupied days at
+//     or below the water, bedding and shelter limits, each with its figures
+//     (water checks recorded; days since bedding was added; whether the
+//     occupants need a nest box), and the occupied days whose weather is
 //     unknown;
 //   - staff: each outdoor stint with the reading in force at its start and
 //     the work/warm-up schedule step for it.
 //
-// The Go side selects the days with the limits in force (a year of 10,000
-// enclosures must not reach the rules day by day); each selected day or run
-// carries its figures (unrounded wind chill, air temperature, counts) so the
-// rules compare them against data.limits again and word the message.
-
-func init() { domainFacts = append(domainFacts, (*facts).coldFacts) }
+// Go measures, Rego judges: a year of 10,000 enclosures must not reach the
+// rules day by day, so Go pre-selects the days that could be findings,
+// comparing with the limits inclusively, and the field's name says so:
+//
+//   - days_at_or_below_water_limits: lowest air temperature at or below
+//     cold.water_check_below_c and at most cold.water_checks_min water checks;
+//   - days_at_or_past_bedding_limits: lowest wind chill at or below
+//     cold.bedding_wind_chill and bedding added cold.bedding_days or more
+//     days before (or never);
+//   - days_at_or_below_shelter_limit_without_nest_box: lowest wind chill at
+//     or below cold.shelter_wind_chill in an enclosure recorded without one;
+//   - days_at_or_below_frostbite_limit (a site).
+//
+// The rules make the deciding comparisons on each day and group the days
+// they judge into runs, so a committee that changes <= to < (or >= to >) in
+// a rule sees the change.
 
 // siteWeather is one weather site's readings and daily minima.
 type siteWeather struct {
@@ -46,21 +56,6 @@ func (s *siteWeather) day(p Period, d records.Day) (DayCold, *records.Weather, b
 	}
 	i := int(d - p.From)
 	return s.days[i], s.coldestWC[i], s.days[i].Readings > 0
-}
-
-// minAir is the lowest daily minimum air temperature from..to (nil when no
-// day of the span has a reading).
-func (s *siteWeather) minAir(p Period, from, to records.Day) any {
-	lo, any_ := math.Inf(1), false
-	for d := from; d <= to; d++ {
-		if dc, _, ok := s.day(p, d); ok && dc.MinAirC < lo {
-			lo, any_ = dc.MinAirC, true
-		}
-	}
-	if !any_ {
-		return nil
-	}
-	return lo
 }
 
 // readingWindChill is the 2001 index for a reading; a reading without a wind
@@ -143,58 +138,47 @@ func (f *facts) weatherSites() []*siteWeather {
 	return out
 }
 
-// coldSpan describes the coldest moment of days from..to at a site: the
-// lowest wind chill, the reading that gave it, and its air and wind.
-func (f *facts) coldSpan(s *siteWeather, from, to records.Day) map[string]any {
-	var best *records.Weather
-	bestWC := math.Inf(1)
-	for d := from; d <= to; d++ {
-		dc, w, ok := s.day(f.period, d)
-		if ok && dc.MinWindChillC < bestWC {
-			best, bestWC = w, dc.MinWindChillC
-		}
+// coldDayDoc is one day at a site as the cold rules see it: its lowest
+// wind chill (unrounded, and as charted), the reading that gave it, its air
+// and wind, and the hazard band. ok is false on a day without readings.
+func (f *facts) coldDayDoc(s *siteWeather, d records.Day) (map[string]any, *records.Weather, bool) {
+	dc, w, ok := s.day(f.period, d)
+	if !ok {
+		return nil, nil, false
 	}
-	m := map[string]any{
-		"from": from.String(), "until": to.String(), "days": int(to-from) + 1,
-		"min_wind_chill_c": nil, "wind_chill_display": nil, "air_c": nil, "wind_kmh": nil,
-		"coldest_on": nil, "coldest_ref": nil, "band": nil,
-	}
-	if best != nil {
-		m["min_wind_chill_c"] = bestWC
-		m["wind_chill_display"] = cold.Display(bestWC)
-		m["air_c"] = best.AirTempC
-		m["wind_kmh"] = num(best.WindKmh)
-		m["coldest_on"] = records.DayOf(best.At).String()
-		m["coldest_ref"] = string(best.Ref)
-		m["band"] = cold.Band(bestWC).Wording
-	}
-	return m
+	return map[string]any{
+		"on":                 d.String(),
+		"min_wind_chill_c":   dc.MinWindChillC,
+		"wind_chill_display": cold.Display(dc.MinWindChillC),
+		"air_c":              w.AirTempC,
+		"wind_kmh":           num(w.WindKmh),
+		"band":               cold.Band(dc.MinWindChillC).Wording,
+		"ref":                string(w.Ref),
+	}, w, true
 }
 
-// siteColdFacts adds a site's frostbite runs and its days without readings.
+// siteColdFacts adds a site's days at or below the frostbite limit and its
+// days without readings.
 func (f *facts) siteColdFacts(s *siteWeather) {
 	frost, missing := []any{}, []any{}
-	var frostRun, missRun dayRun
+	var missRun dayRun
 	limit := f.lim.Cold.FrostbiteWindChill
 	for d := f.period.From; d <= f.period.To; d++ {
-		dc, _, ok := s.day(f.period, d)
-		if from, to, done := frostRun.step(d, ok && dc.MinWindChillC <= limit); done {
-			frost = append(frost, f.coldSpan(s, from, to))
+		day, _, ok := f.coldDayDoc(s, d)
+		if ok && day["min_wind_chill_c"].(float64) <= limit {
+			frost = append(frost, day)
 		}
 		if from, to, done := missRun.step(d, !ok); done {
 			missing = append(missing, spanRun(from, to))
 		}
 	}
-	if from, to, done := frostRun.flush(); done {
-		frost = append(frost, f.coldSpan(s, from, to))
-	}
 	if from, to, done := missRun.flush(); done {
 		missing = append(missing, spanRun(from, to))
 	}
 	f.doc("site", s.id)["cold"] = map[string]any{
-		"readings_recorded":     f.set.Present["weather.csv"],
-		"frostbite":             frost,
-		"days_without_readings": missing,
+		"readings_recorded":                f.set.Present["weather.csv"],
+		"days_at_or_below_frostbite_limit": frost,
+		"days_without_readings":            missing,
 	}
 }
 
@@ -258,41 +242,24 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			continue
 		}
 		s := sites[b.WeatherSite]
-		water, stale, shelter, unknown := []any{}, []any{}, []any{}, []any{}
-		var staleRun, shelterRun, unknownRun dayRun
-		var staleLast records.Day // last bedding before the open stale run
-		// The occupants' outdoor bedding limits, for the rules: kept once seen
-		// in the enclosure, so a run flushed after the dog left still carries
-		// the limit that selected its days.
-		var bedBelow, moreBelow any
-		flushStale := func(from, to records.Day) {
-			m := f.coldSpan(s, from, to)
-			m["min_air_c"] = s.minAir(f.period, from, to)
-			m["bedding_below_c"], m["more_bedding_at_or_below_c"] = bedBelow, moreBelow
-			m["last_bedding"] = dayOrNull(staleLast)
-			m["evidence"] = refs(e.Ref, records.Ref(strOr(m["coldest_ref"])))
-			stale = append(stale, m)
-		}
-		flushShelter := func(from, to records.Day) {
-			m := f.coldSpan(s, from, to)
-			m["evidence"] = refs(e.Ref, records.Ref(strOr(m["coldest_ref"])))
-			shelter = append(shelter, m)
-		}
+		water, bedding, shelter, unknown := []any{}, []any{}, []any{}, []any{}
+		var unknownRun dayRun
 		// 9 CFR §3.4: in an outdoor building a species with an outdoor
 		// shelter requirement (dogs) is sheltered by a nest box; a sheltered
 		// building is itself the shelter.
 		sheltered := e.NestBox.IsYes() || b.Exposure == "sheltered"
 		for _, seg := range f.segments[e.ID] {
 			needsNest, needsShelter := false, false
-			beddingBelow := math.Inf(-1)
+			// The occupants' outdoor bedding limits (dogs, 9 CFR §3.4(b)(4)):
+			// the warmest threshold among them, nil when none applies.
+			var bedBelow, moreBelow *float64
 			for _, o := range seg.Occupants {
 				sp := f.lim.Species[o.Animal.Species]
 				needsNest = needsNest || sp.NestBox
 				if out := sp.Outdoor; out != nil && b.Exposure == "outdoor" {
 					needsShelter = needsShelter || out.Shelter
-					if out.BeddingBelowC != nil && *out.BeddingBelowC > beddingBelow {
-						beddingBelow, bedBelow = *out.BeddingBelowC, *out.BeddingBelowC
-						moreBelow = num(out.MoreBeddingAtOrBelowC)
+					if out.BeddingBelowC != nil && (bedBelow == nil || *out.BeddingBelowC > *bedBelow) {
+						bedBelow, moreBelow = out.BeddingBelowC, out.MoreBeddingAtOrBelowC
 					}
 				}
 			}
@@ -301,62 +268,52 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				if from, to, done := unknownRun.step(d, !ok); done {
 					unknown = append(unknown, spanRun(from, to))
 				}
-				if ok && dc.MinAirC < lc.WaterCheckBelowC {
-					if n := int(c.on(e.ID, e.BuildingID, d).waterChecks); n < lc.WaterChecksMin {
-						air := s.coldestAir[d-f.period.From]
-						water = append(water, map[string]any{
-							"on": d.String(), "min_air_c": dc.MinAirC, "checks": n,
-							"evidence": refs(e.Ref, air.Ref),
-						})
+				if !ok {
+					continue
+				}
+				if checks := int(c.on(e.ID, e.BuildingID, d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
+					air := s.coldestAir[d-f.period.From]
+					water = append(water, map[string]any{
+						"on": d.String(), "min_air_c": dc.MinAirC, "checks": checks,
+						"evidence": refs(e.Ref, air.Ref),
+					})
+				}
+				last := bed.last(e.ID, e.BuildingID, d)
+				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
+				if cold && (last == 0 || int(d-last) >= lc.BeddingDays) {
+					day, w, _ := f.coldDayDoc(s, d)
+					day["min_air_c"] = dc.MinAirC
+					day["bedding_below_c"], day["more_bedding_at_or_below_c"] = num(bedBelow), num(moreBelow)
+					day["last_bedding"], day["days_since_bedding"] = nil, nil
+					if last != 0 {
+						day["last_bedding"], day["days_since_bedding"] = last.String(), int(d-last)
 					}
+					day["evidence"] = refs(e.Ref, w.Ref)
+					bedding = append(bedding, day)
 				}
-				isStale := false
-				if ok && (dc.MinWindChillC <= lc.BeddingWindChill || dc.MinAirC < beddingBelow) {
-					last := bed.last(e.ID, e.BuildingID, d)
-					isStale = last == 0 || int(d-last) >= lc.BeddingDays
-					if isStale && (staleRun.from == 0 || d != staleRun.to+1) {
-						// The run that d starts: remember the bedding before it.
-						if from, to, done := staleRun.flush(); done {
-							flushStale(from, to)
-						}
-						staleLast = last
-					}
-				}
-				if from, to, done := staleRun.step(d, isStale); done {
-					flushStale(from, to)
-				}
-				noShelter := ok && ((needsNest && !e.NestBox.IsYes()) || (needsShelter && !sheltered)) &&
-					dc.MinWindChillC <= lc.ShelterWindChill
-				if from, to, done := shelterRun.step(d, noShelter); done {
-					flushShelter(from, to)
+				if dc.MinWindChillC <= lc.ShelterWindChill && !e.NestBox.IsYes() {
+					day, w, _ := f.coldDayDoc(s, d)
+					day["needs_nest_box"] = needsNest
+					day["needs_shelter"] = needsShelter
+					day["evidence"] = refs(e.Ref, w.Ref)
+					shelter = append(shelter, day)
 				}
 			}
-		}
-		if from, to, done := staleRun.flush(); done {
-			flushStale(from, to)
-		}
-		if from, to, done := shelterRun.flush(); done {
-			flushShelter(from, to)
 		}
 		if from, to, done := unknownRun.flush(); done {
 			unknown = append(unknown, spanRun(from, to))
 		}
 		f.doc("enclosure", e.ID)["cold"] = map[string]any{
-			"exposure":             b.Exposure,
-			"weather_site":         nilIfEmpty(b.WeatherSite),
-			"nest_box":             e.NestBox.IsYes(),
-			"sheltered":            sheltered,
-			"water":                water,
-			"bedding_stale":        stale,
-			"shelter_missing":      shelter,
-			"days_without_weather": unknown,
+			"exposure":                       b.Exposure,
+			"weather_site":                   nilIfEmpty(b.WeatherSite),
+			"nest_box":                       e.NestBox.IsYes(),
+			"sheltered":                      sheltered,
+			"days_at_or_below_water_limits":  water,
+			"days_at_or_past_bedding_limits": bedding,
+			"days_at_or_below_shelter_limit_without_nest_box": shelter,
+			"days_without_weather":                            unknown,
 		}
 	}
-}
-
-func strOr(v any) string {
-	s, _ := v.(string)
-	return s
 }
 
 // readingInForce is the reading that describes conditions at time t: the

@@ -5,8 +5,6 @@ import (
 	"welfare/records"
 )
 
-func init() { domainFacts = append(domainFacts, (*facts).cullFacts) }
-
 // cullFacts adds each culled animal's "euthanasia" section: one entry per
 // cull row of the period with the method's class for the species in the
 // limits (acceptable, conditional, unacceptable, or unlisted — which the

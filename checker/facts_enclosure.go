@@ -12,7 +12,6 @@ func (f *facts) enclosureFacts() {
 		e := &f.set.Enclosures[i]
 		d := f.doc("enclosure", e.ID)
 		b := f.buildings[e.BuildingID]
-		d["ref"] = string(e.Ref)
 		d["building"] = e.BuildingID
 		d["exposure"] = b.Exposure
 		d["enclosure_kind"] = e.Kind

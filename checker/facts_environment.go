@@ -22,8 +22,6 @@ import (
 //   - days: every day the building housed animals and had readings, with the
 //     day's humidity readings (indoor buildings) and its ammonia peak.
 
-func init() { domainFacts = append(domainFacts, (*facts).environmentFacts) }
-
 // buildingSpecies lists, per day of the period, the species housed in any
 // enclosure of the building.
 func (f *facts) buildingSpecies(buildingID string) []map[string]bool {

@@ -4,8 +4,6 @@ import (
 	"welfare/records"
 )
 
-func init() { domainFacts = append(domainFacts, (*facts).handlingFacts) }
-
 // handlingFacts adds to each handled animal's document its "handling"
 // section: one entry per handling row of the period, with what the row
 // recorded. The rules judge it against the species' bite risk and the

@@ -7,8 +7,6 @@ import (
 	"welfare/records"
 )
 
-func init() { domainFacts = append(domainFacts, (*facts).healthFacts, (*facts).litterFacts) }
-
 // healthFacts adds the health sections. Go measures (hours, days, masses,
 // counts, population-days); the rules in health.rego compare them with the
 // limits, so a committee that edits a limit or a rule changes the outcome.

@@ -23,8 +23,6 @@ import (
 // and each day carries its figures, so the rules compare them against
 // data.limits.heat again.
 
-func init() { domainFacts = append(domainFacts, (*facts).heatFacts) }
-
 // heatDay is one weather site's warm-season figures for one day.
 type heatDay struct {
 	readings int

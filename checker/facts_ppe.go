@@ -6,8 +6,6 @@ import (
 	"welfare/records"
 )
 
-func init() { domainFacts = append(domainFacts, (*facts).ppeFacts) }
-
 // ppeFacts adds each used item's "ppe" section: per day of use (a handling
 // row's glove_id), the item's latest inspection on or before that day.
 // The rules judge whether it was recent enough for the item's kind and

@@ -6,8 +6,6 @@ import (
 	"welfare/records"
 )
 
-func init() { domainFacts = append(domainFacts, (*facts).protocolFacts) }
-
 // maxOverRefs caps the evidence of protocol.animals.exceeded: the message
 // gives the full count, and a report does not need a thousand row numbers.
 const maxOverRefs = 10
@@ -140,8 +138,6 @@ func (f *facts) protocolFacts() {
 		}
 		d := f.doc("protocol", p.ID)
 		d["protocol"] = map[string]any{
-			"ref":                     string(p.Ref),
-			"title":                   p.Title,
 			"approved_on":             p.ApprovedOn.String(),
 			"expires_on":              p.ExpiresOn.String(),
 			"expires_after_period_by": int(p.ExpiresOn - f.period.To),

@@ -83,7 +83,6 @@ func (f *facts) recordsFacts() {
 func (f *facts) animalDoc(a *records.Animal) map[string]any {
 	d := f.doc("animal", a.ID)
 	if _, ok := d["species"]; !ok {
-		d["ref"] = string(a.Ref)
 		d["species"] = a.Species
 		d["arrived_on"] = a.ArrivedOn.String()
 		d["left_on"] = dayOrNull(a.LeftOn)

@@ -1,15 +1,11 @@
 package checker
 
 import (
-	"fmt"
 	"slices"
 	"sort"
 
 	"welfare/records"
-	"welfare/rules"
 )
-
-func init() { domainFacts = append(domainFacts, (*facts).staffFacts) }
 
 // staffDay gathers what one person did on one day. Every fact about a person
 // (training, vaccination, fit test, employment) is a property of the day,
@@ -132,8 +128,6 @@ func (f *facts) staffFacts() {
 		}
 		d := f.doc("staff", id)
 		d["staff"] = map[string]any{
-			"ref":            string(s.Ref),
-			"name":           s.Name,
 			"active_from":    dayOrNull(s.ActiveFrom),
 			"active_to":      dayOrNull(s.ActiveTo),
 			"handled":        handled,
@@ -193,79 +187,24 @@ func (f *facts) operatorDay(s *records.Staff, sd *staffDay) map[string]any {
 	return out
 }
 
-// rabiesStatus is a person's rabies pre-exposure status on day d under the
-// ACIP 2022 schedule (MMWR 2022;71(18):619–627) for the risk category the
-// limits select. rabies_primary_on is the day the 2-dose series (days 0
-// and 7) was completed, and ACIP counts the titer and booster windows
-// "after completion of the 2-dose primary series", so the windows run from
-// that day. Titers and boosters dated after d are not yet known at d.
-//
-// status is "unprotected" (no completed primary series on d), "overdue"
-// (primary series done, follow-up missing), "protected", or "not_required"
-// (risk category 5); reason says why
-// in a keeper's words.
-func rabiesStatus(s *records.Staff, d records.Day, lim rules.RabiesLimit) (status, reason string) {
-	if lim.RiskCategory == 5 {
-		// ACIP 2022: category 5 (risk no greater than the general
-		// population's) needs no pre-exposure prophylaxis.
-		return "not_required", ""
+// rabiesRecord is a person's rabies pre-exposure record as known on day d:
+// the day the 2-dose series was completed, and the latest titer (with its
+// value) and booster dated on or before d (null when none; a titer or
+// booster dated after d is not yet known at d). The rules judge it by the
+// ACIP 2022 schedule (MMWR 2022;71(18):619–627) of the person's risk
+// category.
+func rabiesRecord(s *records.Staff, d records.Day, work []records.Ref) map[string]any {
+	r := map[string]any{
+		"refs": refs(work...), "primary_on": dayOrNull(s.RabiesPrimaryOn),
+		"titer_on": nil, "titer_iu_ml": nil, "booster_on": nil,
 	}
-	p := s.RabiesPrimaryOn
-	if p.IsZero() {
-		return "unprotected", "no rabies pre-exposure series recorded"
+	if s.RabiesTiterIUmL != nil && !s.RabiesTiterOn.IsZero() && s.RabiesTiterOn <= d {
+		r["titer_on"], r["titer_iu_ml"] = s.RabiesTiterOn.String(), *s.RabiesTiterIUmL
 	}
-	if p > d {
-		return "unprotected", fmt.Sprintf("rabies pre-exposure series completed only on %s", p)
+	if !s.RabiesBoosterOn.IsZero() && s.RabiesBoosterOn <= d {
+		r["booster_on"] = s.RabiesBoosterOn.String()
 	}
-	if lim.RiskCategory == 4 {
-		return "protected", ""
-	}
-	minTiter := lim.MinTiterIUmL
-	titerOn, booster := s.RabiesTiterOn, s.RabiesBoosterOn
-	hasTiter := s.RabiesTiterIUmL != nil && !titerOn.IsZero() && titerOn <= d
-	hasBooster := !booster.IsZero() && booster <= d
-	var titer float64
-	if hasTiter {
-		titer = *s.RabiesTiterIUmL
-	}
-	// In every category a titer below the minimum calls for a booster.
-	if hasTiter && titer < minTiter && (!hasBooster || booster < titerOn) {
-		return "overdue", fmt.Sprintf("titer %g IU/mL on %s is below %g IU/mL and no booster was given after it", titer, titerOn, minTiter)
-	}
-	switch lim.RiskCategory {
-	case 1, 2:
-		every := lim.TiterEveryMonths[lim.RiskCategory]
-		if every <= 0 {
-			// ACIP 2022: category 1 every 6 months, category 2 every 2 years.
-			every = map[int]int{1: 6, 2: 24}[lim.RiskCategory]
-		}
-		since, what := p, "the pre-exposure series"
-		if hasTiter && titerOn > p {
-			since, what = titerOn, "the last titer"
-		}
-		if due := since.AddMonths(every); d > due {
-			return "overdue", fmt.Sprintf("risk category %d needs a titer every %d months; none since %s (%s), due by %s", lim.RiskCategory, every, what, since, due)
-		}
-	case 3:
-		end := p.AddYears(3)
-		if d <= end {
-			return "protected", ""
-		}
-		from := p.AddYears(1)
-		titerInWindow := hasTiter && titerOn >= from && titerOn <= end
-		if titerInWindow && titer >= minTiter {
-			return "protected", ""
-		}
-		// A low titer in the window answered by a booster.
-		if titerInWindow && hasBooster && booster >= titerOn {
-			return "protected", ""
-		}
-		if hasBooster && booster >= p+21 && booster <= end {
-			return "protected", ""
-		}
-		return "overdue", fmt.Sprintf("more than 3 years since the pre-exposure series (%s) with no titer of at least %g IU/mL taken %s to %s and no booster given %s to %s", p, minTiter, from, end, p+21, end)
-	}
-	return "protected", ""
+	return r
 }
 
 // rabiesRiskRounds returns whether a care round covers an enclosure occupied
@@ -311,31 +250,26 @@ func (f *facts) rabiesRiskRounds() func(r *records.CareRound) bool {
 
 // rabiesDay is one day on which s worked with a rabies-risk species —
 // handled one, culled one, or did a care round of an enclosure one
-// occupied — with s's pre-exposure status that day under s's own ACIP 2022
-// risk category (the limits' category when staff.csv gives none); nil on
+// occupied — with s's pre-exposure record that day and s's own ACIP 2022
+// risk category (the limits' category when staff.csv gives none), for the
+// rules to judge; nil on
 // a day without such work.
 func (f *facts) rabiesDay(s *records.Staff, sd *staffDay) map[string]any {
 	n := len(sd.rabiesHandled) + len(sd.rabiesCulls) + len(sd.rabiesRounds)
 	if n == 0 {
 		return nil
 	}
-	lim := f.lim.Staff.Rabies
+	category := f.lim.Staff.Rabies.RiskCategory
 	if s.RabiesRiskCategory != nil {
-		lim.RiskCategory = *s.RabiesRiskCategory
+		category = *s.RabiesRiskCategory
 	}
-	status, reason := rabiesStatus(s, sd.day, lim)
-	all := slices.Concat(sd.rabiesHandled, sd.rabiesCulls, sd.rabiesRounds)
-	return map[string]any{
-		"on":   sd.day.String(),
-		"refs": refs(all...),
-		"work": map[string]any{
-			"handlings":   len(sd.rabiesHandled),
-			"culls":       len(sd.rabiesCulls),
-			"care_rounds": len(sd.rabiesRounds),
-		},
-		"status":     status,
-		"reason":     reason,
-		"category":   lim.RiskCategory,
-		"primary_on": dayOrNull(s.RabiesPrimaryOn),
+	r := rabiesRecord(s, sd.day, slices.Concat(sd.rabiesHandled, sd.rabiesCulls, sd.rabiesRounds))
+	r["on"] = sd.day.String()
+	r["category"] = category
+	r["work"] = map[string]any{
+		"handlings":   len(sd.rabiesHandled),
+		"culls":       len(sd.rabiesCulls),
+		"care_rounds": len(sd.rabiesRounds),
 	}
+	return r
 }

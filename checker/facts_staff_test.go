@@ -2,6 +2,8 @@ package checker
 
 import (
 	"bytes"
+	"context"
+	"strings"
 	"testing"
 	"time"
 
@@ -86,20 +88,53 @@ func TestRabiesStatus(t *testing.T) {
 		{name: "category 2: low titer needs a booster", category: 2, titerOn: "2025-01-10", titer: iu(0.3), event: "2025-02-01", want: "overdue"},
 		{name: "category 4: primary series only", category: 4, event: "2031-01-01", want: "protected"},
 	}
+	// The facts give the record as known on the day; the shipped staff rules
+	// judge it: no finding is protected, staff.rabies.unprotected and
+	// staff.rabies.followup_overdue are the other two.
+	status := map[string]string{"staff.rabies.unprotected": "unprotected", "staff.rabies.followup_overdue": "overdue"}
+	engines := map[int]*Engine{}
+	for _, c := range []int{1, 2, 3, 4} {
+		lim := peopleLimits(t)
+		lim.Staff.Rabies.RiskCategory = c
+		data, err := lim.Data()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if engines[c], err = NewEngine(context.Background(), []Source{{Name: "rules", FS: rules.FS()}}, data, EngineOptions{}); err != nil {
+			t.Fatal(err)
+		}
+	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			lim := peopleLimits(t).Staff.Rabies
-			lim.RiskCategory = tt.category
 			s := &records.Staff{ID: "S1", RabiesTiterOn: pday(t, tt.titerOn), RabiesTiterIUmL: tt.titer, RabiesBoosterOn: pday(t, tt.booster)}
 			if tt.name != "no series recorded" {
 				s.RabiesPrimaryOn = pday(t, primary)
 			}
-			got, reason := rabiesStatus(s, pday(t, tt.event), lim)
-			if got != tt.want {
-				t.Errorf("status = %q (%s), want %q", got, reason, tt.want)
+			day := pday(t, tt.event)
+			// The person's own category (staff.csv rabies_risk_category) is on the entry.
+			rab := rabiesRecord(s, day, []records.Ref{"handling.csv:2"})
+			rab["on"], rab["category"] = day.String(), tt.category
+			rab["work"] = map[string]any{"handlings": 1, "culls": 0, "care_rounds": 0}
+			doc := map[string]any{"kind": "staff", "id": "S1", "name": "Ilse Varga", "ref": "staff.csv:2", "staff": map[string]any{
+				"active_from": nil, "active_to": nil, "culled": []any{}, "outside_active": []any{},
+				"handled": []any{map[string]any{
+					"on": day.String(), "refs": []any{"handling.csv:2"}, "respirator": nil,
+					"training": map[string]any{"trained_on": "2021-12-01", "trained_after_event": false, "valid_until": day.String()},
+				}},
+				"rabies": []any{rab},
+			}}
+			found, err := engines[tt.category].Evaluate(context.Background(), "staff", []map[string]any{doc})
+			if err != nil {
+				t.Fatal(err)
 			}
-			if (got == "protected") != (reason == "") {
-				t.Errorf("reason %q does not match status %q", reason, got)
+			got, msg := "protected", ""
+			for _, f := range found {
+				if st, ok := status[f.Check]; ok {
+					got, msg = st, f.Message
+				}
+			}
+			if got != tt.want {
+				t.Errorf("status = %q (%s), want %q", got, msg, tt.want)
 			}
 		})
 	}
@@ -143,9 +178,13 @@ func TestStaffFacts(t *testing.T) {
 	f := newFacts(set, peopleLimits(t), peoplePeriod)
 	f.staffFacts()
 
+	// Name and row are where every document has them.
+	if got := [2]any{f.docs["staff"]["S2"]["name"], f.docs["staff"]["S2"]["ref"]}; got != [2]any{"Oskar Lind", "staff.csv:3"} {
+		t.Errorf("S2 name and ref = %v, want Oskar Lind, staff.csv:3", got)
+	}
 	s2 := f.docs["staff"]["S2"]["staff"].(map[string]any)
 	want := map[string]any{
-		"ref": "staff.csv:3", "name": "Oskar Lind", "active_from": "2025-01-01", "active_to": "2026-01-05",
+		"active_from": "2025-01-01", "active_to": "2026-01-05",
 		"handled": []any{map[string]any{
 			"on": "2026-01-12", "refs": []any{"handling.csv:4", "handling.csv:8"},
 			"training":   map[string]any{"trained_on": nil, "trained_after_event": false, "valid_until": nil},
@@ -156,11 +195,11 @@ func TestStaffFacts(t *testing.T) {
 		// Only the fox is a rabies-risk species (limits: mink rabies_risk false).
 		"rabies": []any{
 			map[string]any{"on": "2026-01-06", "refs": []any{"daily_care.csv:2"},
-				"work":   map[string]any{"handlings": 0, "culls": 0, "care_rounds": 1},
-				"status": "unprotected", "reason": "no rabies pre-exposure series recorded", "category": 3, "primary_on": nil},
+				"work":     map[string]any{"handlings": 0, "culls": 0, "care_rounds": 1},
+				"category": 3, "primary_on": nil, "titer_on": nil, "titer_iu_ml": nil, "booster_on": nil},
 			map[string]any{"on": "2026-01-12", "refs": []any{"handling.csv:4"},
-				"work":   map[string]any{"handlings": 1, "culls": 0, "care_rounds": 0},
-				"status": "unprotected", "reason": "no rabies pre-exposure series recorded", "category": 3, "primary_on": nil},
+				"work":     map[string]any{"handlings": 1, "culls": 0, "care_rounds": 0},
+				"category": 3, "primary_on": nil, "titer_on": nil, "titer_iu_ml": nil, "booster_on": nil},
 		},
 		"culled": []any{},
 		"outside_active": []any{
@@ -203,18 +242,20 @@ func TestRabiesCoversEveryoneWhoWorksWithRiskSpecies(t *testing.T) {
 		round    string // enclosure of a round by S3 on 2026-01-20 ("" none; "B1" a building round)
 		wantWork map[string]any
 		wantCat  int
-		want     string
+		want     []string // rabies findings of S3 from the shipped staff rules
 	}{
-		{"fox cull", nil, "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 3, "overdue"},
-		{"mink cull is not rabies work", nil, "M1", "", nil, 0, ""},
-		{"care round of an enclosure foxes occupy", nil, "", "E1", map[string]any{"handlings": 0, "culls": 0, "care_rounds": 1}, 3, "overdue"},
-		{"building round covers its enclosures", nil, "", "B1", map[string]any{"handlings": 0, "culls": 0, "care_rounds": 1}, 3, "overdue"},
-		{"care round of an empty enclosure", nil, "", "E2", nil, 0, ""},
+		{"fox cull", nil, "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 3, []string{"staff.rabies.followup_overdue"}},
+		{"mink cull is not rabies work", nil, "M1", "", nil, 0, nil},
+		{"care round of an enclosure foxes occupy", nil, "", "E1", map[string]any{"handlings": 0, "culls": 0, "care_rounds": 1}, 3, []string{"staff.rabies.followup_overdue"}},
+		{"building round covers its enclosures", nil, "", "B1", map[string]any{"handlings": 0, "culls": 0, "care_rounds": 1}, 3, []string{"staff.rabies.followup_overdue"}},
+		{"care round of an empty enclosure", nil, "", "E2", nil, 0, nil},
 		// ACIP 2022 category 4: primary series only, so nothing is overdue.
-		{"person's own category 4", cat(4), "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 4, "protected"},
+		{"person's own category 4", cat(4), "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 4, nil},
 		// ACIP 2022 category 5: no pre-exposure prophylaxis recommended.
-		{"person's own category 5", cat(5), "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 5, "not_required"},
+		{"person's own category 5", cat(5), "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 5, nil},
 	}
+	lim := peopleLimits(t)
+	eng := coldEngine(t, lim)
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			set := peopleSet(t)
@@ -238,7 +279,20 @@ func TestRabiesCoversEveryoneWhoWorksWithRiskSpecies(t *testing.T) {
 				}
 				set.Care = []records.CareRound{r}
 			}
-			f := newFacts(set, peopleLimits(t), peoplePeriod)
+			res, err := Check(context.Background(), Config{Records: set, Limits: lim, Engine: eng, Period: peoplePeriod, Only: []string{"staff"}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var rabies []string
+			for _, fd := range res.Findings {
+				if fd.Subject == "S3" && strings.HasPrefix(fd.Check, "staff.rabies.") {
+					rabies = append(rabies, fd.Check)
+				}
+			}
+			if diff := cmp.Diff(tt.want, rabies); diff != "" {
+				t.Errorf("rabies findings (-want +got):\n%s", diff)
+			}
+			f := newFacts(set, lim, peoplePeriod)
 			f.staffFacts()
 			doc := f.docs["staff"]["S3"]
 			var got []any
@@ -255,8 +309,8 @@ func TestRabiesCoversEveryoneWhoWorksWithRiskSpecies(t *testing.T) {
 				t.Fatalf("rabies days = %v, want one", got)
 			}
 			e := got[0].(map[string]any)
-			if diff := cmp.Diff([]any{tt.wantWork, tt.wantCat, tt.want}, []any{e["work"], e["category"], e["status"]}); diff != "" {
-				t.Errorf("work, category, status (-want +got):\n%s", diff)
+			if diff := cmp.Diff([]any{tt.wantWork, tt.wantCat}, []any{e["work"], e["category"]}); diff != "" {
+				t.Errorf("work, category (-want +got):\n%s", diff)
 			}
 		})
 	}

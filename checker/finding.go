@@ -29,19 +29,19 @@ func (s Severity) Rank() int {
 
 // Finding is one problem found in the records.
 type Finding struct {
-	Check    string        `json:"check"`   // domain.topic.problem
-	Domain   string        `json:"domain"`  // the check id's first part
-	Subject  string        `json:"subject"` // enclosure, animal, staff, item, protocol or site id, or FILE:LINE
-	On       records.Day   `json:"on"`
-	Until    records.Day   `json:"until,omitempty"` // last day of a run; zero for a single day
-	Severity Severity      `json:"severity"`
-	Message  string        `json:"message"`
-	Evidence []records.Ref `json:"evidence"`
-	Title    string        `json:"title"`
-	Source   string        `json:"source"`
+	Check    string // domain.topic.problem
+	Domain   string // the check id's first part
+	Subject  string // enclosure, animal, staff, item, protocol or site id, or FILE:LINE
+	On       records.Day
+	Until    records.Day // last day of a run; zero for a single day
+	Severity Severity
+	Message  string
+	Evidence []records.Ref
+	Title    string
+	Source   string
 	// Reportable: noncompliance the institution reports (PHS Policy
 	// IV.F.3); outputs mark it "report to the institutional official".
-	Reportable bool `json:"reportable,omitempty"`
+	Reportable bool
 }
 
 // Key is the finding's stable identity: check id, subject and first day.

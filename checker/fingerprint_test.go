@@ -1,39 +1,58 @@
 package checker
 
 import (
+	"crypto/sha256"
+	"fmt"
+	"io"
+	"io/fs"
 	"testing"
 	"testing/fstest"
+
+	"github.com/google/go-cmp/cmp"
 )
 
-func TestFingerprint(t *testing.T) {
-	recs := fstest.MapFS{"animals.csv": {Data: []byte("animal_id\nF1\n")}, "facility.yaml": {Data: []byte("name: X\n")}}
-	rules := []Source{{Name: "rules", FS: fstest.MapFS{"a.rego": {Data: []byte("package welfare.a")}, "a_test.rego": {Data: []byte("x")}}}}
-	base, err := Fingerprint(recs, rules, []byte("limits"))
+// readAll reads every file of fsys through a captureFS, as the loader does,
+// and returns what was captured.
+func readAll(t *testing.T, fsys fs.FS) []capturedFile {
+	t.Helper()
+	c := newCaptureFS(fsys)
+	err := fs.WalkDir(c, ".", func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		_, err = fs.ReadFile(c, p)
+		return err
+	})
 	if err != nil {
 		t.Fatal(err)
 	}
+	return c.read()
+}
+
+func TestFingerprint(t *testing.T) {
+	recs := fstest.MapFS{"animals.csv": {Data: []byte("animal_id\nF1\n")}, "facility.yaml": {Data: []byte("name: X\n")}}
+	rules := []ruleFile{{"rules", "a.rego", []byte("package welfare.a")}, {"rules", "a_test.rego", []byte("x")}}
+	base := fingerprint(readAll(t, recs), rules, []byte("limits"))
 	if len(base) != 64 {
 		t.Fatalf("fingerprint %q is not a SHA-256 hex digest", base)
 	}
-	again, _ := Fingerprint(recs, rules, []byte("limits"))
-	if again != base {
+	if again := fingerprint(readAll(t, recs), rules, []byte("limits")); again != base {
 		t.Error("same inputs gave a different fingerprint")
 	}
 	changed := []struct {
 		name  string
 		recs  fstest.MapFS
-		rules []Source
+		rules []ruleFile
 		lim   string
 	}{
 		{"records", fstest.MapFS{"animals.csv": {Data: []byte("animal_id\nF2\n")}, "facility.yaml": recs["facility.yaml"]}, rules, "limits"},
-		{"rules", recs, []Source{{Name: "rules", FS: fstest.MapFS{"a.rego": {Data: []byte("package welfare.b")}}}}, "limits"},
+		{"rules", recs, []ruleFile{{"rules", "a.rego", []byte("package welfare.b")}}, "limits"},
 		{"limits", recs, rules, "limits2"},
 		{"bytes moved between files", fstest.MapFS{"animals.csv": {Data: []byte("animal_id\nF1\nname: X\n")}, "facility.yaml": {Data: []byte("")}}, rules, "limits"},
 	}
 	for _, tc := range changed {
 		t.Run(tc.name, func(t *testing.T) {
-			got, _ := Fingerprint(tc.recs, tc.rules, []byte(tc.lim))
-			if got == base {
+			if got := fingerprint(readAll(t, tc.recs), tc.rules, []byte(tc.lim)); got == base {
 				t.Error("a changed input kept the fingerprint")
 			}
 		})
@@ -48,8 +67,39 @@ func TestFingerprint(t *testing.T) {
 		t.Error("a workbook did not change the fingerprint")
 	}
 	// Rule tests do not change findings, so they do not change the fingerprint.
-	noTests := []Source{{Name: "rules", FS: fstest.MapFS{"a.rego": {Data: []byte("package welfare.a")}}}}
-	if got, _ := Fingerprint(recs, noTests, []byte("limits")); got != base {
+	noTests := []ruleFile{{"rules", "a.rego", []byte("package welfare.a")}}
+	if got := fingerprint(readAll(t, recs), noTests, []byte("limits")); got != base {
 		t.Error("a _test.rego file changed the fingerprint")
+	}
+}
+
+// TestCaptureFS: the fingerprint covers the bytes read, a complete read
+// wins over a sniff of the first bytes, and a file never opened is not in it.
+func TestCaptureFS(t *testing.T) {
+	fsys := fstest.MapFS{
+		"a.csv":     {Data: []byte("animal_id\nF1\n")},
+		"notes.txt": {Data: []byte("not a record file")},
+	}
+	c := newCaptureFS(fsys)
+	f, err := c.Open("a.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	sniff := make([]byte, 4)
+	if _, err := io.ReadFull(f, sniff); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	if _, err := fs.ReadFile(c, "a.csv"); err != nil {
+		t.Fatal(err)
+	}
+	got := map[string]string{}
+	for _, f := range c.read() {
+		got[f.name] = fmt.Sprintf("%d %x", f.size, f.sum)
+	}
+	whole := []byte("animal_id\nF1\n")
+	want := map[string]string{"a.csv": fmt.Sprintf("%d %x", len(whole), sha256.Sum256(whole))}
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("captured (-want +got):\n%s", diff)
 	}
 }

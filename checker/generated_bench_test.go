@@ -40,8 +40,8 @@ func BenchmarkGenerated(b *testing.B) {
 			period := Period{From: from, To: to}
 			buildFacts := func() *facts {
 				f := newFacts(set, lim, period)
-				for _, add := range domainFacts {
-					add(f)
+				for _, d := range domains {
+					d.facts(f)
 				}
 				return f
 			}

@@ -2,30 +2,34 @@ package checker
 
 import (
 	"welfare/records"
+	"welfare/rules"
 )
 
 // Result is everything one check run found, and everything a report needs to
 // say what was and was not checked.
 type Result struct {
-	Facility    string              `json:"facility"`
-	Period      Period              `json:"period"`
-	Fingerprint string              `json:"fingerprint"` // SHA-256 over the records, rules and limits used
-	Accounting  []records.FileCount `json:"accounting"`
-	Warnings    []records.Warning   `json:"warnings,omitempty"`
-	Findings    []Finding           `json:"findings"` // in SortFindings order
+	Facility    string
+	Period      Period
+	Fingerprint string // SHA-256 over the records, rules and limits used
+	Accounting  []records.FileCount
+	Warnings    []records.Warning
+	Findings    []Finding // in SortFindings order
 	// Checks lists every check that was in force (evaluated or not), sorted by id.
-	Checks       []CheckInfo `json:"checks"`
-	NotEvaluated []Skipped   `json:"not_evaluated,omitempty"`
+	Checks       []CheckInfo
+	NotEvaluated []Skipped
 	// Limits are the limits in force, one line per value, with the source tag
 	// from its comment in the limits file.
-	Limits []LimitLine `json:"-"`
+	Limits []LimitLine
 	// Care is the share of occupied enclosure-days with complete care records.
-	Care CareCoverage `json:"care_coverage"`
+	Care CareCoverage
+	// SiteOf maps the subject of a cold finding (an enclosure, a keeper or a
+	// weather site) to the weather site whose chart it belongs on.
+	SiteOf map[string]string
 	// Weather is the daily cold summary per weather site, for the cold-season chart.
-	Weather []SiteDays `json:"-"`
+	Weather []SiteDays
 	// ColdLines are the wind chills the cold checks compared against (from
 	// the limits in force), for the chart's reference lines.
-	ColdLines ColdLines `json:"-"`
+	ColdLines ColdLines
 }
 
 // ColdLines are the cold checks' wind chill thresholds (°C).
@@ -35,16 +39,12 @@ type ColdLines struct {
 
 // Period is the checked period, inclusive.
 type Period struct {
-	From records.Day `json:"from"`
-	To   records.Day `json:"to"`
+	From records.Day
+	To   records.Day
 }
 
-// LimitLine is one value of the limits file: "cold.bedding_days = 7  [F] ...".
-type LimitLine struct {
-	Key    string `json:"key"`
-	Value  string `json:"value"`
-	Source string `json:"source"`
-}
+// LimitLine is one value of the limits in force (see rules.Limits.Lines).
+type LimitLine = rules.LimitLine
 
 // CareCoverage counts occupied enclosure-days and those with complete care
 // records (an observed round and a feeding recorded).
@@ -55,15 +55,15 @@ type CareCoverage struct {
 
 // SiteDays is one weather site's daily minima over the period.
 type SiteDays struct {
-	Site string    `json:"site"`
-	Days []DayCold `json:"days"`
+	Site string
+	Days []DayCold
 }
 
 // DayCold is one day at one site: the lowest air temperature and the lowest
 // wind chill among that day's readings (°C). Readings is 0 on a day with none.
 type DayCold struct {
-	Day           records.Day `json:"day"`
-	MinAirC       float64     `json:"min_air_c"`
-	MinWindChillC float64     `json:"min_wind_chill_c"`
-	Readings      int         `json:"readings"`
+	Day           records.Day
+	MinAirC       float64
+	MinWindChillC float64
+	Readings      int
 }

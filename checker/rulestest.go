@@ -16,16 +16,26 @@ import (
 // evaluation's default budget.
 const testTimeout = 5 * time.Second
 
-// RunTests runs the Rego tests (files ending in _test.rego) of sources
-// together with the rules they test, under the same sandbox as NewEngine
-// and with limits as data.limits. It writes one PASS, FAIL or SKIP line per
-// test to w, in file order, then a summary; verbose adds each test's print
-// output and duration. A rule set that does not parse or compile is
-// returned as a *RulesError; failing tests are counted, not returned.
-func RunTests(ctx context.Context, sources []Source, limits map[string]any, w io.Writer, verbose bool) (passed, failed int, err error) {
-	modules, err := parseSources(sources, true)
+// RuleTest is the outcome of one Rego test.
+type RuleTest struct {
+	Name     string // welfare.care_test.test_unobserved_day_is_minor
+	File     string
+	Row      int
+	Status   string // PASS, FAIL or SKIP
+	Error    string // why it could not run to the end (FAIL)
+	Output   string // its print output
+	Duration time.Duration
+}
+
+// ruleTests runs the Rego tests (files ending in _test.rego) of sources
+// together with the rules they test, under the same sandbox and input
+// schemas as newEngine and with limits as data.limits, and returns one
+// result per test in file order. A rule set that does not parse or compile
+// is returned as a *RulesError; failing tests are results, not errors.
+func ruleTests(ctx context.Context, sources []Source, limits map[string]any) ([]RuleTest, error) {
+	modules, _, err := parseSources(sources, true)
 	if err != nil {
-		return 0, 0, err
+		return nil, err
 	}
 	// Bad METADATA in the rules under test is reported here too, so a
 	// committee editing rules hears of it before the next inspection.
@@ -36,15 +46,18 @@ func RunTests(ctx context.Context, sources []Source, limits map[string]any, w io
 		}
 	}
 	if _, _, err := readMetadata(rulesOnly); err != nil {
-		return 0, 0, err
+		return nil, err
 	}
-	store, err := limitsStore(limits)
-	if err != nil {
-		return 0, 0, err
-	}
+	store := limitsStore(limits)
 	// print output is shown for failing tests (and all tests when
 	// verbose); the engine itself drops print calls.
-	compiler := newCompiler(sandboxCapabilities()).WithEnablePrintStatements(true)
+	// The rules under test are typed as they are for a check.
+	schemas, err := typeInputs(modules)
+	if err != nil {
+		return nil, err
+	}
+	compiler := newCompiler(sandboxCapabilities()).WithEnablePrintStatements(true).
+		WithSchemas(schemas).WithUseTypeCheckAnnotations(true)
 	runner := tester.NewRunner().
 		SetCompiler(compiler).
 		SetStore(store).
@@ -57,60 +70,81 @@ func RunTests(ctx context.Context, sources []Source, limits map[string]any, w io
 		// The runner compiles the modules itself; its compile errors come
 		// back here unformatted.
 		if compiler.Failed() {
-			return 0, 0, compileError(compiler.Errors)
+			return nil, compileError(compiler.Errors)
 		}
-		return 0, 0, fmt.Errorf("running rule tests: %w", err)
+		return nil, fmt.Errorf("running rule tests: %w", err)
 	}
-	var results []*tester.Result
+	var raw []*tester.Result
 	for r := range ch {
-		results = append(results, r)
+		raw = append(raw, r)
 	}
 	if err := ctx.Err(); err != nil {
-		return 0, 0, err
+		return nil, err
+	}
+	results := make([]RuleTest, 0, len(raw))
+	for _, r := range raw {
+		t := RuleTest{
+			Name: strings.TrimPrefix(r.Package, "data.") + "." + r.Name,
+			File: r.Location.File, Row: r.Location.Row,
+			Status: "PASS", Output: string(r.Output), Duration: r.Duration,
+		}
+		switch {
+		case r.Skip:
+			t.Status = "SKIP"
+		case r.Error != nil:
+			t.Status = "FAIL"
+			t.Error = r.Error.Error()
+			if strings.Contains(t.Error, "eval_cancel_error") || strings.Contains(t.Error, "context deadline exceeded") {
+				t.Error = fmt.Sprintf("the %s time budget ran out", testTimeout)
+			}
+		case r.Fail:
+			t.Status = "FAIL"
+		}
+		results = append(results, t)
 	}
 	// Results arrive in any order; sort them so the output is stable.
 	sort.Slice(results, func(i, j int) bool {
 		a, b := results[i], results[j]
-		if a.Location.File != b.Location.File {
-			return a.Location.File < b.Location.File
+		if a.File != b.File {
+			return a.File < b.File
 		}
-		if a.Location.Row != b.Location.Row {
-			return a.Location.Row < b.Location.Row
+		if a.Row != b.Row {
+			return a.Row < b.Row
 		}
 		return a.Name < b.Name
 	})
+	return results, nil
+}
+
+// runTests runs the tests as ruleTests does and writes one PASS, FAIL or
+// SKIP line per test to w, in file order, then a summary; verbose adds each
+// test's print output and duration.
+func runTests(ctx context.Context, sources []Source, limits map[string]any, w io.Writer, verbose bool) (passed, failed int, err error) {
+	results, err := ruleTests(ctx, sources, limits)
+	if err != nil {
+		return 0, 0, err
+	}
 	skipped := 0
 	for _, r := range results {
-		where := fmt.Sprintf("%s:%d", r.Location.File, r.Location.Row)
-		name := strings.TrimPrefix(r.Package, "data.") + "." + r.Name
-		status := "PASS"
-		switch {
-		case r.Skip:
-			status = "SKIP"
+		where := fmt.Sprintf("%s:%d", r.File, r.Row)
+		switch r.Status {
+		case "SKIP":
 			skipped++
-		case r.Error != nil:
-			status = "FAIL"
-			failed++
-		case r.Fail:
-			status = "FAIL"
+		case "FAIL":
 			failed++
 		default:
 			passed++
 		}
 		if verbose {
-			fmt.Fprintf(w, "%s %s %s (%s)\n", status, where, name, r.Duration.Round(time.Microsecond))
+			fmt.Fprintf(w, "%s %s %s (%s)\n", r.Status, where, r.Name, r.Duration.Round(time.Microsecond))
 		} else {
-			fmt.Fprintf(w, "%s %s %s\n", status, where, name)
+			fmt.Fprintf(w, "%s %s %s\n", r.Status, where, r.Name)
 		}
-		if r.Error != nil {
-			msg := r.Error.Error()
-			if strings.Contains(msg, "eval_cancel_error") || strings.Contains(msg, "context deadline exceeded") {
-				msg = fmt.Sprintf("the %s time budget ran out", testTimeout)
-			}
-			fmt.Fprintf(w, "    error: %s\n", msg)
+		if r.Error != "" {
+			fmt.Fprintf(w, "    error: %s\n", r.Error)
 		}
-		if len(r.Output) > 0 && (verbose || status == "FAIL") {
-			for _, line := range strings.Split(strings.TrimRight(string(r.Output), "\n"), "\n") {
+		if len(r.Output) > 0 && (verbose || r.Status == "FAIL") {
+			for _, line := range strings.Split(strings.TrimRight(r.Output, "\n"), "\n") {
 				fmt.Fprintf(w, "    %s\n", line)
 			}
 		}

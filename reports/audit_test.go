@@ -46,34 +46,16 @@ func TestGoldenAuditSmall(t *testing.T) {
 func demoResult(t *testing.T) *checker.Result {
 	t.Helper()
 	ctx := context.Background()
-	src := rules.DefaultLimits()
-	lim, err := rules.LoadLimits(bytes.NewReader(src), "limits.yaml (built in)")
+	lim, err := rules.ParseLimits("limits.yaml (built in)", rules.DefaultLimits())
 	if err != nil {
 		t.Fatal(err)
 	}
-	data, err := lim.Data()
+	policy, err := checker.Compile(ctx, lim, []checker.Source{{Name: "rules", FS: rules.FS()}}, checker.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	sources := []checker.Source{{Name: "rules", FS: rules.FS()}}
-	engine, err := checker.NewEngine(ctx, sources, data, checker.EngineOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	fsys := os.DirFS("../testdata/demo/records")
-	set, err := records.Load(fsys, records.Options{Species: lim.SpeciesCodes()})
-	if err != nil {
-		t.Fatal(err)
-	}
-	fp, err := checker.Fingerprint(fsys, sources, src)
-	if err != nil {
-		t.Fatal(err)
-	}
-	res, err := checker.Check(ctx, checker.Config{
-		Records: set, Limits: lim, LimitsSource: src, Engine: engine,
-		Period:      checker.Period{From: records.MakeDay(2026, 1, 1), To: records.MakeDay(2026, 1, 31)},
-		Fingerprint: fp,
-	})
+	res, err := policy.Check(ctx, os.DirFS("../testdata/demo/records"),
+		checker.Period{From: records.MakeDay(2026, 1, 1), To: records.MakeDay(2026, 1, 31)}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -44,17 +44,21 @@ func ExampleWriteText() {
 	//   total                   62         62          0
 	//
 	// Findings by domain
-	//   domain      significant        minor         note        total
-	//   records               0            0            0            0
-	//   care                  1            0            0            1
-	//   enclosure             0            0            0            0
-	//   handling              0            0            0            0
-	//   staff                 0            0            0            0
-	//   ppe                   0            0            0            0
-	//   protocol              0            0            0            0
-	//   cull                  0            0            0            0
-	//   cold                  0            0            0            0
-	//   total                 1            0            0            1
+	//   domain       significant        minor         note        total
+	//   records                0            0            0            0
+	//   care                   1            0            0            1
+	//   enclosure              0            0            0            0
+	//   handling               0            0            0            0
+	//   staff                  0            0            0            0
+	//   ppe                    0            0            0            0
+	//   protocol               0            0            0            0
+	//   cull                   0            0            0            0
+	//   health                 0            0            0            0
+	//   litter                 0            0            0            0
+	//   cold                   0            0            0            0
+	//   heat                   0            0            0            0
+	//   environment            0            0            0            0
+	//   total                  1            0            0            1
 	//
 	// Care records complete (an observed round and a feeding) on 31 of 31 occupied enclosure-days (100.0 %).
 	//

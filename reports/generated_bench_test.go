@@ -1,7 +1,6 @@
 package reports_test
 
 import (
-	"bytes"
 	"context"
 	"fmt"
 	"io"
@@ -10,7 +9,6 @@ import (
 	"time"
 
 	"welfare/checker"
-	"welfare/records"
 	"welfare/records/synth"
 	"welfare/reports"
 	"welfare/reports/pdf"
@@ -57,25 +55,16 @@ func generatedResult(b *testing.B, n int) *checker.Result {
 	if _, err := synth.Generate(dir, synth.Options{Animals: n, Days: 365, Seed: 7}); err != nil {
 		b.Fatal(err)
 	}
-	src := rules.DefaultLimits()
-	lim, err := rules.LoadLimits(bytes.NewReader(src), "limits.yaml")
-	if err != nil {
-		b.Fatal(err)
-	}
-	data, err := lim.Data()
-	if err != nil {
-		b.Fatal(err)
-	}
-	set, err := records.Load(os.DirFS(dir), records.Options{Species: lim.SpeciesCodes()})
+	lim, err := rules.Default()
 	if err != nil {
 		b.Fatal(err)
 	}
 	ctx := context.Background()
-	engine, err := checker.NewEngine(ctx, []checker.Source{{Name: "rules", FS: rules.FS()}}, data, checker.EngineOptions{})
+	policy, err := checker.Compile(ctx, lim, []checker.Source{{Name: "rules", FS: rules.FS()}}, checker.Options{})
 	if err != nil {
 		b.Fatal(err)
 	}
-	res, err := checker.Check(ctx, checker.Config{Records: set, Limits: lim, LimitsSource: src, Engine: engine})
+	res, err := policy.Check(ctx, os.DirFS(dir), checker.Period{}, nil)
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -16,7 +16,7 @@ const Disclaimer = "This report is a check of the records against the rules and 
 
 // domainOrder is the order of the check catalogue: record keeping first,
 // because rejected rows limit what every other check could see.
-var domainOrder = []string{"records", "care", "enclosure", "handling", "staff", "ppe", "protocol", "cull", "cold"}
+var domainOrder = checker.Domains()
 
 // severities lists the severities most severe first.
 var severities = []checker.Severity{checker.Significant, checker.Minor, checker.Note}

@@ -122,7 +122,7 @@ func writeTally(b *bufio.Writer, r *checker.Result) {
 	t := countFindings(r.Findings)
 	fmt.Fprintf(b, "Findings by domain\n")
 	row := func(name string, cells ...string) {
-		fmt.Fprintf(b, "  %-10s", name)
+		fmt.Fprintf(b, "  %-11s", name)
 		for _, c := range cells {
 			fmt.Fprintf(b, "  %11s", c)
 		}

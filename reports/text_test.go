@@ -51,7 +51,7 @@ func TestWriteText(t *testing.T) {
 		"care_rounds.csv       1540       1534          6",
 		"culls.csv                0          0          0  (not used: missing required column \"method\")",
 		"total                 2800       2793          7",
-		fmt.Sprintf("  %-10s  %11d  %11d  %11d  %11d", "care", care[checker.Significant], care[checker.Minor], care[checker.Note], care[checker.Significant]+care[checker.Minor]+care[checker.Note]),
+		fmt.Sprintf("  %-11s  %11d  %11d  %11d  %11d", "care", care[checker.Significant], care[checker.Minor], care[checker.Note], care[checker.Significant]+care[checker.Minor]+care[checker.Note]),
 		"Checks not evaluated (2)",
 		"ppe.damaged.used: ppe_checks.csv is absent",
 		"on 689 of 744 occupied enclosure-days (92.6 %)",

@@ -108,12 +108,15 @@ answered_in_time(c) if {
 }
 
 about(c) := sprintf(" about %s", [c.animal]) if c.animal != null
+
 else := ""
 
 late(c) := sprintf(" (first after %.1f h)", [c.answered_after_hours]) if c.answered_after_hours != null
+
 else := ""
 
 answered_refs(c) := [c.answered_ref] if c.answered_ref != null
+
 else := []
 
 # METADATA

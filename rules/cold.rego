@@ -5,21 +5,26 @@
 #   work/warm-up schedule for keepers' outdoor stints, and frostbite weather at each site.
 #   Wind chill is the 2001 North American index (°C, km/h) of each reading, unrounded; a
 #   reading without wind counts as calm (wind chill = air temperature). A day's figures are
-#   the minimum over its readings. The facts select the days with the limits in force and
-#   give their figures; these rules compare the figures against data.limits.cold again and
-#   word the messages. Days with no reading at the site are not judged by the checks that
-#   need the weather: they are listed as days_without_weather / days_without_readings.
-#   Input (site): {id, cold: {readings_recorded, frostbite: [RUN], days_without_readings: [{from, until, days}]}}.
+#   the minimum over its readings. The facts pre-select the days that could be findings, comparing
+#   with the limits in force inclusively (the field names say which), and give each day's figures;
+#   these rules make the deciding comparisons against data.limits.cold on each day, group the days
+#   they judge into runs of consecutive days and word the messages. Days with no reading at the
+#   site are not judged by the checks that need the weather: they are listed as
+#   days_without_weather / days_without_readings.
+#   DAY = {on, min_wind_chill_c, wind_chill_display, air_c, wind_kmh, band, ref}: the day's coldest reading.
+#   Input (site): {id, cold: {readings_recorded, days_at_or_below_frostbite_limit: [DAY],
+#     days_without_readings: [{from, until, days}]}}.
 #   Input (enclosure, outdoor or sheltered buildings only): {id, ref, ..., cold: {exposure,
-#     weather_site, nest_box, sheltered, water: [{on, min_air_c, checks, evidence}] (occupied days
-#     below water_check_below_c with fewer than water_checks_min water checks), bedding_stale: [RUN +
-#     last_bedding, min_air_c, bedding_below_c, more_bedding_at_or_below_c, evidence],
-#     shelter_missing: [RUN + evidence], days_without_weather: [{from, until, days}]}}.
+#     weather_site, nest_box, sheltered, days_at_or_below_water_limits: [{on, min_air_c, checks, evidence}],
+#     days_at_or_past_bedding_limits: [DAY + min_air_c, bedding_below_c, more_bedding_at_or_below_c,
+#     last_bedding, days_since_bedding, evidence],
+#     days_at_or_below_shelter_limit_without_nest_box: [DAY + needs_nest_box, needs_shelter, evidence],
+#     days_without_weather: [{from, until, days}]}}.
 #   sheltered: a nest box, or a building of exposure sheltered (a dog's shelter under 9 CFR §3.4(b)).
-#   bedding_below_c / more_bedding_at_or_below_c: the occupants' species' outdoor limits (dogs,
-#   9 CFR §3.4(b)(4)), null when none applies; min_air_c is the run's lowest daily minimum air.
-#   RUN = {from, until, days, min_wind_chill_c, wind_chill_display, air_c, wind_kmh, coldest_on,
-#     coldest_ref, band}: the coldest reading of the run.
+#   needs_shelter: an occupant's species needs a shelter outdoors (dogs, 9 CFR §3.4(b)).
+#   bedding_below_c / more_bedding_at_or_below_c: the occupants' species' outdoor bedding limits
+#   (dogs, 9 CFR §3.4(b)(4)), null when none applies; bedding days are pre-selected when the wind
+#   chill is at or below the bedding limit or the day's minimum air is at or below bedding_below_c.
 #   Input (staff): {id, cold: {stints: [{on, ref, site, started_at, ended_at, minutes, activity,
 #     emergency, reading: null | {ref, at, air_c, wind_kmh, wind_chill_c, wind_chill_display,
 #     hours_before_start}, step: {kind (no_limit, limit, cease, unknown), text, cell, max_work_min,
@@ -35,6 +40,34 @@ wind_text(kmh) := sprintf("wind %v km/h", [kmh]) if kmh != null
 
 else := "wind not recorded"
 
+# day_n numbers a day, so that consecutive days differ by one.
+day_n(on) := time.parse_ns("2006-01-02", on) / 86400000000000
+
+# runs groups days (DAY entries in day order, as the facts give them, that the rule has judged)
+# into runs of consecutive days. A run has its first and last day, its length, its first day's
+# entry, and the coldest reading of the run (the lowest wind chill; the earliest of equal days).
+# It pairs the k-th run start with the k-th run end, so it reads each day a fixed number of times.
+runs(days) := {r |
+	n := [day_n(d.on) | some d in days]
+	starts := [i | some i, _ in days; not follows(n, i)]
+	ends := [i | some i, _ in days; not followed(n, i)]
+	some k, s in starts
+	e := ends[k]
+	members := array.slice(days, s, e + 1)
+	coldest_wc := min([d.min_wind_chill_c | some d in members])
+	c := members[min([i | some i, d in members; d.min_wind_chill_c == coldest_wc])]
+	r := {
+		"from": days[s].on, "until": days[e].on, "days": count(members), "first": days[s],
+		"min_wind_chill_c": c.min_wind_chill_c, "wind_chill_display": c.wind_chill_display,
+		"air_c": c.air_c, "wind_kmh": c.wind_kmh, "coldest_on": c.on, "coldest_ref": c.ref, "band": c.band,
+	}
+}
+
+# follows: day i is the day after day i-1; followed: day i+1 is the day after day i.
+follows(n, i) if n[i - 1] == n[i] - 1
+
+followed(n, i) if n[i + 1] == n[i] + 1
+
 # conditions describes the coldest reading of a run for a keeper.
 conditions(r) := sprintf("coldest wind chill %d on %s (air %v °C, %s)", [r.wind_chill_display, r.coldest_on, r.air_c, wind_text(r.wind_kmh)])
 
@@ -47,7 +80,7 @@ conditions(r) := sprintf("coldest wind chill %d on %s (air %v °C, %s)", [r.wind
 #   source: common practice
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
-	some w in input.cold.water
+	some w in input.cold.days_at_or_below_water_limits
 	w.min_air_c < lim.water_check_below_c
 	w.checks < lim.water_checks_min
 	f := {
@@ -61,7 +94,7 @@ findings contains f if {
 
 # METADATA
 # title: Bedding not refreshed in the cold
-# description: An occupied enclosure in an outdoor or sheltered building had no bedding added in the limit's number of days up to days whose minimum wind chill was at or below the limit, or - for a species with an outdoor bedding limit (dogs, 9 CFR §3.4(b)(4)) in an outdoor building - whose minimum air temperature was below that limit (10 °C).
+# description: An occupied enclosure in an outdoor or sheltered building, on days whose minimum wind chill was at or below the limit (or, for a species with an outdoor bedding limit such as dogs, whose minimum air was below it), had no bedding added in the limit's number of days up to that day.
 # custom:
 #   id: cold.bedding.stale
 #   severity: minor
@@ -69,32 +102,47 @@ findings contains f if {
 #   runs: true
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
-	some r in input.cold.bedding_stale
-	why := bedding_cold(r)
+	stale := [d |
+		some d in input.cold.days_at_or_past_bedding_limits
+		bedding_cold(d)
+		bedding_due(d)
+	]
+	some r in runs(stale)
 	f := {
 		"check": "cold.bedding.stale",
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("no bedding added in the %d days up to each of %d day(s) %s; %s; %s", [lim.bedding_days, r.days, why, conditions(r), last_bedding(r)]),
-		"evidence": r.evidence,
+		"message": sprintf("no bedding added in the %d days up to each of %d day(s) %s; %s; %s", [lim.bedding_days, r.days, bedding_why(r.first), conditions(r), last_bedding(r.first)]),
+		"evidence": [input.ref, r.coldest_ref],
 	}
 }
 
-bedding_cold(r) := sprintf("with wind chill at or below %v", [lim.bedding_wind_chill]) if {
-	r.min_wind_chill_c <= lim.bedding_wind_chill
-} else := sprintf("with air below %v °C, when 9 CFR §3.4(b)(4) requires clean, dry bedding for dogs outdoors (more at or below %v °C)", [r.bedding_below_c, r.more_bedding_at_or_below_c]) if {
-	r.bedding_below_c != null
-	r.min_air_c < r.bedding_below_c
+# A day is cold enough for fresh bedding when its wind chill is at or below the limit, or, for a
+# species with an outdoor bedding limit (dogs, 9 CFR §3.4(b)(4)), its minimum air is below it.
+bedding_cold(d) if d.min_wind_chill_c <= lim.bedding_wind_chill
+
+bedding_cold(d) if {
+	d.bedding_below_c != null
+	d.min_air_c < d.bedding_below_c
 }
 
-last_bedding(r) := sprintf("bedding last added %s", [r.last_bedding]) if r.last_bedding != null
+bedding_why(d) := sprintf("with wind chill at or below %v", [lim.bedding_wind_chill]) if {
+	d.min_wind_chill_c <= lim.bedding_wind_chill
+} else := sprintf("with air below %v °C, when 9 CFR §3.4(b)(4) requires clean, dry bedding for dogs outdoors (more at or below %v °C)", [d.bedding_below_c, d.more_bedding_at_or_below_c])
+
+# Bedding is due on a day when none was ever added, or the last was the limit's days or more before it.
+bedding_due(d) if d.days_since_bedding == null
+
+bedding_due(d) if d.days_since_bedding >= lim.bedding_days
+
+last_bedding(d) := sprintf("bedding last added %s", [d.last_bedding]) if d.last_bedding != null
 
 else := "no bedding added on record"
 
 # METADATA
 # title: No shelter in hard cold
-# description: An enclosure in an outdoor or sheltered building, occupied by a species that needs a nest box, has none recorded - or, occupied by dogs in an outdoor building, has neither a nest box nor the shelter of a sheltered building (9 CFR §3.4(b)) - on days whose minimum wind chill was at or below the limit.
+# description: An enclosure in an outdoor or sheltered building, occupied by a species that needs a nest box (or, in an outdoor building, a species that needs a shelter outdoors, such as dogs under 9 CFR §3.4(b), where a sheltered building also counts), has none recorded on days whose minimum wind chill was at or below the limit.
 # custom:
 #   id: cold.shelter.missing
 #   severity: significant
@@ -102,17 +150,30 @@ else := "no bedding added on record"
 #   runs: true
 #   needs: [weather.csv]
 findings contains f if {
-	some r in input.cold.shelter_missing
 	not input.cold.nest_box
-	r.min_wind_chill_c <= lim.shelter_wind_chill
+	bare := [d |
+		some d in input.cold.days_at_or_below_shelter_limit_without_nest_box
+		needs_shelter(d)
+		d.min_wind_chill_c <= lim.shelter_wind_chill
+	]
+	some r in runs(bare)
 	f := {
 		"check": "cold.shelter.missing",
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
 		"message": sprintf("no nest box or other shelter recorded for animals that need one on %d day(s) with wind chill at or below %v; %s", [r.days, lim.shelter_wind_chill, conditions(r)]),
-		"evidence": r.evidence,
+		"evidence": [input.ref, r.coldest_ref],
 	}
+}
+
+# needs_shelter: a nest-box species without a nest box, or a species that needs a shelter
+# outdoors (dogs) in a building that is not itself a shelter.
+needs_shelter(d) if d.needs_nest_box
+
+needs_shelter(d) if {
+	d.needs_shelter
+	not input.cold.sheltered
 }
 
 # METADATA
@@ -177,8 +238,11 @@ else := ""
 #   runs: true
 #   needs: [weather.csv]
 findings contains f if {
-	some r in input.cold.frostbite
-	r.min_wind_chill_c <= lim.frostbite_wind_chill
+	frost := [d |
+		some d in input.cold.days_at_or_below_frostbite_limit
+		d.min_wind_chill_c <= lim.frostbite_wind_chill
+	]
+	some r in runs(frost)
 	f := {
 		"check": "cold.frostbite.risk",
 		"subject": input.id,

@@ -9,21 +9,38 @@ import data.welfare.cold
 
 enc(cold_facts) := {"kind": "enclosure", "id": "SHED1-03", "ref": "enclosures.csv:4", "cold": object.union(
 	{
-		"exposure": "outdoor", "weather_site": "YARD", "nest_box": false, "water": [],
-		"bedding_stale": [], "shelter_missing": [], "days_without_weather": [],
+		"exposure": "outdoor", "weather_site": "YARD", "nest_box": false,
+		"days_at_or_below_water_limits": [], "days_at_or_past_bedding_limits": [],
+		"days_at_or_below_shelter_limit_without_nest_box": [], "days_without_weather": [],
 	},
 	cold_facts,
 )}
 
-run(wc) := {
-	"from": "2026-01-12", "until": "2026-01-13", "days": 2, "min_wind_chill_c": wc,
-	"wind_chill_display": round(wc), "air_c": -14.5, "wind_kmh": 30, "coldest_on": "2026-01-13",
-	"coldest_ref": "weather.csv:40", "band": "low (risk of hypothermia with long exposure)",
-	"last_bedding": "2026-01-02", "evidence": ["enclosures.csv:4", "weather.csv:40"],
-	"min_air_c": -14.5, "bedding_below_c": null, "more_bedding_at_or_below_c": null,
+# day is one day's coldest reading at the site (an invented reading).
+day(on, wc) := {
+	"on": on, "min_wind_chill_c": wc, "wind_chill_display": round(wc), "air_c": -14.5, "wind_kmh": 30,
+	"band": "low (risk of hypothermia with long exposure)", "ref": sprintf("weather.csv:%d", [day_row[on]]),
 }
 
-site(runs) := {"kind": "site", "id": "YARD", "cold": {"readings_recorded": true, "frostbite": runs, "days_without_readings": []}}
+day_row := {"2026-01-11": 38, "2026-01-12": 39, "2026-01-13": 40, "2026-01-15": 42}
+
+# Two equally cold days in a row: the run's coldest reading is the first's.
+two_days(wc) := [day("2026-01-12", wc), day("2026-01-13", wc)]
+
+bedding_days(days, last, since) := [object.union(d, {
+	"last_bedding": last, "days_since_bedding": plus_days(since, i),
+	"evidence": ["enclosures.csv:4", d.ref],
+}) |
+	some i, d in days
+]
+
+plus_days(since, i) := since + i if since != null
+
+else := null
+
+shelter_days(days, needs) := [object.union(d, {"needs_nest_box": needs, "evidence": ["enclosures.csv:4", d.ref]}) | some d in days]
+
+site(days) := {"kind": "site", "id": "YARD", "cold": {"readings_recorded": true, "days_at_or_below_frostbite_limit": days, "days_without_readings": []}}
 
 staff(stint) := {"kind": "staff", "id": "K-ORVO", "cold": {"stints": [stint]}}
 
@@ -56,8 +73,10 @@ test_clean_enclosure_no_findings if {
 }
 
 # Water: at least 2 checks below 0 °C (common practice).
+water(air, checks) := {"days_at_or_below_water_limits": [{"on": "2026-01-12", "min_air_c": air, "checks": checks, "evidence": ["enclosures.csv:4", "weather.csv:38"]}]}
+
 test_one_water_check_on_freezing_day_fires if {
-	some f in cold.findings with input as enc({"water": [{"on": "2026-01-12", "min_air_c": -0.5, "checks": 1, "evidence": ["enclosures.csv:4", "weather.csv:38"]}]})
+	some f in cold.findings with input as enc(water(-0.5, 1))
 	f.check == "cold.water.checks_insufficient"
 	f.on == "2026-01-12"
 	f.evidence == ["enclosures.csv:4", "weather.csv:38"]
@@ -66,66 +85,103 @@ test_one_water_check_on_freezing_day_fires if {
 }
 
 test_exactly_two_water_checks_is_quiet if {
-	count(cold.findings) == 0 with input as enc({"water": [{"on": "2026-01-12", "min_air_c": -12, "checks": 2, "evidence": []}]})
+	count(cold.findings) == 0 with input as enc(water(-12, 2))
 }
 
 test_water_at_exactly_zero_is_quiet if {
 	# "below 0 °C": a day whose minimum is exactly 0 does not need two checks.
-	count(cold.findings) == 0 with input as enc({"water": [{"on": "2026-01-12", "min_air_c": 0, "checks": 0, "evidence": []}]})
+	count(cold.findings) == 0 with input as enc(water(0, 0))
 }
 
-# Bedding: wind chill at or below −20 (facility choice).
+# Bedding: wind chill at or below −20 (facility choice), none added in 7 days.
 test_bedding_stale_at_exactly_minus_20_fires if {
-	some f in cold.findings with input as enc({"bedding_stale": [run(-20)]})
+	some f in cold.findings with input as enc({"days_at_or_past_bedding_limits": bedding_days(two_days(-20), "2026-01-02", 10)})
 	f.check == "cold.bedding.stale"
 	f.on == "2026-01-12"
 	f.until == "2026-01-13"
+	f.evidence == ["enclosures.csv:4", "weather.csv:39"]
+	contains(f.message, "each of 2 day(s)")
 	contains(f.message, "bedding last added 2026-01-02")
-	contains(f.message, "coldest wind chill -20 on 2026-01-13")
+	contains(f.message, "coldest wind chill -20 on 2026-01-12")
 }
 
 test_bedding_just_above_minus_20_is_quiet if {
-	count(cold.findings) == 0 with input as enc({"bedding_stale": [run(-19.9)]})
+	count(cold.findings) == 0 with input as enc({"days_at_or_past_bedding_limits": bedding_days([day("2026-01-13", -19.9)], "2026-01-02", 10)})
+}
+
+test_bedding_added_6_days_before_is_fresh if {
+	count(cold.findings) == 0 with input as enc({"days_at_or_past_bedding_limits": bedding_days([day("2026-01-13", -30)], "2026-01-07", 6)})
+}
+
+test_bedding_added_7_days_before_is_stale if {
+	some f in cold.findings with input as enc({"days_at_or_past_bedding_limits": bedding_days([day("2026-01-13", -30)], "2026-01-06", 7)})
+	f.check == "cold.bedding.stale"
+	f.on == "2026-01-13"
+}
+
+test_bedding_turns_stale_within_a_cold_spell if {
+	# 6 days on the 12th (fresh), 7 on the 13th (stale): the run starts on the 13th.
+	some f in cold.findings with input as enc({"days_at_or_past_bedding_limits": bedding_days(two_days(-25), "2026-01-06", 6)})
+	f.on == "2026-01-13"
+	f.until == "2026-01-13"
 }
 
 test_bedding_never_added_says_so if {
-	some f in cold.findings with input as enc({"bedding_stale": [object.union(run(-25), {"last_bedding": null})]})
+	some f in cold.findings with input as enc({"days_at_or_past_bedding_limits": bedding_days(two_days(-25), null, null)})
 	contains(f.message, "no bedding added on record")
 }
 
 # Shelter: nest box at or below −20 (common practice).
 test_shelter_missing_at_exactly_minus_20_fires if {
-	some f in cold.findings with input as enc({"shelter_missing": [run(-20)]})
+	some f in cold.findings with input as enc({"days_at_or_below_shelter_limit_without_nest_box": shelter_days(two_days(-20), true)})
 	f.check == "cold.shelter.missing"
+	f.on == "2026-01-12"
 	f.until == "2026-01-13"
 }
 
 test_shelter_just_above_minus_20_is_quiet if {
-	count(cold.findings) == 0 with input as enc({"shelter_missing": [run(-19.99)]})
+	count(cold.findings) == 0 with input as enc({"days_at_or_below_shelter_limit_without_nest_box": shelter_days([day("2026-01-13", -19.99)], true)})
 }
 
 test_shelter_with_nest_box_is_quiet if {
-	count(cold.findings) == 0 with input as enc({"nest_box": true, "shelter_missing": [run(-30)]})
+	count(cold.findings) == 0 with input as enc({"nest_box": true, "days_at_or_below_shelter_limit_without_nest_box": shelter_days(two_days(-30), true)})
+}
+
+test_shelter_for_animals_without_nest_box_need_is_quiet if {
+	count(cold.findings) == 0 with input as enc({"days_at_or_below_shelter_limit_without_nest_box": shelter_days(two_days(-30), false)})
 }
 
 # Frostbite: −28 and colder (Environment and Climate Change Canada hazard bands).
 test_frostbite_at_exactly_minus_28_fires if {
-	some f in cold.findings with input as site([object.union(run(-28), {"band": "exposed skin can freeze in 10–30 min"})])
+	some f in cold.findings with input as site(two_days(-28))
 	f.check == "cold.frostbite.risk"
 	f.subject == "YARD"
-	f.evidence == ["weather.csv:40"]
-	contains(f.message, "exposed skin can freeze in 10–30 min")
+	f.on == "2026-01-12"
+	f.until == "2026-01-13"
+	f.evidence == ["weather.csv:39"]
+	contains(f.message, "on 2 day(s)")
+	contains(f.message, "low (risk of hypothermia with long exposure)")
 }
 
 test_frostbite_just_above_minus_28_is_quiet if {
-	count(cold.findings) == 0 with input as site([run(-27.9)])
+	count(cold.findings) == 0 with input as site([day("2026-01-13", -27.9)])
 }
 
-test_site_without_runs_is_quiet if {
+test_frostbite_days_apart_are_two_runs if {
+	found := {[f.on, f.until] | some f in cold.findings} with input as site([day("2026-01-12", -30), day("2026-01-13", -31), day("2026-01-15", -29)])
+	found == {["2026-01-12", "2026-01-13"], ["2026-01-15", "2026-01-15"]}
+}
+
+test_coldest_of_equal_days_is_the_first if {
+	some f in cold.findings with input as site([day("2026-01-12", -30), day("2026-01-13", -30)])
+	f.evidence == ["weather.csv:39"]
+}
+
+test_site_without_cold_days_is_quiet if {
 	count(cold.findings) == 0 with input as site([])
 }
 
-# Work/warm-up: 40 min allowed in the −35 °C / 8 km/h moderate-work cell (ACGIH TLV table).
+# Work/warm-up: 40 min allowed in the published example cell.
 test_stint_exactly_at_maximum_is_fine if {
 	count(cold.findings) == 0 with input as staff(stint(40, false))
 }
@@ -169,31 +225,39 @@ test_normal_breaks_no_limit if {
 
 # 9 CFR §3.4(b)(4) (references.md "Dogs in the cold"): clean, dry bedding for dogs outdoors when
 # the ambient temperature is below 50 °F (10 °C); more at or below 35 °F (1.7 °C).
-dog_run(air) := object.union(run(-3), {"min_air_c": air, "air_c": air, "bedding_below_c": 10, "more_bedding_at_or_below_c": 1.7})
+dog_bedding_days(air) := [object.union(d, {"min_air_c": air, "air_c": air, "bedding_below_c": 10, "more_bedding_at_or_below_c": 1.7}) |
+	some d in bedding_days([day("2026-01-13", -3)], "2026-01-02", 11)
+]
 
 test_dog_bedding_below_10_c_fires if {
-	some f in cold.findings with input as enc({"bedding_stale": [dog_run(9.9)]})
+	some f in cold.findings with input as enc({"days_at_or_past_bedding_limits": dog_bedding_days(9.9)})
 	f.check == "cold.bedding.stale"
 	contains(f.message, "air below 10 °C")
 	contains(f.message, "9 CFR §3.4(b)(4)")
 }
 
 test_dog_bedding_at_exactly_10_c_is_quiet if {
-	count(cold.findings) == 0 with input as enc({"bedding_stale": [dog_run(10)]})
+	count(cold.findings) == 0 with input as enc({"days_at_or_past_bedding_limits": dog_bedding_days(10)})
 }
 
-# 9 CFR §3.4(b): the facts list a dog enclosure without nest box or sheltered building; the rule
-# judges it by the same wind-chill limit and speaks of shelter.
+# 9 CFR §3.4(b): a dog enclosure in an outdoor building without a nest box has no shelter; the
+# rule judges it by the same wind-chill limit and speaks of shelter. A sheltered building counts.
+dog_shelter_days := [object.union(d, {"needs_shelter": true}) | some d in shelter_days(two_days(-20), false)]
+
 test_dog_without_shelter_fires if {
-	some f in cold.findings with input as enc({"sheltered": false, "shelter_missing": [run(-20)]})
+	some f in cold.findings with input as enc({"sheltered": false, "days_at_or_below_shelter_limit_without_nest_box": dog_shelter_days})
 	f.check == "cold.shelter.missing"
 	contains(f.message, "no nest box or other shelter")
+}
+
+test_dog_in_a_sheltered_building_is_quiet if {
+	count(cold.findings) == 0 with input as enc({"sheltered": true, "days_at_or_below_shelter_limit_without_nest_box": dog_shelter_days})
 }
 
 # checks.md "Corrections to the first set": cold.frostbite.risk speaks of people - the
 # Environment and Climate Change Canada freeze times are for human skin.
 test_frostbite_message_speaks_of_people if {
-	some f in cold.findings with input as site([run(-30)])
+	some f in cold.findings with input as site(two_days(-30))
 	f.check == "cold.frostbite.risk"
 	contains(f.message, "for people working outdoors")
 	contains(f.message, "human skin")

@@ -64,7 +64,7 @@ findings contains f if {
 	}
 }
 
-unmet_conditions(e) := {w |
+unmet_conditions(e) := ({w |
 	e.conditions.general_anaesthesia
 	not e.anaesthetised
 	w := "general anaesthesia (anaesthetised: yes)"
@@ -73,7 +73,7 @@ unmet_conditions(e) := {w |
 	not e.sedated
 	not e.anaesthetised
 	w := "prior sedation or anaesthesia (sedated: yes or anaesthetised: yes)"
-} | {w |
+}) | {w |
 	e.conditions.secondary_method
 	not "secondary_method" in e.confirmation
 	w := "a secondary method to ensure death"

@@ -2,17 +2,23 @@ package welfare.enclosure_test
 
 import data.welfare.enclosure
 
-seg(over) := object.union({
-	"from": "2026-01-01", "until": "2026-01-31", "days": 31, "count": 1,
-	"occupants": [{"animal": "F1", "species": "vulpes_vulpes", "stage": "adult", "required_m2": 0.8}],
-	"required_m2": 0.8, "required_unknown": [], "min_height_cm": 70, "min_cage_m2": 0.8,
-	"needs_nest_box": true, "needs_platform": true, "evidence": ["enclosures.csv:2", "animals.csv:2"],
-}, over)
+seg(over) := object.union(
+	{
+		"from": "2026-01-01", "until": "2026-01-31", "days": 31, "count": 1,
+		"occupants": [{"animal": "F1", "species": "vulpes_vulpes", "stage": "adult", "required_m2": 0.8}],
+		"required_m2": 0.8, "required_unknown": [], "min_height_cm": 70, "min_cage_m2": 0.8,
+		"needs_nest_box": true, "needs_platform": true, "evidence": ["enclosures.csv:2", "animals.csv:2"],
+	},
+	over,
+)
 
-cage(over, s) := object.union({
-	"kind": "enclosure", "id": "S1-01", "ref": "enclosures.csv:2", "area_m2": 0.8, "height_cm": 70,
-	"max_occupants": 1, "nest_box": true, "platform": true, "occupancy": [s],
-}, over)
+cage(over, s) := object.union(
+	{
+		"kind": "enclosure", "id": "S1-01", "ref": "enclosures.csv:2", "area_m2": 0.8, "height_cm": 70,
+		"max_occupants": 1, "nest_box": true, "platform": true, "occupancy": [s],
+	},
+	over,
+)
 
 # Council of Europe fur-animal recommendation (1999), Czech Decree 208/2004 §13:
 # adult fox 0.8 m² and 70 cm — a cage of exactly that passes.

@@ -29,6 +29,10 @@ type Limits struct {
 	// Warm season and inside buildings.
 	Heat        Heat        `yaml:"heat" json:"heat"`
 	Environment Environment `yaml:"environment" json:"environment"`
+
+	// name and src are the file and text ParseLimits read.
+	name string
+	src  []byte
 }
 
 // Species is one species profile.

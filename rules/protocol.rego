@@ -3,7 +3,7 @@
 # description: |
 #   Handlings and culls against the approved protocol they fall under (the row's protocol_id, else
 #   the animal's), and the protocol's animal count and expiry.
-#   Input (protocol): {id, protocol: {ref, title, approved_on, expires_on, expires_after_period_by,
+#   Input (protocol): {id, name (the title), ref, protocol: {approved_on, expires_on, expires_after_period_by,
 #     max_animals, procedures, euthanasia_methods, species, personnel, last_reviewed_on (null when
 #     not recorded), pain_category (B, C, D, E or null),
 #     days: [{on, in_force, refs, purposes: {purpose: [refs]}, methods: {method: [refs]},
@@ -48,7 +48,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": e.on,
 		"message": sprintf("%d handling or cull row(s) under protocol %s on %s, %s. %s", [count(e.refs), input.id, e.on, when(e.on), report]),
-		"evidence": array.concat([p.ref], e.refs),
+		"evidence": array.concat([input.ref], e.refs),
 	}
 }
 
@@ -71,7 +71,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": e.on,
 		"message": sprintf("%s under protocol %s, which approves only %s. %s", [concat(", ", bad), input.id, concat(", ", p.procedures), report]),
-		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.purposes[k]]),
+		"evidence": array.concat([input.ref], [r | some k in bad; some r in e.purposes[k]]),
 	}
 }
 
@@ -94,7 +94,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": e.on,
 		"message": sprintf("cull by %s under protocol %s, which approves only %s; the attending veterinarian and the committee decide on any change of method. %s", [concat(", ", bad), input.id, concat(", ", p.euthanasia_methods), report]),
-		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.methods[k]]),
+		"evidence": array.concat([input.ref], [r | some k in bad; some r in e.methods[k]]),
 	}
 }
 
@@ -115,7 +115,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": p.animals.exceeded_on,
 		"message": sprintf("%d animals held under protocol %s, which approves %d; the count went over on %s (first over the limit: %s). %s", [p.animals.count, input.id, p.max_animals, p.animals.exceeded_on, concat(", ", p.animals.over_animals), report]),
-		"evidence": array.concat([p.ref], p.animals.over_refs),
+		"evidence": array.concat([input.ref], p.animals.over_refs),
 	}
 }
 
@@ -134,8 +134,8 @@ findings contains f if {
 		"check": "protocol.expiring",
 		"subject": input.id,
 		"on": p.expires_on,
-		"message": sprintf("protocol %s (%s) expires on %s, %d day(s) after the checked period; renew it before work continues", [input.id, p.title, p.expires_on, p.expires_after_period_by]),
-		"evidence": [p.ref],
+		"message": sprintf("protocol %s (%s) expires on %s, %d day(s) after the checked period; renew it before work continues", [input.id, input.name, p.expires_on, p.expires_after_period_by]),
+		"evidence": [input.ref],
 	}
 }
 
@@ -158,7 +158,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": e.on,
 		"message": sprintf("%s handled or culled under protocol %s, which approves only %s. %s", [concat(", ", bad), input.id, concat(", ", p.species), report]),
-		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.species[k]]),
+		"evidence": array.concat([input.ref], [r | some k in bad; some r in e.species[k]]),
 	}
 }
 
@@ -181,7 +181,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": e.on,
 		"message": sprintf("%s worked under protocol %s without being listed on it (listed: %s). %s", [concat(", ", bad), input.id, concat(", ", p.personnel), report]),
-		"evidence": array.concat([p.ref], [r | some k in bad; some r in e.staff[k]]),
+		"evidence": array.concat([input.ref], [r | some k in bad; some r in e.staff[k]]),
 	}
 }
 
@@ -217,6 +217,6 @@ findings contains f if {
 		"subject": input.id,
 		"on": e.on,
 		"message": sprintf("work under protocol %s on %s, more than %d months after its %s on %s (covered until %s)", [input.id, e.on, data.limits.protocol.review_every_months, reviewed_what, reviewed_on, review_covers_until]),
-		"evidence": array.concat([p.ref], e.refs),
+		"evidence": array.concat([input.ref], e.refs),
 	}
 }

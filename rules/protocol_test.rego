@@ -3,11 +3,11 @@ package welfare.protocol_test
 import data.welfare.protocol
 
 # Invented protocol BF-07, approved for all of 2025 and 2026.
-base := {"ref": "protocols.csv:2", "title": "Cold tolerance of arctic fox cubs", "approved_on": "2025-01-01", "expires_on": "2026-12-31", "expires_after_period_by": 334, "max_animals": 40, "procedures": ["weighing", "health_check"], "euthanasia_methods": ["barbiturate_overdose"], "species": ["vulpes_lagopus"], "personnel": ["S1", "S3"], "last_reviewed_on": null, "pain_category": "C", "days": [], "animals": {"count": 12, "exceeded_on": null, "over_refs": [], "over_animals": []}}
+base := {"approved_on": "2025-01-01", "expires_on": "2026-12-31", "expires_after_period_by": 334, "max_animals": 40, "procedures": ["weighing", "health_check"], "euthanasia_methods": ["barbiturate_overdose"], "species": ["vulpes_lagopus"], "personnel": ["S1", "S3"], "last_reviewed_on": null, "pain_category": "C", "days": [], "animals": {"count": 12, "exceeded_on": null, "over_refs": [], "over_animals": []}}
 
 day := {"on": "2026-01-12", "in_force": true, "refs": ["handling.csv:2"], "purposes": {"weighing": ["handling.csv:2"]}, "methods": {}, "species": {"vulpes_lagopus": ["handling.csv:2"]}, "staff": {"S1": ["handling.csv:2"]}}
 
-proto(sect) := {"kind": "protocol", "id": "BF-07", "protocol": object.union(base, sect)}
+proto(sect) := {"kind": "protocol", "id": "BF-07", "name": "Cold tolerance of arctic fox cubs", "ref": "protocols.csv:2", "protocol": object.union(base, sect)}
 
 checks(sect) := {f.check | some f in protocol.findings with input as proto(sect)}
 

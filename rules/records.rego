@@ -33,6 +33,7 @@ findings contains f if {
 
 # A row whose date could not be read is placed on the first day of the period.
 row_day(r) := r.on if r.on != null
+
 else := input.period.from
 
 # METADATA
@@ -54,6 +55,7 @@ findings contains f if {
 }
 
 stay_end := input.left_on if input.left_on != null
+
 else := "now"
 
 # METADATA
@@ -95,6 +97,7 @@ departure_matches(c) if {
 }
 
 shown(x) := "(empty)" if x == null
+
 else := x
 
 # METADATA

@@ -19,7 +19,7 @@ import (
 	"welfare/records"
 )
 
-//go:embed *.rego limits.yaml
+//go:embed *.rego limits.yaml schemas/*.json
 var shipped embed.FS
 
 // FS returns the shipped rules: the .rego policies with their _test.rego
@@ -36,14 +36,12 @@ func DefaultLimits() []byte {
 	return b
 }
 
-// LoadLimits decodes and validates a limits file strictly: an unknown key,
-// a value of the wrong type or out of range is a *records.LoadError naming
-// the file, the line and the key, as facility.yaml problems are.
-func LoadLimits(r io.Reader, name string) (*Limits, error) {
-	src, err := io.ReadAll(r)
-	if err != nil {
-		return nil, &records.LoadError{File: name, Reason: "cannot be read: " + err.Error(), Err: err}
-	}
+// ParseLimits decodes and validates the limits file src, read from name,
+// strictly: an unknown key, a value of the wrong type or out of range is a
+// *records.LoadError naming the file, the line and the key, as
+// facility.yaml problems are. The limits keep their text, for the report's
+// "limits in force" (Lines) and the run's fingerprint (Source).
+func ParseLimits(name string, src []byte) (*Limits, error) {
 	var l Limits
 	doc, err := records.DecodeYAML(name, src, &l)
 	if err != nil {
@@ -52,19 +50,43 @@ func LoadLimits(r io.Reader, name string) (*Limits, error) {
 	if key, reason := validateLimits(&l); reason != "" {
 		return nil, &records.LoadError{File: name, Line: records.KeyLine(doc, key), Column: key, Reason: reason}
 	}
+	l.name, l.src = name, src
 	return &l, nil
 }
 
-var (
-	checkIDRe = regexp.MustCompile(`^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*)+$`)
-	cellRe    = regexp.MustCompile(`^(N|C|[1-9][0-9]*/[0-9]+)$`)
-)
+// LoadLimits is ParseLimits on the text read from r.
+func LoadLimits(r io.Reader, name string) (*Limits, error) {
+	src, err := io.ReadAll(r)
+	if err != nil {
+		return nil, &records.LoadError{File: name, Reason: "cannot be read: " + err.Error(), Err: err}
+	}
+	return ParseLimits(name, src)
+}
+
+// Default parses the shipped limits.yaml.
+func Default() (*Limits, error) {
+	return ParseLimits("limits.yaml (built in)", DefaultLimits())
+}
+
+// Name is the file the limits were read from.
+func (l *Limits) Name() string { return l.name }
+
+// Source is the text the limits were parsed from (nil for limits built in
+// Go), the bytes a check's fingerprint covers.
+func (l *Limits) Source() []byte { return l.src }
+
+// CheckID is the form of a check id everywhere (rule METADATA, findings,
+// the limits' severity overrides): domain.topic.problem or domain.problem,
+// lower_snake_case parts.
+var CheckID = regexp.MustCompile(`^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*){1,3}$`)
+
+var cellRe = regexp.MustCompile(`^(N|C|[1-9][0-9]*/[0-9]+)$`)
 
 func newValidator() *validator.Validate {
 	v := validator.New(validator.WithRequiredStructEnabled())
 	v.RegisterTagNameFunc(func(f reflect.StructField) string { return yamlName(f.Tag.Get("yaml")) })
 	_ = v.RegisterValidation("code", func(fl validator.FieldLevel) bool { return records.IsCode(fl.Field().String()) })
-	_ = v.RegisterValidation("check_id", func(fl validator.FieldLevel) bool { return checkIDRe.MatchString(fl.Field().String()) })
+	_ = v.RegisterValidation("check_id", func(fl validator.FieldLevel) bool { return CheckID.MatchString(fl.Field().String()) })
 	_ = v.RegisterValidation("warmup_cell", func(fl validator.FieldLevel) bool { return cellRe.MatchString(fl.Field().String()) })
 	return v
 }
@@ -131,7 +153,8 @@ func describe(fe validator.FieldError) string {
 }
 
 // Data returns the limits as the plain JSON document the rules read as
-// data.limits (map keys are strings, numbers are float64).
+// data.limits (map keys are strings, numbers are float64): the one
+// conversion of the limits for Rego.
 func (l *Limits) Data() (map[string]any, error) {
 	b, err := json.Marshal(l)
 	if err != nil {

@@ -5,18 +5,20 @@
 #   in the records. A handler is the staff_id of a handling row; cull operators are checked for
 #   euthanasia training. The rabies checks cover everyone who works with a rabies-risk species:
 #   handlers, cull operators, and keepers on care rounds of enclosures such a species occupies.
-#   Input (staff): {id, staff: {ref, name, active_from, active_to,
+#   Input (staff): {id, name, ref, staff: {active_from, active_to,
 #     handled: [{on, refs, training: {trained_on, trained_after_event, valid_until},
 #                respirator: null | {refs, fit_on, fit_after_event, valid_until}}],
 #     culled: [{on, refs, methods, untrained_methods, trained_on, trained_after_event, valid_until}],
 #     outside_active: [{on, refs}],
-#     rabies: [{on, refs, work: {handlings, culls, care_rounds},
-#               status: protected|unprotected|overdue|not_required, reason, category, primary_on}]}}
+#     rabies: [{on, refs, work: {handlings, culls, care_rounds}, category,
+#               primary_on, titer_on, titer_iu_ml, booster_on}]}}
 #   One entry per person per day. valid_until is the last day a training or fit test covers (the
 #   same date N months later); null when there was none on or before the day. rabies has an entry
-#   for each day the person worked with a rabies-risk species; its status follows ACIP 2022 for the
-#   person's rabies_risk_category (staff.csv), or the limits' category when none is recorded.
-#   Rabies questions go to the attending physician or occupational health.
+#   for each day the person worked with a rabies-risk species, with the pre-exposure series, the
+#   latest titer and the latest booster recorded on or before the day (null: none) and the person's
+#   ACIP 2022 risk category (rabies_risk_category in staff.csv, else the limits' category); these
+#   rules judge the record by ACIP 2022 for that category. Rabies questions go to the attending
+#   physician or occupational health.
 # scope: package
 # custom:
 #   subjects: [staff]
@@ -24,7 +26,86 @@ package welfare.staff
 
 s := input.staff
 
-evidence(e) := array.concat([s.ref], e.refs)
+evidence(e) := array.concat([input.ref], e.refs)
+
+rabies := data.limits.staff.rabies
+
+# date_plus(day, years, months, days) is a calendar date that far after day (Go's normalisation: 31 Aug + 6 months = 3 Mar).
+date_plus(day, y, m, d) := time.format([time.add_date(time.parse_ns("2006-01-02", day), y, m, d), "UTC", "2006-01-02"])
+
+# rabies_status judges a person's rabies pre-exposure record r on day on by ACIP 2022 (MMWR
+# 2022;71(18):619-627) for the person's risk category r.category: {status: protected|unprotected|
+# overdue|not_required, reason}.
+# The series is complete on rabies_primary_on (the day-7 dose); ACIP counts the titer and booster
+# windows from it.
+rabies_status(r, on) := {"status": "not_required", "reason": ""} if {
+	# Category 5: risk no greater than the general population's; no pre-exposure prophylaxis.
+	r.category == 5
+} else := {"status": "unprotected", "reason": "no rabies pre-exposure series recorded"} if {
+	r.primary_on == null
+} else := {"status": "unprotected", "reason": sprintf("rabies pre-exposure series completed only on %s", [r.primary_on])} if {
+	r.primary_on > on
+} else := {"status": "protected", "reason": ""} if {
+	# Category 4: the primary series only.
+	r.category == 4
+} else := {"status": "overdue", "reason": sprintf("titer %v IU/mL on %s is below %v IU/mL and no booster was given after it", [r.titer_iu_ml, r.titer_on, rabies.min_titer_iu_ml])} if {
+	# In every category a titer below the minimum calls for a booster.
+	r.titer_iu_ml != null
+	r.titer_iu_ml < rabies.min_titer_iu_ml
+	not booster_since(r, r.titer_on)
+} else := periodic_titer(r, on) if {
+	r.category in {1, 2}
+} else := category_3(r, on) if {
+	r.category == 3
+} else := {"status": "protected", "reason": ""}
+
+booster_since(r, day) if {
+	r.booster_on != null
+	r.booster_on >= day
+}
+
+# Categories 1 and 2: a titer every titer_every_months, counted from the series or the last titer after it.
+periodic_titer(r, on) := {"status": "overdue", "reason": reason} if {
+	months := object.get(rabies, ["titer_every_months", sprintf("%d", [r.category])], acip_titer_months[r.category])
+	[since, what] := last_titer_or_series(r)
+	due := date_plus(since, 0, months, 0)
+	on > due
+	reason := sprintf("risk category %d needs a titer every %d months; none since %s (%s), due by %s", [r.category, months, what, since, due])
+} else := {"status": "protected", "reason": ""}
+
+# ACIP 2022 titer intervals, for limits that leave titer_every_months out.
+acip_titer_months := {1: 6, 2: 24}
+
+last_titer_or_series(r) := [r.titer_on, "the last titer"] if {
+	r.titer_on != null
+	r.titer_on > r.primary_on
+} else := [r.primary_on, "the pre-exposure series"]
+
+# Category 3: after 3 years, a titer of at least the minimum taken in years 1-3, a booster after a
+# low titer in that window, or a booster from day 21 to year 3.
+category_3(r, on) := {"status": "protected", "reason": ""} if {
+	on <= date_plus(r.primary_on, 3, 0, 0)
+} else := {"status": "protected", "reason": ""} if {
+	titer_in_window(r)
+	r.titer_iu_ml >= rabies.min_titer_iu_ml
+} else := {"status": "protected", "reason": ""} if {
+	titer_in_window(r)
+	booster_since(r, r.titer_on)
+} else := {"status": "protected", "reason": ""} if {
+	booster_since(r, date_plus(r.primary_on, 0, 0, 21))
+	r.booster_on <= date_plus(r.primary_on, 3, 0, 0)
+} else := {"status": "overdue", "reason": reason} if {
+	reason := sprintf("more than 3 years since the pre-exposure series (%s) with no titer of at least %v IU/mL taken %s to %s and no booster given %s to %s", [
+		r.primary_on, rabies.min_titer_iu_ml, date_plus(r.primary_on, 1, 0, 0), date_plus(r.primary_on, 3, 0, 0),
+		date_plus(r.primary_on, 0, 0, 21), date_plus(r.primary_on, 3, 0, 0),
+	])
+}
+
+titer_in_window(r) if {
+	r.titer_on != null
+	r.titer_on >= date_plus(r.primary_on, 1, 0, 0)
+	r.titer_on <= date_plus(r.primary_on, 3, 0, 0)
+}
 
 # Why a training record does not cover day e.on, or undefined when it does.
 lapsed(t, on, what) := sprintf("no %s recorded", [what]) if {
@@ -50,7 +131,7 @@ findings contains f if {
 		"check": "staff.handling.untrained",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s handled %d animal(s): %s (refresher every %d months)", [s.name, count(e.refs), why, data.limits.staff.handling_training_months]),
+		"message": sprintf("%s handled %d animal(s): %s (refresher every %d months)", [input.name, count(e.refs), why, data.limits.staff.handling_training_months]),
 		"evidence": evidence(e),
 	}
 }
@@ -70,7 +151,7 @@ findings contains f if {
 		"check": "staff.euthanasia.untrained",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s performed %d cull(s) by %s: %s. Euthanasia must be done only by people trained for the method, as the attending veterinarian and the AVMA Guidelines direct", [s.name, count(e.refs), concat(", ", e.methods), why]),
+		"message": sprintf("%s performed %d cull(s) by %s: %s. Euthanasia must be done only by people trained for the method, as the attending veterinarian and the AVMA Guidelines direct", [input.name, count(e.refs), concat(", ", e.methods), why]),
 		"evidence": evidence(e),
 	}
 }
@@ -103,12 +184,13 @@ work_word := {"handlings": "handling(s)", "culls": "cull(s)", "care_rounds": "ca
 #   needs: [staff.csv]
 findings contains f if {
 	some e in s.rabies
-	e.status == "unprotected"
+	st := rabies_status(e, e.on)
+	st.status == "unprotected"
 	f := {
 		"check": "staff.rabies.unprotected",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s worked with rabies-risk animals (%s): %s. Refer to occupational health; after any bite or scratch the physician decides on post-exposure prophylaxis", [s.name, rabies_work(e.work), e.reason]),
+		"message": sprintf("%s worked with rabies-risk animals (%s): %s. Refer to occupational health; after any bite or scratch the physician decides on post-exposure prophylaxis", [input.name, rabies_work(e.work), st.reason]),
 		"evidence": evidence(e),
 	}
 }
@@ -128,12 +210,13 @@ findings contains f if {
 #   needs: [staff.csv]
 findings contains f if {
 	some e in s.rabies
-	e.status == "overdue"
+	st := rabies_status(e, e.on)
+	st.status == "overdue"
 	f := {
 		"check": "staff.rabies.followup_overdue",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s worked with rabies-risk animals (%s): %s (ACIP 2022 risk category %d). Refer to occupational health", [s.name, rabies_work(e.work), e.reason, e.category]),
+		"message": sprintf("%s worked with rabies-risk animals (%s): %s (ACIP 2022 risk category %d). Refer to occupational health", [input.name, rabies_work(e.work), st.reason, e.category]),
 		"evidence": evidence(e),
 	}
 }
@@ -155,8 +238,8 @@ findings contains f if {
 		"check": "staff.respirator.fit_overdue",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s wore a respirator: %s (fit test every %d months)", [s.name, why, data.limits.staff.respirator_fit_months]),
-		"evidence": array.concat([s.ref], r.refs),
+		"message": sprintf("%s wore a respirator: %s (fit test every %d months)", [input.name, why, data.limits.staff.respirator_fit_months]),
+		"evidence": array.concat([input.ref], r.refs),
 	}
 }
 
@@ -180,7 +263,7 @@ findings contains f if {
 		"check": "staff.inactive",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s is named on %d row(s) on %s, outside their employment %s", [s.name, count(e.refs), e.on, window]),
+		"message": sprintf("%s is named on %d row(s) on %s, outside their employment %s", [input.name, count(e.refs), e.on, window]),
 		"evidence": evidence(e),
 	}
 }

@@ -6,18 +6,17 @@
 //
 //   - The wind chill formula is the 2001 North American wind chill
 //     temperature index (used by Environment and Climate Change Canada and
-//     the US National Weather Service), in its °C/km/h and °F/mph forms,
-//     with its published validity limits (T ≤ 10 °C, V > 4.8 km/h; T ≤ 50 °F,
-//     V > 3 mph). Published charts show the value rounded to the nearest
-//     degree; Display does that rounding.
+//     the US National Weather Service), in its °C/km/h form, with its
+//     published validity limits (T ≤ 10 °C, V > 4.8 km/h). Published charts
+//     show the value rounded to the nearest degree; Display does that
+//     rounding. The records arrive in SI units (records converts °F and mph
+//     on loading); the tests hold the °C form to the NWS chart in °F/mph.
 //   - The hazard bands and their wording are Environment and Climate Change
 //     Canada's wind chill hazard bands.
 //   - The work/warm-up schedule is the ACGIH TLV cold-stress schedule for a
 //     4-hour shift (of Saskatchewan origin). The table itself is not in this
 //     package: it is data in limits.yaml (cold.work_warmup), so a facility
 //     can edit it; NewSchedule reads it.
-//   - Unit factors are NIST SP 811's: 1 mph = 1.609344 km/h exactly and
-//     °C = (°F − 32)/1.8.
 //
 // What is ours: the short band labels, the reading of the schedule as a
 // lookup (row = air temperature rounded down to a whole degree; the first

@@ -10,10 +10,6 @@ const (
 	MaxAirC = 10.0
 	// MinWindKmh is the wind, in km/h, the wind must exceed for the index to apply.
 	MinWindKmh = 4.8
-	// MaxAirF is MaxAirC in °F.
-	MaxAirF = 50.0
-	// MinWindMph is MinWindKmh in mph, as the °F/mph form states it.
-	MinWindMph = 3.0
 )
 
 // Applies reports whether the 2001 wind chill index is defined for this air
@@ -38,21 +34,6 @@ func WindChillC(airC, windKmh float64) float64 {
 	return 13.12 + 0.6215*airC - 11.37*v + 0.3965*airC*v
 }
 
-// WindChillF is the same index in its °F/mph form:
-//
-//	35.74 + 0.6215·T − 35.75·V^0.16 + 0.4275·T·V^0.16
-//
-// defined for T ≤ 50 °F and V > 3 mph; otherwise it returns the air
-// temperature. The two forms agree to within rounding, not exactly, because
-// their coefficients were rounded separately.
-func WindChillF(airF, windMph float64) float64 {
-	if airF > MaxAirF || windMph <= MinWindMph {
-		return airF
-	}
-	v := math.Pow(windMph, 0.16)
-	return 35.74 + 0.6215*airF - 35.75*v + 0.4275*airF*v
-}
-
 // Display rounds a temperature or wind chill to the nearest whole degree,
 // halves away from zero (math.Round), as the published charts show it.
 // Comparisons against limits should use the unrounded value unless a rule
@@ -61,18 +42,3 @@ func WindChillF(airF, windMph float64) float64 {
 func Display(x float64) int {
 	return int(math.Round(x))
 }
-
-// mphKmh is the exact factor of NIST SP 811: 1 mph = 1.609344 km/h.
-const mphKmh = 1.609344
-
-// FToC converts °F to °C: (°F − 32)/1.8 (NIST SP 811).
-func FToC(f float64) float64 { return (f - 32) / 1.8 }
-
-// CToF converts °C to °F: °C·1.8 + 32 (NIST SP 811).
-func CToF(c float64) float64 { return c*1.8 + 32 }
-
-// MphToKmh converts miles per hour to km/h (1 mph = 1.609344 km/h exactly, NIST SP 811).
-func MphToKmh(mph float64) float64 { return mph * mphKmh }
-
-// KmhToMph converts km/h to miles per hour (NIST SP 811).
-func KmhToMph(kmh float64) float64 { return kmh / mphKmh }

@@ -36,9 +36,9 @@ var nwsChart = []struct {
 func TestWindChillFNWSChart(t *testing.T) {
 	for _, tc := range nwsChart {
 		t.Run(tc.name, func(t *testing.T) {
-			got := Display(WindChillF(tc.airF, tc.mph))
+			got := Display(windChillF(tc.airF, tc.mph))
 			if got != tc.want {
-				t.Errorf("Display(WindChillF(%g, %g)) = %d, want %d", tc.airF, tc.mph, got, tc.want)
+				t.Errorf("Display(windChillF(%g, %g)) = %d, want %d", tc.airF, tc.mph, got, tc.want)
 			}
 		})
 	}
@@ -50,7 +50,7 @@ func TestWindChillFNWSChart(t *testing.T) {
 func TestWindChillCMatchesNWSChart(t *testing.T) {
 	for _, tc := range nwsChart {
 		t.Run(tc.name, func(t *testing.T) {
-			got := Display(CToF(WindChillC(FToC(tc.airF), MphToKmh(tc.mph))))
+			got := Display(cToF(WindChillC(fToC(tc.airF), mphToKmh(tc.mph))))
 			if got != tc.want {
 				t.Errorf("via °C/km/h: %g °F, %g mph → %d, want %d", tc.airF, tc.mph, got, tc.want)
 			}
@@ -66,9 +66,9 @@ func TestWindChillCMatchesNWSChart(t *testing.T) {
 func TestWindChillFormsAgree(t *testing.T) {
 	for f := -45.0; f <= 40; f += 5 {
 		for v := 5.0; v <= 60; v += 5 {
-			viaC := CToF(WindChillC(FToC(f), MphToKmh(v)))
-			if d := math.Abs(WindChillF(f, v) - viaC); d > 0.1 {
-				t.Errorf("%g °F, %g mph: °F form %.3f, °C form %.3f (gap %.3f)", f, v, WindChillF(f, v), viaC, d)
+			viaC := cToF(WindChillC(fToC(f), mphToKmh(v)))
+			if d := math.Abs(windChillF(f, v) - viaC); d > 0.1 {
+				t.Errorf("%g °F, %g mph: °F form %.3f, °C form %.3f (gap %.3f)", f, v, windChillF(f, v), viaC, d)
 			}
 		}
 	}
@@ -183,9 +183,9 @@ func TestWindChillFValidity(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			got := WindChillF(tc.airF, tc.mph)
+			got := windChillF(tc.airF, tc.mph)
 			if (got == tc.airF) != tc.same {
-				t.Errorf("WindChillF(%g, %g) = %g; air temperature returned: %v, want %v", tc.airF, tc.mph, got, got == tc.airF, tc.same)
+				t.Errorf("windChillF(%g, %g) = %g; air temperature returned: %v, want %v", tc.airF, tc.mph, got, got == tc.airF, tc.same)
 			}
 		})
 	}
@@ -197,15 +197,15 @@ func TestUnits(t *testing.T) {
 		got  float64
 		want float64
 	}{
-		{"-40C is -40F", CToF(-40), -40},   // common practice: the scales cross at −40
-		{"-40F is -40C", FToC(-40), -40},   // common practice: the scales cross at −40
-		{"freezing", FToC(32), 0},          // NIST SP 811: water freezes at 32 °F = 0 °C
-		{"boiling", CToF(100), 212},        // NIST SP 811: 100 °C = 212 °F
-		{"1 mph", MphToKmh(1), 1.609344},   // NIST SP 811: 1 mph = 1.609344 km/h exactly
-		{"60 mph", MphToKmh(60), 96.56064}, // NIST SP 811 factor × 60
-		{"1.609344 km/h", KmhToMph(1.609344), 1},
-		{"round trip wind", KmhToMph(MphToKmh(37)), 37},
-		{"round trip temp", FToC(CToF(-37.5)), -37.5},
+		{"-40C is -40F", cToF(-40), -40},   // common practice: the scales cross at −40
+		{"-40F is -40C", fToC(-40), -40},   // common practice: the scales cross at −40
+		{"freezing", fToC(32), 0},          // NIST SP 811: water freezes at 32 °F = 0 °C
+		{"boiling", cToF(100), 212},        // NIST SP 811: 100 °C = 212 °F
+		{"1 mph", mphToKmh(1), 1.609344},   // NIST SP 811: 1 mph = 1.609344 km/h exactly
+		{"60 mph", mphToKmh(60), 96.56064}, // NIST SP 811 factor × 60
+		{"1.609344 km/h", kmhToMph(1.609344), 1},
+		{"round trip wind", kmhToMph(mphToKmh(37)), 37},
+		{"round trip temp", fToC(cToF(-37.5)), -37.5},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -241,3 +241,36 @@ func BenchmarkWindChillC(b *testing.B) {
 	}
 	_ = sink
 }
+
+// The °F/mph form and the unit conversions are used here only, to hold
+// WindChillC to the NWS chart, which is published in °F and mph.
+
+// windChillF is the same index in its °F/mph form:
+//
+//	35.74 + 0.6215·T − 35.75·V^0.16 + 0.4275·T·V^0.16
+//
+// defined for T ≤ 50 °F and V > 3 mph; otherwise it returns the air
+// temperature. The two forms agree to within rounding, not exactly, because
+// their coefficients were rounded separately.
+func windChillF(airF, windMph float64) float64 {
+	if airF > 50.0 || windMph <= 3.0 {
+		return airF
+	}
+	v := math.Pow(windMph, 0.16)
+	return 35.74 + 0.6215*airF - 35.75*v + 0.4275*airF*v
+}
+
+// mphKmh is the exact factor of NIST SP 811: 1 mph = 1.609344 km/h.
+const mphKmh = 1.609344
+
+// fToC converts °F to °C: (°F − 32)/1.8 (NIST SP 811).
+func fToC(f float64) float64 { return (f - 32) / 1.8 }
+
+// cToF converts °C to °F: °C·1.8 + 32 (NIST SP 811).
+func cToF(c float64) float64 { return c*1.8 + 32 }
+
+// mphToKmh converts miles per hour to km/h (1 mph = 1.609344 km/h exactly, NIST SP 811).
+func mphToKmh(mph float64) float64 { return mph * mphKmh }
+
+// kmhToMph converts km/h to miles per hour (NIST SP 811).
+func kmhToMph(kmh float64) float64 { return kmh / mphKmh }

@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"slices"
 	"strings"
 	"time"
 
@@ -37,7 +38,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.from, "from", "", "first `DAY` of the period (YYYY-MM-DD; default: the first dated record)")
 	fs.StringVar(&o.to, "to", "", "last `DAY` of the period (default: the last dated record)")
 	fs.StringVar(&o.on, "on", "", "check one `DAY` and print the morning view (sites' cold, problems to fix now)")
-	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report (records, care, enclosure, handling, staff, ppe, protocol, cull, cold, or a committee's own)")
+	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report ("+strings.Join(checker.Domains(), ", ")+", or a committee's own)")
 	fs.StringVar(&o.limits, "limits", "", "limits `FILE` (replaces the built-in limits; see 'welfare limits show')")
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
 	fs.BoolVar(&o.rulesOnly, "rules-only", false, "use only the --rules folders, not the built-in rules")
@@ -96,34 +97,25 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if err != nil {
 		return err
 	}
-	engine, err := checker.NewEngine(ctx, sources, lim.data, checker.EngineOptions{Timeout: o.timeoutPerEval})
-	if err != nil {
-		return err
-	}
-	only, err := parseOnly(o.only, engine.Checks())
-	if err != nil {
-		return err
-	}
-	ph.enter("load", "rows")
-	fsys, set, err := loadRecordsCounted(ctx, dir, lim, ph.add)
-	if err != nil {
-		return err
-	}
-	ph.enter("fingerprint", "")
-	fp, err := checker.Fingerprint(fsys, sources, lim.src)
-	if err != nil {
-		return err
-	}
-	res, err := checker.Check(ctx, checker.Config{
-		Records: set, Limits: lim.limits, LimitsSource: lim.src, Engine: engine,
-		Period: period, Only: only, Fingerprint: fp,
+	policy, err := checker.Compile(ctx, lim, sources, checker.Options{Timeout: o.timeoutPerEval,
 		Progress: func(phase string, done int) {
 			if done == 0 {
-				ph.enter(phase, map[string]string{"rules": "subjects"}[phase])
+				ph.enter(phase, map[string]string{"load": "rows", "rules": "subjects"}[phase])
 			}
 			ph.set(done)
-		},
-	})
+		}})
+	if err != nil {
+		return err
+	}
+	only, err := parseOnly(o.only, policy.Domains())
+	if err != nil {
+		return err
+	}
+	fsys, err := recordsFolder(dir)
+	if err != nil {
+		return err
+	}
+	res, err := policy.Check(ctx, fsys, period, only)
 	if err != nil {
 		return err
 	}
@@ -144,7 +136,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		{o.jsonOut, func(w io.Writer) error { return reports.WriteJSON(w, res) }},
 		{o.csvOut, func(w io.Writer) error { return reports.WriteCSV(w, res) }},
 		{o.pdfOut, func(w io.Writer) error {
-			return pdf.Write(w, res, reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: siteOf(set)})
+			return pdf.Write(w, res, reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: res.SiteOf})
 		}},
 	}
 	for _, out := range outputs {
@@ -162,31 +154,6 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		}
 	}
 	return nil
-}
-
-// siteOf maps the subjects of cold findings to the weather site whose
-// chart they belong on: an enclosure to its building's site, a keeper to
-// the site of their stints, a site to itself.
-func siteOf(set *records.Set) map[string]string {
-	m := map[string]string{}
-	bsite := map[string]string{}
-	for _, b := range set.Facility.Buildings {
-		bsite[b.ID] = b.WeatherSite
-	}
-	for _, e := range set.Enclosures {
-		if s := bsite[e.BuildingID]; s != "" {
-			m[e.ID] = s
-		}
-	}
-	for _, w := range set.Work {
-		if _, ok := m[w.StaffID]; !ok {
-			m[w.StaffID] = w.SiteID
-		}
-	}
-	for _, s := range set.Facility.WeatherSites {
-		m[s] = s
-	}
-	return m
 }
 
 func failOnRank(s string) (int, error) {
@@ -234,22 +201,14 @@ func parsePeriod(o *checkOpts) (checker.Period, error) {
 
 // parseOnly checks --only against the domains of the rules in force, so a
 // committee's own package is as selectable as the shipped ones.
-func parseOnly(s string, checks []checker.CheckInfo) ([]string, error) {
+func parseOnly(s string, names []string) ([]string, error) {
 	if s == "" {
 		return nil, nil
-	}
-	known := map[string]bool{}
-	var names []string
-	for _, c := range checks {
-		if !known[c.Domain] {
-			known[c.Domain] = true
-			names = append(names, c.Domain)
-		}
 	}
 	var out []string
 	for _, d := range strings.Split(s, ",") {
 		d = strings.TrimSpace(d)
-		if !known[d] {
+		if !slices.Contains(names, d) {
 			return nil, usagef("--only: %q is not a domain of the rules in force (%s)", d, strings.Join(names, ", "))
 		}
 		out = append(out, d)

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"context"
 	"fmt"
 	"io/fs"
@@ -13,32 +12,16 @@ import (
 	"welfare/rules"
 )
 
-// limitsIn is the limits in force and the text they came from.
-type limitsIn struct {
-	limits *rules.Limits
-	src    []byte
-	data   map[string]any
-}
-
 // loadLimits reads --limits FILE, or the shipped defaults when empty.
-func loadLimits(path string) (*limitsIn, error) {
-	src, name := rules.DefaultLimits(), "limits.yaml (built in)"
-	if path != "" {
-		b, err := os.ReadFile(path)
-		if err != nil {
-			return nil, fmt.Errorf("limits: %w", err)
-		}
-		src, name = b, path
+func loadLimits(path string) (*rules.Limits, error) {
+	if path == "" {
+		return rules.Default()
 	}
-	l, err := rules.LoadLimits(bytes.NewReader(src), name)
+	b, err := os.ReadFile(path)
 	if err != nil {
-		return nil, err
+		return nil, fmt.Errorf("limits: %w", err)
 	}
-	data, err := l.Data()
-	if err != nil {
-		return nil, err
-	}
-	return &limitsIn{limits: l, src: src, data: data}, nil
+	return rules.ParseLimits(path, b)
 }
 
 // ruleSources are the shipped rules (unless rulesOnly) plus each --rules DIR.
@@ -63,26 +46,35 @@ func ruleSources(dirs []string, rulesOnly bool) ([]checker.Source, error) {
 	return out, nil
 }
 
+// recordsFolder opens a records folder for reading: reads stay inside the
+// folder, so a link leading out of it is not followed.
+func recordsFolder(dir string) (fs.FS, error) {
+	st, err := os.Stat(dir)
+	if err != nil {
+		return nil, fmt.Errorf("records folder: %w", err)
+	}
+	if !st.IsDir() {
+		return nil, fmt.Errorf("records folder: %s is not a folder", dir)
+	}
+	fsys, err := records.OpenFolder(dir)
+	if err != nil {
+		return nil, fmt.Errorf("records folder: %w", err)
+	}
+	return fsys, nil
+}
+
 // loadRecords reads a records folder with the species of the limits in force.
-func loadRecords(ctx context.Context, dir string, lim *limitsIn) (fs.FS, *records.Set, error) {
+func loadRecords(ctx context.Context, dir string, lim *rules.Limits) (fs.FS, *records.Set, error) {
 	return loadRecordsCounted(ctx, dir, lim, nil)
 }
 
 // loadRecordsCounted is loadRecords telling progress (when not nil) the rows read.
-func loadRecordsCounted(ctx context.Context, dir string, lim *limitsIn, progress func(rows int)) (fs.FS, *records.Set, error) {
-	st, err := os.Stat(dir)
+func loadRecordsCounted(ctx context.Context, dir string, lim *rules.Limits, progress func(rows int)) (fs.FS, *records.Set, error) {
+	fsys, err := recordsFolder(dir)
 	if err != nil {
-		return nil, nil, fmt.Errorf("records folder: %w", err)
+		return nil, nil, err
 	}
-	if !st.IsDir() {
-		return nil, nil, fmt.Errorf("records folder: %s is not a folder", dir)
-	}
-	// Reads stay inside the folder: a link leading out of it is not followed.
-	fsys, err := records.OpenFolder(dir)
-	if err != nil {
-		return nil, nil, fmt.Errorf("records folder: %w", err)
-	}
-	set, err := records.LoadContext(ctx, fsys, records.Options{Species: lim.limits.SpeciesCodes(), Progress: progress})
+	set, err := records.LoadContext(ctx, fsys, records.Options{Species: lim.SpeciesCodes(), Progress: progress})
 	if err != nil {
 		return nil, nil, err
 	}

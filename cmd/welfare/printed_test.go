@@ -273,6 +273,8 @@ func (r *printedRunner) placeholderValue(p, prev string) (string, error) {
 		return "check", nil
 	case "DAY":
 		return "2026-01-15", nil
+	case "KIND":
+		return "enclosure", nil
 	}
 	return "", fmt.Errorf("placeholder %s has no value in printed_test.go's placeholderValue: add one", p)
 }

@@ -5,9 +5,11 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strings"
 	"text/tabwriter"
 
 	"welfare/checker"
+	"welfare/rules"
 )
 
 type rulesOpts struct {
@@ -36,11 +38,14 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		return err
 	}
 	if len(pos) == 0 {
-		return &usageError{cmd: "rules", msg: "needs list or test"}
+		return &usageError{cmd: "rules", msg: "needs list, test or input"}
 	}
 	verb := pos[0]
+	if verb == "input" {
+		return printInput(pos[1:], stdout)
+	}
 	if verb != "list" && verb != "test" {
-		return &usageError{cmd: "rules", msg: unknownVerb(verb, "list", "test")}
+		return &usageError{cmd: "rules", msg: unknownVerb(verb, "list", "test", "input")}
 	}
 	// "welfare rules test DIR" reads naturally: a bare folder is a --rules folder.
 	o.rules = append(o.rules, pos[1:]...)
@@ -52,24 +57,21 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 	if err != nil {
 		return err
 	}
-	switch verb {
-	case "list":
-		engine, err := checker.NewEngine(ctx, sources, lim.data, checker.EngineOptions{})
-		if err != nil {
-			return err
-		}
-		printChecks(stdout, engine.Checks(), lim.limits.Severity)
+	policy, err := checker.Compile(ctx, lim, sources, checker.Options{})
+	if err != nil {
+		return err
+	}
+	if verb == "list" {
+		printChecks(stdout, policy.Checks(), lim.Severity)
 		return nil
-	case "test":
-		// RunTests prints each test and the closing "N passed, M failed".
-		_, failed, err := checker.RunTests(ctx, sources, lim.data, stdout, o.verbose)
-		if err != nil {
-			return err
-		}
-		if failed > 0 {
-			return errFindings
-		}
-		return nil
+	}
+	// Test prints each test and the closing "N passed, M failed".
+	_, failed, err := policy.Test(ctx, stdout, o.verbose)
+	if err != nil {
+		return err
+	}
+	if failed > 0 {
+		return errFindings
 	}
 	return nil
 }
@@ -86,4 +88,26 @@ func printChecks(w io.Writer, checks []checker.CheckInfo, overrides map[string]s
 	}
 	tw.Flush()
 	fmt.Fprintln(w, "\nSources marked 'from memory' are to be verified against the current text before relying on them.")
+}
+
+// printInput prints the input document of one subject kind as a table: the
+// fields a committee's rule can read, from the schema the compiler checks
+// rules against.
+func printInput(args []string, w io.Writer) error {
+	if len(args) != 1 {
+		return usagef("rules input needs one subject KIND (%s)", strings.Join(rules.InputKinds(), ", "))
+	}
+	s, err := rules.InputSchema(args[0])
+	if err != nil {
+		return usagef("rules input: %v", err)
+	}
+	fmt.Fprintf(w, "input (%s): %s\n\n", args[0], s.Description)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "field\ttype\tmeaning")
+	for _, f := range s.Fields() {
+		fmt.Fprintf(tw, "input.%s\t%s\t%s\n", f.Path, f.Type, f.Description)
+	}
+	tw.Flush()
+	fmt.Fprintln(w, "\nA list's entries are written NAME[]; a map's keys {KEY}. A rule that reads a field not listed here does not compile.")
+	return nil
 }

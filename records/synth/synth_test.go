@@ -11,7 +11,6 @@ import (
 	"github.com/google/go-cmp/cmp"
 
 	"welfare/checker"
-	"welfare/records"
 	"welfare/records/synth"
 	"welfare/rules"
 )
@@ -45,7 +44,7 @@ func TestFindingsEqualPlanted(t *testing.T) {
 	for _, p := range planted {
 		kinds[p.Check] = true
 	}
-	for _, c := range engine(t).Checks() {
+	for _, c := range policy(t).Checks() {
 		if !kinds[c.ID] {
 			t.Errorf("no planted instance of %s: add a plant in plant.go", c.ID)
 		}
@@ -93,38 +92,27 @@ func TestRejectsSizes(t *testing.T) {
 	}
 }
 
-func limits(t *testing.T) (*rules.Limits, []byte, map[string]any) {
+func limits(t *testing.T) *rules.Limits {
 	t.Helper()
-	src := rules.DefaultLimits()
-	lim, err := rules.LoadLimits(bytes.NewReader(src), "limits.yaml")
+	lim, err := rules.Default()
 	if err != nil {
 		t.Fatal(err)
 	}
-	data, err := lim.Data()
-	if err != nil {
-		t.Fatal(err)
-	}
-	return lim, src, data
+	return lim
 }
 
-func engine(t *testing.T) *checker.Engine {
+func policy(t *testing.T) *checker.Policy {
 	t.Helper()
-	_, _, data := limits(t)
-	e, err := checker.NewEngine(context.Background(), []checker.Source{{Name: "rules", FS: rules.FS()}}, data, checker.EngineOptions{})
+	p, err := checker.Compile(context.Background(), limits(t), []checker.Source{{Name: "rules", FS: rules.FS()}}, checker.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	return e
+	return p
 }
 
 func check(t *testing.T, dir string) []synth.Planted {
 	t.Helper()
-	lim, _, _ := limits(t)
-	set, err := records.Load(os.DirFS(dir), records.Options{Species: lim.SpeciesCodes()})
-	if err != nil {
-		t.Fatal(err)
-	}
-	res, err := checker.Check(context.Background(), checker.Config{Records: set, Limits: lim, Engine: engine(t)})
+	res, err := policy(t).Check(context.Background(), os.DirFS(dir), checker.Period{}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -7,6 +7,8 @@
 # METADATA
 # title: Daily care (engine test policy)
 # description: Exercises runs, severity precedence and evidence merging.
+# schemas:
+#   - input: {type: object}
 # scope: package
 # custom:
 #   subjects: [enclosure]

@@ -5,6 +5,8 @@
 # METADATA
 # title: Cold (engine test policy)
 # description: A package that receives two subject kinds and reports runs it computed itself.
+# schemas:
+#   - input: {type: object}
 # scope: package
 # custom:
 #   subjects: [site, enclosure]

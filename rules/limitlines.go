@@ -1,4 +1,4 @@
-package checker
+package rules
 
 import (
 	"fmt"
@@ -7,6 +7,23 @@ import (
 
 	"go.yaml.in/yaml/v3"
 )
+
+// LimitLine is one value of the limits file: "cold.bedding_days = 7  [F] ...".
+type LimitLine struct {
+	Key    string
+	Value  string
+	Source string
+}
+
+// Lines flattens the limits into one line per value, each with the source
+// tag its comment in the limits text gives: the "limits in force" of a
+// report. Limits not made by ParseLimits have no text and give none.
+func (l *Limits) Lines() []LimitLine {
+	if len(l.src) == 0 {
+		return nil
+	}
+	return limitLines(l.src)
+}
 
 // sourceTag finds a value's source tag in its comment: [P] ..., [C], [F], [M].
 var sourceTag = regexp.MustCompile(`\[[PCFM]\].*`)

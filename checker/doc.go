@@ -1,0 +1,71 @@
+// Package checker judges a records folder by the committee's rules and
+// limits.
+//
+// # One face
+//
+// Callers see three things:
+//
+//	policy, err := checker.Compile(ctx, limits, sources, checker.Options{}) // once
+//	res, err := policy.Check(ctx, recordsFS, period, only)                  // per folder
+//	policy.Checks(); policy.Test(ctx, w, verbose)                           // what is in force; its tests
+//
+// Compile converts the limits (rules.ParseLimits) once into data.limits,
+// parses and compiles the rule files in the sandbox and reads their
+// METADATA. Check loads the folder through a capturing file system, so the
+// result's fingerprint covers exactly the bytes read; computes the facts;
+// evaluates; and returns a Result with everything a report needs
+// (findings, what was not evaluated, row accounting, care coverage, the
+// weather chart, the limits in force, the chart site of each subject).
+//
+// # Go measures, Rego judges
+//
+// The facts (facts_*.go) carry measurements: days, hours, counts, values,
+// runs of days, and the rows behind them as FILE:LINE refs. The comparison
+// with a limit that decides a finding is in the Rego rule, so a committee
+// that edits a rule (< to <=) or a limit sees the outcome change. Go does
+// not pre-judge and does not word findings. Where volume forces Go to
+// pre-select (a year of daily entries per cage), it selects with the
+// limits inclusively, the field's name says so
+// (days_at_or_past_bedding_limits), and the rule still makes the deciding
+// comparison on each entry.
+//
+// # Files, by job
+//
+//	policy.go       Compile, Policy, Check, Test: the package's face
+//	check.go        one run: period, facts, evaluation per subject kind, filtering, order
+//	domains.go      the catalogue of domains, in report order, with their fact builders
+//	facts.go        indexes shared by every domain; the input documents being built
+//	facts_<d>.go    the facts of domain d (occupancy.go: who lived where, day by day)
+//	schemas.go      typed inputs: rules/schemas/KIND.json given to the Rego compiler
+//	sandbox.go      rule sources, the sandbox's built-ins, parsing, positioned errors
+//	engine.go       compiling and preparing one query per rule package
+//	metadata.go     rule packages and checks from their METADATA
+//	evaluate.go     evaluating the subjects of one kind in parallel, under a time budget
+//	findings.go     decoding findings, collapsing runs, the report order
+//	rulestest.go    the rules' own _test.rego tests
+//	fingerprint.go  the SHA-256 over records, rules and limits as read
+//	result.go, finding.go  what reports render
+//
+// # Add a field to a rule input
+//
+//  1. Compute it in the domain's fact builder (facts_<domain>.go) on the
+//     subject's document: f.doc(kind, id)[section][field]. Give a
+//     measurement, not a verdict; a value that may be missing is null, never
+//     a default. Days are "YYYY-MM-DD", evidence is a list of "FILE:LINE".
+//  2. Add it to rules/schemas/KIND.json with its type ("null" in the type
+//     list when it may be missing) and a description a committee can read.
+//     Until it is there, a rule that reads it does not compile, and
+//     TestFactsMatchInputSchemas fails on the demo.
+//  3. Read it in the rule and compare it with a limit from rules/limits.yaml.
+//     'welfare rules input KIND' shows the new field.
+//
+// A new subject kind needs SubjectKinds, a schema file and a fact builder
+// that creates its documents. A new domain needs an entry in domains (in
+// report order) and its fact builder.
+//
+// Every document carries kind, id, name and ref at the top (facts.doc puts
+// them there: name is a person's name, a protocol's title or the
+// facility's name, ref the FILE:LINE of the subject's own row, null when
+// there is none); lists of entries carry on (the day) and their rows as
+// ref, refs or evidence.
+package checker

@@ -1,0 +1,41 @@
+package checker
+
+// domain is one area of the check catalogue: its name (the first part of
+// its check ids, what --only selects) and the fact builder that adds its
+// sections to the subjects' input documents (facts_<domain>.go).
+type domain struct {
+	name  string
+	facts func(*facts)
+}
+
+// domains is the one catalogue of the shipped domains, in the order reports
+// list them: record keeping first, then the animals' daily care and
+// housing, the people who handle them, and the season. The fact builders
+// run in this order; each writes only its own sections, so the order does
+// not change the facts. A committee's own domain (a rule package with its
+// own check ids) needs no entry: it reads the facts the shipped domains
+// compute, and reports list it after these.
+var domains = []domain{
+	{"records", (*facts).recordsFacts},
+	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }},
+	{"enclosure", (*facts).enclosureFacts},
+	{"handling", (*facts).handlingFacts},
+	{"staff", (*facts).staffFacts},
+	{"ppe", (*facts).ppeFacts},
+	{"protocol", (*facts).protocolFacts},
+	{"cull", (*facts).cullFacts},
+	{"health", (*facts).healthFacts},
+	{"litter", (*facts).litterFacts},
+	{"cold", (*facts).coldFacts},
+	{"heat", (*facts).heatFacts},
+	{"environment", (*facts).environmentFacts},
+}
+
+// Domains lists the shipped domains in report order.
+func Domains() []string {
+	out := make([]string, len(domains))
+	for i, d := range domains {
+		out[i] = d.name
+	}
+	return out
+}

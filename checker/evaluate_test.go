@@ -1,0 +1,258 @@
+package checker_test
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"strings"
+	"testing"
+	"time"
+	"welfare/checker"
+	"welfare/records"
+
+	"github.com/google/go-cmp/cmp"
+)
+
+func TestEvaluateTimeBudget(t *testing.T) {
+	tests := []struct {
+		name, body string
+	}{
+		// A range of 10^11 numbers cannot be built in 200 ms on any
+		// machine: the built-in itself must notice the budget.
+		{"huge built-in", "\tcount([x | some x in numbers.range(1, 100000000000)]) > 0\n"},
+		// 3000³ ≈ 2.7·10^10 iterations: the evaluator's own loop must
+		// notice the budget.
+		{"nested loops", "\tsome i in numbers.range(1, 3000)\n\tsome j in numbers.range(1, 3000)\n" +
+			"\tsome k in numbers.range(1, 3000)\n\ti + j + k < 0\n"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			src := engHeader + "findings contains f if {\n" + tt.body +
+				"\tf := {\"check\": \"sandbox.probe.fired\", \"subject\": input.id, \"on\": \"2026-01-01\", \"message\": \"m\", \"evidence\": []}\n}\n"
+			e := engNew(t, engUser(map[string]string{"slow.rego": src}), nil, checker.EngineOptions{Timeout: 200 * time.Millisecond, Workers: 2})
+			inputs := []map[string]any{{"id": "E-07"}, {"id": "E-08"}, {"id": "E-09"}}
+			_, err := e.Evaluate(context.Background(), "enclosure", inputs)
+			if !errors.Is(err, checker.ErrTimeBudget) {
+				t.Fatalf("error = %v, want one wrapping ErrTimeBudget", err)
+			}
+			// The first subject in input order is named, whichever
+			// worker ran out first.
+			want := "welfare.sandbox: subject E-07: the 200ms time budget ran out"
+			if !strings.HasPrefix(err.Error(), want) {
+				t.Errorf("error = %q, want it to start with %q", err, want)
+			}
+		})
+	}
+}
+
+func TestEvaluateBadFindings(t *testing.T) {
+	tests := []struct {
+		name, object, want string
+	}{
+		{"missing on", `{"check": "sandbox.probe.fired", "subject": "E-01", "message": "m", "evidence": []}`,
+			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","subject":"E-01"}: missing "on"`},
+		{"bad date", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-02-30", "message": "m", "evidence": []}`,
+			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-02-30","subject":"E-01"}: on: "2026-02-30" is not a date (YYYY-MM-DD)`},
+		// A literal id without METADATA does not compile (TestNewEngineRulesErrors);
+		// a computed one is caught when the finding is decoded.
+		{"check without metadata", `{"check": concat(".", ["sandbox", "probe", "other"]), "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": []}`,
+			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.other","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01"}: check "sandbox.probe.other" has no METADATA (title, description, custom.id, custom.severity, custom.source)`},
+		{"misspelt field", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "untill": "2026-01-02", "message": "m", "evidence": []}`,
+			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01","untill":"2026-01-02"}: unknown field "untill" (fields: check, subject, on, until, message, evidence, severity)`},
+		{"bad own severity", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": [], "severity": "high"}`,
+			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","severity":"high","subject":"E-01"}: severity "high" is not significant, minor or note`},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			src := engHeader + "findings contains " + tt.object + "\n"
+			e := engNew(t, engUser(map[string]string{"p.rego": src}), nil, checker.EngineOptions{})
+			_, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-01"}})
+			if err == nil {
+				t.Fatal("Evaluate accepted a bad finding")
+			}
+			if got := err.Error(); got != tt.want {
+				t.Errorf("error:\n got %s\nwant %s", got, tt.want)
+			}
+		})
+	}
+}
+
+func TestEvaluateSeverityPrecedence(t *testing.T) {
+	// One enclosure, fed but unobserved on 2026-01-05, and unfed for the
+	// second day on 2026-01-06 (the policy marks that significant itself).
+	input := map[string]any{"id": "E-01", "days": []any{
+		map[string]any{"day": "2026-01-05", "occupied": true, "observed": false, "fed": true, "unfed_run": 0, "refs": []any{"daily_care.csv:5"}},
+		map[string]any{"day": "2026-01-06", "occupied": true, "observed": true, "fed": false, "unfed_run": 2, "refs": []any{"daily_care.csv:6"}},
+	}}
+	type got struct {
+		Check    string
+		Severity checker.Severity
+	}
+	tests := []struct {
+		name     string
+		severity map[string]any
+		want     []got
+	}{
+		{"metadata default and the finding's own", nil, []got{
+			{"care.feeding.missed", checker.Significant}, // the finding's own severity beats the default minor
+			{"care.observation.missed", checker.Minor},   // metadata default
+		}},
+		{"limits override beats the finding's own", map[string]any{"care.feeding.missed": "note"}, []got{
+			{"care.feeding.missed", checker.Note},
+			{"care.observation.missed", checker.Minor},
+		}},
+		{"limits override beats the default", map[string]any{"care.observation.missed": "significant"}, []got{
+			{"care.feeding.missed", checker.Significant},
+			{"care.observation.missed", checker.Significant},
+		}},
+		{"off drops the check", map[string]any{"care.observation.missed": "off"}, []got{
+			{"care.feeding.missed", checker.Significant},
+		}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			e := engNew(t, engBasic(), engLimits(tt.severity), checker.EngineOptions{})
+			fs, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{input})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var g []got
+			for _, f := range fs {
+				g = append(g, got{f.Check, f.Severity})
+			}
+			if diff := cmp.Diff(tt.want, g); diff != "" {
+				t.Errorf("severities (-want +got):\n%s", diff)
+			}
+		})
+	}
+}
+
+func TestNewEngineRejectsBadSeverityOverride(t *testing.T) {
+	_, err := checker.NewEngine(context.Background(), engBasic(), engLimits(map[string]any{"care.feeding.missed": "urgent"}), checker.EngineOptions{})
+	want := "limits: severity.care.feeding.missed: urgent is not significant, minor, note or off"
+	if err == nil || err.Error() != want {
+		t.Errorf("error = %v, want %q", err, want)
+	}
+}
+
+func TestEvaluateRunsAndEvidence(t *testing.T) {
+	e := engNew(t, engBasic(), engLimits(nil), checker.EngineOptions{})
+	// 2026-01-01, -02, -03 are consecutive calendar days and -05 is not
+	// next to -03 (Gregorian calendar), so two runs.
+	in := engDays("E-01", "2026-01-01", "2026-01-02", "2026-01-03", "2026-01-05")
+	fs, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{in})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []checker.Finding{
+		{
+			Check: "care.observation.missed", Domain: "care", Subject: "E-01",
+			On: engDay("2026-01-01"), Until: engDay("2026-01-03"), Severity: checker.Minor,
+			Message:  "E-01 was not observed",
+			Evidence: []records.Ref{"daily_care.csv:10", "daily_care.csv:11", "daily_care.csv:12"},
+			Title:    "Observation missed",
+			Source:   "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112",
+		},
+		{
+			Check: "care.observation.missed", Domain: "care", Subject: "E-01",
+			On: engDay("2026-01-05"), Severity: checker.Minor,
+			Message:  "E-01 was not observed",
+			Evidence: []records.Ref{"daily_care.csv:13"},
+			Title:    "Observation missed",
+			Source:   "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112",
+		},
+	}
+	if diff := cmp.Diff(want, fs); diff != "" {
+		t.Errorf("findings (-want +got):\n%s", diff)
+	}
+
+	// Runs the policy reports itself ("until") join runs of later
+	// findings that touch or overlap them, and evidence is merged in line
+	// order (9 before 10) without repeats.
+	site := map[string]any{"id": "S-1", "runs": []any{
+		map[string]any{"from": "2026-01-10", "to": "2026-01-12", "min_wind_chill_c": -31, "refs": []any{"weather.csv:10", "weather.csv:9"}},
+		map[string]any{"from": "2026-01-13", "to": "2026-01-13", "min_wind_chill_c": -29, "refs": []any{"weather.csv:10", "weather.csv:12"}},
+		map[string]any{"from": "2026-01-20", "to": "2026-01-20", "min_wind_chill_c": -20, "refs": []any{"weather.csv:20"}},
+	}}
+	fs, err = e.Evaluate(context.Background(), "site", []map[string]any{site})
+	if err != nil {
+		t.Fatal(err)
+	}
+	wantSite := []checker.Finding{{
+		Check: "cold.frostbite.risk", Domain: "cold", Subject: "S-1",
+		On: engDay("2026-01-10"), Until: engDay("2026-01-13"), Severity: checker.Note,
+		Message:  "wind chill down to -31",
+		Evidence: []records.Ref{"weather.csv:9", "weather.csv:10", "weather.csv:12"},
+		Title:    "Frostbite risk",
+		Source:   "Environment and Climate Change Canada wind chill hazard bands",
+	}}
+	if diff := cmp.Diff(wantSite, fs); diff != "" {
+		t.Errorf("site findings (-want +got):\n%s", diff)
+	}
+}
+
+func TestEvaluateOrderAndParallel(t *testing.T) {
+	var inputs []map[string]any
+	// Subjects given in reverse order, each with findings from two checks.
+	for i := 40; i >= 1; i-- {
+		in := engDays(fmt.Sprintf("E-%02d", i), "2026-01-02", "2026-01-04")
+		in["days"].([]any)[1].(map[string]any)["fed"] = false
+		in["days"].([]any)[1].(map[string]any)["unfed_run"] = 1
+		in["days"].([]any)[0].(map[string]any)["water"] = "frozen"
+		inputs = append(inputs, in)
+	}
+	serial := engNew(t, engBasic(), engLimits(nil), checker.EngineOptions{Workers: 1})
+	parallel := engNew(t, engBasic(), engLimits(nil), checker.EngineOptions{Workers: 8})
+	want, err := serial.Evaluate(context.Background(), "enclosure", inputs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// 40 subjects × (2 observation days + 1 feeding + 1 water).
+	if len(want) != 160 {
+		t.Fatalf("got %d findings, want 160", len(want))
+	}
+	for i := 1; i < len(want); i++ {
+		a, b := want[i-1], want[i]
+		ka := []string{a.Domain, a.Check, a.Subject, a.On.String()}
+		kb := []string{b.Domain, b.Check, b.Subject, b.On.String()}
+		if strings.Join(ka, "|") > strings.Join(kb, "|") {
+			t.Fatalf("findings %d and %d out of order: %v then %v", i-1, i, ka, kb)
+		}
+	}
+	if want[0].Check != "care.feeding.missed" || want[0].Subject != "E-01" {
+		t.Errorf("first finding = %s %s, want care.feeding.missed E-01", want[0].Check, want[0].Subject)
+	}
+	for run := range 3 {
+		got, err := parallel.Evaluate(context.Background(), "enclosure", inputs)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if diff := cmp.Diff(want, got); diff != "" {
+			t.Errorf("run %d: 8 workers differ from 1 (-want +got):\n%s", run, diff)
+		}
+	}
+}
+
+func TestEvaluateConcurrentCalls(t *testing.T) {
+	e := engNew(t, engBasic(), engLimits(nil), checker.EngineOptions{Workers: 2})
+	in := []map[string]any{engDays("E-01", "2026-01-01", "2026-01-02")}
+	want, err := e.Evaluate(context.Background(), "enclosure", in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	errs := make(chan error, 8)
+	for range 8 {
+		go func() {
+			got, err := e.Evaluate(context.Background(), "enclosure", in)
+			if err == nil && !cmp.Equal(want, got) {
+				err = fmt.Errorf("concurrent call differs: %s", cmp.Diff(want, got))
+			}
+			errs <- err
+		}()
+	}
+	for range 8 {
+		if err := <-errs; err != nil {
+			t.Error(err)
+		}
+	}
+}

@@ -1,0 +1,238 @@
+package checker
+
+import (
+	"errors"
+	"fmt"
+	"slices"
+	"strconv"
+	"strings"
+	"welfare/records"
+)
+
+var findingKeys = map[string]bool{
+	"check": true, "subject": true, "on": true, "until": true,
+	"message": true, "evidence": true, "severity": true,
+}
+
+// toFinding converts one object of a findings set. keep is false when the
+// limits turn the check off.
+func (e *engine) toFinding(pkg string, raw any) (f Finding, keep bool, err error) {
+	obj, ok := raw.(map[string]any)
+	if !ok {
+		return f, false, errors.New("is not an object")
+	}
+	for k := range obj {
+		if !findingKeys[k] {
+			return f, false, fmt.Errorf("unknown field %q (fields: check, subject, on, until, message, evidence, severity)", k)
+		}
+	}
+	str := func(key string, required bool) (string, error) {
+		v, has := obj[key]
+		if !has {
+			if required {
+				return "", fmt.Errorf("missing %q", key)
+			}
+			return "", nil
+		}
+		s, ok := v.(string)
+		if !ok || (required && s == "") {
+			return "", fmt.Errorf("%q must be a non-empty string", key)
+		}
+		return s, nil
+	}
+	var check, on, until, sev string
+	if check, err = str("check", true); err != nil {
+		return f, false, err
+	}
+	info, ok := e.checks[check]
+	if !ok {
+		return f, false, fmt.Errorf("check %q has no METADATA (title, description, custom.id, custom.severity, custom.source)", check)
+	}
+	if info.Package != pkg {
+		return f, false, fmt.Errorf("check %q belongs to package %s, not %s", check, info.Package, pkg)
+	}
+	f.Check, f.Domain, f.Title, f.Source = check, info.Domain, info.Title, info.Source
+	f.Reportable = info.Reportable
+	if f.Subject, err = str("subject", true); err != nil {
+		return f, false, err
+	}
+	if f.Message, err = str("message", true); err != nil {
+		return f, false, err
+	}
+	if on, err = str("on", true); err != nil {
+		return f, false, err
+	}
+	if f.On, err = records.ParseDay(on); err != nil {
+		return f, false, fmt.Errorf("on: %w", err)
+	}
+	if until, err = str("until", false); err != nil {
+		return f, false, err
+	}
+	if until != "" {
+		if f.Until, err = records.ParseDay(until); err != nil {
+			return f, false, fmt.Errorf("until: %w", err)
+		}
+		if f.Until < f.On {
+			return f, false, fmt.Errorf("until %s is before on %s", until, on)
+		}
+		if f.Until == f.On {
+			f.Until = 0
+		}
+	}
+	ev, has := obj["evidence"]
+	if !has {
+		return f, false, errors.New(`missing "evidence" (a list of "FILE:LINE", may be empty)`)
+	}
+	refs, ok := ev.([]any)
+	if !ok {
+		return f, false, errors.New(`"evidence" must be a list of "FILE:LINE" strings`)
+	}
+	for _, r := range refs {
+		s, ok := r.(string)
+		if !ok || s == "" {
+			return f, false, errors.New(`"evidence" must be a list of "FILE:LINE" strings`)
+		}
+		f.Evidence = append(f.Evidence, records.Ref(s))
+	}
+	f.Evidence = sortRefs(f.Evidence)
+
+	// Severity precedence: limits override > the finding's own > metadata.
+	f.Severity = info.Severity
+	if sev, err = str("severity", false); err != nil {
+		return f, false, err
+	}
+	if sev != "" {
+		if Severity(sev).Rank() == 0 {
+			return f, false, fmt.Errorf("severity %q is not significant, minor or note", sev)
+		}
+		f.Severity = Severity(sev)
+	}
+	if o, has := e.override[check]; has {
+		if o == "off" {
+			return f, false, nil
+		}
+		f.Severity = Severity(o)
+	}
+	return f, true, nil
+}
+
+// sortRefs sorts evidence by file, then line as a number, and drops
+// repeats, so "care.csv:9" comes before "care.csv:10".
+func sortRefs(refs []records.Ref) []records.Ref {
+	if len(refs) == 0 {
+		return []records.Ref{}
+	}
+	slices.SortFunc(refs, compareRefs)
+	return slices.Compact(refs)
+}
+
+func compareRefs(a, b records.Ref) int {
+	fa, la := splitRef(a)
+	fb, lb := splitRef(b)
+	if c := strings.Compare(fa, fb); c != 0 {
+		return c
+	}
+	if la != lb {
+		if la < lb {
+			return -1
+		}
+		return 1
+	}
+	return strings.Compare(string(a), string(b))
+}
+
+func splitRef(r records.Ref) (string, int) {
+	s := string(r)
+	// FILE:LINE, or a workbook's FILE:SHEET!ROW or FILE:SHEET!CELL (C212).
+	i := strings.LastIndexAny(s, ":!")
+	if i < 0 {
+		return s, -1
+	}
+	n, err := strconv.Atoi(strings.TrimLeft(s[i+1:], "ABCDEFGHIJKLMNOPQRSTUVWXYZ"))
+	if err != nil {
+		return s, -1
+	}
+	return s[:i], n
+}
+
+// collapseRuns merges, for checks marked runs, findings of the same check
+// and subject on consecutive (or overlapping) days into one finding from
+// the first to the last day. The merged finding keeps the first day's
+// message, the highest severity and all evidence.
+func collapseRuns(fs []Finding, checks map[string]CheckInfo) []Finding {
+	type key struct{ check, subject string }
+	groups := map[key][]Finding{}
+	var out []Finding
+	for _, f := range fs {
+		if checks[f.Check].Runs {
+			k := key{f.Check, f.Subject}
+			groups[k] = append(groups[k], f)
+			continue
+		}
+		out = append(out, f)
+	}
+	for _, g := range groups {
+		slices.SortFunc(g, compareFindings)
+		cur := g[0]
+		for _, f := range g[1:] {
+			if f.On <= runLastDay(cur)+1 {
+				if runLastDay(f) > runLastDay(cur) {
+					cur.Until = runLastDay(f)
+				}
+				if f.Severity.Rank() > cur.Severity.Rank() {
+					cur.Severity = f.Severity
+				}
+				cur.Evidence = sortRefs(append(slices.Clone(cur.Evidence), f.Evidence...))
+				continue
+			}
+			out = append(out, cur)
+			cur = f
+		}
+		out = append(out, cur)
+	}
+	return out
+}
+
+func runLastDay(f Finding) records.Day {
+	if f.Until > f.On {
+		return f.Until
+	}
+	return f.On
+}
+
+// SortFindings puts findings in the order reports list them: most severe
+// first, then domain, check, subject, first day, and last day, message and
+// evidence so equal keys still come out the same way every run.
+func SortFindings(fs []Finding) {
+	slices.SortStableFunc(fs, func(a, b Finding) int {
+		if c := b.Severity.Rank() - a.Severity.Rank(); c != 0 {
+			return c
+		}
+		return compareFindings(a, b)
+	})
+}
+
+func compareFindings(a, b Finding) int {
+	if c := strings.Compare(a.Domain, b.Domain); c != 0 {
+		return c
+	}
+	if c := strings.Compare(a.Check, b.Check); c != 0 {
+		return c
+	}
+	if c := strings.Compare(a.Subject, b.Subject); c != 0 {
+		return c
+	}
+	if a.On != b.On {
+		return int(a.On) - int(b.On)
+	}
+	if a.Until != b.Until {
+		return int(a.Until) - int(b.Until)
+	}
+	if c := strings.Compare(a.Message, b.Message); c != 0 {
+		return c
+	}
+	if c := b.Severity.Rank() - a.Severity.Rank(); c != 0 {
+		return c
+	}
+	return slices.CompareFunc(a.Evidence, b.Evidence, compareRefs)
+}

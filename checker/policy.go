@@ -1,0 +1,111 @@
+package checker
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"io/fs"
+	"slices"
+	"strings"
+	"sync/atomic"
+
+	"welfare/records"
+	"welfare/rules"
+)
+
+// Policy is a compiled rule set with the limits in force: what a check
+// judges records by. Build it with Compile; it is safe for concurrent use.
+type Policy struct {
+	limits   *rules.Limits
+	data     map[string]any // the limits as data.limits, converted once
+	sources  []Source
+	engine   *engine
+	progress func(phase string, done int)
+}
+
+// Compile converts the limits once (they are data.limits to the rules),
+// parses and compiles the rule files of sources in the sandbox (files
+// ending in _test.rego are left out), reads their METADATA and prepares
+// one query per rule package. A problem in the rules is a *RulesError with
+// every problem as "file:row:col: message".
+func Compile(ctx context.Context, limits *rules.Limits, sources []Source, opt Options) (*Policy, error) {
+	if limits == nil {
+		return nil, fmt.Errorf("no limits given")
+	}
+	data, err := limits.Data()
+	if err != nil {
+		return nil, fmt.Errorf("limits: %w", err)
+	}
+	e, err := newEngine(ctx, sources, data, opt)
+	if err != nil {
+		return nil, err
+	}
+	return &Policy{limits: limits, data: data, sources: sources, engine: e, progress: opt.Progress}, nil
+}
+
+// Limits are the limits in force.
+func (p *Policy) Limits() *rules.Limits { return p.limits }
+
+// Checks lists the metadata of every check the rules define, sorted by id.
+func (p *Policy) Checks() []CheckInfo { return p.engine.Checks() }
+
+// Domains lists the domains of the checks in force, in check-id order
+// without repeats: what --only may name.
+func (p *Policy) Domains() []string {
+	var out []string
+	seen := map[string]bool{}
+	for _, c := range p.engine.sorted {
+		if !seen[c.Domain] {
+			seen[c.Domain] = true
+			out = append(out, c.Domain)
+		}
+	}
+	return out
+}
+
+// Check loads the records folder recordsFS with the species of the limits
+// in force, computes the facts of every subject, evaluates the rules on
+// them and returns the findings with everything a report needs. A zero
+// From or To of period is taken from the records' dates; only keeps the
+// findings of these domains (all when empty). The result's fingerprint
+// covers exactly the bytes read: records, rule files and limits.
+func (p *Policy) Check(ctx context.Context, recordsFS fs.FS, period Period, only []string) (*Result, error) {
+	domains := p.Domains()
+	for _, d := range only {
+		if !slices.Contains(domains, d) {
+			return nil, fmt.Errorf("%q is not a domain of the rules in force (%s)", d, strings.Join(domains, ", "))
+		}
+	}
+	progress := p.progress
+	if progress == nil {
+		progress = func(string, int) {}
+	}
+	progress("load", 0)
+	var rows atomic.Int64
+	capture := newCaptureFS(recordsFS)
+	set, err := records.LoadContext(ctx, capture, records.Options{Species: p.limits.SpeciesCodes(),
+		Progress: func(n int) { progress("load", int(rows.Add(int64(n)))) }})
+	if err != nil {
+		return nil, err
+	}
+	res, err := check(ctx, config{Records: set, Limits: p.limits, Engine: p.engine, Period: period, Only: only, Progress: progress})
+	if err != nil {
+		return nil, err
+	}
+	res.Fingerprint = fingerprint(capture.read(), p.engine.files, p.limits.Source())
+	return res, nil
+}
+
+// Test runs the Rego tests (files ending in _test.rego) of the policy's
+// sources together with the rules they test, in the same sandbox and with
+// the same data.limits. It writes one PASS, FAIL or SKIP line per test to
+// w, in file order, then a summary; verbose adds each test's print output
+// and duration. Failing tests are counted, not returned.
+func (p *Policy) Test(ctx context.Context, w io.Writer, verbose bool) (passed, failed int, err error) {
+	return runTests(ctx, p.sources, p.data, w, verbose)
+}
+
+// RuleTests runs the same tests as Test and returns one result per test.
+func (p *Policy) RuleTests(ctx context.Context) ([]RuleTest, error) {
+	return ruleTests(ctx, p.sources, p.data)
+}
