@@ -107,6 +107,7 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		}
 	}
 	SortFindings(res.Findings)
+	f.addFigures(res)
 	if res.Findings == nil {
 		res.Findings = []Finding{}
 	}
