@@ -34,8 +34,9 @@ type PDFOptions struct {
 // every finding is still in the attached files.
 const DefaultPDFMaxPerCheck = 25
 
-// BuildAudit lays out the PDF audit report of r: cover, summary, cold
-// season (when r.Weather has data), findings with an empty plan-for-correction
+// BuildAudit lays out the PDF audit report of r: cover, summary, health and
+// mortality (when r.Health is set), cold season (when r.Weather has data),
+// warm season, inside buildings and cleaning (when r.Warm is set), findings with an empty plan-for-correction
 // cell for each, limits in force, cautions and sign-off, with findings.json
 // and findings.csv attached. It is pure: the same r and opt give the same
 // Audit.
@@ -67,8 +68,14 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 		Footer: "Fingerprint " + shortPrint(r.Fingerprint) + " · records check, not a veterinary judgement",
 	}
 	a.Sections = append(a.Sections, b.cover(), b.summary())
+	if r.Health != nil {
+		a.Sections = append(a.Sections, b.healthSection())
+	}
 	if hasWeather(r) {
 		a.Sections = append(a.Sections, b.coldSeason())
+	}
+	if r.Warm != nil {
+		a.Sections = append(a.Sections, b.warmSeason())
 	}
 	a.Sections = append(a.Sections, b.findings(), b.limits(), b.cautions(), b.signOff())
 	a.Attachments = []Attachment{
@@ -94,10 +101,16 @@ func (b *auditBuilder) section(title string, newPage bool, heading string) Audit
 	return s
 }
 
+// hasWeather: the cold-season chart is drawn when a weather site had a day
+// in the hazard bands (a minimum wind chill at or below the mildest band's
+// warm edge, 0 °C); a summer period has no cold-season page.
 func hasWeather(r *checker.Result) bool {
+	edge := hazardBands()[0].Hi
 	for _, s := range r.Weather {
-		if len(s.Days) > 0 {
-			return true
+		for _, d := range s.Days {
+			if d.Readings > 0 && d.MinWindChillC <= edge {
+				return true
+			}
 		}
 	}
 	return false
