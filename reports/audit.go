@@ -71,20 +71,20 @@ type Block struct {
 	// Style is "", "bold" or "italic".
 	Style string `json:"style,omitempty"`
 	// Size is a font size in points (a space's height in millimetres).
-	Size   float64    `json:"size,omitempty"`
-	Indent float64    `json:"indent,omitempty"` // millimetres
-	Keep   float64    `json:"keep,omitempty"`   // millimetres
-	Mono   bool       `json:"mono,omitempty"`
-	Table  *Table     `json:"table,omitempty"`
-	More   string     `json:"more,omitempty"`
-	Bars   []Bar      `json:"bars,omitempty"`
+	Size   float64 `json:"size,omitempty"`
+	Indent float64 `json:"indent,omitempty"` // millimetres
+	Keep   float64 `json:"keep,omitempty"`   // millimetres
+	Mono   bool    `json:"mono,omitempty"`
+	Table  *Table  `json:"table,omitempty"`
+	More   string  `json:"more,omitempty"`
+	Bars   []Bar   `json:"bars,omitempty"`
 	// Keys name the bar chart's segments in legend order (Segment.Key);
 	// without them the segments are severities.
-	Keys []string `json:"keys,omitempty"`
-	Care   *CareBar   `json:"care,omitempty"`
-	Chart  *DayChart  `json:"chart,omitempty"`
-	Roles  []string   `json:"roles,omitempty"`
-	Fields []string   `json:"fields,omitempty"`
+	Keys   []string  `json:"keys,omitempty"`
+	Care   *CareBar  `json:"care,omitempty"`
+	Chart  *DayChart `json:"chart,omitempty"`
+	Roles  []string  `json:"roles,omitempty"`
+	Fields []string  `json:"fields,omitempty"`
 }
 
 // Table is a table whose rows never split across pages; on a continuation
