@@ -45,6 +45,13 @@ func TestGoldenAuditSmall(t *testing.T) {
 // `welfare demo` does (shipped rules and limits, January 2026).
 func demoResult(t *testing.T) *checker.Result {
 	t.Helper()
+	return demoSeasonResult(t, "../testdata/demo/records", checker.Period{From: records.MakeDay(2026, 1, 1), To: records.MakeDay(2026, 1, 31)})
+}
+
+// demoSeasonResult checks a demo records folder over its period, as
+// `welfare demo [--season summer]` does.
+func demoSeasonResult(t *testing.T, dir string, period checker.Period) *checker.Result {
+	t.Helper()
 	ctx := context.Background()
 	src := rules.DefaultLimits()
 	lim, err := rules.LoadLimits(bytes.NewReader(src), "limits.yaml (built in)")
@@ -60,7 +67,7 @@ func demoResult(t *testing.T) *checker.Result {
 	if err != nil {
 		t.Fatal(err)
 	}
-	fsys := os.DirFS("../testdata/demo/records")
+	fsys := os.DirFS(dir)
 	set, err := records.Load(fsys, records.Options{Species: lim.SpeciesCodes()})
 	if err != nil {
 		t.Fatal(err)
@@ -71,7 +78,7 @@ func demoResult(t *testing.T) *checker.Result {
 	}
 	res, err := checker.Check(ctx, checker.Config{
 		Records: set, Limits: lim, LimitsSource: src, Engine: engine,
-		Period:      checker.Period{From: records.MakeDay(2026, 1, 1), To: records.MakeDay(2026, 1, 31)},
+		Period:      period,
 		Fingerprint: fp,
 	})
 	if err != nil {
@@ -93,4 +100,17 @@ func TestGoldenAuditDemo(t *testing.T) {
 	}
 	opt := reports.PDFOptions{Inspector: "Demo inspector (invented)", GeneratedAt: demoGeneratedAt}
 	golden(t, "demo", "audit.json", auditJSON(t, res, opt))
+}
+
+// The summer demo's report content (July 2026, `welfare demo --season
+// summer`): the warm-season chart, the indoor climate and the cleaning gaps,
+// and no cold-season chart.
+func TestGoldenAuditDemoSummer(t *testing.T) {
+	if testing.Short() {
+		t.Skip("checks the whole summer demo")
+	}
+	res := demoSeasonResult(t, "../testdata/demo-summer/records",
+		checker.Period{From: records.MakeDay(2026, 7, 1), To: records.MakeDay(2026, 7, 31)})
+	opt := reports.PDFOptions{Inspector: "Demo inspector (invented)", GeneratedAt: demoGeneratedAt}
+	golden(t, "demo-summer", "audit.json", auditJSON(t, res, opt))
 }

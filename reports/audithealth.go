@@ -104,7 +104,11 @@ func (b *auditBuilder) healthSection() AuditSection {
 		b.add(Block{Kind: KindTable, Table: ct})
 	}
 
-	b.add(subheading("Animals with weight loss", 12))
+	keep := 12.0
+	if len(h.WeightLoss) > 0 {
+		keep = 75 // the text and the first chart
+	}
+	b.add(subheading("Animals with weight loss", keep))
 	switch {
 	case !slices.Contains(h.Files, "observations.csv"):
 		b.add(para("No observations.csv in the records folder: weights are not charted.", "italic", 9))
@@ -230,7 +234,7 @@ func (b *auditBuilder) weightChart(aw checker.AnimalWeights) *DayChart {
 	}
 	summary := "No weighing in the window."
 	if peak != nil {
-		summary = fmt.Sprintf("%s. Highest %s kg on %s, last %s kg on %s (%.1f %% below the highest).", aw.Species,
+		summary = fmt.Sprintf("%s; mass (kg) at each weighing. Highest %s kg on %s, last %s kg on %s (%.1f %% below the highest).", aw.Species,
 			trimKg(peak.Kg), peak.Day, trimKg(last.Kg), last.Day, (peak.Kg-last.Kg)*100/peak.Kg)
 	}
 	marks := map[records.Day]int{}
@@ -239,7 +243,7 @@ func (b *auditBuilder) weightChart(aw checker.AnimalWeights) *DayChart {
 	}
 	return &DayChart{
 		Title: "Animal " + aw.Animal, Summary: summary, From: from, To: to, Unit: "kg",
-		YMin: yMin, YMax: yMax, YTicks: ticks, Height: 26,
+		YMin: yMin, YMax: yMax, YTicks: ticks, Height: 24,
 		Series:     []Series{s},
 		Lines:      []RefLine{},
 		Marks:      marksOf(marks, from, to),

@@ -55,7 +55,12 @@ func (b *auditBuilder) warmSeason() AuditSection {
 		b.add(para(fmt.Sprintf("No weather site had a day in the period reaching hot_day_c (%s °C): no warm-season chart.", minus(w.HotDayC)), "italic", 9))
 	}
 
-	b.add(subheading("Air temperature inside buildings", 14))
+	// Kept with the text and the first chart when charts follow.
+	keep := 14.0
+	if w.EnvironmentRecorded && len(w.Buildings) > 0 {
+		keep = 110
+	}
+	b.add(subheading("Air temperature inside buildings", keep))
 	switch {
 	case !w.EnvironmentRecorded:
 		b.add(para("No environment.csv in the records folder: the air inside buildings is not charted, and its checks are not evaluated.", "italic", 9))

@@ -135,7 +135,7 @@ func (d *doc) barChart(bars []reports.Bar, keys []string) {
 	for _, b := range bars {
 		maxTotal = max(maxTotal, b.Total)
 	}
-	step := niceStep(float64(max(maxTotal, 1)), 5)
+	step := max(niceStep(float64(max(maxTotal, 1)), 5), 1) // counts: whole steps
 	top := math.Ceil(float64(max(maxTotal, 1))/step) * step
 	xOf := func(v float64) float64 { return x0 + v/top*plotW }
 
@@ -251,7 +251,17 @@ func (d *doc) dayChart(c *reports.DayChart) {
 		marksH = 8
 	}
 
-	total := 9 + 8 + plotH + 14 + marksH + float64(keyRows)*5 + 6
+	// A small chart of one series (an animal's weighings) has no legend
+	// row: its summary names the series.
+	legend := len(c.Series) > 1 || c.Height == 0
+	legendH := 7.0
+	if !legend {
+		legendH = 5
+	}
+	total := 9 + 8 + plotH + legendH + 7 + marksH + float64(keyRows)*5 + 6
+	if keyRows == 0 {
+		total = 9 + 8 + plotH + legendH + 6 + marksH
+	}
 	d.ensure(total)
 	d.subheading(c.Title, total-10)
 	if c.Summary != "" {
@@ -262,7 +272,7 @@ func (d *doc) dayChart(c *reports.DayChart) {
 	ly := p.GetY() + 2
 	x0 := margin + leftW
 	d.font(sans, "", 8)
-	if len(c.Series) > 0 {
+	if legend && len(c.Series) > 0 {
 		p.SetLineWidth(0.35)
 		p.Line(x0, ly+1.8, x0+8, ly+1.8)
 		p.Circle(x0+4, ly+1.8, 0.6, "F")
@@ -282,7 +292,7 @@ func (d *doc) dayChart(c *reports.DayChart) {
 		p.SetDrawColor(0, 0, 0)
 	}
 
-	y0 := ly + 7
+	y0 := ly + legendH
 	yOf := func(v float64) float64 { return y0 + (yMax-v)/(yMax-yMin)*plotH }
 	xOf := func(day records.Day) float64 { return x0 + (float64(day-from)+0.5)*plotW/float64(n) }
 
@@ -411,5 +421,9 @@ func (d *doc) dayChart(c *reports.DayChart) {
 		p.SetXY(x+8, y)
 		p.CellFormat(contentW/2-9, 3.5, clean(b.Label), "", 0, "L", false, 0, "")
 	}
-	p.SetXY(margin, ky+float64(keyRows)*5+4)
+	end := ky + float64(keyRows)*5 + 4
+	if keyRows == 0 {
+		end = y0 + plotH + 6 + marksH
+	}
+	p.SetXY(margin, end)
 }
