@@ -32,7 +32,7 @@ type Warm struct {
 
 // MaxCleaningGaps is how many of the longest cleaning gaps the figures keep
 // besides the overdue ones.
-const MaxCleaningGaps = 12
+const MaxCleaningGaps = 6
 
 // SiteHeat is one weather site's warm days.
 type SiteHeat struct {

@@ -193,6 +193,10 @@ func (b *auditBuilder) summary() AuditSection {
 	if t.other > 0 {
 		b.add(para(fmt.Sprintf("%d findings carry a severity other than significant, minor or note; they are counted in the totals only.", t.other), "italic", 8.5))
 	}
+	if n := countReportable(r.Findings); n > 0 {
+		b.add(para(fmt.Sprintf("%s to %s (PHS Policy IV.F.3): marked » in the findings.",
+			plural(n, "finding"), ReportableMark), "bold", 9.5))
+	}
 	b.add(space(3), b.barChart())
 
 	b.add(subheading("Care records", 14), para(careShare(r.Care), "", 10))
@@ -446,16 +450,21 @@ func (b *auditBuilder) signOff() AuditSection {
 // reportableCover is the cover's count of reportable findings (PHS Policy
 // IV.F.3), said even when there are none so a reader sees it was looked at.
 func reportableCover(fs []checker.Finding) string {
+	n := countReportable(fs)
+	if n == 0 {
+		return "none: no finding to " + ReportableMark + " (PHS Policy IV.F.3)"
+	}
+	return fmt.Sprintf("%s to %s (PHS Policy IV.F.3), marked » in the findings", plural(n, "finding"), ReportableMark)
+}
+
+func countReportable(fs []checker.Finding) int {
 	n := 0
 	for i := range fs {
 		if fs[i].Reportable {
 			n++
 		}
 	}
-	if n == 0 {
-		return "none: no finding to " + ReportableMark + " (PHS Policy IV.F.3)"
-	}
-	return fmt.Sprintf("%s to %s (PHS Policy IV.F.3), marked » in the findings", plural(n, "finding"), ReportableMark)
+	return n
 }
 
 func capitalise(s string) string {

@@ -58,7 +58,7 @@ func (b *auditBuilder) warmSeason() AuditSection {
 	// Kept with the text and the first chart when charts follow.
 	keep := 14.0
 	if w.EnvironmentRecorded && len(w.Buildings) > 0 {
-		keep = 110
+		keep = 100
 	}
 	b.add(subheading("Air temperature inside buildings", keep))
 	switch {
@@ -216,7 +216,7 @@ func (b *auditBuilder) indoorChart(bc checker.BuildingClimate) *DayChart {
 	}
 	return &DayChart{
 		Title: "Building " + bc.Building, Summary: summary, From: from, To: to, Unit: "°C",
-		YMin: yMin, YMax: yMax, YTicks: ticks, Height: 56,
+		YMin: yMin, YMax: yMax, YTicks: ticks, Height: 48,
 		Series:     []Series{hiS, loS},
 		Lines:      lines,
 		Marks:      marksOf(marks, from, to),

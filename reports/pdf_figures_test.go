@@ -80,6 +80,7 @@ func TestWritePDFHealthWarmReportable(t *testing.T) {
 			// Cover and findings: the reportable mark (PHS Policy IV.F.3).
 			"Reportable 1 finding to report to the institutional official (PHS Policy IV.F.3)",
 			"» Report to the institutional official (PHS Policy IV.F.3).",
+			"1 finding to report to the institutional official (PHS Policy IV.F.3): marked » in the findings.",
 			// Health and mortality.
 			"Health and mortality", "Deaths by month and cause", "unknown", "cold",
 			"S1 2026-01 2 62 2.0 100.0 % health.mortality.high",
