@@ -107,7 +107,7 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		}
 	}
 	SortFindings(res.Findings)
-	f.addFigures(res)
+	f.addFigures(res, cfg.Only)
 	if res.Findings == nil {
 		res.Findings = []Finding{}
 	}

@@ -1,6 +1,7 @@
 package checker
 
 import (
+	"slices"
 	"sort"
 
 	"welfare/records"
@@ -104,10 +105,26 @@ type WeanedLitter struct {
 }
 
 // addFigures fills the result's report figures from the facts, after the
-// findings are known.
-func (f *facts) addFigures(res *Result) {
-	res.Health = f.healthFigures(res.Findings)
-	res.Warm = f.warmFigures(res.Findings)
+// findings are known. A run limited to other domains (--only) gets none:
+// the figures are marked by findings it did not keep.
+func (f *facts) addFigures(res *Result, only []string) {
+	in := func(domains ...string) bool {
+		if len(only) == 0 {
+			return true
+		}
+		for _, d := range domains {
+			if slices.Contains(only, d) {
+				return true
+			}
+		}
+		return false
+	}
+	if in("health", "litter") {
+		res.Health = f.healthFigures(res.Findings)
+	}
+	if in("heat", "environment", "care") {
+		res.Warm = f.warmFigures(res.Findings)
+	}
 }
 
 // findingDays lists, per subject, the days of one check's findings.

@@ -111,3 +111,39 @@ func TestWarmFigures(t *testing.T) {
 		})
 	}
 }
+
+// A run limited to other domains (--only cold) carries no health or
+// warm-season figures: they are marked by findings it did not keep.
+func TestFiguresFollowOnly(t *testing.T) {
+	lim := defaultLimits(t)
+	data, err := lim.Data()
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	engine, err := NewEngine(ctx, []Source{{Name: "rules", FS: rules.FS()}}, data, EngineOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tests := []struct {
+		only             []string
+		health, warmSeen bool
+	}{
+		{nil, true, true},
+		{[]string{"cold"}, false, false},
+		{[]string{"health"}, true, false},
+		{[]string{"care"}, false, true},
+	}
+	for _, tt := range tests {
+		res, err := Check(ctx, Config{Records: loadHealth(t, lim, nil), Limits: lim, Engine: engine, Period: healthJanuary, Only: tt.only})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := res.Health != nil; got != tt.health {
+			t.Errorf("only %v: health figures %v, want %v", tt.only, got, tt.health)
+		}
+		if got := res.Warm != nil; got != tt.warmSeen {
+			t.Errorf("only %v: warm figures %v, want %v", tt.only, got, tt.warmSeen)
+		}
+	}
+}
