@@ -115,6 +115,7 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		}
 	}
 	SortFindings(res.Findings)
+	f.addFigures(res, cfg.Only)
 	if res.Findings == nil {
 		res.Findings = []Finding{}
 	}

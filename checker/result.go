@@ -30,6 +30,10 @@ type Result struct {
 	// ColdLines are the wind chills the cold checks compared against (from
 	// the limits in force), for the chart's reference lines.
 	ColdLines ColdLines
+	// Health and Warm are the figures beside the findings for the report's
+	// health and warm-season sections (result_health.go, result_warm.go).
+	Health *Health
+	Warm   *Warm
 }
 
 // ColdLines are the cold checks' wind chill thresholds (°C).

@@ -57,7 +57,7 @@ const (
 	KindCheckFindings BlockKind = "check-findings" // Text (heading), Subtitle (counts and source), Table, More
 	KindBarChart      BlockKind = "bar-chart"      // Bars: findings per domain, stacked by severity
 	KindCareBar       BlockKind = "care-bar"       // Care
-	KindColdChart     BlockKind = "cold-chart"     // Cold
+	KindDayChart      BlockKind = "day-chart"      // Chart: a daily series with bands, lines and marks
 	KindSignOff       BlockKind = "sign-off"       // Text (heading), Subtitle, Roles, Fields, Bookmark
 )
 
@@ -71,17 +71,20 @@ type Block struct {
 	// Style is "", "bold" or "italic".
 	Style string `json:"style,omitempty"`
 	// Size is a font size in points (a space's height in millimetres).
-	Size   float64    `json:"size,omitempty"`
-	Indent float64    `json:"indent,omitempty"` // millimetres
-	Keep   float64    `json:"keep,omitempty"`   // millimetres
-	Mono   bool       `json:"mono,omitempty"`
-	Table  *Table     `json:"table,omitempty"`
-	More   string     `json:"more,omitempty"`
-	Bars   []Bar      `json:"bars,omitempty"`
-	Care   *CareBar   `json:"care,omitempty"`
-	Cold   *ColdChart `json:"cold,omitempty"`
-	Roles  []string   `json:"roles,omitempty"`
-	Fields []string   `json:"fields,omitempty"`
+	Size   float64 `json:"size,omitempty"`
+	Indent float64 `json:"indent,omitempty"` // millimetres
+	Keep   float64 `json:"keep,omitempty"`   // millimetres
+	Mono   bool    `json:"mono,omitempty"`
+	Table  *Table  `json:"table,omitempty"`
+	More   string  `json:"more,omitempty"`
+	Bars   []Bar   `json:"bars,omitempty"`
+	// Keys name the bar chart's segments in legend order (Segment.Key);
+	// without them the segments are severities.
+	Keys   []string  `json:"keys,omitempty"`
+	Care   *CareBar  `json:"care,omitempty"`
+	Chart  *DayChart `json:"chart,omitempty"`
+	Roles  []string  `json:"roles,omitempty"`
+	Fields []string  `json:"fields,omitempty"`
 }
 
 // Table is a table whose rows never split across pages; on a continuation
@@ -117,9 +120,11 @@ type Bar struct {
 	Total    int       `json:"total"`
 }
 
-// Segment is one severity's count in a bar.
+// Segment is one severity's count in a bar, or with Key one named part's
+// (a cause of death) when the block has Keys.
 type Segment struct {
-	Severity string `json:"severity"`
+	Severity string `json:"severity,omitempty"`
+	Key      string `json:"key,omitempty"`
 	Count    int    `json:"count"`
 }
 
@@ -130,11 +135,15 @@ type CareBar struct {
 	Caption  string `json:"caption"`
 }
 
-// ColdChart is one weather site's cold season: daily minima against the
-// wind chill hazard bands, the cold checks' thresholds and the days with
-// cold findings.
-type ColdChart struct {
-	Site    string      `json:"site"`
+// DayChart is a series of days against shaded bands, reference lines and
+// marked days: the cold season per weather site (daily minima against the
+// wind chill hazard bands, the cold checks' thresholds, the days with cold
+// findings), the warm season (daily maxima against the heat index bands and
+// hot_day_c), the indoor temperature per building against its species'
+// ranges, and a flagged animal's weighings.
+type DayChart struct {
+	// Title heads the chart ("Weather site S1"); Summary is the line under it.
+	Title   string      `json:"title"`
 	Summary string      `json:"summary"`
 	From    records.Day `json:"from"`
 	To      records.Day `json:"to"`
@@ -142,17 +151,20 @@ type ColdChart struct {
 	YMin    float64     `json:"y_min"`
 	YMax    float64     `json:"y_max"`
 	YTicks  []Tick      `json:"y_ticks"`
+	// Height of the plot in millimetres; 0 is the full-size chart.
+	Height float64 `json:"height,omitempty"`
 	// Series are drawn in order: the first as a solid line with dots, the
-	// second dashed with squares; a day without readings is a gap.
+	// second dashed with squares; a day without readings is a gap, unless
+	// the series is Joined (points days apart, such as weighings).
 	Series []Series `json:"series"`
-	// Lines are the thresholds, warmest first, those outside the value
-	// range left out; Style numbers the dash pattern.
+	// Lines are the thresholds, those outside the value range left out;
+	// Style numbers the dash pattern.
 	Lines []RefLine `json:"lines"`
-	// Marks count the cold findings per day; MarksLabel explains them.
+	// Marks count the findings per day; MarksLabel explains them.
 	Marks      []Mark   `json:"marks"`
 	MarksLabel []string `json:"marks_label"`
-	// Bands are the hazard bands, mildest first, shaded inside the plot
-	// (clipped to the value range) and listed in the key.
+	// Bands are shaded inside the plot (clipped to the value range),
+	// mildest first, and listed in the key.
 	Bands []Band `json:"bands"`
 }
 
@@ -166,6 +178,7 @@ type Tick struct {
 type Series struct {
 	Name   string  `json:"name"`
 	Points []Point `json:"points"`
+	Joined bool    `json:"joined,omitempty"`
 }
 
 // Point is one day's value.
@@ -181,19 +194,22 @@ type RefLine struct {
 	Style int     `json:"style"`
 }
 
-// Mark is a day with cold findings and their number.
+// Mark is a day with findings and their number.
 type Mark struct {
 	Day   records.Day `json:"day"`
 	Count int         `json:"count"`
 }
 
-// Band is one wind chill hazard band: Hi is its warm edge and Lo its cold
-// edge in °C; OpenBelow marks the coldest band, which has no cold edge.
-// Level is 1 for the mildest band.
+// Band is one hazard band (wind chill, heat index) or range: Hi is its
+// upper edge and Lo its lower edge in the chart's unit; OpenBelow marks a
+// band without a lower edge (the coldest wind chill band), OpenAbove one
+// without an upper edge (the hottest heat index band). Level is 1 for the
+// mildest band.
 type Band struct {
 	Hi        float64 `json:"hi"`
 	Lo        float64 `json:"lo"`
 	OpenBelow bool    `json:"open_below,omitempty"`
+	OpenAbove bool    `json:"open_above,omitempty"`
 	Level     int     `json:"level"`
 	Label     string  `json:"label"`
 }

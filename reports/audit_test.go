@@ -45,6 +45,13 @@ func TestGoldenAuditSmall(t *testing.T) {
 // `welfare demo` does (shipped rules and limits, January 2026).
 func demoResult(t *testing.T) *checker.Result {
 	t.Helper()
+	return demoSeasonResult(t, "../testdata/demo/records", checker.Period{From: records.MakeDay(2026, 1, 1), To: records.MakeDay(2026, 1, 31)})
+}
+
+// demoSeasonResult checks a demo records folder over its period, as
+// `welfare demo [--season summer]` does.
+func demoSeasonResult(t *testing.T, dir string, period checker.Period) *checker.Result {
+	t.Helper()
 	ctx := context.Background()
 	lim, err := rules.ParseLimits("limits.yaml (built in)", rules.DefaultLimits())
 	if err != nil {
@@ -54,8 +61,7 @@ func demoResult(t *testing.T) *checker.Result {
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := policy.Check(ctx, os.DirFS("../testdata/demo/records"),
-		checker.Period{From: records.MakeDay(2026, 1, 1), To: records.MakeDay(2026, 1, 31)}, nil)
+	res, err := policy.Check(ctx, os.DirFS(dir), period, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -75,4 +81,17 @@ func TestGoldenAuditDemo(t *testing.T) {
 	}
 	opt := reports.PDFOptions{Inspector: "Demo inspector (invented)", GeneratedAt: demoGeneratedAt}
 	golden(t, "demo", "audit.json", auditJSON(t, res, opt))
+}
+
+// The summer demo's report content (July 2026, `welfare demo --season
+// summer`): the warm-season chart, the indoor climate and the cleaning gaps,
+// and no cold-season chart.
+func TestGoldenAuditDemoSummer(t *testing.T) {
+	if testing.Short() {
+		t.Skip("checks the whole summer demo")
+	}
+	res := demoSeasonResult(t, "../testdata/demo-summer/records",
+		checker.Period{From: records.MakeDay(2026, 7, 1), To: records.MakeDay(2026, 7, 31)})
+	opt := reports.PDFOptions{Inspector: "Demo inspector (invented)", GeneratedAt: demoGeneratedAt}
+	golden(t, "demo-summer", "audit.json", auditJSON(t, res, opt))
 }

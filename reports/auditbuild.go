@@ -34,8 +34,9 @@ type PDFOptions struct {
 // every finding is still in the attached files.
 const DefaultPDFMaxPerCheck = 25
 
-// BuildAudit lays out the PDF audit report of r: cover, summary, cold
-// season (when r.Weather has data), findings with an empty plan-for-correction
+// BuildAudit lays out the PDF audit report of r: cover, summary, health and
+// mortality (when r.Health is set), cold season (when r.Weather has data),
+// warm season, inside buildings and cleaning (when r.Warm is set), findings with an empty plan-for-correction
 // cell for each, limits in force, cautions and sign-off, with findings.json
 // and findings.csv attached. It is pure: the same r and opt give the same
 // Audit.
@@ -67,8 +68,14 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 		Footer: "Fingerprint " + shortPrint(r.Fingerprint) + " · records check, not a veterinary judgement",
 	}
 	a.Sections = append(a.Sections, b.cover(), b.summary())
+	if r.Health != nil {
+		a.Sections = append(a.Sections, b.healthSection())
+	}
 	if hasWeather(r) {
 		a.Sections = append(a.Sections, b.coldSeason())
+	}
+	if r.Warm != nil {
+		a.Sections = append(a.Sections, b.warmSeason())
 	}
 	a.Sections = append(a.Sections, b.findings(), b.limits(), b.cautions(), b.signOff())
 	a.Attachments = []Attachment{
@@ -94,10 +101,16 @@ func (b *auditBuilder) section(title string, newPage bool, heading string) Audit
 	return s
 }
 
+// hasWeather: the cold-season chart is drawn when a weather site had a day
+// in the hazard bands (a minimum wind chill at or below the mildest band's
+// warm edge, 0 °C); a summer period has no cold-season page.
 func hasWeather(r *checker.Result) bool {
+	edge := hazardBands()[0].Hi
 	for _, s := range r.Weather {
-		if len(s.Days) > 0 {
-			return true
+		for _, d := range s.Days {
+			if d.Readings > 0 && d.MinWindChillC <= edge {
+				return true
+			}
 		}
 	}
 	return false
@@ -128,6 +141,7 @@ func (b *auditBuilder) cover() AuditSection {
 		keyValue("Checks in force", fmt.Sprintf("%d, of which %d not evaluated", len(r.Checks), len(r.NotEvaluated)), false, size),
 		keyValue("Findings", fmt.Sprintf("%d: %d significant, %d minor, %d note",
 			t.total(), t.severityTotal(checker.Significant), t.severityTotal(checker.Minor), t.severityTotal(checker.Note)), false, size),
+		keyValue("Reportable", reportableCover(r.Findings), false, size),
 		keyValue("Fingerprint", orNone(r.Fingerprint), true, 9.5),
 		Block{Kind: KindParagraph, Style: "italic", Size: 8.5, Indent: 42,
 			Text: "SHA-256 over the records, rules and limits used. Every page carries its first 12 digits."},
@@ -178,6 +192,10 @@ func (b *auditBuilder) summary() AuditSection {
 	b.add(Block{Kind: KindTable, Table: tb})
 	if t.other > 0 {
 		b.add(para(fmt.Sprintf("%d findings carry a severity other than significant, minor or note; they are counted in the totals only.", t.other), "italic", 8.5))
+	}
+	if n := countReportable(r.Findings); n > 0 {
+		b.add(para(fmt.Sprintf("%s to %s (PHS Policy IV.F.3): marked » in the findings.",
+			plural(n, "finding"), ReportableMark), "bold", 9.5))
 	}
 	b.add(space(3), b.barChart())
 
@@ -280,6 +298,9 @@ func (b *auditBuilder) checkFindings(c checkGroup) Block {
 		head += " — " + c.title
 	}
 	meta := fmt.Sprintf("%s (%s). Source: %s", plural(len(c.findings), "finding"), strings.Join(parts, ", "), orNone(c.source))
+	if c.findings[0].Reportable {
+		meta += ". Reportable: " + ReportableMark + " (PHS Policy IV.F.3)."
+	}
 	shown := len(c.findings)
 	if b.opt.MaxPerCheck > 0 && shown > b.opt.MaxPerCheck {
 		shown = b.opt.MaxPerCheck
@@ -312,7 +333,11 @@ func findingCells(f *checker.Finding) []string {
 		// One date per line: a range never breaks inside a date.
 		when = dayOrNone(f.On) + " –\n" + f.Until.String()
 	}
-	return []string{string(f.Severity), f.Subject, when, f.Message, text, ""}
+	msg := f.Message
+	if f.Reportable {
+		msg += "\n» " + capitalise(ReportableMark) + " (PHS Policy IV.F.3)."
+	}
+	return []string{string(f.Severity), f.Subject, when, msg, text, ""}
 }
 
 func (b *auditBuilder) limits() AuditSection {
@@ -364,6 +389,9 @@ func (b *auditBuilder) limits() AuditSection {
 // in force, goes.
 const biteReportItem = "\x00bite-report"
 
+// heatBandsItem marks where the heat caution quoting the NWS bands goes.
+const heatBandsItem = "\x00heat-bands"
+
 // cautionGroups are printed on every report, whatever was found: the people
 // reading it work with animals that bite and carry zoonoses, in the cold.
 var cautionGroups = []struct {
@@ -385,14 +413,22 @@ var cautionGroups = []struct {
 		"Plan outdoor work by the work/warm-up schedule (ACGIH TLV, cold stress) and take the warm-up breaks in a heated place. At a wind chill of −28 or colder people's exposed skin can freeze in 10–30 minutes (Environment and Climate Change Canada).",
 		"Cover exposed skin, change wet clothing at once, work in pairs in severe cold, and watch each other for frostbite (white or waxy, numb skin) and hypothermia (shivering, clumsiness, confusion).",
 	}},
+	{"Heat illness for staff", []string{
+		heatBandsItem, // filled from checker/heat's bands (HeatBandsCaution)
+		"Drink water often, before thirst; rest in shade or a cool room and do heavy work in the cool hours; work in pairs on hot days, and let newcomers build up to the heat over several days (common practice).",
+		"Watch each other for heat exhaustion (heavy sweating, cramps, weakness, headache, nausea, dizziness): stop, move to shade, cool down and drink. Confusion, collapse or hot skin with little sweating may be heat stroke: call emergency services and cool the person at once (common practice).",
+	}},
 }
 
 func (b *auditBuilder) cautions() AuditSection {
 	for _, g := range cautionGroups {
 		b.add(subheading(g.title, 12))
 		for _, it := range g.items {
-			if it == biteReportItem {
+			switch it {
+			case biteReportItem:
 				it = BiteReportCaution(b.r)
+			case heatBandsItem:
+				it = HeatBandsCaution()
 			}
 			b.add(Block{Kind: KindBullet, Text: it})
 		}
@@ -409,6 +445,33 @@ func (b *auditBuilder) signOff() AuditSection {
 		Roles:  []string{"Attending veterinarian", "Chair, animal-care committee"},
 		Fields: []string{"Name", "Signature", "Date"}})
 	return b.section("Sign-off", false, "")
+}
+
+// reportableCover is the cover's count of reportable findings (PHS Policy
+// IV.F.3), said even when there are none so a reader sees it was looked at.
+func reportableCover(fs []checker.Finding) string {
+	n := countReportable(fs)
+	if n == 0 {
+		return "none: no finding to " + ReportableMark + " (PHS Policy IV.F.3)"
+	}
+	return fmt.Sprintf("%s to %s (PHS Policy IV.F.3), marked » in the findings", plural(n, "finding"), ReportableMark)
+}
+
+func countReportable(fs []checker.Finding) int {
+	n := 0
+	for i := range fs {
+		if fs[i].Reportable {
+			n++
+		}
+	}
+	return n
+}
+
+func capitalise(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
 }
 
 // plural is "1 finding" or "3 findings".

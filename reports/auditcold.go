@@ -48,13 +48,15 @@ func (b *auditBuilder) coldSeason() AuditSection {
 		if len(s.Days) == 0 {
 			continue
 		}
-		b.add(Block{Kind: KindColdChart, Cold: b.coldChart(s)})
+		b.add(Block{Kind: KindDayChart, Chart: b.coldChart(s)})
 	}
 	return b.section("Cold season", true, "Cold season")
 }
 
-// coldMarks counts, per day of the chart, the cold findings of one site.
-func (b *auditBuilder) coldMarks(site string, from, to records.Day) []Mark {
+// siteMarks counts, per day of the chart, the findings of one domain at one
+// weather site (the site itself, or a subject SiteOf maps to it; with a
+// single weather site, every finding of the domain).
+func (b *auditBuilder) siteMarks(domain, site string, from, to records.Day) []Mark {
 	single := 0
 	for _, s := range b.r.Weather {
 		if len(s.Days) > 0 {
@@ -64,19 +66,31 @@ func (b *auditBuilder) coldMarks(site string, from, to records.Day) []Mark {
 	marks := map[records.Day]int{}
 	for i := range b.r.Findings {
 		f := &b.r.Findings[i]
-		if domainOf(f) != "cold" {
+		if domainOf(f) != domain {
 			continue
 		}
 		mapped, ok := b.opt.SiteOf[f.Subject]
 		mine := f.Subject == site || (ok && mapped == site) || (!ok && single == 1)
-		if !mine || f.On.IsZero() {
-			continue
-		}
-		last := max(f.Until, f.On)
-		for day := max(f.On, from); day <= min(last, to); day++ {
-			marks[day]++
+		if mine {
+			countDays(marks, f, from, to)
 		}
 	}
+	return marksOf(marks, from, to)
+}
+
+// countDays adds each day of f (its run, when it has one) within from..to.
+func countDays(marks map[records.Day]int, f *checker.Finding, from, to records.Day) {
+	if f.On.IsZero() {
+		return
+	}
+	last := max(f.Until, f.On)
+	for day := max(f.On, from); day <= min(last, to); day++ {
+		marks[day]++
+	}
+}
+
+// marksOf lists the counted days in order.
+func marksOf(marks map[records.Day]int, from, to records.Day) []Mark {
 	out := []Mark{}
 	for day := from; day <= to; day++ {
 		if c := marks[day]; c > 0 {
@@ -86,7 +100,7 @@ func (b *auditBuilder) coldMarks(site string, from, to records.Day) []Mark {
 	return out
 }
 
-func (b *auditBuilder) coldChart(s checker.SiteDays) *ColdChart {
+func (b *auditBuilder) coldChart(s checker.SiteDays) *DayChart {
 	r := b.r
 	from, to := r.Period.From, r.Period.To
 	if from.IsZero() || to < from {
@@ -163,12 +177,12 @@ func (b *auditBuilder) coldChart(s checker.SiteDays) *ColdChart {
 	if coldest != nil {
 		summary = fmt.Sprintf("Coldest wind chill %s on %s (air %s). ", celsius(coldest.MinWindChillC), coldest.Day, celsius(coldest.MinAirC)) + summary
 	}
-	return &ColdChart{
-		Site: s.Site, Summary: summary, From: from, To: to, Unit: "°C",
+	return &DayChart{
+		Title: "Weather site " + s.Site, Summary: summary, From: from, To: to, Unit: "°C",
 		YMin: yMin, YMax: yMax, YTicks: ticks,
 		Series:     []Series{air, chill},
 		Lines:      lines,
-		Marks:      b.coldMarks(s.Site, from, to),
+		Marks:      b.siteMarks("cold", s.Site, from, to),
 		MarksLabel: []string{"▲ days with cold", "findings (count)"},
 		Bands:      hazardBands(),
 	}

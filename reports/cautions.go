@@ -1,7 +1,11 @@
 package reports
 
 import (
+	"fmt"
+	"strings"
+
 	"welfare/checker"
+	"welfare/checker/heat"
 )
 
 // BiteReportKey is the limit both handling.bite.not_reported and the bite
@@ -29,3 +33,18 @@ const RabiesExposureCaution = "Rabies: foxes are a reservoir species. Any bite, 
 	"mucous membrane needs a prompt rabies post-exposure assessment by a physician or public health, whatever the " +
 	"person's vaccination status (ACIP post-exposure recommendations, MMWR 2008;57(RR-3), updated 2010, MMWR " +
 	"2010;59(RR-2) [from memory: verify])."
+
+// HeatBandsCaution is the staff caution on planning hot-day work by the heat
+// index, quoting the NWS bands from checker/heat (the one place they are
+// written down), so the caution and the charts cannot disagree.
+func HeatBandsCaution() string {
+	var parts []string
+	for _, b := range heat.Bands() {
+		if b.Level == 0 {
+			continue
+		}
+		parts = append(parts, fmt.Sprintf("%s from %g °C (%g °F)", b.Wording, b.FromC, b.FromF))
+	}
+	return "Plan hot-day work by the heat index (US National Weather Service heat index bands: " + strings.Join(parts, ", ") +
+		"). In direct sun the heat load is higher than the index; sheds, barns and protective clothing add to it."
+}

@@ -113,10 +113,10 @@ func ExampleBuildAudit() {
 		fmt.Printf("%s (%s): %d blocks\n", s.Title, start, len(s.Blocks))
 	}
 	// Output:
-	// Cover (new page): 12 blocks
+	// Cover (new page): 13 blocks
 	// Summary (new page): 9 blocks
 	// Findings (new page): 3 blocks
 	// Limits in force (new page): 5 blocks
-	// Cautions (new page): 14 blocks
+	// Cautions (new page): 18 blocks
 	// Sign-off (follows on): 1 blocks
 }

@@ -24,6 +24,9 @@ type JSONReport struct {
 	NotEvaluated []JSONNotEvaluated `json:"not_evaluated"`
 	Warnings     []JSONWarning      `json:"warnings"`
 	CareCoverage JSONCareCoverage   `json:"care_coverage"`
+	// Health is present when the records folder had deaths.csv,
+	// observations.csv, treatments.csv or litters.csv.
+	Health *JSONHealth `json:"health,omitempty"`
 }
 
 // JSONPeriod is the checked period, inclusive, as YYYY-MM-DD.
@@ -94,6 +97,150 @@ type JSONCareCoverage struct {
 	CompleteDays int `json:"complete_days"`
 }
 
+// JSONHealth is the health-and-mortality figures the PDF's section draws:
+// the measurements beside the findings (the findings judge them).
+type JSONHealth struct {
+	// Files are those of deaths.csv, observations.csv, treatments.csv and
+	// litters.csv the folder had.
+	Files []string `json:"files"`
+	// Deaths found in the period, by day.
+	Deaths []JSONDeath `json:"deaths"`
+	// Mortality per building and calendar month with at least one death;
+	// mortality_pct = deaths × 100 / mean_population, mean_population =
+	// animal_days / days_in_month; high when a health.mortality.high
+	// finding names the month.
+	Mortality      []JSONMortality    `json:"mortality"`
+	MortalityLimit JSONMortalityLimit `json:"mortality_limit"`
+	// OpenCases are the veterinary cases still open at the period's end.
+	OpenCases []JSONOpenCase `json:"open_cases"`
+	// WeightLoss: every animal with a health.weight.loss finding, its
+	// weighings from weight_loss_days before the period, and the days of
+	// its findings.
+	WeightLoss     []JSONAnimalWeights `json:"weight_loss"`
+	WeightLossPct  float64             `json:"weight_loss_pct"`
+	WeightLossDays int                 `json:"weight_loss_days"`
+	// EarlyWeaning: the litters with a litter.weaning.early finding.
+	EarlyWeaning []JSONWeanedLitter `json:"early_weaning"`
+}
+
+// JSONDeath is one death; cause is "unknown" when none was recorded.
+type JSONDeath struct {
+	Animal   string `json:"animal"`
+	Species  string `json:"species"`
+	Building string `json:"building"` // "" when unknown
+	On       string `json:"on"`
+	Cause    string `json:"cause"`
+	Necropsy bool   `json:"necropsy"`
+	Evidence string `json:"evidence"`
+}
+
+// JSONMortality is one building's deaths in one month (YYYY-MM).
+type JSONMortality struct {
+	Building       string  `json:"building"`
+	Month          string  `json:"month"`
+	Deaths         int     `json:"deaths"`
+	AnimalDays     int     `json:"animal_days"`
+	DaysInMonth    int     `json:"days_in_month"`
+	MeanPopulation float64 `json:"mean_population"`
+	MortalityPct   float64 `json:"mortality_pct"`
+	High           bool    `json:"high"`
+}
+
+// JSONMortalityLimit is health.mortality in the limits in force.
+type JSONMortalityLimit struct {
+	MinDeaths  int     `json:"min_deaths"`
+	MonthlyPct float64 `json:"monthly_pct"`
+}
+
+// JSONOpenCase is a veterinary case open at the period's end; reviewed_on
+// is "" when no review was recorded; unreviewed when a
+// health.case.unreviewed finding names its animal.
+type JSONOpenCase struct {
+	Case       string `json:"case"`
+	Animal     string `json:"animal"`
+	Diagnosis  string `json:"diagnosis"`
+	OpenedOn   string `json:"opened_on"`
+	ReviewedOn string `json:"reviewed_on"`
+	Unreviewed bool   `json:"unreviewed"`
+	Evidence   string `json:"evidence"`
+}
+
+// JSONAnimalWeights is one animal's weighings (kg) and finding days.
+type JSONAnimalWeights struct {
+	Animal      string         `json:"animal"`
+	Species     string         `json:"species"`
+	Weighings   []JSONWeighing `json:"weighings"`
+	FindingDays []string       `json:"finding_days"`
+}
+
+// JSONWeighing is one mass on one day.
+type JSONWeighing struct {
+	On string  `json:"on"`
+	Kg float64 `json:"kg"`
+}
+
+// JSONWeanedLitter is a litter weaned early; min_days is 0 when the
+// species has no minimum in the limits, weaned null when not recorded.
+type JSONWeanedLitter struct {
+	Litter   string `json:"litter"`
+	Dam      string `json:"dam"`
+	Species  string `json:"species"`
+	Whelped  string `json:"whelped_on"`
+	WeanedOn string `json:"weaned_on"`
+	AgeDays  int    `json:"age_days"`
+	MinDays  int    `json:"min_days"`
+	Born     int    `json:"born"`
+	Weaned   *int   `json:"weaned"`
+}
+
+func newJSONHealth(h *checker.Health) *JSONHealth {
+	if h == nil {
+		return nil
+	}
+	out := &JSONHealth{Files: append([]string{}, h.Files...),
+		Deaths: []JSONDeath{}, Mortality: []JSONMortality{}, OpenCases: []JSONOpenCase{},
+		WeightLoss: []JSONAnimalWeights{}, EarlyWeaning: []JSONWeanedLitter{},
+		MortalityLimit: JSONMortalityLimit{MinDeaths: h.MortalityLimit.MinDeaths, MonthlyPct: h.MortalityLimit.MonthlyPct},
+		WeightLossPct:  h.WeightLossPct, WeightLossDays: h.WeightLossDays}
+	for _, d := range h.Deaths {
+		out.Deaths = append(out.Deaths, JSONDeath{Animal: d.Animal, Species: d.Species, Building: d.Building, On: d.On.String(),
+			Cause: d.Cause, Necropsy: d.Necropsy, Evidence: string(d.Ref)})
+	}
+	for _, m := range h.Mortality {
+		jm := JSONMortality{Building: m.Building, Month: m.Month.String()[:7], Deaths: m.Deaths, AnimalDays: m.AnimalDays,
+			DaysInMonth: m.DaysInMonth, High: m.High}
+		if m.DaysInMonth > 0 && m.AnimalDays > 0 {
+			jm.MeanPopulation = float64(m.AnimalDays) / float64(m.DaysInMonth)
+			jm.MortalityPct = float64(m.Deaths) * 100 / jm.MeanPopulation
+		}
+		out.Mortality = append(out.Mortality, jm)
+	}
+	for _, c := range h.OpenCases {
+		rev := ""
+		if !c.Reviewed.IsZero() {
+			rev = c.Reviewed.String()
+		}
+		out.OpenCases = append(out.OpenCases, JSONOpenCase{Case: c.Case, Animal: c.Animal, Diagnosis: c.Diagnosis,
+			OpenedOn: c.Opened.String(), ReviewedOn: rev, Unreviewed: c.Unreviewed, Evidence: string(c.Ref)})
+	}
+	for _, a := range h.WeightLoss {
+		ja := JSONAnimalWeights{Animal: a.Animal, Species: a.Species, Weighings: []JSONWeighing{}, FindingDays: []string{}}
+		for _, w := range a.Weighings {
+			ja.Weighings = append(ja.Weighings, JSONWeighing{On: w.Day.String(), Kg: w.Kg})
+		}
+		for _, d := range a.Findings {
+			ja.FindingDays = append(ja.FindingDays, d.String())
+		}
+		out.WeightLoss = append(out.WeightLoss, ja)
+	}
+	for _, l := range h.EarlyWeaning {
+		out.EarlyWeaning = append(out.EarlyWeaning, JSONWeanedLitter{Litter: l.Litter, Dam: l.Dam, Species: l.Species,
+			Whelped: l.Whelped.String(), WeanedOn: l.WeanedOn.String(), AgeDays: l.AgeDays, MinDays: l.MinDays,
+			Born: l.Born, Weaned: l.Weaned})
+	}
+	return out
+}
+
 // NewJSONReport converts r to the published format. Lists are [] rather
 // than null when empty, so a reader never has to tell the two apart.
 func NewJSONReport(r *checker.Result) JSONReport {
@@ -107,6 +254,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 		NotEvaluated: make([]JSONNotEvaluated, len(r.NotEvaluated)),
 		Warnings:     make([]JSONWarning, len(r.Warnings)),
 		CareCoverage: JSONCareCoverage{OccupiedDays: r.Care.OccupiedDays, CompleteDays: r.Care.CompleteDays},
+		Health:       newJSONHealth(r.Health),
 	}
 	for i, c := range r.Accounting {
 		doc.Accounting[i] = JSONFileCount{File: c.File, Read: c.Read, Accepted: c.Accepted, Rejected: c.Rejected, Failed: c.Failed}
@@ -151,7 +299,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 
 // WriteJSON writes r as one JSON object (indented by two spaces): facility,
 // period, fingerprint, accounting, findings, checks, not_evaluated, warnings
-// and care_coverage (see JSONReport). Dates are YYYY-MM-DD.
+// care_coverage and, when health records were read, health (see JSONReport). Dates are YYYY-MM-DD.
 func WriteJSON(w io.Writer, r *checker.Result) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")

@@ -99,8 +99,30 @@ func niceStep(span float64, n int) float64 {
 	return 10 * mag
 }
 
-// barChart draws findings per domain as horizontal bars stacked by severity.
-func (d *doc) barChart(bars []reports.Bar) {
+// keyPatterns fill the segments of a bar chart with named keys (causes of
+// death), in the order of the keys; distinct in greyscale print.
+var keyPatterns = []pattern{
+	{grey: 45}, {grey: 190, hatch: 1.3}, {grey: 255, dotted: true}, {grey: 120},
+	{grey: 220, hatch: 1.6, cross: true}, {grey: 160, hatch: 0.9}, {grey: 235}, {grey: 90, dotted: true},
+}
+
+// segmentPattern is a segment's fill: by its key's place among keys, or by
+// its severity when the chart has no keys.
+func segmentPattern(s reports.Segment, keys []string) pattern {
+	if len(keys) == 0 {
+		return severityPattern[s.Severity]
+	}
+	for i, k := range keys {
+		if k == s.Key {
+			return keyPatterns[i%len(keyPatterns)]
+		}
+	}
+	return pattern{grey: 255}
+}
+
+// barChart draws horizontal stacked bars: findings per domain by severity,
+// or, with keys, the named parts of each bar (deaths per month by cause).
+func (d *doc) barChart(bars []reports.Bar, keys []string) {
 	p := d.pdf
 	const labelW, barH, gap = 28.0, 5.0, 2.0
 	plotW := contentW - labelW - 16
@@ -113,7 +135,7 @@ func (d *doc) barChart(bars []reports.Bar) {
 	for _, b := range bars {
 		maxTotal = max(maxTotal, b.Total)
 	}
-	step := niceStep(float64(max(maxTotal, 1)), 5)
+	step := max(niceStep(float64(max(maxTotal, 1)), 5), 1) // counts: whole steps
 	top := math.Ceil(float64(max(maxTotal, 1))/step) * step
 	xOf := func(v float64) float64 { return x0 + v/top*plotW }
 
@@ -140,7 +162,7 @@ func (d *doc) barChart(bars []reports.Bar) {
 				continue
 			}
 			w := float64(s.Count) / top * plotW
-			d.fillPattern(x, y, w, barH, severityPattern[s.Severity], true)
+			d.fillPattern(x, y, w, barH, segmentPattern(s, keys), true)
 			x += w
 		}
 		if b.Total > 0 {
@@ -156,12 +178,21 @@ func (d *doc) barChart(bars []reports.Bar) {
 	ly := y0 + plotH + 6
 	x := x0
 	d.font(sans, "", 8)
-	for _, s := range legendSeverities {
-		d.fillPattern(x, ly, 6, 3.5, severityPattern[string(s)], true)
+	legend := keys
+	if len(keys) == 0 {
+		for _, s := range legendSeverities {
+			legend = append(legend, string(s))
+		}
+	}
+	for _, label := range legend {
+		w := 7 + p.GetStringWidth(clean(label)) + 8
+		if x+w > margin+contentW {
+			x, ly = x0, ly+5
+		}
+		d.fillPattern(x, ly, 6, 3.5, segmentPattern(reports.Segment{Severity: label, Key: label}, keys), true)
 		p.SetXY(x+7, ly)
-		label := string(s)
-		p.CellFormat(p.GetStringWidth(label)+2, 3.5, label, "", 0, "L", false, 0, "")
-		x += 7 + p.GetStringWidth(label) + 8
+		p.CellFormat(p.GetStringWidth(clean(label))+2, 3.5, clean(label), "", 0, "L", false, 0, "")
+		x += w
 	}
 	p.SetXY(margin, ly+7)
 }
@@ -190,30 +221,58 @@ func (d *doc) careBar(c *reports.CareBar) {
 	p.SetXY(margin, y+h+3)
 }
 
-// coldChart draws one site's cold season: a legend, the hazard bands, the
-// reference lines, the two series, the days with findings and the band key.
-func (d *doc) coldChart(c *reports.ColdChart) {
+// dayChart draws a daily series chart: its title and summary, a legend,
+// the bands, the reference lines, the series, the marked days and the band
+// key. The cold season, the warm season, the indoor climate and the
+// weighings of an animal are all drawn here.
+func (d *doc) dayChart(c *reports.DayChart) {
 	p := d.pdf
 	const (
 		leftW  = 14.0
 		rightW = 34.0
-		plotH  = 72.0
 	)
+	plotH := c.Height
+	if plotH <= 0 {
+		plotH = 72
+	}
 	plotW := contentW - leftW - rightW
 	from, to := c.From, c.To
+	if to < from {
+		to = from
+	}
 	n := int(to-from) + 1
 	yMin, yMax := c.YMin, c.YMax
+	if yMax <= yMin {
+		yMax = yMin + 1
+	}
+	keyRows := (len(c.Bands) + 1) / 2
+	marksH := 0.0
+	if len(c.Marks) > 0 || len(c.MarksLabel) > 0 {
+		marksH = 8
+	}
 
-	total := 9 + 8 + plotH + 22 + 3*5.0 + 6
+	// A small chart of one series (an animal's weighings) has no legend
+	// row: its summary names the series.
+	legend := len(c.Series) > 1 || c.Height == 0
+	legendH := 7.0
+	if !legend {
+		legendH = 5
+	}
+	total := 9 + 8 + plotH + legendH + 7 + marksH + float64(keyRows)*5 + 6
+	if keyRows == 0 {
+		total = 9 + 8 + plotH + legendH + 6 + marksH
+	}
 	d.ensure(total)
-	d.subheading("Weather site "+c.Site, total-10)
-	d.para(c.Summary, "", 8.5)
+	d.subheading(c.Title, total-10)
+	if c.Summary != "" {
+		d.para(c.Summary, "", 8.5)
+	}
 
 	// Legend above the plot: one entry per series, drawn in its style.
 	ly := p.GetY() + 2
 	x0 := margin + leftW
 	d.font(sans, "", 8)
-	if len(c.Series) > 0 {
+	if legend && len(c.Series) > 0 {
 		p.SetLineWidth(0.35)
 		p.Line(x0, ly+1.8, x0+8, ly+1.8)
 		p.Circle(x0+4, ly+1.8, 0.6, "F")
@@ -233,17 +292,20 @@ func (d *doc) coldChart(c *reports.ColdChart) {
 		p.SetDrawColor(0, 0, 0)
 	}
 
-	y0 := ly + 7
+	y0 := ly + legendH
 	yOf := func(v float64) float64 { return y0 + (yMax-v)/(yMax-yMin)*plotH }
 	xOf := func(day records.Day) float64 { return x0 + (float64(day-from)+0.5)*plotW/float64(n) }
 
-	// Hazard bands, clipped to the plot.
+	// Bands, clipped to the plot.
 	for _, b := range c.Bands {
-		lo := b.Lo
+		lo, hi := b.Lo, b.Hi
 		if b.OpenBelow {
 			lo = math.Inf(-1)
 		}
-		top, bot := math.Min(b.Hi, yMax), math.Max(lo, yMin)
+		if b.OpenAbove {
+			hi = math.Inf(1)
+		}
+		top, bot := math.Min(hi, yMax), math.Max(lo, yMin)
 		if top <= bot {
 			continue
 		}
@@ -266,7 +328,7 @@ func (d *doc) coldChart(c *reports.ColdChart) {
 	p.SetXY(margin, y0-4.5)
 	p.CellFormat(leftW, 3, clean(c.Unit), "", 0, "R", false, 0, "")
 
-	// The cold checks' thresholds, labelled in the right margin.
+	// Thresholds, labelled in the right margin.
 	for _, l := range c.Lines {
 		p.SetLineWidth(0.4)
 		p.SetDashPattern(lineDashes[l.Style%len(lineDashes)], 0)
@@ -283,14 +345,17 @@ func (d *doc) coldChart(c *reports.ColdChart) {
 	p.SetLineWidth(0.2)
 	for day := from; day <= to; day++ {
 		x := xOf(day)
-		p.Line(x, y0+plotH, x, y0+plotH+1)
+		if n <= 120 || int(day-from)%labelEvery == 0 {
+			p.Line(x, y0+plotH, x, y0+plotH+1)
+		}
 		if int(day-from)%labelEvery == 0 {
 			p.SetXY(x-7, y0+plotH+1.2)
 			p.CellFormat(14, 3, day.Time().Format("01-02"), "", 0, "C", false, 0, "")
 		}
 	}
 
-	// Series: a gap where a day had no readings, never a line across it.
+	// Series: a gap where a day had no readings, never a line across it,
+	// unless the series joins its points.
 	series := func(s reports.Series, dash []float64, grey int, width float64, marker func(x, y float64)) {
 		p.SetDrawColor(grey, grey, grey)
 		p.SetFillColor(grey, grey, grey)
@@ -298,7 +363,7 @@ func (d *doc) coldChart(c *reports.ColdChart) {
 		p.SetDashPattern(dash, 0)
 		for i := 0; i+1 < len(s.Points); i++ {
 			a, b := s.Points[i], s.Points[i+1]
-			if b.Day == a.Day+1 {
+			if b.Day == a.Day+1 || (s.Joined && b.Day > a.Day) {
 				p.Line(xOf(a.Day), yOf(a.Value), xOf(b.Day), yOf(b.Value))
 			}
 		}
@@ -315,7 +380,7 @@ func (d *doc) coldChart(c *reports.ColdChart) {
 		series(c.Series[1], []float64{1.4, 0.9}, 70, 0.6, func(x, y float64) { p.Rect(x-0.7, y-0.7, 1.4, 1.4, "F") })
 	}
 
-	// Days with cold findings.
+	// Days with findings.
 	my := y0 + plotH + 6.5
 	p.SetFillColor(0, 0, 0)
 	d.font(sans, "", 5.5)
@@ -343,7 +408,10 @@ func (d *doc) coldChart(c *reports.ColdChart) {
 	}
 
 	// Band key, two columns.
-	ky := my + 8
+	ky := y0 + plotH + 7
+	if marksH > 0 {
+		ky = my + 8
+	}
 	d.font(sans, "", 7.5)
 	for i, b := range c.Bands {
 		col, rowN := i%2, i/2
@@ -353,5 +421,9 @@ func (d *doc) coldChart(c *reports.ColdChart) {
 		p.SetXY(x+8, y)
 		p.CellFormat(contentW/2-9, 3.5, clean(b.Label), "", 0, "L", false, 0, "")
 	}
-	p.SetXY(margin, ky+3*5+4)
+	end := ky + float64(keyRows)*5 + 4
+	if keyRows == 0 {
+		end = y0 + plotH + 6 + marksH
+	}
+	p.SetXY(margin, end)
 }

@@ -164,11 +164,13 @@ func (d *doc) block(b *reports.Block) {
 	case reports.KindCheckFindings:
 		d.checkFindings(b)
 	case reports.KindBarChart:
-		d.barChart(b.Bars)
+		d.barChart(b.Bars, b.Keys)
 	case reports.KindCareBar:
 		d.careBar(b.Care)
-	case reports.KindColdChart:
-		d.coldChart(b.Cold)
+	case reports.KindDayChart:
+		if b.Chart != nil {
+			d.dayChart(b.Chart)
+		}
 	case reports.KindSignOff:
 		d.signOff(b)
 	default:
