@@ -16,6 +16,8 @@ import (
 
 type checkOpts struct {
 	from, to, on   string
+	at             string // --on: the time of day to look from
+	plain          bool   // --on: no box drawing
 	only           string
 	limits         string
 	rules          listFlag
@@ -35,7 +37,9 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs := flag.NewFlagSet("check", flag.ContinueOnError)
 	fs.StringVar(&o.from, "from", "", "first `DAY` of the period (YYYY-MM-DD; default: the first dated record)")
 	fs.StringVar(&o.to, "to", "", "last `DAY` of the period (default: the last dated record)")
-	fs.StringVar(&o.on, "on", "", "check one `DAY` and print the morning view (sites' cold, problems to fix now)")
+	fs.StringVar(&o.on, "on", "", "check one `DAY` (today, yesterday or YYYY-MM-DD; --on alone: today) and print the morning view, as 'welfare today' does")
+	fs.StringVar(&o.at, "at", "", "with --on: the time of day `HH:MM` to look from (default: now when the day is today, the end of the day otherwise)")
+	fs.BoolVar(&o.plain, "plain", false, "with --on: plain text, no box drawing")
 	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report (records, care, enclosure, handling, staff, ppe, protocol, cull, cold, or a committee's own)")
 	fs.StringVar(&o.limits, "limits", "", "limits `FILE` (replaces the built-in limits; see 'welfare limits show')")
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
@@ -53,7 +57,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 
 func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs, o := checkFlags()
-	pos, err := parseArgs(fs, args)
+	pos, err := parseArgs(fs, bareOn(args))
 	if err != nil {
 		return err
 	}
@@ -107,16 +111,33 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if err != nil {
 		return err
 	}
+	var view todayView
+	checked := set
+	if o.on != "" {
+		// The morning view: one day, read as it stood at --at, so a round
+		// due later is not judged from rows not yet written.
+		if view, err = planToday(o, set.Location, clock()); err != nil {
+			return err
+		}
+		period = checker.Period{From: view.day, To: view.day}
+		if !view.endOfDay {
+			checked = set.Until(view.cut)
+		}
+	}
 	res, err := checker.Check(ctx, checker.Config{
-		Records: set, Limits: lim.limits, LimitsSource: lim.src, Engine: engine,
+		Records: checked, Limits: lim.limits, LimitsSource: lim.src, Engine: engine,
 		Period: period, Only: only, Fingerprint: fp,
 	})
 	if err != nil {
 		return err
 	}
 
+	var verdict reports.TodayVerdict
 	if o.on != "" {
-		err = reports.WriteMorning(stdout, res, period.From)
+		verdict, err = reports.WriteToday(stdout, res, reports.TodayOptions{
+			Day: view.day, At: view.at, EndOfDay: view.endOfDay, Records: checked,
+			Schedule: scheduleOf(lim), AllCommand: allCommand(dir, o, view.day), Plain: o.plain,
+		})
 	} else {
 		err = reports.WriteText(stdout, res, reports.TextOptions{MaxPerCheck: o.maxPerCheck})
 	}
@@ -141,6 +162,14 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 			return err
 		}
 		fmt.Fprintf(stderr, "wrote %s\n", out.path)
+	}
+	if o.on != "" {
+		// The morning view's exit is its answer: 0 only for a real
+		// all-clear.
+		if !verdict.AllClear() {
+			return errFindings
+		}
+		return nil
 	}
 	for _, f := range res.Findings {
 		if failRank > 0 && f.Severity.Rank() >= failRank {
@@ -203,8 +232,10 @@ func parsePeriod(o *checkOpts) (checker.Period, error) {
 		if o.from != "" || o.to != "" {
 			return p, usagef("--on checks one day: give it without --from and --to")
 		}
-		d, err := day("on", o.on)
-		return checker.Period{From: d, To: d}, err
+		return p, nil // resolved in the facility's time zone once it is read
+	}
+	if o.at != "" || o.plain {
+		return p, usagef("--at and --plain go with --on (the morning view)")
 	}
 	if p.From, err = day("from", o.from); err != nil {
 		return p, err
