@@ -191,7 +191,11 @@ func WriteToday(w io.Writer, r *checker.Result, o TodayOptions) (TodayVerdict, e
 		o.Day.Time().Weekday().String()[:3], o.Day, where, tz))
 	wl, hot, missing := weatherLines(set, o)
 	v.Missing = append(v.Missing, missing...)
-	head = append(head, o.rule("Weather so far"))
+	if o.EndOfDay {
+		head = append(head, o.rule("Weather"))
+	} else {
+		head = append(head, o.rule("Weather so far"))
+	}
 	head = append(head, wl...)
 
 	var fixLines, laterLines, earlierLines []string
@@ -398,8 +402,10 @@ func weatherLines(set *records.Set, o TodayOptions) (lines []string, hot bool, m
 			if o.Schedule != nil {
 				lines = append(lines,
 					fmt.Sprintf("    latest %s: air %s °C, %s; work/warm-up schedule:", last.At.In(loc).Format("15:04"),
-						morningNum(last.AirTempC), windText(last.WindKmh)),
-					"    "+workLimits(o.Schedule, last))
+						morningNum(last.AirTempC), windText(last.WindKmh)))
+				for _, l := range workLimits(o.Schedule, last) {
+					lines = append(lines, "    "+l)
+				}
 			}
 			continue
 		}
@@ -438,10 +444,11 @@ func windText(kmh *float64) string {
 }
 
 // workLimits is the schedule's answer per activity at one reading:
-// "moderate: 40-minute stints, 4 warm-up breaks; light: 30/5".
-func workLimits(s *cold.Schedule, wr records.Weather) string {
+// "moderate: 40-minute stints, 4 warm-up breaks; light: 30/5", on two
+// lines when one cannot hold it.
+func workLimits(s *cold.Schedule, wr records.Weather) []string {
 	if wr.WindKmh == nil {
-		return "no wind recorded: the schedule cannot be read; record the wind"
+		return []string{"no wind recorded: the schedule cannot be read; record the wind"}
 	}
 	mod := s.Lookup(wr.AirTempC, *wr.WindKmh, "moderate")
 	light := s.Lookup(wr.AirTempC, *wr.WindKmh, "light")
@@ -457,13 +464,17 @@ func workLimits(s *cold.Schedule, wr records.Weather) string {
 		return "unknown"
 	}
 	if mod.Kind == light.Kind && mod.Kind != cold.Limit {
-		return "all work: " + long(mod)
+		return []string{"all work: " + long(mod)}
 	}
 	l := long(light)
 	if mod.Kind == cold.Limit && light.Kind == cold.Limit {
 		l = fmt.Sprintf("%d/%d", light.MaxWorkMin, light.Breaks)
 	}
-	return "moderate: " + long(mod) + "; light: " + l
+	one := "moderate: " + long(mod) + "; light: " + l
+	if utf8.RuneCountInString(one) <= TodayMaxCols-4 {
+		return []string{one}
+	}
+	return []string{"moderate work: " + long(mod), "light work: " + long(light)}
 }
 
 // waterCounts counts each enclosure's water checks recorded on day (a

@@ -37,7 +37,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs := flag.NewFlagSet("check", flag.ContinueOnError)
 	fs.StringVar(&o.from, "from", "", "first `DAY` of the period (YYYY-MM-DD; default: the first dated record)")
 	fs.StringVar(&o.to, "to", "", "last `DAY` of the period (default: the last dated record)")
-	fs.StringVar(&o.on, "on", "", "check one `DAY` (today, yesterday or YYYY-MM-DD; --on alone: today) and print the morning view, as 'welfare today' does")
+	fs.StringVar(&o.on, "on", "", "check one `DAY` (today, yesterday or YYYY-MM-DD; --on alone: today) and print the keepers' view of that day, as the today command does")
 	fs.StringVar(&o.at, "at", "", "with --on: the time of day `HH:MM` to look from (default: now when the day is today, the end of the day otherwise)")
 	fs.BoolVar(&o.plain, "plain", false, "with --on: plain text, no box drawing")
 	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report (records, care, enclosure, handling, staff, ppe, protocol, cull, cold, or a committee's own)")
