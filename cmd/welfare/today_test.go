@@ -14,8 +14,8 @@ import (
 )
 
 const (
-	oneCage       = "../../testdata/today/records" // a one-cage station with every record file
-	goldenToday   = "../../testdata/golden/today"
+	oneCage     = "../../testdata/today/records" // a one-cage station with every record file
+	goldenToday = "../../testdata/golden/today"
 )
 
 // The keepers' view on the demo's days: byte for byte, within one screen
