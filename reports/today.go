@@ -189,6 +189,9 @@ func WriteToday(w io.Writer, r *checker.Result, o TodayOptions) (TodayVerdict, e
 	tz := set.Facility.TimeZone
 	head = append(head, fmt.Sprintf("%s: %s %s, %s (%s)", nonEmpty(r.Facility, "(facility not named)"),
 		o.Day.Time().Weekday().String()[:3], o.Day, where, tz))
+	if note := nothingRecorded(set, o.Day); note != "" {
+		v.Missing = append(v.Missing, note)
+	}
 	wl, hot, missing := weatherLines(set, o)
 	v.Missing = append(v.Missing, missing...)
 	if o.EndOfDay {
@@ -475,6 +478,32 @@ func workLimits(s *cold.Schedule, wr records.Weather) []string {
 		return []string{one}
 	}
 	return []string{"moderate work: " + long(mod), "light work: " + long(light)}
+}
+
+// nothingRecorded says so when the day has no care round and no weather
+// reading, naming the latest day that has a round: a folder not yet kept
+// up to date, or the wrong folder.
+func nothingRecorded(set *records.Set, day records.Day) string {
+	var latest records.Day
+	for _, c := range set.Care {
+		if c.Day == day {
+			return ""
+		}
+		latest = max(latest, c.Day)
+	}
+	loc := set.Location
+	if loc == nil {
+		loc = time.UTC
+	}
+	for _, w := range set.Weather {
+		if records.DayOf(w.At.In(loc)) == day {
+			return ""
+		}
+	}
+	if latest.IsZero() {
+		return "nothing recorded for " + day.String() + " yet (no care rounds in the records)"
+	}
+	return "nothing recorded for " + day.String() + " yet (the latest round is on " + latest.String() + ")"
 }
 
 // waterCounts counts each enclosure's water checks recorded on day (a
