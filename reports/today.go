@@ -216,7 +216,7 @@ func WriteToday(w io.Writer, r *checker.Result, o TodayOptions) (TodayVerdict, e
 		v.Missing = append(v.Missing, notRun(r.NotEvaluated))
 	}
 
-	tail = append(tail, wrapText(verdict(v), TodayMaxCols)...)
+	tail = append(tail, wrapText(verdict(v, o.EndOfDay), TodayMaxCols)...)
 	caution := MorningCaution
 	if hot {
 		caution = HeatCaution
@@ -349,8 +349,10 @@ func notRun(sk []checker.Skipped) string {
 
 // verdict is the view's last word before the caution: an all-clear only
 // when nothing is due and nothing is missing.
-func verdict(v TodayVerdict) string {
+func verdict(v TodayVerdict, endOfDay bool) string {
 	switch {
+	case v.AllClear() && endOfDay:
+		return "All clear: nothing due on the day is missing or wrong."
 	case v.AllClear():
 		return "All clear so far: nothing due now is missing or wrong."
 	case v.Problems > 0 && len(v.Missing) > 0:
