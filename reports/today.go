@@ -45,6 +45,9 @@ type TodayOptions struct {
 	AllCommand string
 	// Plain leaves out box drawing, for a shared screen or a message.
 	Plain bool
+	// Only names the domains asked for (--only), so an all-clear says it
+	// covers those alone.
+	Only []string
 }
 
 // TodayVerdict is the view's answer, for the exit code: AllClear only when
@@ -216,7 +219,11 @@ func WriteToday(w io.Writer, r *checker.Result, o TodayOptions) (TodayVerdict, e
 		v.Missing = append(v.Missing, notRun(r.NotEvaluated))
 	}
 
-	tail = append(tail, wrapText(verdict(v, o.EndOfDay), TodayMaxCols)...)
+	say := verdict(v, o.EndOfDay)
+	if v.AllClear() && len(o.Only) > 0 {
+		say = strings.Replace(say, "All clear", "All clear for the "+strings.Join(o.Only, ", ")+" checks alone", 1)
+	}
+	tail = append(tail, wrapText(say, TodayMaxCols)...)
 	caution := MorningCaution
 	if hot {
 		caution = HeatCaution

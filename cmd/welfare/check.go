@@ -136,7 +136,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if o.on != "" {
 		verdict, err = reports.WriteToday(stdout, res, reports.TodayOptions{
 			Day: view.day, At: view.at, EndOfDay: view.endOfDay, Records: checked,
-			Schedule: scheduleOf(lim), AllCommand: allCommand(dir, o, view.day), Plain: o.plain,
+			Schedule: scheduleOf(lim), AllCommand: allCommand(dir, o, view.day), Plain: o.plain, Only: only,
 		})
 	} else {
 		err = reports.WriteText(stdout, res, reports.TextOptions{MaxPerCheck: o.maxPerCheck})
