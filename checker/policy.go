@@ -70,10 +70,26 @@ func (p *Policy) Domains() []string {
 // findings of these domains (all when empty). The result's fingerprint
 // covers exactly the bytes read: records, rule files and limits.
 func (p *Policy) Check(ctx context.Context, recordsFS fs.FS, period Period, only []string) (*Result, error) {
+	res, _, err := p.CheckScoped(ctx, recordsFS, only, func(set *records.Set) (*records.Set, Period, error) {
+		return set, period, nil
+	})
+	return res, err
+}
+
+// Scope chooses, once the records are loaded, what a check judges: the
+// rows (for the keepers' view of a day, the records as they stood at a
+// moment: records.Set.Until) and the period. It may read the facility's
+// time zone from the set.
+type Scope func(set *records.Set) (*records.Set, Period, error)
+
+// CheckScoped is Check with the period and rows chosen by scope after
+// loading; it also returns the rows judged. The fingerprint still covers
+// every byte read.
+func (p *Policy) CheckScoped(ctx context.Context, recordsFS fs.FS, only []string, scope Scope) (*Result, *records.Set, error) {
 	domains := p.Domains()
 	for _, d := range only {
 		if !slices.Contains(domains, d) {
-			return nil, fmt.Errorf("%q is not a domain of the rules in force (%s)", d, strings.Join(domains, ", "))
+			return nil, nil, fmt.Errorf("%q is not a domain of the rules in force (%s)", d, strings.Join(domains, ", "))
 		}
 	}
 	progress := p.progress
@@ -86,14 +102,18 @@ func (p *Policy) Check(ctx context.Context, recordsFS fs.FS, period Period, only
 	set, err := records.LoadContext(ctx, capture, records.Options{Species: p.limits.SpeciesCodes(),
 		Progress: func(n int) { progress("load", int(rows.Add(int64(n)))) }})
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	res, err := check(ctx, config{Records: set, Limits: p.limits, Engine: p.engine, Period: period, Only: only, Progress: progress})
+	judged, period, err := scope(set)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
+	}
+	res, err := check(ctx, config{Records: judged, Limits: p.limits, Engine: p.engine, Period: period, Only: only, Progress: progress})
+	if err != nil {
+		return nil, nil, err
 	}
 	res.Fingerprint = fingerprint(capture.read(), p.engine.files, p.limits.Source())
-	return res, nil
+	return res, judged, nil
 }
 
 // Test runs the Rego tests (files ending in _test.rego) of the policy's

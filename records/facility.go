@@ -120,6 +120,9 @@ func loadFacility(ctx context.Context, fsys fs.FS) (Facility, *time.Location, er
 				Reason: fmt.Sprintf("%q is not one of the weather_sites: add it under weather_sites", b.WeatherSite)})
 		}
 	}
+	for _, le := range fac.RoundTimes.problems(doc) {
+		add(le)
+	}
 	if len(probs) > 0 {
 		return fac, nil, joinLoadErrors(probs)
 	}

@@ -203,7 +203,7 @@ func writeFacilityRef(b *strings.Builder) {
 	b.WriteString("## facility.yaml (required)\n\n")
 	b.WriteString("| key | type | required | allowed values |\n|---|---|---|---|\n")
 	writeYAMLKeys(b, reflect.TypeFor[Facility](), "")
-	b.WriteString("\nEach building's weather_site must be one of weather_sites; building ids are unique; time_zone is an IANA name such as America/Winnipeg.\n\n")
+	b.WriteString("\nEach building's weather_site must be one of weather_sites; building ids are unique; time_zone is an IANA name such as America/Winnipeg; round_times are when the first and second care rounds are due (the morning view counts a round, feeding or water check as missing once its round is due).\n\n")
 }
 
 func writeYAMLKeys(b *strings.Builder, t reflect.Type, prefix string) {
@@ -220,6 +220,10 @@ func writeYAMLKeys(b *strings.Builder, t reflect.Type, prefix string) {
 		}
 		typ := "text"
 		switch {
+		case sf.Tag.Get("ref") != "":
+			typ = sf.Tag.Get("ref") // a type the tags cannot say, such as a time of day
+		case sf.Type.Kind() == reflect.Struct:
+			typ = "block"
 		case sf.Type.Kind() == reflect.Slice && sf.Type.Elem().Kind() == reflect.Struct:
 			typ = "list of blocks"
 		case sf.Type.Kind() == reflect.Slice:
@@ -232,6 +236,9 @@ func writeYAMLKeys(b *strings.Builder, t reflect.Type, prefix string) {
 		fmt.Fprintf(b, "| %s%s | %s | %s | %s |\n", prefix, name, typ, req, oneOf(v))
 		if sf.Type.Kind() == reflect.Slice && sf.Type.Elem().Kind() == reflect.Struct {
 			writeYAMLKeys(b, sf.Type.Elem(), prefix+name+"[].")
+		}
+		if sf.Type.Kind() == reflect.Struct {
+			writeYAMLKeys(b, sf.Type, prefix+name+".")
 		}
 	}
 }

@@ -86,6 +86,10 @@ type Facility struct {
 	TimeZone     string     `yaml:"time_zone" validate:"required"`
 	Buildings    []Building `yaml:"buildings" validate:"required,dive"`
 	WeatherSites []string   `yaml:"weather_sites" validate:"dive,id"`
+	// RoundTimes are when the day's care rounds are due; the morning view
+	// counts a round, feeding or water check as missing only once its
+	// round is due.
+	RoundTimes RoundTimes `yaml:"round_times"`
 }
 
 // Building is a shed, barn or room.

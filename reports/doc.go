@@ -1,12 +1,12 @@
 // Package reports writes a checker.Result for people and programs: a plain
-// terminal summary (WriteText), the morning view of one day (WriteMorning),
+// terminal summary (WriteText), the keepers' view of one day so far (WriteToday),
 // the machine-readable findings (WriteJSON, WriteCSV) and the content of the
 // PDF audit report a veterinarian signs (BuildAudit).
 //
 // How the package fits:
 //
 //   - summary.go: counting and grouping findings, shared by every output.
-//   - text.go, morning.go: the terminal screens.
+//   - text.go, today.go (and morning.go's cautions): the terminal screens.
 //   - json.go: the published JSON format (JSONReport and its parts) and its
 //     writer; no checker or records type is marshalled directly.
 //   - csv.go, neutralise.go: findings.csv, with every cell a spreadsheet

@@ -116,7 +116,6 @@ func TestGoldenSmall(t *testing.T) {
 		write func(*bytes.Buffer) error
 	}{
 		{"summary.txt", func(b *bytes.Buffer) error { return reports.WriteText(b, r, reports.TextOptions{MaxPerCheck: 1}) }},
-		{"morning-2026-01-13.txt", func(b *bytes.Buffer) error { return reports.WriteMorning(b, r, records.MakeDay(2026, 1, 13)) }},
 		{"findings.json", func(b *bytes.Buffer) error { return reports.WriteJSON(b, r) }},
 		{"findings.csv", func(b *bytes.Buffer) error { return reports.WriteCSV(b, r) }},
 	}

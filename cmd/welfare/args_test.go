@@ -171,8 +171,9 @@ func TestCommandLineMistakes(t *testing.T) {
 			"welfare check: unknown flag --pfd (did you mean --pdf?)\nRun 'welfare help check' for usage.\n"},
 		{[]string{"check", demoRecords, "--form", "2026-01-01"},
 			"welfare check: unknown flag --form (did you mean --from?)\nRun 'welfare help check' for usage.\n"},
-		{[]string{"check", demoRecords, "--on"},
-			"welfare check: flag --on needs a value (--on DAY)\nRun 'welfare help check' for usage.\n"},
+		// (--on alone is today: TestTodayClock.)
+		{[]string{"check", demoRecords, "--from"},
+			"welfare check: flag --from needs a value (--from DAY)\nRun 'welfare help check' for usage.\n"},
 		{[]string{"check"},
 			"welfare check: needs one records folder, got none\nRun 'welfare help check' for usage.\n"},
 		{[]string{"check", demoRecords, "2026-01-15"},

@@ -17,6 +17,8 @@ import (
 
 type checkOpts struct {
 	from, to, on   string
+	at             string // --on: the time of day to look from
+	plain          bool   // --on: no box drawing
 	only           string
 	limits         string
 	rules          listFlag
@@ -37,7 +39,9 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs := flag.NewFlagSet("check", flag.ContinueOnError)
 	fs.StringVar(&o.from, "from", "", "first `DAY` of the period (YYYY-MM-DD; default: the first dated record)")
 	fs.StringVar(&o.to, "to", "", "last `DAY` of the period (default: the last dated record)")
-	fs.StringVar(&o.on, "on", "", "check one `DAY` and print the morning view (sites' cold, problems to fix now)")
+	fs.StringVar(&o.on, "on", "", "check one `DAY` (today, yesterday or YYYY-MM-DD; --on alone: today) and print the keepers' view of that day, as the today command does")
+	fs.StringVar(&o.at, "at", "", "with --on: the time of day `HH:MM` to look from (default: now when the day is today, the end of the day otherwise)")
+	fs.BoolVar(&o.plain, "plain", false, "with --on: plain text, no box drawing")
 	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report ("+strings.Join(checker.Domains(), ", ")+", or a committee's own)")
 	fs.StringVar(&o.limits, "limits", "", "limits `FILE` (replaces the built-in limits; see 'welfare limits show')")
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
@@ -56,7 +60,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 
 func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs, o := checkFlags()
-	pos, err := parseArgs(fs, args)
+	pos, err := parseArgs(fs, bareOn(args))
 	if err != nil {
 		return err
 	}
@@ -115,14 +119,33 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if err != nil {
 		return err
 	}
-	res, err := policy.Check(ctx, fsys, period, only)
+	var view todayView
+	res, checked, err := policy.CheckScoped(ctx, fsys, only, func(set *records.Set) (*records.Set, checker.Period, error) {
+		if o.on == "" {
+			return set, period, nil
+		}
+		// The keepers' view: one day, read as it stood at --at, so a round
+		// due later is not judged from rows not yet written.
+		var err error
+		if view, err = planToday(o, set.Location, clock()); err != nil {
+			return nil, period, err
+		}
+		if !view.endOfDay {
+			set = set.Until(view.cut)
+		}
+		return set, checker.Period{From: view.day, To: view.day}, nil
+	})
 	if err != nil {
 		return err
 	}
 	ph.enter("reports", "")
 
+	var verdict reports.TodayVerdict
 	if o.on != "" {
-		err = reports.WriteMorning(stdout, res, period.From)
+		verdict, err = reports.WriteToday(stdout, res, reports.TodayOptions{
+			Day: view.day, At: view.at, EndOfDay: view.endOfDay, Records: checked,
+			Schedule: scheduleOf(lim), AllCommand: allCommand(dir, o, view.day), Plain: o.plain, Only: only,
+		})
 	} else {
 		err = reports.WriteText(stdout, res, reports.TextOptions{MaxPerCheck: o.maxPerCheck})
 	}
@@ -147,6 +170,14 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 			return err
 		}
 		fmt.Fprintf(stderr, "wrote %s\n", out.path)
+	}
+	if o.on != "" {
+		// The morning view's exit is its answer: 0 only for a real
+		// all-clear.
+		if !verdict.AllClear() {
+			return errFindings
+		}
+		return nil
 	}
 	for _, f := range res.Findings {
 		if failRank > 0 && f.Severity.Rank() >= failRank {
@@ -184,8 +215,10 @@ func parsePeriod(o *checkOpts) (checker.Period, error) {
 		if o.from != "" || o.to != "" {
 			return p, usagef("--on checks one day: give it without --from and --to")
 		}
-		d, err := day("on", o.on)
-		return checker.Period{From: d, To: d}, err
+		return p, nil // resolved in the facility's time zone once it is read
+	}
+	if o.at != "" || o.plain {
+		return p, usagef("--at and --plain go with --on (the morning view)")
 	}
 	if p.From, err = day("from", o.from); err != nil {
 		return p, err

@@ -51,7 +51,7 @@ func TestGoldenDemo(t *testing.T) {
 		golden(t, f, string(b))
 	}
 
-	// 2026-01-10 is the demo's coldest windy day (see TestMorningView).
+	// 2026-01-10 is the demo's coldest windy day (see TestMorningView), seen whole.
 	code, stdout, stderr = runMain(t, "check", "--on", "2026-01-10", demoRecords)
 	if code != exitFindings {
 		t.Fatalf("morning view exit %d, want %d\n%s%s", code, exitFindings, stdout, stderr)

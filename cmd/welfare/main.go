@@ -91,6 +91,7 @@ func init() {
 	// Assigned in init: help reads this table, and the table holds help.
 	commands = map[string]command{
 		"validate": {runValidate, func() *flag.FlagSet { fs, _ := validateFlags(); return fs }},
+		"today":    {runToday, func() *flag.FlagSet { fs, _ := todayFlags(); return fs }},
 		"check":    {runCheck, func() *flag.FlagSet { fs, _ := checkFlags(); return fs }},
 		"generate": {runGenerate, func() *flag.FlagSet { fs, _ := generateFlags(); return fs }},
 		"demo":     {runDemo, func() *flag.FlagSet { fs, _ := demoFlags(); return fs }},
