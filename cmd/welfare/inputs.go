@@ -63,12 +63,8 @@ func recordsFolder(dir string) (fs.FS, error) {
 	return fsys, nil
 }
 
-// loadRecords reads a records folder with the species of the limits in force.
-func loadRecords(ctx context.Context, dir string, lim *rules.Limits) (fs.FS, *records.Set, error) {
-	return loadRecordsCounted(ctx, dir, lim, nil)
-}
-
-// loadRecordsCounted is loadRecords telling progress (when not nil) the rows read.
+// loadRecordsCounted reads a records folder with the species of the limits
+// in force, telling progress (when not nil) the rows read.
 func loadRecordsCounted(ctx context.Context, dir string, lim *rules.Limits, progress func(rows int)) (fs.FS, *records.Set, error) {
 	fsys, err := recordsFolder(dir)
 	if err != nil {

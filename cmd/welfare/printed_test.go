@@ -133,7 +133,7 @@ func captured(t *testing.T, r *printedRunner, args ...string) string {
 var (
 	// Where a command may begin: "welfare" or "go run ./cmd/welfare",
 	// then a space.
-	commandStart = regexp.MustCompile("(go run \\./cmd/welfare|welfare) ")
+	commandStart = regexp.MustCompile(`(go run \./cmd/welfare|welfare) `)
 	commentTail  = regexp.MustCompile(`\s+#.*$`)
 	fence        = regexp.MustCompile("^\\s*```")
 )
