@@ -48,7 +48,7 @@ const (
 // the CSV files in the order of the records contract.
 var Files = []string{facilityFile, animalsFile, enclosuresFile, housingFile, staffFile, protocolsFile,
 	careFile, handlingFile, ppeFile, weatherFile, workFile, cullsFile,
-	deathsFile, observationsFile, treatmentsFile, littersFile, environmentFile}
+	deathsFile, observationsFile, treatmentsFile, littersFile, environmentFile, correctiveFile}
 
 func fileOrder(name string) int {
 	if i := slices.Index(Files, name); i >= 0 {
@@ -586,6 +586,7 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	wg.Go(func() { ld.treatments = loadFile(fsys, treatmentSpec, e) })
 	wg.Go(func() { ld.litters = loadFile(fsys, litterSpec, e) })
 	wg.Go(func() { ld.environment = loadFile(fsys, environmentSpec, e) })
+	wg.Go(func() { ld.corrective = loadFile(fsys, correctiveSpec, e) })
 	wg.Wait()
 
 	ld.crossCheck(&fac)
@@ -606,6 +607,8 @@ func Load(fsys fs.FS, opt Options) (*Set, error) {
 	collect(s, ld.treatments)
 	collect(s, ld.litters)
 	collect(s, ld.environment)
+	collect(s, ld.corrective)
+	s.CorrectiveActions = ld.corrective.rows
 	s.Environment = ld.environment.rows
 	s.Animals, s.Enclosures, s.Housing = ld.animals.rows, ld.enclosures.rows, ld.housing.rows
 	s.Staff, s.Protocols, s.Care, s.Handling = ld.staff.rows, ld.protocols.rows, ld.care.rows, ld.handling.rows
