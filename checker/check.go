@@ -25,12 +25,15 @@ type Config struct {
 	Only []string
 	// Fingerprint identifies the inputs (see Fingerprint); copied to the result.
 	Fingerprint string
+	// Previous is the previous review (--previous), for the follow-up and
+	// the correction checks; nil when none was given.
+	Previous *Previous
 }
 
 // Check computes the facts of every subject, evaluates the rules on them
 // and returns the findings with everything a report needs.
 func Check(ctx context.Context, cfg Config) (*Result, error) {
-	set := cfg.Records
+	set := knownChecks(cfg.Records, cfg.Engine.Checks())
 	p := cfg.Period
 	if p.From.IsZero() || p.To.IsZero() {
 		from, to := recordSpan(set)
@@ -77,8 +80,16 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		if len(only) > 0 && !only[c.Domain] {
 			continue
 		}
+		if why := followUpSkip(cfg, c); why != "" {
+			skipped[c.ID] = true
+			res.NotEvaluated = append(res.NotEvaluated, Skipped{Check: c.ID, Reason: why})
+			continue
+		}
 		var missing []string
 		for _, file := range c.Needs {
+			if file == needsPrevious {
+				continue
+			}
 			if what, ok := needMet(set, file); !ok {
 				missing = append(missing, what)
 			}
@@ -107,6 +118,9 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		}
 	}
 	SortFindings(res.Findings)
+	if err := correctionPass(ctx, cfg, set, res, skipped, only); err != nil {
+		return nil, err
+	}
 	if res.Findings == nil {
 		res.Findings = []Finding{}
 	}

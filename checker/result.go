@@ -26,6 +26,9 @@ type Result struct {
 	// ColdLines are the wind chills the cold checks compared against (from
 	// the limits in force), for the chart's reference lines.
 	ColdLines ColdLines `json:"-"`
+	// FollowUp classes the findings against the previous review and holds
+	// the corrective actions' status (see followup.go).
+	FollowUp *FollowUp `json:"-"`
 }
 
 // ColdLines are the cold checks' wind chill thresholds (°C).
