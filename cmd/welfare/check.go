@@ -5,6 +5,8 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"os"
+	"path/filepath"
 	"strings"
 	"time"
 
@@ -26,6 +28,7 @@ type checkOpts struct {
 	inspector      string
 	generatedAt    string
 	failOn         string
+	previous       string
 	maxPerCheck    int
 	timeoutPerEval time.Duration
 }
@@ -45,6 +48,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.pdfOut, "pdf", "", "write the PDF audit report to `FILE`")
 	fs.StringVar(&o.inspector, "inspector", "", "`NAME` of the person inspecting, shown on the report")
 	fs.StringVar(&o.generatedAt, "generated-at", "", "report generation `TIME` (RFC 3339; default now) — the same time gives a byte-identical PDF")
+	fs.StringVar(&o.previous, "previous", "", "the previous review's findings `FILE` (JSON written by --json): class each finding new or recurring, list what was resolved, judge the corrective actions")
 	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never)")
 	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; all are in JSON, CSV and PDF)")
 	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", 5*time.Second, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
@@ -99,9 +103,18 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if err != nil {
 		return err
 	}
+	var prev *checker.Previous
+	if o.previous != "" {
+		if prev, err = readPrevious(o.previous); err != nil {
+			return err
+		}
+	}
 	fsys, set, err := loadRecords(dir, lim)
 	if err != nil {
 		return err
+	}
+	if prev != nil && prev.Facility != set.Facility.Name {
+		return fmt.Errorf("--previous %s: the findings of %q, not of %q: give the previous review of this facility", o.previous, prev.Facility, set.Facility.Name)
 	}
 	fp, err := checker.Fingerprint(fsys, sources, lim.src)
 	if err != nil {
@@ -109,10 +122,14 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	}
 	res, err := checker.Check(ctx, checker.Config{
 		Records: set, Limits: lim.limits, LimitsSource: lim.src, Engine: engine,
-		Period: period, Only: only, Fingerprint: fp,
+		Period: period, Only: only, Fingerprint: fp, Previous: prev,
 	})
 	if err != nil {
 		return err
+	}
+	if prev != nil && prev.Period.To >= res.Period.From {
+		return fmt.Errorf("--previous %s: its period %s … %s does not end before this period starts (%s): give the review before this one",
+			o.previous, prev.Period.From, prev.Period.To, res.Period.From)
 	}
 
 	if o.on != "" {
@@ -241,4 +258,20 @@ func parseOnly(s string, checks []checker.CheckInfo) ([]string, error) {
 		out = append(out, d)
 	}
 	return out, nil
+}
+
+// readPrevious reads the previous review's findings file.
+func readPrevious(path string) (*checker.Previous, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("--previous: %w", err)
+	}
+	defer f.Close()
+	prev, err := reports.ReadFindings(f, path)
+	if err != nil {
+		return nil, err
+	}
+	// Reports name the file, not the folder it was in on this machine.
+	prev.File = filepath.Base(path)
+	return prev, nil
 }
