@@ -91,6 +91,10 @@ func jsonPos(src []byte, err error) string {
 	if off < 0 || off > int64(len(src)) {
 		return ""
 	}
+	// The offset is just past the byte that could not be read.
+	if off > 0 {
+		off--
+	}
 	before := src[:off]
 	line := bytes.Count(before, []byte("\n")) + 1
 	col := int(off) - bytes.LastIndexByte(before, '\n')
