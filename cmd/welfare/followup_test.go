@@ -16,7 +16,7 @@ import (
 type followJSON struct {
 	Findings []struct {
 		Check, Subject, On, Severity, Key, Problem, Class string
-		Action                                           *struct{ Plan, Status string }
+		Action                                            *struct{ Plan, Status string }
 	}
 	FollowUp *struct {
 		Resolved     []struct{ Problem string }
