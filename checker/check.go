@@ -101,6 +101,7 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 		}
 	}
 
+	var firstPass []Finding
 	for _, kind := range cfg.Engine.Kinds() {
 		inputs := f.inputs(kind)
 		if len(inputs) == 0 {
@@ -111,14 +112,18 @@ func Check(ctx context.Context, cfg Config) (*Result, error) {
 			return nil, err
 		}
 		for _, fd := range found {
-			if skipped[fd.Check] || (len(only) > 0 && !only[fd.Domain]) {
+			if skipped[fd.Check] {
+				continue
+			}
+			firstPass = append(firstPass, fd) // the correction checks see every domain's
+			if len(only) > 0 && !only[fd.Domain] {
 				continue
 			}
 			res.Findings = append(res.Findings, fd)
 		}
 	}
 	SortFindings(res.Findings)
-	if err := correctionPass(ctx, cfg, set, res, skipped, only); err != nil {
+	if err := correctionPass(ctx, cfg, set, res, firstPass, skipped, only); err != nil {
 		return nil, err
 	}
 	if res.Findings == nil {

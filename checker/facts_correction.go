@@ -167,17 +167,23 @@ func refStrings(refs []records.Ref) []any {
 }
 
 // correctionPass is the second pass: it evaluates the correction package
-// on this period's first-pass findings, adds its findings to the result
+// on this period's first-pass findings (of every domain evaluated, whatever
+// --only keeps in the report), adds its findings to the result
 // and fills the result's follow-up (classes, resolved problems, actions).
-func correctionPass(ctx context.Context, cfg Config, set *records.Set, res *Result, skipped, only map[string]bool) error {
+func correctionPass(ctx context.Context, cfg Config, set *records.Set, res *Result, firstPass []Finding, skipped, only map[string]bool) error {
+	var judged []Finding // every correction finding, for the actions' status
 	if slices.Contains(cfg.Engine.Kinds(), correctionKind) {
-		docs := correctionFacts(set, cfg.Previous, res.Period, res.Findings)
+		docs := correctionFacts(set, cfg.Previous, res.Period, firstPass)
 		found, err := cfg.Engine.Evaluate(ctx, correctionKind, docs)
 		if err != nil {
 			return err
 		}
 		for _, fd := range found {
-			if skipped[fd.Check] || (len(only) > 0 && !only[fd.Domain]) {
+			if skipped[fd.Check] {
+				continue
+			}
+			judged = append(judged, fd)
+			if len(only) > 0 && !only[fd.Domain] {
 				continue
 			}
 			res.Findings = append(res.Findings, fd)
@@ -186,7 +192,7 @@ func correctionPass(ctx context.Context, cfg Config, set *records.Set, res *Resu
 	}
 	fu := &FollowUp{Previous: cfg.Previous}
 	fu.classify(res, evaluatedChecks(cfg, res, only))
-	fu.actionStates(set, res, func(a *records.CorrectiveAction) Severity {
+	fu.actionStates(set, res.Period, judged, func(a *records.CorrectiveAction) Severity {
 		var sev Severity
 		if cfg.Previous != nil {
 			for _, f := range cfg.Previous.Findings {
@@ -195,7 +201,7 @@ func correctionPass(ctx context.Context, cfg Config, set *records.Set, res *Resu
 				}
 			}
 		}
-		for _, f := range res.Findings {
+		for _, f := range firstPass {
 			if Answers(a, f.Check, f.Subject, f.On) && f.Severity.Rank() > sev.Rank() {
 				sev = f.Severity
 			}

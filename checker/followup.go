@@ -231,14 +231,14 @@ func (fu *FollowUp) classify(res *Result, evaluated map[string]string) {
 // actionStates gives each corrective action its status at the period's
 // end. Overdue is what the rules judged (a correction.overdue finding on
 // the action's problem and due date), not a second opinion computed here.
-func (fu *FollowUp) actionStates(set *records.Set, res *Result, severity func(*records.CorrectiveAction) Severity) {
+func (fu *FollowUp) actionStates(set *records.Set, p Period, judged []Finding, severity func(*records.CorrectiveAction) Severity) {
 	overdue := map[string]bool{}
-	for _, f := range res.Findings {
+	for _, f := range judged {
 		if f.Check == "correction.overdue" {
 			overdue[f.Subject+" "+f.On.String()] = true
 		}
 	}
-	end := res.Period.To
+	end := p.To
 	for i := range set.CorrectiveActions {
 		a := set.CorrectiveActions[i]
 		st := ActionState{Action: a, Severity: severity(&a)}

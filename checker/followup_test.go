@@ -178,6 +178,18 @@ func TestFollowUpNeverResolvesWhatWasNotChecked(t *testing.T) {
 	if diff := cmp.Diff(want, got); diff != "" {
 		t.Errorf("not re-checked (-want +got):\n%s", diff)
 	}
+	// --only keeps the report to cold, but the plans are still judged on
+	// every domain's findings: E2's plan is overdue all the same.
+	for _, a := range res.FollowUp.Actions {
+		if a.Problem() == "care.observation.missed E2" && a.Status != StatusOverdue {
+			t.Errorf("E2's plan is %q with --only cold, want overdue", a.Status)
+		}
+	}
+	for _, f := range res.Findings {
+		if f.Domain != "cold" {
+			t.Errorf("--only cold reported %s", f.Key())
+		}
+	}
 }
 
 // Without --previous the plan check is not evaluated and no finding is classed.
