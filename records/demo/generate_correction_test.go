@@ -26,9 +26,12 @@ const (
 	previousFile = "findings-2025-12.json"
 )
 
-// correctionCatalogue are the follow-up checks, in checks.md order; they
-// come last in the answer key.
-var correctionCatalogue = []string{"correction.overdue", "correction.recurred", "correction.plan.missing"}
+// The follow-up checks, in checks.md order, come after the first set in
+// the answer key; corrective_actions.csv is one of the demo's files.
+func init() {
+	catalogue = append(catalogue, "correction.overdue", "correction.recurred", "correction.plan.missing")
+	requiredColumns["corrective_actions.csv"] = []string{"check", "subject", "plan", "due_on"}
+}
 
 // december is the earlier review: check, subject, on, until, severity and
 // message of each finding. The severities are the checks' own (their

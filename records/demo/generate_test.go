@@ -1226,7 +1226,6 @@ var catalogue = []string{
 	"cull.method.unacceptable", "cull.method.conditions_unmet", "cull.death.unconfirmed",
 	"cold.water.checks_insufficient", "cold.bedding.stale", "cold.shelter.missing",
 	"cold.work.over_limit", "cold.work.should_cease", "cold.frostbite.risk",
-	correctionCatalogue[0], correctionCatalogue[1], correctionCatalogue[2],
 }
 
 func sortFindings(fs []finding) {
