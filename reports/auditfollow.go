@@ -1,6 +1,7 @@
 package reports
 
 import (
+	"bufio"
 	"fmt"
 	"sort"
 	"strings"
@@ -317,4 +318,53 @@ func (b *auditBuilder) monthChart(months []string) Block {
 		}
 	}
 	return Block{Kind: KindBarChart, Bars: bars}
+}
+
+// writeFollowUp is the terminal's short "since the last review": the
+// problems' classes, what was resolved or not re-checked, and the plans
+// that are overdue.
+func writeFollowUp(b *bufio.Writer, r *checker.Result) {
+	fu := r.FollowUp
+	if fu == nil || (fu.Previous == nil && len(fu.Actions) == 0) {
+		return
+	}
+	p := func(format string, a ...any) { fmt.Fprintf(b, format, a...) }
+	if prev := fu.Previous; prev != nil {
+		fresh, recurring := 0, 0
+		seen := map[string]bool{}
+		for i := range r.Findings {
+			f := &r.Findings[i]
+			if seen[f.Problem()] {
+				continue
+			}
+			seen[f.Problem()] = true
+			if r.ClassOf(f) == checker.ClassRecurring {
+				recurring++
+			} else {
+				fresh++
+			}
+		}
+		p("Since the previous review (%s, %s to %s)\n", prev.File, prev.Period.From, prev.Period.To)
+		p("  problems: %d new, %d recurring, %d resolved, %d not re-checked\n", fresh, recurring, len(fu.Resolved), len(fu.NotRechecked))
+		for _, x := range fu.Resolved {
+			p("  resolved: %s\n", x.Problem())
+		}
+		for _, x := range fu.NotRechecked {
+			p("  not re-checked: %s (%s)\n", x.Problem(), strings.TrimPrefix(x.Why, "not re-checked: "))
+		}
+	} else {
+		p("Corrective actions\n")
+	}
+	status := map[string]int{}
+	for _, a := range fu.Actions {
+		status[a.Status]++
+	}
+	p("  corrective actions: %d overdue, %d on schedule, %d closed, %d verified\n", status[checker.StatusOverdue],
+		status[checker.StatusOnSchedule], status[checker.StatusClosed], status[checker.StatusVerified])
+	for _, a := range fu.Actions {
+		if a.Status == checker.StatusOverdue {
+			p("  overdue: %s — %s\n", a.Problem(), oneLine(a.ActionLine()))
+		}
+	}
+	p("\n")
 }
