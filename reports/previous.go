@@ -91,8 +91,9 @@ func jsonPos(src []byte, err error) string {
 	if off < 0 || off > int64(len(src)) {
 		return ""
 	}
-	// The offset is just past the byte that could not be read.
-	if off > 0 {
+	// The offset is just past the byte that could not be read (at the end
+	// of the input: where more was expected).
+	if off > 0 && off < int64(len(src)) {
 		off--
 	}
 	before := src[:off]
