@@ -363,7 +363,11 @@ func writeFollowUp(b *bufio.Writer, r *checker.Result) {
 		status[checker.StatusOnSchedule], status[checker.StatusClosed], status[checker.StatusVerified])
 	for _, a := range fu.Actions {
 		if a.Status == checker.StatusOverdue {
-			p("  overdue: %s — %s\n", a.Problem(), oneLine(a.ActionLine()))
+			owner := ""
+			if a.Action.Owner != "" {
+				owner = a.Action.Owner + ", "
+			}
+			p("  overdue: %s — %s (%sdue %s)\n", a.Problem(), oneLine(a.Action.Plan), owner, a.Action.DueOn)
 		}
 	}
 	p("\n")
