@@ -22,6 +22,9 @@ type config struct {
 	Only []string
 	// Progress: see Options.Progress.
 	Progress func(phase string, done int)
+	// Previous is the previous review (--previous), for the follow-up and
+	// the correction checks; nil when none was given.
+	Previous *Previous
 }
 
 // check computes the facts of every subject, evaluates the rules on them
@@ -29,6 +32,9 @@ type config struct {
 // fingerprint (Policy.Check adds it).
 func check(ctx context.Context, cfg config) (*Result, error) {
 	set := cfg.Records
+	if cfg.Engine != nil {
+		set = knownChecks(set, cfg.Engine.Checks())
+	}
 	p := cfg.Period
 	if p.From.IsZero() || p.To.IsZero() {
 		from, to := recordSpan(set)
@@ -81,8 +87,16 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		if len(only) > 0 && !only[c.Domain] {
 			continue
 		}
+		if why := followUpSkip(cfg, c); why != "" {
+			skipped[c.ID] = true
+			res.NotEvaluated = append(res.NotEvaluated, Skipped{Check: c.ID, Reason: why})
+			continue
+		}
 		var missing []string
 		for _, file := range c.Needs {
+			if file == needsPrevious {
+				continue
+			}
 			if what, ok := needMet(set, file); !ok {
 				missing = append(missing, what)
 			}
@@ -96,6 +110,7 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 
 	progress("rules", 0)
 	evaluated := 0
+	var firstPass []Finding
 	for _, kind := range cfg.Engine.Kinds() {
 		inputs := f.inputs(kind)
 		if len(inputs) == 0 {
@@ -108,7 +123,11 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		evaluated += len(inputs)
 		progress("rules", evaluated)
 		for _, fd := range found {
-			if skipped[fd.Check] || (len(only) > 0 && !only[fd.Domain]) {
+			if skipped[fd.Check] {
+				continue
+			}
+			firstPass = append(firstPass, fd) // the correction checks see every domain's
+			if len(only) > 0 && !only[fd.Domain] {
 				continue
 			}
 			res.Findings = append(res.Findings, fd)
@@ -116,6 +135,9 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 	}
 	SortFindings(res.Findings)
 	f.addFigures(res, cfg.Only)
+	if err := correctionPass(ctx, cfg, set, res, firstPass, skipped, only); err != nil {
+		return nil, err
+	}
 	if res.Findings == nil {
 		res.Findings = []Finding{}
 	}

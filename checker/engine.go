@@ -32,7 +32,9 @@ type Options struct {
 
 // SubjectKinds are the kinds of subject a rule package can receive facts
 // about, named in its package METADATA as custom.subjects.
-var SubjectKinds = []string{"facility", "enclosure", "animal", "staff", "item", "protocol", "site", "building"}
+// The correction kind is evaluated in a second pass, on this period's
+// findings (facts_correction.go).
+var SubjectKinds = []string{"facility", "enclosure", "animal", "staff", "item", "protocol", "site", "building", "correction"}
 
 // ErrTimeBudget is wrapped by the error Evaluate returns when one
 // evaluation runs out of its time budget.

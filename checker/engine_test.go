@@ -139,13 +139,13 @@ func TestNewEngineRulesErrors(t *testing.T) {
 			name: "package without subjects",
 			files: map[string]string{"nosubj.rego": "package welfare.x\n\n" +
 				"findings contains \"x\" if false\n"},
-			want: []string{"user/nosubj.rego:1:1: package welfare.x defines findings but has no package METADATA with custom.subjects (one or more of facility, enclosure, animal, staff, item, protocol, site, building)"},
+			want: []string{"user/nosubj.rego:1:1: package welfare.x defines findings but has no package METADATA with custom.subjects (one or more of facility, enclosure, animal, staff, item, protocol, site, building, correction)"},
 		},
 		{
 			name: "unknown subject kind",
 			files: map[string]string{"cage.rego": strings.Replace(engHeader, "[enclosure]", "[cage]", 1) +
 				"findings contains \"x\" if false\n"},
-			want: []string{"user/cage.rego:1:1: package welfare.sandbox: unknown subject kind \"cage\" in custom.subjects (known: facility, enclosure, animal, staff, item, protocol, site, building)"},
+			want: []string{"user/cage.rego:1:1: package welfare.sandbox: unknown subject kind \"cage\" in custom.subjects (known: facility, enclosure, animal, staff, item, protocol, site, building, correction)"},
 		},
 		{
 			name: "bad severity and missing source",

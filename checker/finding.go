@@ -44,10 +44,9 @@ type Finding struct {
 	Reportable bool
 }
 
-// Key is the finding's stable identity: check id, subject and first day.
-func (f Finding) Key() string {
-	return f.Check + "|" + f.Subject + "|" + f.On.String()
-}
+// Key is the finding's stable identity: check id, subject and first day,
+// `care.water.unavailable S2-11 2026-01-08` (see followup.go).
+func (f Finding) Key() string { return KeyOf(f.Check, f.Subject, f.On) }
 
 // CheckInfo is a rule's metadata, read from its # METADATA annotation.
 type CheckInfo struct {

@@ -70,10 +70,22 @@ func (p *Policy) Domains() []string {
 // findings of these domains (all when empty). The result's fingerprint
 // covers exactly the bytes read: records, rule files and limits.
 func (p *Policy) Check(ctx context.Context, recordsFS fs.FS, period Period, only []string) (*Result, error) {
-	res, _, err := p.CheckScoped(ctx, recordsFS, only, func(set *records.Set) (*records.Set, Period, error) {
-		return set, period, nil
-	})
+	res, _, err := p.CheckWith(ctx, recordsFS, CheckOptions{Period: period, Only: only})
 	return res, err
+}
+
+// CheckOptions are what one check judges beyond the records folder.
+type CheckOptions struct {
+	// Period to check; a zero From or To is taken from the records' dates.
+	Period Period
+	// Only keeps the findings of these domains (all when empty).
+	Only []string
+	// Previous is the previous review (--previous): findings are classed
+	// against it and the correction checks read it. Nil: none.
+	Previous *Previous
+	// Scope, when set, chooses the rows and the period once the records
+	// are loaded (it replaces Period).
+	Scope Scope
 }
 
 // Scope chooses, once the records are loaded, what a check judges: the
@@ -82,12 +94,11 @@ func (p *Policy) Check(ctx context.Context, recordsFS fs.FS, period Period, only
 // time zone from the set.
 type Scope func(set *records.Set) (*records.Set, Period, error)
 
-// CheckScoped is Check with the period and rows chosen by scope after
-// loading; it also returns the rows judged. The fingerprint still covers
-// every byte read.
-func (p *Policy) CheckScoped(ctx context.Context, recordsFS fs.FS, only []string, scope Scope) (*Result, *records.Set, error) {
+// CheckWith is Check with every option; it also returns the rows judged.
+// The fingerprint covers every byte read.
+func (p *Policy) CheckWith(ctx context.Context, recordsFS fs.FS, opt CheckOptions) (*Result, *records.Set, error) {
 	domains := p.Domains()
-	for _, d := range only {
+	for _, d := range opt.Only {
 		if !slices.Contains(domains, d) {
 			return nil, nil, fmt.Errorf("%q is not a domain of the rules in force (%s)", d, strings.Join(domains, ", "))
 		}
@@ -104,11 +115,14 @@ func (p *Policy) CheckScoped(ctx context.Context, recordsFS fs.FS, only []string
 	if err != nil {
 		return nil, nil, err
 	}
-	judged, period, err := scope(set)
-	if err != nil {
-		return nil, nil, err
+	judged, period := set, opt.Period
+	if opt.Scope != nil {
+		if judged, period, err = opt.Scope(set); err != nil {
+			return nil, nil, err
+		}
 	}
-	res, err := check(ctx, config{Records: judged, Limits: p.limits, Engine: p.engine, Period: period, Only: only, Progress: progress})
+	res, err := check(ctx, config{Records: judged, Limits: p.limits, Engine: p.engine, Period: period, Only: opt.Only,
+		Progress: progress, Previous: opt.Previous})
 	if err != nil {
 		return nil, nil, err
 	}

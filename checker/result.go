@@ -34,6 +34,9 @@ type Result struct {
 	// health and warm-season sections (result_health.go, result_warm.go).
 	Health *Health
 	Warm   *Warm
+	// FollowUp classes the findings against the previous review and holds
+	// the corrective actions' status (see followup.go).
+	FollowUp *FollowUp
 }
 
 // ColdLines are the cold checks' wind chill thresholds (°C).

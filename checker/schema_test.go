@@ -41,6 +41,9 @@ func demoFacts(t *testing.T) []*facts {
 func TestFactsMatchInputSchemas(t *testing.T) {
 	all := demoFacts(t)
 	for _, kind := range SubjectKinds {
+		if kind == correctionKind {
+			continue // built in the second pass from findings: TestCorrectionFactsMatchSchema
+		}
 		t.Run(kind, func(t *testing.T) {
 			s, err := rules.InputSchema(kind)
 			if err != nil {

@@ -59,7 +59,7 @@ const (
 // the CSV files in the order of the records contract.
 var Files = []string{facilityFile, animalsFile, enclosuresFile, housingFile, staffFile, protocolsFile,
 	careFile, handlingFile, ppeFile, weatherFile, workFile, cullsFile,
-	deathsFile, observationsFile, treatmentsFile, littersFile, environmentFile}
+	deathsFile, observationsFile, treatmentsFile, littersFile, environmentFile, correctiveFile}
 
 func fileOrder(name string) int {
 	if i := slices.Index(Files, name); i >= 0 {
@@ -700,6 +700,7 @@ func LoadContext(ctx context.Context, fsys fs.FS, opt Options) (*Set, error) {
 	wg.Go(func() { ld.treatments = loadFile(ctx, fsys, treatmentSpec, e) })
 	wg.Go(func() { ld.litters = loadFile(ctx, fsys, litterSpec, e) })
 	wg.Go(func() { ld.environment = loadFile(ctx, fsys, environmentSpec, e) })
+	wg.Go(func() { ld.corrective = loadFile(ctx, fsys, correctiveSpec, e) })
 	wg.Wait()
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -723,6 +724,8 @@ func LoadContext(ctx context.Context, fsys fs.FS, opt Options) (*Set, error) {
 	collect(s, ld.treatments)
 	collect(s, ld.litters)
 	collect(s, ld.environment)
+	collect(s, ld.corrective)
+	s.CorrectiveActions = ld.corrective.rows
 	s.Environment = ld.environment.rows
 	s.Animals, s.Enclosures, s.Housing = ld.animals.rows, ld.enclosures.rows, ld.housing.rows
 	s.Staff, s.Protocols, s.Care, s.Handling = ld.staff.rows, ld.protocols.rows, ld.care.rows, ld.handling.rows

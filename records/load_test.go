@@ -74,6 +74,7 @@ func mustLoad(t *testing.T, fsys fs.FS) *Set {
 		littersFile: len(s.Litters),
 	}
 	lens[environmentFile] = len(s.Environment)
+	lens[correctiveFile] = len(s.CorrectiveActions)
 	rowProblems := map[string]int{}
 	for _, p := range s.Problems {
 		if p.Line > 1 {

@@ -79,6 +79,10 @@ var kindDocs = []kindDoc{
 	{environmentFile, reflect.TypeFor[EnvironmentReading](), "optional", "readings inside indoor and sheltered buildings", []string{
 		"building_id must be a building in facility.yaml.",
 	}},
+	{correctiveFile, reflect.TypeFor[CorrectiveAction](), "optional", "the committee's plan and schedule for correcting findings", []string{
+		"One row per corrective action. check, subject and found_on name the finding it answers (the finding's check, subject and on; an empty found_on answers every finding of that check and subject); 'welfare plans FINDINGS' writes a starter file from a findings file (FINDINGS: a findings.json).",
+		"check must have the shape of a check id; a check not in force is rejected when the records are checked. owner and verified_by must be in staff.csv; closed_on is not before found_on; verified_by goes with closed_on.",
+	}},
 }
 
 // ReferenceFiles lists the files the reference describes, facility.yaml first.

@@ -22,6 +22,7 @@ type loadedSet struct {
 	treatments   *loaded[Treatment]
 	litters      *loaded[Litter]
 	environment  *loaded[EnvironmentReading]
+	corrective   *loaded[CorrectiveAction]
 	extra        []Problem // file-level problems that belong to no file read (a missing staff.csv)
 }
 
@@ -277,6 +278,7 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 	})
 	ld.crossCheckHealth(animals, staff)
 	ld.environmentRefs(buildings)
+	ld.correctiveRefs(staff)
 }
 
 // staffRequired reports a missing staff.csv when any accepted row names a

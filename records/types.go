@@ -54,6 +54,8 @@ type Set struct {
 	Litters      []Litter
 	// Environment are the readings of environment.csv.
 	Environment []EnvironmentReading
+	// CorrectiveActions are the committee's plans (corrective_actions.csv).
+	CorrectiveActions []CorrectiveAction
 
 	// Present names the record files that exist in the folder (even when
 	// empty), so a check can tell "not evaluated" from "passed".

@@ -71,6 +71,7 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 	if r.Health != nil {
 		a.Sections = append(a.Sections, b.healthSection())
 	}
+	a.Sections = append(a.Sections, b.followUpSections()...)
 	if hasWeather(r) {
 		a.Sections = append(a.Sections, b.coldSeason())
 	}
@@ -254,7 +255,8 @@ func (b *auditBuilder) findings() AuditSection {
 	r := b.r
 	b.add(para("Grouped by domain; within a domain, checks with significant findings come first. "+
 		"US PHS Policy IV.B asks for a reasonable and specific plan and schedule for correcting each deficiency: "+
-		"write it in the last column. Every finding, including any not listed here, is in findings.csv and findings.json attached to this PDF.", "", 9.5))
+		"it is in the last column when corrective_actions.csv has one, else write it there. Under each message is the finding's key "+
+		"(check, subject, first day; the problem is the key without the day) and, against a previous review, whether it is new or recurring. Every finding, including any not listed here, is in findings.csv and findings.json attached to this PDF.", "", 9.5))
 	if len(r.Findings) == 0 {
 		b.add(space(3), para("No findings in the period.", "bold", 11))
 		if len(r.NotEvaluated) > 0 {
@@ -306,7 +308,10 @@ func (b *auditBuilder) checkFindings(c checkGroup) Block {
 		shown = b.opt.MaxPerCheck
 	}
 	for _, f := range c.findings[:shown] {
-		tb.Rows = append(tb.Rows, Row{Cells: findingCells(f)})
+		cells := findingCells(f)
+		cells[3] += "\n" + keyLine(b.r, f)
+		cells[5] = planCell(b.r, f)
+		tb.Rows = append(tb.Rows, Row{Cells: cells})
 	}
 	bl := Block{Kind: KindCheckFindings, Text: head, Subtitle: meta, Table: tb}
 	if more := len(c.findings) - shown; more > 0 {

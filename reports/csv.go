@@ -8,7 +8,8 @@ import (
 )
 
 // csvHeader is the findings.csv header; the column order is part of the contract.
-var csvHeader = []string{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source", "report_to"}
+var csvHeader = []string{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source", "report_to",
+	"key", "problem", "class", "plan", "action_status"}
 
 // ReportableMark is what every output says beside a reportable finding
 // (PHS Policy IV.F.3: noncompliance reported through the institutional official).
@@ -42,6 +43,11 @@ func WriteCSV(w io.Writer, r *checker.Result) error {
 		row[10] = ""
 		if f.Reportable {
 			row[10] = ReportableMark
+		}
+		row[11], row[12], row[13] = f.Key(), f.Problem(), r.ClassOf(f)
+		row[14], row[15] = "", ""
+		if a := r.ActionFor(f); a != nil {
+			row[14], row[15] = a.Action.Plan, a.Status
 		}
 		for j := range row {
 			row[j] = Neutralise(row[j])

@@ -76,8 +76,8 @@ func ExampleWriteCSV() {
 		fmt.Println(err)
 	}
 	// Output:
-	// severity,check,domain,subject,on,until,message,evidence,title,source,report_to
-	// significant,care.water.unavailable,care,N-04,2026-01-14,,water found frozen at 07:10 and not restored,care_rounds.csv:27,Water unavailable,OLAW: inoperative watering is a significant deficiency,
+	// severity,check,domain,subject,on,until,message,evidence,title,source,report_to,key,problem,class,plan,action_status
+	// significant,care.water.unavailable,care,N-04,2026-01-14,,water found frozen at 07:10 and not restored,care_rounds.csv:27,Water unavailable,OLAW: inoperative watering is a significant deficiency,,care.water.unavailable N-04 2026-01-14,care.water.unavailable N-04,,,
 }
 
 func ExampleWriteJSON() {

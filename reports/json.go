@@ -5,6 +5,7 @@ import (
 	"io"
 
 	"welfare/checker"
+	"welfare/records"
 )
 
 // The JSON document is its own set of types rather than checker.Result (or
@@ -27,6 +28,54 @@ type JSONReport struct {
 	// Health is present when the records folder had deaths.csv,
 	// observations.csv, treatments.csv or litters.csv.
 	Health *JSONHealth `json:"health,omitempty"`
+	// FollowUp is present when the run had a previous review or corrective actions.
+	FollowUp *JSONFollowUp `json:"follow_up,omitempty"`
+}
+
+// JSONFollowUp is the follow-up of the previous review and the committee's
+// corrective actions.
+type JSONFollowUp struct {
+	// Previous is the previous review's file and period; absent without --previous.
+	Previous *JSONPrevious `json:"previous,omitempty"`
+	// Resolved are the previous review's problems gone from checks evaluated
+	// this time; NotRechecked those of checks not evaluated this time.
+	Resolved          []JSONPastProblem `json:"resolved"`
+	NotRechecked      []JSONPastProblem `json:"not_rechecked"`
+	CorrectiveActions []JSONAction      `json:"corrective_actions"`
+}
+
+// JSONPrevious names the previous review.
+type JSONPrevious struct {
+	File     string     `json:"file"`
+	Period   JSONPeriod `json:"period"`
+	Findings int        `json:"findings"`
+}
+
+// JSONPastProblem is one problem of the previous review.
+type JSONPastProblem struct {
+	Problem  string `json:"problem"`
+	Check    string `json:"check"`
+	Domain   string `json:"domain"`
+	Subject  string `json:"subject"`
+	On       string `json:"on"` // its first finding's day in the previous review
+	Severity string `json:"severity"`
+	Findings int    `json:"findings"`
+	Reason   string `json:"reason,omitempty"` // why it was not re-checked
+}
+
+// JSONAction is a corrective action and its status at the period's end.
+type JSONAction struct {
+	Ref        string `json:"ref"`
+	Problem    string `json:"problem"`
+	Check      string `json:"check"`
+	Subject    string `json:"subject"`
+	FoundOn    string `json:"found_on,omitempty"`
+	Plan       string `json:"plan"`
+	Owner      string `json:"owner,omitempty"`
+	DueOn      string `json:"due_on"`
+	ClosedOn   string `json:"closed_on,omitempty"`
+	VerifiedBy string `json:"verified_by,omitempty"`
+	Status     string `json:"status"` // on schedule, overdue, closed, verified
 }
 
 // JSONPeriod is the checked period, inclusive, as YYYY-MM-DD.
@@ -60,6 +109,21 @@ type JSONFinding struct {
 	// Reportable findings are marked "report to the institutional official" (PHS Policy IV.F.3).
 	Reportable bool   `json:"reportable,omitempty"`
 	ReportTo   string `json:"report_to,omitempty"`
+	// Key is check, subject and on; Problem is check and subject.
+	Key     string `json:"key"`
+	Problem string `json:"problem"`
+	// Class is new or recurring against the previous review (absent without one).
+	Class string `json:"class,omitempty"`
+	// Action is the corrective action answering the finding, if any.
+	Action *JSONFindingAction `json:"action,omitempty"`
+}
+
+// JSONFindingAction is the plan answering a finding and its status.
+type JSONFindingAction struct {
+	Plan   string `json:"plan"`
+	Owner  string `json:"owner,omitempty"`
+	DueOn  string `json:"due_on"`
+	Status string `json:"status"`
 }
 
 // JSONCheck is one check in force, from its rule's METADATA.
@@ -271,6 +335,12 @@ func NewJSONReport(r *checker.Result) JSONReport {
 			Evidence: make([]string, len(f.Evidence)),
 			Title:    f.Title,
 			Source:   f.Source,
+			Key:      f.Key(),
+			Problem:  f.Problem(),
+			Class:    r.ClassOf(f),
+		}
+		if a := r.ActionFor(f); a != nil {
+			jf.Action = &JSONFindingAction{Plan: a.Action.Plan, Owner: a.Action.Owner, DueOn: a.Action.DueOn.String(), Status: a.Status}
 		}
 		if f.Reportable {
 			jf.Reportable, jf.ReportTo = true, ReportableMark
@@ -294,7 +364,40 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	for i, w := range r.Warnings {
 		doc.Warnings[i] = JSONWarning{File: w.File, Column: w.Column, Message: w.Message}
 	}
+	doc.FollowUp = jsonFollowUp(r.FollowUp)
 	return doc
+}
+
+func jsonFollowUp(fu *checker.FollowUp) *JSONFollowUp {
+	if fu == nil || (fu.Previous == nil && len(fu.Actions) == 0) {
+		return nil
+	}
+	out := &JSONFollowUp{Resolved: jsonPast(fu.Resolved), NotRechecked: jsonPast(fu.NotRechecked), CorrectiveActions: []JSONAction{}}
+	if p := fu.Previous; p != nil {
+		out.Previous = &JSONPrevious{File: p.File, Period: JSONPeriod{From: p.Period.From.String(), To: p.Period.To.String()}, Findings: len(p.Findings)}
+	}
+	day := func(d records.Day) string {
+		if d.IsZero() {
+			return ""
+		}
+		return d.String()
+	}
+	for _, a := range fu.Actions {
+		c := a.Action
+		out.CorrectiveActions = append(out.CorrectiveActions, JSONAction{Ref: string(c.Ref), Problem: a.Problem(), Check: c.Check,
+			Subject: c.Subject, FoundOn: day(c.FoundOn), Plan: c.Plan, Owner: c.Owner, DueOn: c.DueOn.String(),
+			ClosedOn: day(c.ClosedOn), VerifiedBy: c.VerifiedBy, Status: a.Status})
+	}
+	return out
+}
+
+func jsonPast(ps []checker.PastProblem) []JSONPastProblem {
+	out := make([]JSONPastProblem, 0, len(ps))
+	for _, p := range ps {
+		out = append(out, JSONPastProblem{Problem: p.Problem(), Check: p.Check, Domain: p.Domain, Subject: p.Subject,
+			On: p.On.String(), Severity: string(p.Severity), Findings: p.Count, Reason: p.Why})
+	}
+	return out
 }
 
 // WriteJSON writes r as one JSON object (indented by two spaces): facility,

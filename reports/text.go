@@ -59,6 +59,7 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 		p("\n")
 	}
 	p("%s\n\n", careShare(r.Care))
+	writeFollowUp(b, r)
 
 	if len(r.Findings) == 0 {
 		p("No findings.\n\n")
@@ -80,6 +81,12 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 				p("  %s\n", oneLine(f.Message))
 				if f.Reportable {
 					p("  reportable: %s (PHS Policy IV.F.3)\n", ReportableMark)
+				}
+				if c := r.ClassOf(f); c == checker.ClassRecurring {
+					p("  recurring: found in the previous review too\n")
+				}
+				if a := r.ActionFor(f); a != nil {
+					p("  plan: %s\n", oneLine(a.ActionLine()))
 				}
 				if len(f.Evidence) > 0 {
 					p("  evidence: %s\n", shortRefs(f.Evidence, textMaxEvidence))

@@ -99,6 +99,8 @@ type jsonContract struct {
 		Evidence []string `json:"evidence"`
 		Title    string   `json:"title"`
 		Source   string   `json:"source"`
+		Key      string   `json:"key"`
+		Problem  string   `json:"problem"`
 	} `json:"findings"`
 	Checks       []checkContract `json:"checks"`
 	NotEvaluated []struct {
@@ -168,8 +170,12 @@ func TestWriteJSONRoundTrip(t *testing.T) {
 			Evidence []string `json:"evidence"`
 			Title    string   `json:"title"`
 			Source   string   `json:"source"`
+			Key      string   `json:"key"`
+			Problem  string   `json:"problem"`
 		}{Severity: string(f.Severity), Check: f.Check, Domain: f.Domain, Subject: f.Subject,
-			On: f.On.Time().Format("2006-01-02"), Message: f.Message, Evidence: []string{}, Title: f.Title, Source: f.Source}
+			On: f.On.Time().Format("2006-01-02"), Message: f.Message, Evidence: []string{}, Title: f.Title, Source: f.Source,
+			// checks.md: the key is check, subject and on; the problem check and subject.
+			Key: f.Check + " " + f.Subject + " " + f.On.Time().Format("2006-01-02"), Problem: f.Check + " " + f.Subject}
 		if !f.Until.IsZero() {
 			jf.Until = f.Until.Time().Format("2006-01-02")
 		}
@@ -239,10 +245,13 @@ func TestWriteCSV(t *testing.T) {
 		t.Fatalf("reading the CSV back: %v", err)
 	}
 	want := [][]string{
-		{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source", "report_to"},
-		{"note", "cold.frostbite.risk", "cold", "north-yard", "2026-01-14", "2026-01-16", "'-41 wind chill", "weather.csv:310; weather.csv:334", "Frostbite risk", "Environment and Climate Change Canada", ""},
-		{"minor", "records.row.rejected", "records", "'=cmd|' /C calc'!A0", "2026-01-01", "", "'@risk: value \"+1\" rejected", "care_rounds.csv:7", "Row rejected", "common practice", ""},
-		{"significant", "protocol.personnel.unlisted", "protocol", "BFR-AF-02", "2026-01-10", "", "ST-10 worked under protocol BFR-AF-02", "culls.csv:3", "Person not listed on the protocol", "PHS Policy IV.C.1", "report to the institutional official"},
+		{"severity", "check", "domain", "subject", "on", "until", "message", "evidence", "title", "source", "report_to", "key", "problem", "class", "plan", "action_status"},
+		{"note", "cold.frostbite.risk", "cold", "north-yard", "2026-01-14", "2026-01-16", "'-41 wind chill", "weather.csv:310; weather.csv:334", "Frostbite risk", "Environment and Climate Change Canada", "",
+			"cold.frostbite.risk north-yard 2026-01-14", "cold.frostbite.risk north-yard", "", "", ""},
+		{"minor", "records.row.rejected", "records", "'=cmd|' /C calc'!A0", "2026-01-01", "", "'@risk: value \"+1\" rejected", "care_rounds.csv:7", "Row rejected", "common practice", "",
+			"records.row.rejected =cmd|' /C calc'!A0 2026-01-01", "records.row.rejected =cmd|' /C calc'!A0", "", "", ""},
+		{"significant", "protocol.personnel.unlisted", "protocol", "BFR-AF-02", "2026-01-10", "", "ST-10 worked under protocol BFR-AF-02", "culls.csv:3", "Person not listed on the protocol", "PHS Policy IV.C.1", "report to the institutional official",
+			"protocol.personnel.unlisted BFR-AF-02 2026-01-10", "protocol.personnel.unlisted BFR-AF-02", "", "", ""},
 	}
 	if diff := cmp.Diff(want, got); diff != "" {
 		t.Errorf("CSV (-want +got):\n%s", diff)

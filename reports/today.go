@@ -215,8 +215,16 @@ func WriteToday(w io.Writer, r *checker.Result, o TodayOptions) (TodayVerdict, e
 	for _, it := range earlier {
 		earlierLines = append(earlierLines, "  "+it.line(o.Day))
 	}
-	if len(r.NotEvaluated) > 0 {
-		v.Missing = append(v.Missing, notRun(r.NotEvaluated))
+	// The follow-up of a review's corrective plans is judged over a review
+	// period, not a keeper's day: its checks do not hold back an all-clear.
+	var notRunToday []checker.Skipped
+	for _, sk := range r.NotEvaluated {
+		if !strings.HasPrefix(sk.Check, "correction.") {
+			notRunToday = append(notRunToday, sk)
+		}
+	}
+	if len(notRunToday) > 0 {
+		v.Missing = append(v.Missing, notRun(notRunToday))
 	}
 
 	say := verdict(v, o.EndOfDay)

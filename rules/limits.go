@@ -30,6 +30,9 @@ type Limits struct {
 	Heat        Heat        `yaml:"heat" json:"heat"`
 	Environment Environment `yaml:"environment" json:"environment"`
 
+	// Follow-up of earlier findings.
+	Correction CorrectionLim `yaml:"correction" json:"correction"`
+
 	// name and src are the file and text ParseLimits read.
 	name string
 	src  []byte
@@ -315,4 +318,14 @@ type CullLim struct {
 	// DeathConfirmationMinSigns: without rigor mortis or a secondary method,
 	// at least this many distinct signs must confirm death.
 	DeathConfirmationMinSigns int `yaml:"death_confirmation_min_signs" json:"death_confirmation_min_signs" validate:"gte=1"`
+}
+
+// CorrectionLim holds the limits of the follow-up of earlier findings.
+type CorrectionLim struct {
+	// OverdueAfterDays: an action open (or closed) more than this many days
+	// after its due date is overdue.
+	OverdueAfterDays int `yaml:"overdue_after_days" json:"overdue_after_days" validate:"gte=0"`
+	// RecurredAfterDays: a finding of the problem more than this many days
+	// after its action was closed means the problem came back.
+	RecurredAfterDays int `yaml:"recurred_after_days" json:"recurred_after_days" validate:"gte=0"`
 }

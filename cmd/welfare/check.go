@@ -5,6 +5,8 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"os"
+	"path/filepath"
 	"slices"
 	"strings"
 	"time"
@@ -29,6 +31,7 @@ type checkOpts struct {
 	inspector      string
 	generatedAt    string
 	failOn         string
+	previous       string
 	maxPerCheck    int
 	timeoutPerEval time.Duration
 	timings        bool
@@ -51,6 +54,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.pdfOut, "pdf", "", "write the PDF audit report to `FILE`")
 	fs.StringVar(&o.inspector, "inspector", "", "`NAME` of the person inspecting, shown on the report")
 	fs.StringVar(&o.generatedAt, "generated-at", "", "report generation `TIME` (RFC 3339; default now) — the same time gives a byte-identical PDF")
+	fs.StringVar(&o.previous, "previous", "", "the previous review's findings `FILE` (JSON written by --json): class each finding new or recurring, list what was resolved, judge the corrective actions")
 	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never)")
 	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; all are in JSON, CSV and PDF)")
 	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", 5*time.Second, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
@@ -115,12 +119,21 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if err != nil {
 		return err
 	}
+	var prev *checker.Previous
+	if o.previous != "" {
+		if prev, err = readPrevious(o.previous); err != nil {
+			return err
+		}
+	}
 	fsys, err := recordsFolder(dir)
 	if err != nil {
 		return err
 	}
 	var view todayView
-	res, checked, err := policy.CheckScoped(ctx, fsys, only, func(set *records.Set) (*records.Set, checker.Period, error) {
+	res, checked, err := policy.CheckWith(ctx, fsys, checker.CheckOptions{Only: only, Previous: prev, Scope: func(set *records.Set) (*records.Set, checker.Period, error) {
+		if prev != nil && prev.Facility != set.Facility.Name {
+			return nil, period, fmt.Errorf("--previous %s: the findings of %q, not of %q: give the previous review of this facility", o.previous, prev.Facility, set.Facility.Name)
+		}
 		if o.on == "" {
 			return set, period, nil
 		}
@@ -134,9 +147,13 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 			set = set.Until(view.cut)
 		}
 		return set, checker.Period{From: view.day, To: view.day}, nil
-	})
+	}})
 	if err != nil {
 		return err
+	}
+	if prev != nil && prev.Period.To >= res.Period.From {
+		return fmt.Errorf("--previous %s: its period %s … %s does not end before this period starts (%s): give the review before this one",
+			o.previous, prev.Period.From, prev.Period.To, res.Period.From)
 	}
 	ph.enter("reports", "")
 
@@ -247,4 +264,20 @@ func parseOnly(s string, names []string) ([]string, error) {
 		out = append(out, d)
 	}
 	return out, nil
+}
+
+// readPrevious reads the previous review's findings file.
+func readPrevious(path string) (*checker.Previous, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("--previous: %w", err)
+	}
+	defer f.Close()
+	prev, err := reports.ReadFindings(f, path)
+	if err != nil {
+		return nil, err
+	}
+	// Reports name the file, not the folder it was in on this machine.
+	prev.File = filepath.Base(path)
+	return prev, nil
 }

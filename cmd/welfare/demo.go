@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 
 	"welfare/records/demo"
@@ -55,6 +56,19 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 		pdfOut:      filepath.Join(dir, "audit.pdf"),
 		inspector:   "Demo inspector (invented)",
 		generatedAt: o.generatedAt,
+	}
+	if name, data, ok := season.Previous(); ok {
+		// The earlier review, so the first report shows the whole loop:
+		// new, recurring and resolved problems, and the plans judged.
+		prevDir := filepath.Join(dir, "previous")
+		if err := os.MkdirAll(prevDir, 0o755); err != nil {
+			return err
+		}
+		co.previous = filepath.Join(prevDir, name)
+		if err := os.WriteFile(co.previous, data, 0o644); err != nil {
+			return err
+		}
+		fmt.Fprintf(stdout, "The previous review (December 2025) written to %s\n\n", co.previous)
 	}
 	if err := checkFolder(ctx, recs, co, stdout, stderr); err != nil {
 		return err

@@ -34,7 +34,7 @@ func TestInitThenValidate(t *testing.T) {
 	for _, e := range entries {
 		got = append(got, e.Name())
 	}
-	want := []string{"animals.csv", "culls.csv", "daily_care.csv", "deaths.csv", "enclosures.csv", "environment.csv",
+	want := []string{"animals.csv", "corrective_actions.csv", "culls.csv", "daily_care.csv", "deaths.csv", "enclosures.csv", "environment.csv",
 		"facility.yaml", "handling.csv", "housing.csv", "litters.csv", "observations.csv", "outdoor_work.csv",
 		"ppe_checks.csv", "protocols.csv", "staff.csv", "treatments.csv", "weather.csv"}
 	if d := cmp.Diff(want, got); d != "" {

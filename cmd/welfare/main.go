@@ -98,6 +98,7 @@ func init() {
 		"rules":    {runRules, func() *flag.FlagSet { fs, _ := rulesFlags(); return fs }},
 		"limits":   {runLimits, limitsFlags},
 		"init":     {runInit, initFlags},
+		"plans":    {runPlans, func() *flag.FlagSet { fs, _ := plansFlags(); return fs }},
 		"help":     {runHelp, helpFlags},
 	}
 }

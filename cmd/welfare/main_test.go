@@ -20,6 +20,9 @@ import (
 
 const demoRecords = "../../testdata/demo/records"
 
+// demoPrevious is the demo's earlier review (December 2025), for --previous.
+const demoPrevious = "../../testdata/demo/previous/findings-2025-12.json"
+
 // runMain runs the program in process and returns its exit code and output.
 func runMain(t *testing.T, args ...string) (code int, stdout, stderr string) {
 	t.Helper()
@@ -78,7 +81,8 @@ func plantedFrom(t *testing.T, path string) []string {
 func TestCheckDemoFindsExactlyThePlantedProblems(t *testing.T) {
 	dir := t.TempDir()
 	jsonPath := filepath.Join(dir, "f.json")
-	code, stdout, stderr := runMain(t, "check", "--from", "2026-01-01", "--to", "2026-01-31", "--json", jsonPath, demoRecords)
+	code, stdout, stderr := runMain(t, "check", "--from", "2026-01-01", "--to", "2026-01-31", "--json", jsonPath,
+		"--previous", demoPrevious, demoRecords)
 	if code != exitFindings {
 		t.Fatalf("exit code = %d, want %d (the demo has significant findings)\nstderr: %s", code, exitFindings, stderr)
 	}

@@ -271,6 +271,12 @@ func (r *printedRunner) placeholderValue(p, prev string) (string, error) {
 		return "limits.yaml", nil
 	case "COMMAND":
 		return "check", nil
+	case "FINDINGS":
+		// The findings file the demo wrote.
+		return filepath.Join("welfare-demo", "findings.json"), nil
+	case "PREVIOUS":
+		// The previous review's findings, shipped with the winter demo.
+		return filepath.Join("welfare-demo", "previous", "findings-2025-12.json"), nil
 	case "DAY":
 		return "2026-01-15", nil
 	case "KIND":

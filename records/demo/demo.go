@@ -13,6 +13,7 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
+	"path"
 	"path/filepath"
 )
 
@@ -72,7 +73,8 @@ var summerFiles embed.FS
 
 // Seasons are the demo scenarios by name, with the period each covers.
 var Seasons = map[string]Season{
-	"winter": {Name: "winter", From: "2026-01-01", To: "2026-01-31", fsys: files, dir: "birchfall"},
+	"winter": {Name: "winter", From: "2026-01-01", To: "2026-01-31", fsys: files, dir: "birchfall",
+		previous: "birchfall-previous/findings-2025-12.json"},
 	"summer": {Name: "summer", From: "2026-07-01", To: "2026-07-31", fsys: summerFiles, dir: "birchfall-summer"},
 }
 
@@ -82,6 +84,28 @@ type Season struct {
 	From, To string // the checked period, YYYY-MM-DD
 	fsys     embed.FS
 	dir      string
+	// previous is the earlier review's findings file shipped with the
+	// season (in previousFiles), "" when there is none.
+	previous string
+}
+
+// The earlier review of the winter demo (December 2025), a findings file
+// as `welfare check --json` writes it, for `--previous`.
+//
+//go:embed birchfall-previous
+var previousFiles embed.FS
+
+// Previous returns the file name and content of the season's earlier
+// review, for `welfare check --previous`; ok is false when it has none.
+func (s Season) Previous() (name string, data []byte, ok bool) {
+	if s.previous == "" {
+		return "", nil, false
+	}
+	data, err := previousFiles.ReadFile(s.previous)
+	if err != nil {
+		return "", nil, false
+	}
+	return path.Base(s.previous), data, true
 }
 
 // FS returns the season's records folder, rooted at the folder itself.

@@ -348,6 +348,7 @@ func generate() (*scenario, error) {
 	if err := s.writeHealthTables(h); err != nil {
 		return nil, err
 	}
+	s.correctionTables()
 	s.evaluate()
 	return s, nil
 }
@@ -1280,7 +1281,8 @@ func (s *scenario) plantedMD() []byte {
 
 The demo records (records/demo/birchfall, copied in testdata/demo/records) describe an invented
 station for the period 2026-01-01 … 2026-01-31. Checked with the default limits
-(rules/limits.yaml) over that period, the checker must produce exactly the findings below: no
+(rules/limits.yaml) over that period, with the December review as ` + "`--previous`" + `
+(testdata/demo/previous/findings-2025-12.json), the checker must produce exactly the findings below: no
 more, no fewer. ` + "`on`" + ` is the finding's first day and ` + "`until`" + ` the last day of a run (empty for a
 single day); a rejected row whose date cannot be read is placed on the period's first day. Subjects are exactly the
 findings' subjects. This file is generated with the records by
