@@ -127,7 +127,6 @@ func (b *auditBuilder) sinceLast() AuditSection {
 	return b.section("Since the last review", true, "Since the last review")
 }
 
-
 // classTable counts new, recurring, resolved and not re-checked problems by domain.
 func (b *auditBuilder) classTable() *Table {
 	r, fu := b.r, b.r.FollowUp
