@@ -601,13 +601,9 @@ func (g *gen) deathPlace(n int) (as []*animal, ds []int, building string, month 
 		if free[b] < n {
 			continue
 		}
-		for i := 0; i < g.opt.Days; {
-			s := slot{building: b, first: i}
-			for ; i < g.opt.Days && day(i)[:7] == day(s.first)[:7]; i++ {
-				s.days = append(s.days, i)
-			}
-			if !g.deathSlots[b+"|"+day(s.first)[:7]] {
-				slots = append(slots, s)
+		for _, m := range g.months() {
+			if !g.deathSlots[b+"|"+m.key] {
+				slots = append(slots, slot{building: b, first: m.first, days: m.days})
 			}
 		}
 	}
@@ -618,6 +614,27 @@ func (g *gen) deathPlace(n int) (as []*animal, ds []int, building string, month 
 		ds = append(ds, s.days[g.rng.IntN(len(s.days))])
 	}
 	return as, ds, s.building, s.first
+}
+
+type month struct {
+	key   string // YYYY-MM
+	first int    // day index of its first day
+	days  []int  // its days in the period
+}
+
+// months are the calendar months of the period.
+func (g *gen) months() []month {
+	if g.monthList == nil {
+		for i := range g.opt.Days {
+			k := day(i)[:7]
+			if n := len(g.monthList); n == 0 || g.monthList[n-1].key != k {
+				g.monthList = append(g.monthList, month{key: k, first: i})
+			}
+			m := &g.monthList[len(g.monthList)-1]
+			m.days = append(m.days, i)
+		}
+	}
+	return g.monthList
 }
 
 // die records a found dead at 07:00 of day i with a known cause, the

@@ -176,11 +176,12 @@ type gen struct {
 	keepers   []string
 
 	deathSlots map[string]bool // building|month with a death
-	envDays    map[int]bool    // days of the kennel's planted readings
-	envHot     map[int]bool    // kennel days with a warm spell 12:00–18:00
-	envHumid   map[int]bool    // kennel days with a humid reading
-	envNH3     map[int]bool    // kennel days with an ammonia peak
-	heatPeak   map[int]bool    // hot days with a 15:00 reading in the NWS extreme caution band
+	monthList  []month
+	envDays    map[int]bool // days of the kennel's planted readings
+	envHot     map[int]bool // kennel days with a warm spell 12:00–18:00
+	envHumid   map[int]bool // kennel days with a humid reading
+	envNH3     map[int]bool // kennel days with an ammonia peak
+	heatPeak   map[int]bool // hot days with a 15:00 reading in the NWS extreme caution band
 }
 
 // Generate writes the records folder and PLANTED.json into dir (created if
@@ -456,16 +457,41 @@ func (g *gen) writeCare(dir string) error {
 	if err != nil {
 		return err
 	}
+	// The baseline rows of a cage, written whole: the round's time, then
+	// these cells (the morning's ends with its cleaned cell).
+	amCells, pmCells := make([]string, len(g.cages)), make([]string, len(g.cages))
+	for ci := range g.cages {
+		amCells[ci] = "," + g.cages[ci].id + "," + g.keeperOf(ci) + ",yes,yes,ok,,yes,no,,"
+		pmCells[ci] = "," + g.cages[ci].id + "," + g.keeperOf(ci) + ",yes,no,ok,,no,no,,no\n"
+	}
+	// The changed rounds by day, so the baseline needs no look-up.
+	mods := make([]map[int]*careMod, g.opt.Days)
+	for k, m := range g.care {
+		if mods[k[1]] == nil {
+			mods[k[1]] = map[int]*careMod{}
+		}
+		mods[k[1]][k[0]] = m
+	}
 	for i := range g.opt.Days {
 		am, pm := stamp(i, "07:30"), stamp(i, "15:30")
+		two := g.twoChecks(i)
 		for ci := range g.cages {
 			e := &g.cages[ci]
 			k := g.keeperOf(ci)
-			m := g.care[[2]int{ci, i}]
+			m := mods[i][ci]
 			if m == nil {
-				c.row(am, e.id, k, "yes", "yes", "ok", "", "yes", "no", "", yes(cleanDay(ci, i)))
-				if g.twoChecks(i) {
-					c.row(pm, e.id, k, "yes", "no", "ok", "", "no", "no", "", "no")
+				c.w.WriteString(am)
+				c.w.WriteString(amCells[ci])
+				if cleanDay(ci, i) {
+					c.w.WriteString("yes\n")
+				} else {
+					c.w.WriteString("no\n")
+				}
+				c.line++
+				if two {
+					c.w.WriteString(pm)
+					c.w.WriteString(pmCells[ci])
+					c.line++
 				}
 				continue
 			}
