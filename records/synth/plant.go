@@ -290,7 +290,10 @@ var plants = []plantFunc{
 		g.runs("heat.shade.missing", g.cages[a.cage].id, func(i int) bool { return g.kinds[i] == hot })
 	})},
 	{"heat.danger", each(func(g *gen) {
-		i := g.peakDay()
+		i, ok := g.peakDay()
+		if !ok {
+			return
+		}
 		g.heatPeak[i] = true // 35 °C at 50 %: heat index about 41 °C
 		g.plant("heat.danger", site, i, -1)
 	})},
@@ -313,17 +316,26 @@ var plants = []plantFunc{
 
 	// the kennel's air (environment.csv)
 	{"environment.temperature.out_of_range", each(func(g *gen) {
-		i := g.envDay()
+		i, ok := g.envDay()
+		if !ok {
+			return
+		}
 		g.envHot[i] = true // 31 °C for 6 h, above the dogs' 29.5 °C
 		g.plant("environment.temperature.out_of_range", kennel, i, -1)
 	})},
 	{"environment.humidity.out_of_range", each(func(g *gen) {
-		i := g.envDay()
+		i, ok := g.envDay()
+		if !ok {
+			return
+		}
 		g.envHumid[i] = true // one reading at 78 %
 		g.plant("environment.humidity.out_of_range", kennel, i, -1)
 	})},
 	{"environment.ammonia.high", each(func(g *gen) {
-		i := g.envDay()
+		i, ok := g.envDay()
+		if !ok {
+			return
+		}
 		g.envNH3[i] = true // one reading at 32 ppm
 		g.plant("environment.ammonia.high", kennel, i, -1)
 	})},
@@ -489,10 +501,12 @@ func (g *gen) dayIn(k dayKind, lo, hi int) int {
 	return ds[g.rng.IntN(len(ds))]
 }
 
-// hardWindow picks a start s with days s+n-2 and s+n-1 hard.
+// hardWindow picks a start s with days s+n-2 and s+n-1 hard. s is at least
+// 1: the baseline bedding of day s-1 must be in the records, since no
+// record before the period counts as no bedding.
 func (g *gen) hardWindow(n int) (int, bool) {
 	var ss []int
-	for s := 0; s+n <= g.opt.Days; s++ {
+	for s := 1; s+n <= g.opt.Days; s++ {
 		if g.kinds[s+n-2] == hard && g.kinds[s+n-1] == hard {
 			ss = append(ss, s)
 		}
@@ -675,25 +689,33 @@ func (g *gen) litter(dam *animal, w, born, alive, weanedOn, weaned int) string {
 }
 
 // envDay picks a day for a planted kennel reading, not next to another, so
-// that no two plants join into one run.
-func (g *gen) envDay() int {
-	for {
-		i := g.rng.IntN(g.opt.Days)
-		if !g.envDays[i-1] && !g.envDays[i] && !g.envDays[i+1] {
-			g.envDays[i] = true
-			return i
-		}
+// that no two plants join into one run; false when none is left.
+func (g *gen) envDay() (int, bool) {
+	i, ok := g.apart(func(int) bool { return true }, g.envDays)
+	if ok {
+		g.envDays[i] = true
 	}
+	return i, ok
 }
 
-// peakDay picks a hot day for a heat peak, not next to another peak.
-func (g *gen) peakDay() int {
-	for {
-		i := g.someDay(hot)
-		if !g.heatPeak[i-1] && !g.heatPeak[i] && !g.heatPeak[i+1] {
-			return i
+// peakDay picks a hot day for a heat peak, not next to another peak; false
+// when none is left.
+func (g *gen) peakDay() (int, bool) {
+	return g.apart(func(i int) bool { return g.kinds[i] == hot }, g.heatPeak)
+}
+
+// apart picks a day that ok accepts with neither it nor a neighbour in taken.
+func (g *gen) apart(ok func(int) bool, taken map[int]bool) (int, bool) {
+	var ds []int
+	for i := range g.opt.Days {
+		if ok(i) && !taken[i-1] && !taken[i] && !taken[i+1] {
+			ds = append(ds, i)
 		}
 	}
+	if len(ds) == 0 {
+		return 0, false
+	}
+	return ds[g.rng.IntN(len(ds))], true
 }
 
 // baseline adds the clean deaths, cases and litters: nothing here causes a
