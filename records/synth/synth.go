@@ -148,10 +148,9 @@ type careMod struct {
 }
 
 type event struct {
-	day  int
-	at   string // local time HH:MM, for ordering
-	row  []string
-	line *Planted // when set, Subject is filled with FILE:LINE
+	day int
+	at  string // local time HH:MM, for ordering
+	row []string
 }
 
 type gen struct {
