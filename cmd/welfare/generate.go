@@ -19,7 +19,7 @@ type generateOpts struct {
 func generateFlags() (*flag.FlagSet, *generateOpts) {
 	o := &generateOpts{}
 	fs := flag.NewFlagSet("generate", flag.ContinueOnError)
-	fs.IntVar(&o.animals, "animals", 1000, fmt.Sprintf("`N` animals, one to a cage, in sheds of fifty (at least %d)", synth.MinAnimals))
+	fs.IntVar(&o.animals, "animals", 1000, fmt.Sprintf("`N` animals, one to a cage: sheds of fifty, and ten dogs in an indoor kennel (at least %d)", synth.MinAnimals))
 	fs.IntVar(&o.days, "days", 365, fmt.Sprintf("`D` days from %s (%d to %d)", synth.Start.Format("2006-01-02"), synth.MinDays, synth.MaxDays))
 	fs.Uint64Var(&o.seed, "seed", 1, "`S`: the same seed writes the same bytes")
 	return fs, o

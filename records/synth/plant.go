@@ -237,14 +237,14 @@ var plants = []plantFunc{
 
 	// cold
 	{"cold.water.checks_insufficient", each(func(g *gen) {
-		a, i := g.animal(anySpecies), g.someDay(freeze)
+		a, i := g.animal(outdoor), g.someDay(freeze)
 		g.mod(a.cage, i).skipPM = true
 		g.plant("cold.water.checks_insufficient", g.cages[a.cage].id, i, -1)
 	})},
 	{"cold.bedding.stale", each(func(g *gen) {
 		// No bedding for eight days a..a+7: the hard days a+6 and a+7 are
 		// 7 and 8 days after the last bedding (bedding every 7 days at −20).
-		a := g.animal(anySpecies)
+		a := g.animal(outdoor)
 		s, ok := g.hardWindow(8)
 		if !ok {
 			return
@@ -277,13 +277,173 @@ var plants = []plantFunc{
 	{"cold.frostbite.risk", func(g *gen) {
 		g.runs("cold.frostbite.risk", site, func(i int) bool { _, ok := g.snapAir[i]; return ok })
 	}},
+
+	// heat: the hot stretch reaches 28 °C (heat index about 28 °C)
+	{"heat.water.checks_insufficient", each(func(g *gen) {
+		a, i := g.animal(outdoor), g.someDay(hot)
+		g.mod(a.cage, i).skipPM = true
+		g.plant("heat.water.checks_insufficient", g.cages[a.cage].id, i, -1)
+	})},
+	{"heat.shade.missing", each(func(g *gen) {
+		a := g.animal(outdoor)
+		g.cages[a.cage].shade = "no"
+		g.runs("heat.shade.missing", g.cages[a.cage].id, func(i int) bool { return g.kinds[i] == hot })
+	})},
+	{"heat.danger", each(func(g *gen) {
+		i, ok := g.peakDay()
+		if !ok {
+			return
+		}
+		g.heatPeak[i] = true // 35 °C at 50 %: heat index about 41 °C
+		g.plant("heat.danger", site, i, -1)
+	})},
+
+	// cleaning: no cleaning for the 15 days after a weekly one
+	{"care.cleaning.overdue", each(func(g *gen) {
+		a := g.animal(anySpecies)
+		var last []int
+		for l := 0; l+15 < g.opt.Days; l++ {
+			if cleanDay(a.cage, l) {
+				last = append(last, l)
+			}
+		}
+		l := last[g.rng.IntN(len(last))]
+		for i := l + 1; i <= l+15; i++ {
+			g.mod(a.cage, i).noClean = true
+		}
+		g.plant("care.cleaning.overdue", g.cages[a.cage].id, l+15, -1) // the first day more than 14 after l
+	})},
+
+	// the kennel's air (environment.csv)
+	{"environment.temperature.out_of_range", each(func(g *gen) {
+		i, ok := g.envDay()
+		if !ok {
+			return
+		}
+		g.envHot[i] = true // 31 °C for 6 h, above the dogs' 29.5 °C
+		g.plant("environment.temperature.out_of_range", kennel, i, -1)
+	})},
+	{"environment.humidity.out_of_range", each(func(g *gen) {
+		i, ok := g.envDay()
+		if !ok {
+			return
+		}
+		g.envHumid[i] = true // one reading at 78 %
+		g.plant("environment.humidity.out_of_range", kennel, i, -1)
+	})},
+	{"environment.ammonia.high", each(func(g *gen) {
+		i, ok := g.envDay()
+		if !ok {
+			return
+		}
+		g.envNH3[i] = true // one reading at 32 ppm
+		g.plant("environment.ammonia.high", kennel, i, -1)
+	})},
+
+	// deaths: one per building and month, except the planted high mortality
+	{"health.death.vet_not_notified", each(func(g *gen) {
+		as, ds, _, _ := g.deathPlace(1)
+		g.die(as[0], ds[0], func(r []string) { r[4] = stamp(ds[0]+1, "13:00") }) // 30 h after 07:00
+		g.plant("health.death.vet_not_notified", as[0].id, ds[0], -1)
+	})},
+	{"health.death.unexplained", each(func(g *gen) {
+		as, ds, _, _ := g.deathPlace(1)
+		g.die(as[0], ds[0], func(r []string) { r[3], r[5], r[6] = "unknown", "no", "" })
+		g.plant("health.death.unexplained", as[0].id, ds[0], -1)
+	})},
+	{"health.mortality.high", each(func(g *gen) {
+		as, ds, building, month := g.deathPlace(2) // 2 of about 50: 4 %, above 2 %
+		for k, a := range as {
+			g.die(a, ds[k], nil)
+		}
+		g.plant("health.mortality.high", building, month, -1)
+	})},
+	{"records.death.mismatch", each(func(g *gen) {
+		as, ds, _, _ := g.deathPlace(1)
+		g.die(as[0], ds[0], nil)
+		as[0].leftOn = ds[0] + 2 // left_on the day after the death
+		g.plant("records.death.mismatch", as[0].id, ds[0], -1)
+	})},
+
+	// observations
+	{"health.weight.loss", each(func(g *gen) {
+		a := g.animal(anySpecies)
+		first := a.idx % 30 // its first baseline weighing
+		j := first + 1 + g.rng.IntN(g.opt.Days-first-1)
+		m, _ := strconv.ParseFloat(a.mass, 64)
+		g.observe(a, j, "14:00", func(r []string) { r[3] = strconv.FormatFloat(m*0.85, 'f', 2, 64) }) // 15 % below
+		g.plant("health.weight.loss", a.id, j, -1)
+	})},
+	{"health.condition.poor", each(func(g *gen) {
+		a, j := g.animal(anySpecies), g.rng.IntN(g.opt.Days)
+		g.observe(a, j, "14:00", func(r []string) { r[4] = "2" })
+		g.plant("health.condition.poor", a.id, j, -1)
+	})},
+	{"health.signs.unattended", each(func(g *gen) {
+		a, j := g.animal(anySpecies), g.rng.IntN(g.opt.Days)
+		g.observe(a, j, "14:00", func(r []string) { r[5] = "lameness" })
+		g.plant("health.signs.unattended", a.id, j, -1)
+	})},
+	{"health.behaviour.abnormal", each(func(g *gen) {
+		a, j := g.animal(anySpecies), g.rng.IntN(g.opt.Days-12)
+		for _, k := range []int{j, j + 6, j + 12} {
+			g.observe(a, k, "14:00", func(r []string) { r[5] = "stereotypy" })
+		}
+		g.plant("health.behaviour.abnormal", a.id, j+12, -1) // the third within 30 days
+	})},
+	{"health.case.unreviewed", each(func(g *gen) {
+		a, o := g.animal(anySpecies), g.rng.IntN(g.opt.Days-8)
+		id := g.treat(a, o, "", "", "")
+		g.plant("health.case.unreviewed", id, o+8, -1) // the first day more than 7 after its opening
+	})},
+
+	// litters: whelped and weaned in the period
+	{"litter.weaning.early", each(func(g *gen) {
+		a, w := g.animalWhere(dam), g.rng.IntN(g.opt.Days-42)
+		id := g.litter(a, w, 5, 5, w+42, 5) // 42 days, under the 56
+		g.plant("litter.weaning.early", id, w+42, -1)
+	})},
+	{"litter.losses.high", each(func(g *gen) {
+		a, w := g.animalWhere(dam), g.rng.IntN(g.opt.Days-56)
+		id := g.litter(a, w, 6, 5, w+56, 3) // 3 of 6 lost: 50 %
+		g.plant("litter.losses.high", id, w+56, -1)
+	})},
+
+	// protocols: second set
+	{"protocol.species.unapproved", each(func(g *gen) {
+		a, i := g.animal(func(sp string) bool { return sp == arcticFox }), g.someDay(warm)
+		p := g.freshProtocol()
+		p.species = redFox
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[13] = p.id })
+		g.plant("protocol.species.unapproved", p.id, i, -1)
+	})},
+	{"protocol.personnel.unlisted", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		p := g.freshProtocol()
+		p.personnel = "V01"
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[13] = p.id })
+		g.plant("protocol.personnel.unlisted", p.id, i, -1)
+	})},
+	{"protocol.review.overdue", each(func(g *gen) {
+		a, i := g.animal(fox), g.someDay(warm)
+		p := g.freshProtocol()
+		p.approved = dayOf(Start.AddDate(0, 0, i).AddDate(-3, 0, -10)) // no review since: 36 months ended 10 days before
+		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[13] = p.id })
+		g.plant("protocol.review.overdue", p.id, i, -1)
+	})},
 }
 
 // ---- helpers for plants
 
 func anySpecies(string) bool { return true }
 
-func fox(species string) bool { return species == "vulpes_vulpes" || species == "vulpes_lagopus" }
+func fox(species string) bool { return species == redFox || species == arcticFox }
+
+// outdoor species: all but the kennel's dogs.
+func outdoor(species string) bool { return species != dog }
+
+// dam: a female of the outdoor species.
+func dam(a *animal) bool { return a.sex == "f" && a.species != dog }
 
 // plant records a finding from day index on to until (-1: a single day).
 func (g *gen) plant(check, subject string, on, until int) *Planted {
@@ -313,9 +473,14 @@ func (g *gen) runs(check, subject string, bad func(int) bool) {
 // animal reserves a fresh animal of a species that ok accepts, in a cage no
 // other plant uses, and stops its baseline weighings on planted days only.
 func (g *gen) animal(ok func(string) bool) *animal {
+	return g.animalWhere(func(a *animal) bool { return ok(a.species) })
+}
+
+// animalWhere reserves a fresh animal that ok accepts.
+func (g *gen) animalWhere(ok func(*animal) bool) *animal {
 	for {
 		a := &g.animals[g.rng.IntN(len(g.animals))]
-		if a.reserved || g.cages[a.cage].reserved || !ok(a.species) {
+		if a.reserved || g.cages[a.cage].reserved || !ok(a) {
 			continue
 		}
 		a.reserved, g.cages[a.cage].reserved = true, true
@@ -336,10 +501,12 @@ func (g *gen) dayIn(k dayKind, lo, hi int) int {
 	return ds[g.rng.IntN(len(ds))]
 }
 
-// hardWindow picks a start s with days s+n-2 and s+n-1 hard.
+// hardWindow picks a start s with days s+n-2 and s+n-1 hard. s is at least
+// 1: the baseline bedding of day s-1 must be in the records, since no
+// record before the period counts as no bedding.
 func (g *gen) hardWindow(n int) (int, bool) {
 	var ss []int
-	for s := 0; s+n <= g.opt.Days; s++ {
+	for s := 1; s+n <= g.opt.Days; s++ {
 		if g.kinds[s+n-2] == hard && g.kinds[s+n-1] == hard {
 			ss = append(ss, s)
 		}
@@ -407,7 +574,7 @@ func (g *gen) handle(a *animal, i int, hhmm, staff string, edit func([]string)) 
 
 // cull adds a clean cull of a at day i (the animal leaves that day), changed by edit.
 func (g *gen) cull(a *animal, i int, staff, method string, edit func([]string)) {
-	r := []string{stamp(i, "11:00"), a.id, staff, "end_of_study", method, "no", "yes", "no_heartbeat;no_corneal_reflex", "", "incineration"}
+	r := []string{stamp(i, "11:00"), a.id, staff, "end_of_study", method, "no", "yes", "no_heartbeat;no_corneal_reflex", "", "incineration", "no"}
 	if edit != nil {
 		edit(r)
 	}
@@ -417,4 +584,154 @@ func (g *gen) cull(a *animal, i int, staff, method string, edit func([]string)) 
 
 func (g *gen) stint(staff string, i int, from, to string) {
 	g.stints = append(g.stints, event{day: i, at: from, row: []string{staff, stamp(i, from), stamp(i, to), site, "moderate"}})
+}
+
+// deathPlace picks a building and calendar month with no death yet and n
+// fresh animals of that building, reserves them, and picks a day of that
+// month in the period for each; it returns the building and the index of
+// the month's first day. One death in a building of about fifty is below
+// the mortality line (two deaths at least); n = 2 is above it.
+func (g *gen) deathPlace(n int) (as []*animal, ds []int, building string, month int) {
+	type slot struct {
+		building string
+		first    int   // day index of the month's first day
+		days     []int // the month's days in the period
+	}
+	free := map[string]int{}
+	var buildings []string
+	for i := range g.animals {
+		a := &g.animals[i]
+		b := g.cages[a.cage].shed
+		if _, ok := free[b]; !ok {
+			buildings = append(buildings, b)
+			free[b] = 0
+		}
+		if !a.reserved && !g.cages[a.cage].reserved {
+			free[b]++
+		}
+	}
+	var slots []slot
+	for _, b := range buildings {
+		if free[b] < n {
+			continue
+		}
+		for _, m := range g.months() {
+			if !g.deathSlots[b+"|"+m.key] {
+				slots = append(slots, slot{building: b, first: m.first, days: m.days})
+			}
+		}
+	}
+	s := slots[g.rng.IntN(len(slots))]
+	g.deathSlots[s.building+"|"+day(s.first)[:7]] = true
+	for range n {
+		as = append(as, g.animalWhere(func(a *animal) bool { return g.cages[a.cage].shed == s.building }))
+		ds = append(ds, s.days[g.rng.IntN(len(s.days))])
+	}
+	return as, ds, s.building, s.first
+}
+
+type month struct {
+	key   string // YYYY-MM
+	first int    // day index of its first day
+	days  []int  // its days in the period
+}
+
+// months are the calendar months of the period.
+func (g *gen) months() []month {
+	if g.monthList == nil {
+		for i := range g.opt.Days {
+			k := day(i)[:7]
+			if n := len(g.monthList); n == 0 || g.monthList[n-1].key != k {
+				g.monthList = append(g.monthList, month{key: k, first: i})
+			}
+			m := &g.monthList[len(g.monthList)-1]
+			m.days = append(m.days, i)
+		}
+	}
+	return g.monthList
+}
+
+// die records a found dead at 07:00 of day i with a known cause, the
+// veterinarian told at 09:30 and a necropsy, changed by edit; the animal
+// leaves that day.
+func (g *gen) die(a *animal, i int, edit func([]string)) {
+	r := []string{a.id, stamp(i, "07:00"), g.keeperOf(a.cage), "disease", stamp(i, "09:30"), "yes", "NX-" + a.id, "incineration"}
+	if edit != nil {
+		edit(r)
+	}
+	a.leftOn, a.leftReason, a.noHandlingFrom = i+1, "died", i
+	g.deaths = append(g.deaths, event{day: i, at: "07:00", row: r})
+}
+
+// observe adds an observation of a at day i by its keeper (no mass, no
+// score, no sign), changed by edit.
+func (g *gen) observe(a *animal, i int, hhmm string, edit func([]string)) {
+	r := []string{stamp(i, hhmm), a.id, g.keeperOf(a.cage), "", "", "", "", ""}
+	if edit != nil {
+		edit(r)
+	}
+	g.obs = append(g.obs, event{day: i, at: hhmm, row: r})
+}
+
+// treat opens a veterinary case of a on day index opened; reviewed and
+// closed are day indexes or empty. It returns the case id.
+func (g *gen) treat(a *animal, opened int, reviewed, closed, outcome string) string {
+	id := fmt.Sprintf("C%04d", len(g.cases)+1)
+	g.cases = append(g.cases, event{day: opened, row: []string{id, a.id, day(opened), "superficial skin wound", "V01", reviewed, closed, outcome}})
+	return id
+}
+
+// litter records a litter of dam whelped on day w and weaned on day weanedOn.
+func (g *gen) litter(dam *animal, w, born, alive, weanedOn, weaned int) string {
+	id := fmt.Sprintf("L%04d", len(g.litters)+1)
+	g.litters = append(g.litters, event{day: w, row: []string{id, dam.id, day(w), strconv.Itoa(born), strconv.Itoa(alive), day(weanedOn), strconv.Itoa(weaned)}})
+	return id
+}
+
+// envDay picks a day for a planted kennel reading, not next to another, so
+// that no two plants join into one run; false when none is left.
+func (g *gen) envDay() (int, bool) {
+	i, ok := g.apart(func(int) bool { return true }, g.envDays)
+	if ok {
+		g.envDays[i] = true
+	}
+	return i, ok
+}
+
+// peakDay picks a hot day for a heat peak, not next to another peak; false
+// when none is left.
+func (g *gen) peakDay() (int, bool) {
+	return g.apart(func(i int) bool { return g.kinds[i] == hot }, g.heatPeak)
+}
+
+// apart picks a day that ok accepts with neither it nor a neighbour in taken.
+func (g *gen) apart(ok func(int) bool, taken map[int]bool) (int, bool) {
+	var ds []int
+	for i := range g.opt.Days {
+		if ok(i) && !taken[i-1] && !taken[i] && !taken[i+1] {
+			ds = append(ds, i)
+		}
+	}
+	if len(ds) == 0 {
+		return 0, false
+	}
+	return ds[g.rng.IntN(len(ds))], true
+}
+
+// baseline adds the clean deaths, cases and litters: nothing here causes a
+// finding.
+func (g *gen) baseline() {
+	for range max(1, g.opt.Animals/1000) {
+		as, ds, _, _ := g.deathPlace(1)
+		g.die(as[0], ds[0], nil)
+	}
+	for range max(1, g.opt.Animals/500) {
+		a, o := g.animal(anySpecies), g.rng.IntN(g.opt.Days-8)
+		g.treat(a, o, day(o+4), day(o+8), "recovered") // reviewed within a week, closed
+	}
+	for range max(1, g.opt.Animals/500) {
+		a, w := g.animalWhere(dam), g.rng.IntN(g.opt.Days-56)
+		age := 56 + g.rng.IntN(min(5, g.opt.Days-56-w)) // eight weeks or a few days more
+		g.litter(a, w, 5, 5, w+age, 4)                  // 1 of 5 lost: 20 %
+	}
 }

@@ -3,14 +3,22 @@
 // check kind and the list of what it planted (PLANTED.json).
 //
 // The scenario: the invented Birchfall Fur Research Station's scale-test
-// farm, sheds of fifty single outdoor cages (red foxes, arctic foxes and mink), a
-// few keepers, a veterinarian and protocols. The weather runs through a
-// winter, a summer and back: hard-cold days at the start and end of the
-// period (minimum wind chill about −24), freezing days around them and mild
-// to warm days in the middle. The clean baseline is chosen so that it
-// produces no finding: every cage is observed and fed every day, checked
-// twice on freezing days, bedded daily; every keeper is trained and
-// vaccinated; every cage is big enough; no reading reaches the frostbite line.
+// farm, sheds of fifty single outdoor cages (red foxes, arctic foxes and
+// mink) and an indoor kennel of ten dog pens, a few keepers, a veterinarian
+// and protocols. The weather runs through a winter, a summer and back:
+// hard-cold days at the start and end of the period (minimum wind chill
+// about −24), freezing days around them, mild to warm days, and a hot
+// stretch in the middle (maximum 28 °C, heat index about 28 °C). The clean
+// baseline is chosen so that it produces no finding: every cage is observed
+// and fed every day, checked twice on freezing and hot days, bedded daily,
+// cleaned weekly and shaded; every animal is weighed (handling and
+// observation) every 30 days at a steady mass and good condition; a few
+// animals die, one at most per building and month, with a known cause and
+// the veterinarian told; a few veterinary cases are reviewed and closed
+// within a week; a few litters are weaned at eight weeks with small losses;
+// the kennel's air stays in range; every keeper is trained and vaccinated;
+// every cage is big enough; no reading reaches the frostbite or heat-danger
+// line.
 //
 // Each planted problem is placed by construction by one plant function (see
 // plants in plant.go): it changes a few rows of a subject no other plant
@@ -71,28 +79,49 @@ const (
 type dayKind int8
 
 const (
-	warm   dayKind = iota // minimum air at or above 2 °C
+	warm   dayKind = iota // minimum air at or above 2 °C, maximum below 23 °C
 	freeze                // minimum air −5 °C, wind chill about −9
 	hard                  // minimum air −15 °C with 20 km/h wind: wind chill about −24
+	hot                   // maximum air 28 °C at 45 % humidity: heat index about 28 °C
+)
+
+// Species of the generated farm.
+const (
+	redFox    = "vulpes_vulpes"
+	arcticFox = "vulpes_lagopus"
+	mink      = "neogale_vison"
+	dog       = "canis_familiaris"
+)
+
+// The indoor kennel: the last dogs animals, one to a pen.
+const (
+	kennel = "R01"
+	dogs   = 10
 )
 
 type cage struct {
-	id, shed, species string
+	id, shed, species string // shed: the building
+	kind              string
+	indoor            bool
 	lengthCm, widthCm int
 	heightCm, maxOcc  int
 	nestBox, platform string
+	shade             string
 	reserved          bool // taken by a plant
 	animals           []int
 }
 
 type animal struct {
+	idx              int
 	id, species, sex string
 	cage             int
 	born, arrived    time.Time
 	leftOn           int // day index + 1 of left_on; 0: still here
 	leftReason       string
 	protocol         string
-	noHandlingFrom   int // day index from which baseline weighings stop; -1: never stop
+	noHandlingFrom   int    // day index from which baseline weighings stop; -1: never stop
+	mass             string // steady body mass, kg
+	length           string // nose to tail base, cm (dogs: their space is a formula of it)
 	reserved         bool
 }
 
@@ -101,26 +130,27 @@ type person struct {
 	activeTo                         string
 	handling, euthanasia, methods    string
 	primary, titerOn, titer, respFit string
+	risk                             string // ACIP 2022 rabies risk category
 }
 
 type protocol struct {
 	id, title, approved, expires string
 	species, maxAnimals          string
 	procedures, methods          string
+	personnel, reviewed, pain    string
 }
 
 // careMod changes one cage's rounds on one day.
 type careMod struct {
-	noObserve, noFeed, waterEmpty, skipPM, noBedding bool
-	concern                                          string // animal id of a health concern
-	rejected                                         *Planted
+	noObserve, noFeed, waterEmpty, skipPM, noBedding, noClean bool
+	concern                                                   string // animal id of a health concern
+	rejected                                                  *Planted
 }
 
 type event struct {
-	day  int
-	at   string // local time HH:MM, for ordering
-	row  []string
-	line *Planted // when set, Subject is filled with FILE:LINE
+	day int
+	at  string // local time HH:MM, for ordering
+	row []string
 }
 
 type gen struct {
@@ -137,8 +167,20 @@ type gen struct {
 	culls     []event
 	ppe       []event
 	stints    []event
+	deaths    []event
+	obs       []event // observations beyond the baseline weighings
+	cases     []event
+	litters   []event
 	planted   []*Planted
 	keepers   []string
+
+	deathSlots map[string]bool // building|month with a death
+	monthList  []month
+	envDays    map[int]bool // days of the kennel's planted readings
+	envHot     map[int]bool // kennel days with a warm spell 12:00–18:00
+	envHumid   map[int]bool // kennel days with a humid reading
+	envNH3     map[int]bool // kennel days with an ammonia peak
+	heatPeak   map[int]bool // hot days with a 15:00 reading in the NWS extreme caution band
 }
 
 // Generate writes the records folder and PLANTED.json into dir (created if
@@ -154,6 +196,7 @@ func Generate(dir string, opt Options) ([]Planted, error) {
 		return nil, err
 	}
 	g := newGen(opt)
+	g.baseline()
 	for _, p := range plants {
 		p.plant(g)
 	}
@@ -193,7 +236,9 @@ func SortPlanted(ps []Planted) {
 }
 
 func newGen(opt Options) *gen {
-	g := &gen{opt: opt, rng: rand.New(rand.NewPCG(opt.Seed, 0x5eed)), snapAir: map[int]float64{}, care: map[[2]int]*careMod{}}
+	g := &gen{opt: opt, rng: rand.New(rand.NewPCG(opt.Seed, 0x5eed)), snapAir: map[int]float64{}, care: map[[2]int]*careMod{},
+		deathSlots: map[string]bool{}, envDays: map[int]bool{}, envHot: map[int]bool{}, envHumid: map[int]bool{},
+		envNH3: map[int]bool{}, heatPeak: map[int]bool{}}
 	// Season: cos over the period, 1 (winter) at both ends, −1 (summer) in the middle.
 	for i := range opt.Days {
 		s := math.Cos(2 * math.Pi * float64(i) / float64(opt.Days))
@@ -203,43 +248,58 @@ func newGen(opt Options) *gen {
 			k = hard
 		case s > 0.2:
 			k = freeze
+		case s < -0.9:
+			k = hot
 		}
 		g.kinds = append(g.kinds, k)
 	}
-	species := []string{"vulpes_vulpes", "vulpes_lagopus", "vulpes_vulpes", "neogale_vison"}
+	species := []string{redFox, arcticFox, redFox, mink}
+	baseMass := map[string]float64{redFox: 6.5, arcticFox: 4.5, mink: 1.4, dog: 22}
+	outdoor := opt.Animals - dogs
 	for i := range opt.Animals {
 		shed := i / cagesPerShed
 		sp := species[shed%len(species)]
-		c := cage{id: fmt.Sprintf("S%03d-%02d", shed+1, i%cagesPerShed+1), shed: fmt.Sprintf("S%03d", shed+1), species: sp,
-			lengthCm: 120, widthCm: 85, heightCm: 78, maxOcc: 1, nestBox: "yes", platform: "yes"}
-		if sp == "neogale_vison" {
+		c := cage{id: fmt.Sprintf("S%03d-%02d", shed+1, i%cagesPerShed+1), shed: fmt.Sprintf("S%03d", shed+1), species: sp, kind: "cage",
+			lengthCm: 120, widthCm: 85, heightCm: 78, maxOcc: 1, nestBox: "yes", platform: "yes", shade: "yes"}
+		if sp == mink {
 			c.lengthCm, c.widthCm, c.heightCm, c.platform = 70, 40, 46, "no"
+		}
+		length := ""
+		if i >= outdoor { // the kennel: indoor pens, no nest box or platform asked of dogs
+			sp, length = dog, "80" // 9 CFR §3.6(c)(1): (31.5 in + 6)² / 144 = 9.8 ft², 0.91 m²
+			c = cage{id: fmt.Sprintf("%s-%02d", kennel, i-outdoor+1), shed: kennel, species: sp, kind: "pen", indoor: true,
+				lengthCm: 180, widthCm: 120, heightCm: 180, maxOcc: 1, nestBox: "no", platform: "no"}
 		}
 		sex := "f"
 		if i%2 == 1 {
 			sex = "m"
 		}
-		g.animals = append(g.animals, animal{id: fmt.Sprintf("A%05d", i+1), species: sp, sex: sex, cage: i,
-			born: Start.AddDate(-2, 0, -(i % 90)), arrived: Start.AddDate(-1, -6, -(i % 60)), noHandlingFrom: -1})
+		mass := baseMass[sp] * (0.9 + 0.2*float64(i*37%100)/100)
+		g.animals = append(g.animals, animal{idx: i, id: fmt.Sprintf("A%05d", i+1), species: sp, sex: sex, cage: i,
+			born: Start.AddDate(-2, 0, -(i % 90)), arrived: Start.AddDate(-1, -6, -(i % 60)), noHandlingFrom: -1,
+			mass: strconv.FormatFloat(mass, 'f', 2, 64), length: length})
 		c.animals = []int{i}
 		g.cages = append(g.cages, c)
 	}
 	names := []string{"Wren Halloway", "Ives Marchetti", "Oona Brackley", "Tobin Ashgrove", "Sela Varnholt",
 		"Piet Okonedo", "Maren Coldwell", "Jory Teasdale", "Linnea Forsk", "Cato Rimmel"}
 	sheds := (opt.Animals + cagesPerShed - 1) / cagesPerShed
+	var team []string
 	for k := range max(1, (sheds+9)/10) {
 		id := fmt.Sprintf("K%02d", k+1)
 		g.keepers = append(g.keepers, id)
+		team = append(team, id)
 		g.staff = append(g.staff, person{id: id, name: names[k%len(names)] + suffix(k/len(names)), role: "keeper",
-			handling: day(0), primary: dayOf(Start.AddDate(-1, 0, 0))})
+			handling: day(0), primary: dayOf(Start.AddDate(-1, 0, 0)), risk: "3"})
 	}
 	g.staff = append(g.staff, person{id: "V01", name: "Dr Halvard Enqvist", role: "veterinarian", handling: day(0),
 		euthanasia: day(0), methods: "barbiturate_overdose;gunshot;cervical_dislocation;potassium_chloride",
-		primary: dayOf(Start.AddDate(-1, 0, 0))})
+		primary: dayOf(Start.AddDate(-1, 0, 0)), risk: "3"})
 	g.protocols = append(g.protocols, protocol{id: "HM-01", title: "Winter coat and husbandry study",
 		approved: dayOf(Start.AddDate(-1, 0, 0)), expires: dayOf(Start.AddDate(3, 0, 0)),
 		species: "vulpes_vulpes;vulpes_lagopus;neogale_vison", procedures: "weighing;health_check;vet_exam",
-		methods: "barbiturate_overdose"})
+		methods: "barbiturate_overdose", personnel: strings.Join(append(team, "V01"), ";"),
+		reviewed: dayOf(Start.AddDate(0, -2, 0)), pain: "C"})
 	return g
 }
 
@@ -307,18 +367,23 @@ func yes(b bool) string {
 func (g *gen) write(dir string) error {
 	var sb strings.Builder
 	sb.WriteString("name: Birchfall Fur Research Station, generated scale farm (invented)\ntime_zone: " + timeZone + "\nbuildings:\n")
-	for s := 0; s*cagesPerShed < len(g.cages); s++ {
+	for s := 0; s*cagesPerShed < len(g.cages)-dogs; s++ {
 		fmt.Fprintf(&sb, "  - {id: S%03d, exposure: outdoor, weather_site: %s}\n", s+1, site)
 	}
+	sb.WriteString("  - {id: " + kennel + ", exposure: indoor}\n")
 	sb.WriteString("weather_sites: [" + site + "]\n")
 	if err := os.WriteFile(filepath.Join(dir, "facility.yaml"), []byte(sb.String()), 0o644); err != nil {
 		return err
 	}
 	steps := []func(string) error{g.writeEnclosures, g.writeAnimals, g.writeStaff, g.writeProtocols,
 		g.writeCare, g.writeHandling, g.writeEvents("culls.csv", g.culls,
-			"culled_at", "animal_id", "staff_id", "reason", "method", "sedated", "death_confirmed", "confirmation", "protocol_id", "disposal"),
+			"culled_at", "animal_id", "staff_id", "reason", "method", "sedated", "death_confirmed", "confirmation", "protocol_id", "disposal", "anaesthetised"),
 		g.writeEvents("ppe_checks.csv", g.ppe, "checked_on", "item_id", "item", "assigned_to", "condition", "action"),
-		g.writeWeather, g.writeStints}
+		g.writeWeather, g.writeStints, g.writeObservations,
+		g.writeEvents("deaths.csv", g.deaths, "animal_id", "found_dead_at", "found_by", "suspected_cause", "vet_notified_at", "necropsy", "necropsy_ref", "disposal"),
+		g.writeEvents("treatments.csv", g.cases, "case_id", "animal_id", "opened_on", "diagnosis", "prescribed_by", "reviewed_on", "closed_on", "outcome"),
+		g.writeEvents("litters.csv", g.litters, "litter_id", "dam_id", "whelped_on", "born", "born_alive", "weaned_on", "weaned"),
+		g.writeEnvironment}
 	for _, step := range steps {
 		if err := step(dir); err != nil {
 			return err
@@ -328,18 +393,18 @@ func (g *gen) write(dir string) error {
 }
 
 func (g *gen) writeEnclosures(dir string) error {
-	c, err := create(dir, "enclosures.csv", "enclosure_id", "building_id", "kind", "length_cm", "width_cm", "height_cm", "max_occupants", "nest_box", "platform")
+	c, err := create(dir, "enclosures.csv", "enclosure_id", "building_id", "kind", "length_cm", "width_cm", "height_cm", "max_occupants", "nest_box", "platform", "shade")
 	if err != nil {
 		return err
 	}
 	for _, e := range g.cages {
-		c.row(e.id, e.shed, "cage", strconv.Itoa(e.lengthCm), strconv.Itoa(e.widthCm), strconv.Itoa(e.heightCm), strconv.Itoa(e.maxOcc), e.nestBox, e.platform)
+		c.row(e.id, e.shed, e.kind, strconv.Itoa(e.lengthCm), strconv.Itoa(e.widthCm), strconv.Itoa(e.heightCm), strconv.Itoa(e.maxOcc), e.nestBox, e.platform, e.shade)
 	}
 	return c.close()
 }
 
 func (g *gen) writeAnimals(dir string) error {
-	c, err := create(dir, "animals.csv", "animal_id", "species", "sex", "born_on", "arrived_on", "left_on", "left_reason", "enclosure_id", "protocol_id")
+	c, err := create(dir, "animals.csv", "animal_id", "species", "sex", "born_on", "arrived_on", "left_on", "left_reason", "enclosure_id", "protocol_id", "length_cm")
 	if err != nil {
 		return err
 	}
@@ -348,54 +413,84 @@ func (g *gen) writeAnimals(dir string) error {
 		if a.leftOn > 0 {
 			left = day(a.leftOn - 1)
 		}
-		c.row(a.id, a.species, a.sex, dayOf(a.born), dayOf(a.arrived), left, a.leftReason, g.cages[a.cage].id, a.protocol)
+		c.row(a.id, a.species, a.sex, dayOf(a.born), dayOf(a.arrived), left, a.leftReason, g.cages[a.cage].id, a.protocol, a.length)
 	}
 	return c.close()
 }
 
 func (g *gen) writeStaff(dir string) error {
 	c, err := create(dir, "staff.csv", "staff_id", "name", "role", "active_to", "handling_trained_on", "euthanasia_trained_on",
-		"euthanasia_methods", "rabies_primary_on", "rabies_titer_on", "rabies_titer_iu_ml", "respirator_fit_on")
+		"euthanasia_methods", "rabies_primary_on", "rabies_titer_on", "rabies_titer_iu_ml", "respirator_fit_on", "rabies_risk_category")
 	if err != nil {
 		return err
 	}
 	for _, p := range g.staff {
-		c.row(p.id, p.name, p.role, p.activeTo, p.handling, p.euthanasia, p.methods, p.primary, p.titerOn, p.titer, p.respFit)
+		c.row(p.id, p.name, p.role, p.activeTo, p.handling, p.euthanasia, p.methods, p.primary, p.titerOn, p.titer, p.respFit, p.risk)
 	}
 	return c.close()
 }
 
 func (g *gen) writeProtocols(dir string) error {
-	c, err := create(dir, "protocols.csv", "protocol_id", "title", "approved_on", "expires_on", "species", "max_animals", "procedures", "euthanasia_methods")
+	c, err := create(dir, "protocols.csv", "protocol_id", "title", "approved_on", "expires_on", "species", "max_animals", "procedures", "euthanasia_methods",
+		"personnel", "last_reviewed_on", "pain_category")
 	if err != nil {
 		return err
 	}
 	for _, p := range g.protocols {
-		c.row(p.id, p.title, p.approved, p.expires, p.species, p.maxAnimals, p.procedures, p.methods)
+		c.row(p.id, p.title, p.approved, p.expires, p.species, p.maxAnimals, p.procedures, p.methods, p.personnel, p.reviewed, p.pain)
 	}
 	return c.close()
 }
 
-// cold reports whether day i needs two water checks (minimum air below 0 °C).
-func (g *gen) cold(i int) bool { return g.kinds[i] != warm }
+// twoChecks reports whether day i needs two water checks: minimum air below
+// 0 °C, or maximum air at or above 25 °C.
+func (g *gen) twoChecks(i int) bool { return g.kinds[i] != warm }
+
+// cleanDay reports whether cage ci is cleaned on day i in the baseline: weekly.
+func cleanDay(ci, i int) bool { return (ci+i)%7 == 0 }
 
 func (g *gen) keeperOf(c int) string { return g.keepers[c/cagesPerShed/10] }
 
 func (g *gen) writeCare(dir string) error {
-	c, err := create(dir, "daily_care.csv", "checked_at", "enclosure_id", "staff_id", "observed", "fed", "water", "water_restored", "bedding_added", "health_concern", "concern_animal_id")
+	c, err := create(dir, "daily_care.csv", "checked_at", "enclosure_id", "staff_id", "observed", "fed", "water", "water_restored", "bedding_added", "health_concern", "concern_animal_id", "cleaned")
 	if err != nil {
 		return err
 	}
+	// The baseline rows of a cage, written whole: the round's time, then
+	// these cells (the morning's ends with its cleaned cell).
+	amCells, pmCells := make([]string, len(g.cages)), make([]string, len(g.cages))
+	for ci := range g.cages {
+		amCells[ci] = "," + g.cages[ci].id + "," + g.keeperOf(ci) + ",yes,yes,ok,,yes,no,,"
+		pmCells[ci] = "," + g.cages[ci].id + "," + g.keeperOf(ci) + ",yes,no,ok,,no,no,,no\n"
+	}
+	// The changed rounds by day, so the baseline needs no look-up.
+	mods := make([]map[int]*careMod, g.opt.Days)
+	for k, m := range g.care {
+		if mods[k[1]] == nil {
+			mods[k[1]] = map[int]*careMod{}
+		}
+		mods[k[1]][k[0]] = m
+	}
 	for i := range g.opt.Days {
 		am, pm := stamp(i, "07:30"), stamp(i, "15:30")
+		two := g.twoChecks(i)
 		for ci := range g.cages {
 			e := &g.cages[ci]
 			k := g.keeperOf(ci)
-			m := g.care[[2]int{ci, i}]
+			m := mods[i][ci]
 			if m == nil {
-				c.row(am, e.id, k, "yes", "yes", "ok", "", "yes", "no", "")
-				if g.cold(i) {
-					c.row(pm, e.id, k, "yes", "no", "ok", "", "no", "no", "")
+				c.w.WriteString(am)
+				c.w.WriteString(amCells[ci])
+				if cleanDay(ci, i) {
+					c.w.WriteString("yes\n")
+				} else {
+					c.w.WriteString("no\n")
+				}
+				c.line++
+				if two {
+					c.w.WriteString(pm)
+					c.w.WriteString(pmCells[ci])
+					c.line++
 				}
 				continue
 			}
@@ -404,12 +499,12 @@ func (g *gen) writeCare(dir string) error {
 				water, restored = "empty", "no"
 			}
 			concern := m.concern != ""
-			c.row(am, e.id, k, yes(!m.noObserve), yes(!m.noFeed), water, restored, yes(!m.noBedding), yes(concern), m.concern)
-			if g.cold(i) && !m.skipPM {
-				c.row(pm, e.id, k, yes(!m.noObserve), "no", "ok", "", "no", "no", "")
+			c.row(am, e.id, k, yes(!m.noObserve), yes(!m.noFeed), water, restored, yes(!m.noBedding), yes(concern), m.concern, yes(cleanDay(ci, i) && !m.noClean))
+			if g.twoChecks(i) && !m.skipPM {
+				c.row(pm, e.id, k, yes(!m.noObserve), "no", "ok", "", "no", "no", "", "no")
 			}
 			if m.rejected != nil {
-				line := c.row(stamp(i, "19:00"), e.id, k, "yes", "no", "frozn", "", "no", "no", "")
+				line := c.row(stamp(i, "19:00"), e.id, k, "yes", "no", "frozn", "", "no", "no", "", "no")
 				m.rejected.Subject = fmt.Sprintf("daily_care.csv:%d", line)
 			}
 		}
@@ -471,15 +566,21 @@ func (g *gen) writeEvents(name string, evs []event, header ...string) func(strin
 	}
 }
 
-// Reading hours and the shape of the day: coldest at 06:00.
+// Reading hours and the shape of the day: coldest at 06:00, warmest and
+// driest at 15:00.
 var (
-	readingHours = [8]int{0, 3, 6, 9, 12, 15, 18, 21}
-	warmthShape  = [8]float64{3, 1, 0, 2, 6, 8, 5, 4} // °C above the day's minimum
+	readingHours  = [8]int{0, 3, 6, 9, 12, 15, 18, 21}
+	warmthShape   = [8]float64{3, 1, 0, 2, 6, 8, 5, 4}         // °C above the day's minimum
+	humidityShape = [8]float64{70, 75, 78, 65, 50, 45, 55, 65} // relative humidity, %
 )
 
-// air and wind of day i at reading h (0..7).
-func (g *gen) reading(i, h int) (air, wind float64) {
-	wind = 10
+// reading is the air, wind and humidity of day i at reading h (0..7). The
+// warmest reading of a warm day is below 23 °C, so its heat index stays
+// below 25 °C; the warmest of a hot day is 28 °C at 45 % (heat index about
+// 28 °C, below the 32 °C extreme caution line); a planted heat peak is 35 °C
+// at 50 % (heat index about 41 °C).
+func (g *gen) reading(i, h int) (air, wind, humidity float64) {
+	wind, humidity = 10, humidityShape[h]
 	var low float64
 	switch g.kinds[i] {
 	case hard:
@@ -487,27 +588,83 @@ func (g *gen) reading(i, h int) (air, wind float64) {
 		if h == 2 {
 			wind = 20
 			if a, ok := g.snapAir[i]; ok {
-				return a, wind
+				return a, wind, humidity
 			}
 		}
 	case freeze:
 		low = -5
+	case hot:
+		low = 20
+		if h == 5 && g.heatPeak[i] {
+			return 35, wind, 50
+		}
 	default:
 		s := math.Cos(2 * math.Pi * float64(i) / float64(g.opt.Days))
 		low = 2 + 14*math.Min(1, (0.2-s)/1.2)
 	}
-	return math.Round((low+warmthShape[h])*10) / 10, wind
+	return math.Round((low+warmthShape[h])*10) / 10, wind, humidity
 }
 
 func (g *gen) writeWeather(dir string) error {
-	c, err := create(dir, "weather.csv", "observed_at", "site_id", "air_temp_c", "wind_kmh")
+	c, err := create(dir, "weather.csv", "observed_at", "site_id", "air_temp_c", "wind_kmh", "humidity_pct")
 	if err != nil {
 		return err
 	}
 	for i := range g.opt.Days {
 		for h, hour := range readingHours {
-			air, wind := g.reading(i, h)
-			c.row(stamp(i, fmt.Sprintf("%02d:00", hour)), site, strconv.FormatFloat(air, 'f', 1, 64), strconv.Itoa(int(wind)))
+			air, wind, humidity := g.reading(i, h)
+			c.row(stamp(i, fmt.Sprintf("%02d:00", hour)), site, strconv.FormatFloat(air, 'f', 1, 64), strconv.Itoa(int(wind)), strconv.Itoa(int(humidity)))
+		}
+	}
+	return c.close()
+}
+
+// writeEnvironment writes the kennel's readings every three hours: 17.5 to
+// 19.5 °C, 50 % humidity, 6 ppm ammonia, with the planted spells and peaks.
+func (g *gen) writeEnvironment(dir string) error {
+	c, err := create(dir, "environment.csv", "observed_at", "building_id", "air_temp_c", "humidity_pct", "ammonia_ppm")
+	if err != nil {
+		return err
+	}
+	shape := [8]string{"18.0", "17.5", "17.5", "18.0", "19.0", "19.5", "19.0", "18.5"}
+	for i := range g.opt.Days {
+		for h, hour := range readingHours {
+			air, humidity, nh3 := shape[h], "50", "6"
+			if g.envHot[i] && (h == 4 || h == 5) {
+				air = "31.0" // above 29.5 °C from 12:00 to the 18:00 reading back in range: 6 h
+			}
+			if g.envHumid[i] && h == 4 {
+				humidity = "78"
+			}
+			if g.envNH3[i] && h == 4 {
+				nh3 = "32"
+			}
+			c.row(stamp(i, fmt.Sprintf("%02d:00", hour)), kennel, air, humidity, nh3)
+		}
+	}
+	return c.close()
+}
+
+// writeObservations writes every animal's weighing (mass and body
+// condition 3 of 5) on the day of its baseline handling weighing, and the
+// planted observations.
+func (g *gen) writeObservations(dir string) error {
+	c, err := create(dir, "observations.csv", "observed_at", "animal_id", "staff_id", "mass_kg", "body_condition", "signs", "vet_informed", "notes")
+	if err != nil {
+		return err
+	}
+	extra := byDay(g.obs)
+	for i := range g.opt.Days {
+		at := stamp(i, "10:00")
+		for ai := i % 30; ai < len(g.animals); ai += 30 {
+			a := &g.animals[ai]
+			if a.noHandlingFrom >= 0 && i >= a.noHandlingFrom {
+				continue
+			}
+			c.row(at, a.id, g.keeperOf(a.cage), a.mass, "3", "", "", "")
+		}
+		for _, e := range extra[i] {
+			c.row(e.row...)
 		}
 	}
 	return c.close()

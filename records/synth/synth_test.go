@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"testing"
@@ -16,12 +17,34 @@ import (
 )
 
 // TestFindingsEqualPlanted runs the checker with the shipped rules and limits
-// on a generated folder (200 animals over 60 days: a hard-cold, a freezing
-// and a warm stretch) and requires its findings to be exactly the planted
-// list, which the generator builds by construction, not by checking.
+// on generated folders and requires their findings to be exactly the planted
+// list, which the generator builds by construction, not by checking. The
+// sizes cover the smallest folder, a short winter-to-summer period (a
+// hard-cold, a freezing, a warm and a hot stretch in 60 days), and full
+// years at one and two plants per kind; -short keeps the small ones.
 func TestFindingsEqualPlanted(t *testing.T) {
+	for _, tc := range []struct {
+		opt   synth.Options
+		short bool
+	}{
+		{synth.Options{Animals: 200, Days: 60, Seed: 1}, true},
+		{synth.Options{Animals: synth.MinAnimals, Days: synth.MinDays, Seed: 3}, true},
+		{synth.Options{Animals: 400, Days: 90, Seed: 4}, true},
+		{synth.Options{Animals: 1000, Days: 365, Seed: 7}, false},
+		{synth.Options{Animals: 5000, Days: 60, Seed: 5}, false},
+	} {
+		t.Run(fmt.Sprintf("animals=%d/days=%d/seed=%d", tc.opt.Animals, tc.opt.Days, tc.opt.Seed), func(t *testing.T) {
+			if testing.Short() && !tc.short {
+				t.Skip("a year of a large farm: run without -short")
+			}
+			findingsEqualPlanted(t, tc.opt)
+		})
+	}
+}
+
+func findingsEqualPlanted(t *testing.T, opt synth.Options) {
 	dir := t.TempDir()
-	planted, err := synth.Generate(dir, synth.Options{Animals: 200, Days: 60, Seed: 1})
+	planted, err := synth.Generate(dir, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
