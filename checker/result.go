@@ -63,11 +63,14 @@ type SiteDays struct {
 	Days []DayCold
 }
 
-// DayCold is one day at one site: the lowest air temperature and the lowest
-// wind chill among that day's readings (°C). Readings is 0 on a day with none.
+// DayCold is one day at one site: the lowest air temperature among that
+// day's readings and the lowest wind chill among its readings with wind
+// (°C). Readings is 0 on a day with none; WindReadings counts the readings
+// with wind, and MinWindChillC means nothing when it is 0.
 type DayCold struct {
 	Day           records.Day
 	MinAirC       float64
 	MinWindChillC float64
 	Readings      int
+	WindReadings  int
 }

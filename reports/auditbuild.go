@@ -108,7 +108,7 @@ func hasWeather(r *checker.Result) bool {
 	edge := hazardBands()[0].Hi
 	for _, s := range r.Weather {
 		for _, d := range s.Days {
-			if d.Readings > 0 && d.MinWindChillC <= edge {
+			if d.WindReadings > 0 && d.MinWindChillC <= edge {
 				return true
 			}
 		}

@@ -127,8 +127,11 @@ func (b *auditBuilder) coldChart(s checker.SiteDays) *DayChart {
 		if x.Day < from || x.Day > to {
 			continue
 		}
-		lo = min(lo, x.MinAirC, x.MinWindChillC)
-		hi = max(hi, x.MinAirC, x.MinWindChillC)
+		lo, hi = min(lo, x.MinAirC), max(hi, x.MinAirC)
+		if x.WindReadings == 0 {
+			continue // no wind chill: a reading without wind is not calm
+		}
+		lo, hi = min(lo, x.MinWindChillC), max(hi, x.MinWindChillC)
 		if coldest == nil || x.MinWindChillC < coldest.MinWindChillC {
 			coldest = x
 		}
@@ -152,7 +155,9 @@ func (b *auditBuilder) coldChart(s checker.SiteDays) *DayChart {
 	for day := from; day <= to; day++ {
 		if x, ok := byDay[day]; ok {
 			air.Points = append(air.Points, Point{Day: day, Value: x.MinAirC})
-			chill.Points = append(chill.Points, Point{Day: day, Value: x.MinWindChillC})
+			if x.WindReadings > 0 {
+				chill.Points = append(chill.Points, Point{Day: day, Value: x.MinWindChillC})
+			}
 		}
 	}
 	yMin := math.Floor((lo-2)/5) * 5
