@@ -26,12 +26,19 @@ func TestValueMissingEndToEnd(t *testing.T) {
 		name   string
 		change func(*records.Set)
 		want   []row
+		// The checks evaluated only in part, as the reports print them.
+		partial []string
 	}{
 		{"the cold week as recorded", func(*records.Set) {}, []row{
 			{"cold.bedding.stale", "N-02", "2026-01-11", "2026-01-13"},
 			{"cold.work.over_limit", "K-ORVO", "2026-01-13", ""},
 			{"cold.work.should_cease", "K-LISA", "2026-01-13", ""},
 			yard14,
+		}, []string{
+			"cold.water.checks_insufficient: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.bedding.stale: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.shelter.missing: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.frostbite.risk: 1 of 5 site-days not judged (no reading)",
 		}},
 		// 9 CFR §3.6(c)(1): a dam's area needs her length; a 31 kg dam with
 		// litter in a 30 × 30 cm run used to need 0 m² and pass.
@@ -46,6 +53,12 @@ func TestValueMissingEndToEnd(t *testing.T) {
 			{"cold.work.should_cease", "K-LISA", "2026-01-13", ""},
 			{"records.value.missing", "B-02", "2026-01-10", "2026-01-14"},
 			yard14,
+		}, []string{
+			"enclosure.space.insufficient: 5 of 20 occupied enclosure-days not judged (no length_cm for an occupant of a formula species)",
+			"cold.water.checks_insufficient: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.bedding.stale: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.shelter.missing: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.frostbite.risk: 1 of 5 site-days not judged (no reading)",
 		}},
 		// A stint's reading days old is not in force; it used to be judged
 		// on the nearest reading (here: 20 h before, at −40 °C: "cease").
@@ -59,6 +72,13 @@ func TestValueMissingEndToEnd(t *testing.T) {
 			{"cold.work.should_cease", "K-LISA", "2026-01-13", ""},
 			{"records.value.missing", "K-LISA", "2026-01-14", ""},
 			yard14,
+		}, []string{
+			"cold.water.checks_insufficient: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.bedding.stale: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.shelter.missing: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.frostbite.risk: 1 of 5 site-days not judged (no reading)",
+			"cold.work.over_limit: 1 of 4 stints not judged (no reading within 3 h)",
+			"cold.work.should_cease: 1 of 4 stints not judged (no reading within 3 h)",
 		}},
 		// A reading without wind is not calm: K-LISA's 12:20 stint at
 		// −40 °C is not judged on the calm column, and 01-12 (both
@@ -76,6 +96,13 @@ func TestValueMissingEndToEnd(t *testing.T) {
 			{"records.value.missing", "K-LISA", "2026-01-13", ""},
 			{"records.value.missing", "YARD", "2026-01-12", ""},
 			yard14,
+		}, []string{
+			"cold.water.checks_insufficient: 2 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no reading at the site)",
+			"cold.bedding.stale: 4 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (2 with no reading with wind at the site; 2 with no reading at the site)",
+			"cold.shelter.missing: 4 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (2 with no reading with wind at the site; 2 with no reading at the site)",
+			"cold.frostbite.risk: 2 of 5 site-days not judged (1 with readings without wind only; 1 with no reading)",
+			"cold.work.over_limit: 1 of 3 stints not judged (a reading without wind)",
+			"cold.work.should_cease: 1 of 3 stints not judged (a reading without wind)",
 		}},
 		// An outdoor building without weather_site: its cold checks used
 		// to be off without a word.
@@ -86,6 +113,11 @@ func TestValueMissingEndToEnd(t *testing.T) {
 			{"cold.work.should_cease", "K-LISA", "2026-01-13", ""},
 			{"records.value.missing", "SHED-N", "2026-01-10", "2026-01-14"},
 			yard14,
+		}, []string{
+			"cold.water.checks_insufficient: 10 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no weather_site for the building)",
+			"cold.bedding.stale: 10 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no weather_site for the building)",
+			"cold.shelter.missing: 10 of 10 occupied enclosure-days in outdoor or sheltered buildings not judged (no weather_site for the building)",
+			"cold.frostbite.risk: 1 of 5 site-days not judged (no reading)",
 		}},
 	}
 	for _, tc := range tests {
@@ -113,6 +145,13 @@ func TestValueMissingEndToEnd(t *testing.T) {
 			slices.SortFunc(tc.want, less)
 			if diff := gocmp.Diff(tc.want, got); diff != "" {
 				t.Errorf("findings (-want +got):\n%s", diff)
+			}
+			partial := []string{}
+			for _, p := range res.Partial {
+				partial = append(partial, p.String())
+			}
+			if diff := gocmp.Diff(tc.partial, partial); diff != "" {
+				t.Errorf("evaluated in part (-want +got):\n%s", diff)
 			}
 		})
 	}

@@ -17,6 +17,9 @@ type Result struct {
 	// Checks lists every check that was in force (evaluated or not), sorted by id.
 	Checks       []CheckInfo
 	NotEvaluated []Skipped
+	// Partial lists the checks evaluated only in part: items they could not
+	// judge for a missing value (records.value.missing), counted.
+	Partial []Partial
 	// Limits are the limits in force, one line per value, with the source tag
 	// from its comment in the limits file.
 	Limits []LimitLine
