@@ -80,7 +80,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("cold and heat checks of the %s building's enclosures not judged on %d day(s): facility.yaml names no weather_site for it", [input.exposure, r.days]),
+		"message": sprintf("cold and heat checks of the %s building's enclosures not judged on %s: facility.yaml names no weather_site for it", [input.exposure, days_text(r.days)]),
 		"evidence": building_evidence,
 	}
 }
@@ -97,7 +97,17 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("wind-chill checks (cold.bedding.stale, cold.shelter.missing, cold.frostbite.risk) not judged on %d day(s): no reading with wind (%d of them with readings without wind)", [r.days, r.days_with_readings_without_wind]),
+		"message": sprintf("wind-chill checks (cold.bedding.stale, cold.shelter.missing, cold.frostbite.risk) not judged on %s without a reading with wind (%s)", [days_text(r.days), windless_text(r)]),
 		"evidence": r.evidence,
 	}
 }
+
+days_text(n) := "1 day" if n == 1
+
+else := sprintf("%d days", [n])
+
+windless_text(r) := "no reading at all" if r.days_with_readings_without_wind == 0
+
+else := "every reading without wind" if r.days_with_readings_without_wind == r.days
+
+else := sprintf("%d with readings, none with wind; the others without any reading", [r.days_with_readings_without_wind])

@@ -82,7 +82,7 @@ test_outdoor_building_without_weather_site_fires if {
 	fs := missing.findings with input as building(null)
 	fs == {{
 		"check": "records.value.missing", "subject": "S9", "on": "2026-01-01", "until": "2026-01-31",
-		"message": "cold and heat checks of the outdoor building's enclosures not judged on 31 day(s): facility.yaml names no weather_site for it",
+		"message": "cold and heat checks of the outdoor building's enclosures not judged on 31 days: facility.yaml names no weather_site for it",
 		"evidence": ["facility.yaml:30"],
 	}}
 }
@@ -102,9 +102,15 @@ test_site_days_without_wind_fire if {
 	f.on == "2026-01-05"
 	f.until == "2026-01-06"
 	contains(f.message, "cold.frostbite.risk")
-	contains(f.message, "no reading with wind (2 of them with readings without wind)")
+	f.message == "wind-chill checks (cold.bedding.stale, cold.shelter.missing, cold.frostbite.risk) not judged on 2 days without a reading with wind (every reading without wind)"
 }
 
 test_site_with_wind_every_day_is_quiet if {
 	count(missing.findings) == 0 with input as site([])
+}
+
+test_site_day_without_any_reading_says_so if {
+	some f in missing.findings with input as site([{"from": "2026-01-14", "until": "2026-01-14", "days": 1, "days_with_readings_without_wind": 0, "evidence": []}])
+	f.message == "wind-chill checks (cold.bedding.stale, cold.shelter.missing, cold.frostbite.risk) not judged on 1 day without a reading with wind (no reading at all)"
+	f.evidence == []
 }

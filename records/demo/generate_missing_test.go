@@ -19,7 +19,7 @@ import (
 )
 
 const (
-	windlessDay   = 18   // MAST's readings without wind
+	windlessDay   = 18 // MAST's readings without wind
 	unmeasuredDog = "DG-02"
 	siteless      = "S1" // an outdoor shed without weather_site
 )
