@@ -105,7 +105,8 @@ type jsonContract struct {
 		Check  string `json:"check"`
 		Reason string `json:"reason"`
 	} `json:"not_evaluated"`
-	Warnings []struct {
+	EvaluatedInPart []reports.JSONPartial `json:"evaluated_in_part"`
+	Warnings        []struct {
 		File    string `json:"file"`
 		Column  string `json:"column"`
 		Message string `json:"message"`
@@ -130,6 +131,8 @@ type checkContract struct {
 
 func TestWriteJSONRoundTrip(t *testing.T) {
 	r := sampleResult(320)
+	r.Partial = []checker.Partial{{Check: "cold.work.over_limit", NotJudged: 3, Total: 128, Unit: "stints",
+		Why: []checker.Reason{{Reason: "no reading within 3 h", Count: 2}, {Reason: "a reading without wind", Count: 1}}}}
 	var b bytes.Buffer
 	if err := reports.WriteJSON(&b, r); err != nil {
 		t.Fatal(err)
@@ -188,6 +191,9 @@ func TestWriteJSONRoundTrip(t *testing.T) {
 			Reason string `json:"reason"`
 		}{s.Check, s.Reason})
 	}
+	want.EvaluatedInPart = []reports.JSONPartial{{Check: "cold.work.over_limit", NotJudged: 3, Total: 128, Unit: "stints",
+		Why:  []reports.JSONReason{{Reason: "no reading within 3 h", Count: 2}, {Reason: "a reading without wind", Count: 1}},
+		Text: "cold.work.over_limit: 3 of 128 stints not judged (2 with no reading within 3 h; 1 with a reading without wind)"}}
 	for _, w := range r.Warnings {
 		want.Warnings = append(want.Warnings, struct {
 			File    string `json:"file"`
