@@ -134,6 +134,11 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		}
 	}
 	SortFindings(res.Findings)
+	inForce := map[string]bool{}
+	for _, c := range res.Checks {
+		inForce[c.ID] = !skipped[c.ID] && (len(only) == 0 || only[c.Domain]) && !cfg.Engine.off(c.ID)
+	}
+	res.Partial = f.partials(func(id string) bool { return inForce[id] })
 	f.addFigures(res, cfg.Only)
 	if err := correctionPass(ctx, cfg, set, res, firstPass, skipped, only); err != nil {
 		return nil, err

@@ -14,8 +14,9 @@
 // METADATA. Check loads the folder through a capturing file system, so the
 // result's fingerprint covers exactly the bytes read; computes the facts;
 // evaluates; and returns a Result with everything a report needs
-// (findings, what was not evaluated, row accounting, care coverage, the
-// weather chart, the limits in force, the chart site of each subject).
+// (findings, what was not evaluated or evaluated only in part, row
+// accounting, care coverage, the weather chart, the limits in force, the
+// chart site of each subject).
 //
 // # Go measures, Rego judges
 //
@@ -44,6 +45,7 @@
 //	findings.go     decoding findings, collapsing runs, the report order
 //	rulestest.go    the rules' own _test.rego tests
 //	fingerprint.go  the SHA-256 over records, rules and limits as read
+//	partial.go      the checks evaluated only in part (Result.Partial), counted from the facts
 //	result.go, finding.go  what reports render
 //
 // # Add a field to a rule input

@@ -1,6 +1,7 @@
 package checker
 
 import (
+	"fmt"
 	"sort"
 	"time"
 
@@ -49,22 +50,25 @@ type siteWeather struct {
 	coldestAir []*records.Weather
 }
 
-// day returns the site's figures for day d and whether it had readings.
-func (s *siteWeather) day(p Period, d records.Day) (DayCold, *records.Weather, bool) {
+// day returns the site's figures for day d and whether it had readings
+// (the air-temperature figures are known).
+func (s *siteWeather) day(p Period, d records.Day) (DayCold, bool) {
+	if s == nil || d < p.From || d > p.To {
+		return DayCold{}, false
+	}
+	return s.days[int(d-p.From)], s.days[int(d-p.From)].Readings > 0
+}
+
+// windDay returns the site's figures for day d, the reading that gave its
+// minimum wind chill, and whether a reading of the day had wind (the
+// wind-chill figures are known). A reading without wind is not calm: it
+// has no wind chill (checks.md, second-set clarifications).
+func (s *siteWeather) windDay(p Period, d records.Day) (DayCold, *records.Weather, bool) {
 	if s == nil || d < p.From || d > p.To {
 		return DayCold{}, nil, false
 	}
 	i := int(d - p.From)
-	return s.days[i], s.coldestWC[i], s.days[i].Readings > 0
-}
-
-// readingWindChill is the 2001 index for a reading; a reading without a wind
-// measurement counts as calm, so its wind chill is the air temperature.
-func readingWindChill(w *records.Weather) float64 {
-	if w.WindKmh == nil {
-		return w.AirTempC
-	}
-	return cold.WindChillC(w.AirTempC, *w.WindKmh)
+	return s.days[i], s.coldestWC[i], s.days[i].WindReadings > 0
 }
 
 func (f *facts) coldFacts() {
@@ -78,6 +82,7 @@ func (f *facts) coldFacts() {
 	}
 	f.enclosureColdFacts(byID)
 	f.stintColdFacts(byID)
+	f.buildingWeatherFacts()
 }
 
 // weatherSites gathers the sites named by facility.yaml, its buildings and
@@ -123,9 +128,12 @@ func (f *facts) weatherSites() []*siteWeather {
 			}
 			i := int(d - f.period.From)
 			dc := &s.days[i]
-			wc := readingWindChill(w)
-			if dc.Readings == 0 || wc < dc.MinWindChillC {
-				dc.MinWindChillC, s.coldestWC[i] = wc, w
+			if w.WindKmh != nil {
+				wc := cold.WindChillC(w.AirTempC, *w.WindKmh)
+				if dc.WindReadings == 0 || wc < dc.MinWindChillC {
+					dc.MinWindChillC, s.coldestWC[i] = wc, w
+				}
+				dc.WindReadings++
 			}
 			if dc.Readings == 0 || w.AirTempC < dc.MinAirC {
 				dc.MinAirC, s.coldestAir[i] = w.AirTempC, w
@@ -140,9 +148,10 @@ func (f *facts) weatherSites() []*siteWeather {
 
 // coldDayDoc is one day at a site as the cold rules see it: its lowest
 // wind chill (unrounded, and as charted), the reading that gave it, its air
-// and wind, and the hazard band. ok is false on a day without readings.
+// and wind, and the hazard band. ok is false on a day without a reading
+// with wind.
 func (f *facts) coldDayDoc(s *siteWeather, d records.Day) (map[string]any, *records.Weather, bool) {
-	dc, w, ok := s.day(f.period, d)
+	dc, w, ok := s.windDay(f.period, d)
 	if !ok {
 		return nil, nil, false
 	}
@@ -157,28 +166,55 @@ func (f *facts) coldDayDoc(s *siteWeather, d records.Day) (map[string]any, *reco
 	}, w, true
 }
 
-// siteColdFacts adds a site's days at or below the frostbite limit and its
-// days without readings.
+// siteColdFacts adds a site's days at or below the frostbite limit, its
+// days without readings, and its days without a reading with wind (the
+// wind-chill checks cannot judge them), each run with how many of its days
+// had readings, none of them with wind.
 func (f *facts) siteColdFacts(s *siteWeather) {
-	frost, missing := []any{}, []any{}
-	var missRun dayRun
+	frost, missing, windless := []any{}, []any{}, []any{}
+	var missRun, windRun dayRun
 	limit := f.lim.Cold.FrostbiteWindChill
+	windlessRun := func(from, to records.Day) map[string]any {
+		m := spanRun(from, to)
+		n, refs := 0, []any{}
+		for d := from; d <= to; d++ {
+			if dc, _ := s.day(f.period, d); dc.Readings > 0 {
+				n++
+			}
+		}
+		for _, w := range s.readings {
+			if d := records.DayOf(w.At); d >= from && d <= to && len(refs) < 3 {
+				refs = append(refs, string(w.Ref))
+			}
+		}
+		m["days_with_readings_without_wind"] = n
+		m["evidence"] = refs
+		return m
+	}
 	for d := f.period.From; d <= f.period.To; d++ {
+		_, hasAir := s.day(f.period, d)
 		day, _, ok := f.coldDayDoc(s, d)
 		if ok && day["min_wind_chill_c"].(float64) <= limit {
 			frost = append(frost, day)
 		}
-		if from, to, done := missRun.step(d, !ok); done {
+		if from, to, done := missRun.step(d, !hasAir); done {
 			missing = append(missing, spanRun(from, to))
+		}
+		if from, to, done := windRun.step(d, !ok); done {
+			windless = append(windless, windlessRun(from, to))
 		}
 	}
 	if from, to, done := missRun.flush(); done {
 		missing = append(missing, spanRun(from, to))
 	}
+	if from, to, done := windRun.flush(); done {
+		windless = append(windless, windlessRun(from, to))
+	}
 	f.doc("site", s.id)["cold"] = map[string]any{
 		"readings_recorded":                f.set.Present["weather.csv"],
 		"days_at_or_below_frostbite_limit": frost,
 		"days_without_readings":            missing,
+		"days_without_wind_readings":       windless,
 	}
 }
 
@@ -264,13 +300,16 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				}
 			}
 			for d := seg.From; d <= seg.To; d++ {
-				dc, _, ok := s.day(f.period, d)
+				dc, ok := s.day(f.period, d)
 				if from, to, done := unknownRun.step(d, !ok); done {
 					unknown = append(unknown, spanRun(from, to))
 				}
 				if !ok {
 					continue
 				}
+				// The wind-chill checks judge only days with a reading with
+				// wind; the water check needs the air temperature alone.
+				_, _, windOK := s.windDay(f.period, d)
 				if checks := int(c.on(e.ID, e.BuildingID, d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
 					air := s.coldestAir[d-f.period.From]
 					water = append(water, map[string]any{
@@ -280,7 +319,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				}
 				last := bed.last(e.ID, e.BuildingID, d)
 				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
-				if cold && (last == 0 || int(d-last) >= lc.BeddingDays) {
+				if windOK && cold && (last == 0 || int(d-last) >= lc.BeddingDays) {
 					day, w, _ := f.coldDayDoc(s, d)
 					day["min_air_c"] = dc.MinAirC
 					day["bedding_below_c"], day["more_bedding_at_or_below_c"] = num(bedBelow), num(moreBelow)
@@ -291,7 +330,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 					day["evidence"] = refs(e.Ref, w.Ref)
 					bedding = append(bedding, day)
 				}
-				if dc.MinWindChillC <= lc.ShelterWindChill && !e.NestBox.IsYes() {
+				if windOK && dc.MinWindChillC <= lc.ShelterWindChill && !e.NestBox.IsYes() {
 					day, w, _ := f.coldDayDoc(s, d)
 					day["needs_nest_box"] = needsNest
 					day["needs_shelter"] = needsShelter
@@ -316,38 +355,25 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 	}
 }
 
-// readingInForce is the reading that describes conditions at time t: the
-// latest at or before t when it is no older than within, else the nearest
-// one either side. ok is false when the site has no readings at all.
-func readingInForce(rs []*records.Weather, t time.Time, within time.Duration) (w *records.Weather, ok bool) {
+// latestReading is the latest reading at or before t, whatever its age
+// (the rules compare its age with cold.reading_within_hours: a reading
+// exactly that many hours before still describes the stint). ok is false
+// when the site has no reading at or before t; a reading after the start
+// never stands in for one.
+func latestReading(rs []*records.Weather, t time.Time) (w *records.Weather, ok bool) {
 	i := sort.Search(len(rs), func(i int) bool { return rs[i].At.After(t) })
-	var before, after *records.Weather
-	if i > 0 {
-		before = rs[i-1]
-	}
-	if i < len(rs) {
-		after = rs[i]
-	}
-	switch {
-	case before != nil && t.Sub(before.At) <= within:
-		return before, true
-	case before == nil && after == nil:
+	if i == 0 {
 		return nil, false
-	case before == nil:
-		return after, true
-	case after == nil:
-		return before, true
-	case after.At.Sub(t) < t.Sub(before.At):
-		return after, true
 	}
-	return before, true
+	return rs[i-1], true
 }
 
 // stintColdFacts adds each staff member's outdoor stints in the period with
-// the reading in force at the start and the work/warm-up step it gives.
+// the latest reading at or before the start, its age, and the work/warm-up
+// step it gives (unknown when the reading has no wind: a reading without
+// wind is not calm).
 func (f *facts) stintColdFacts(sites map[string]*siteWeather) {
 	sched, schedErr := cold.NewSchedule(f.lim.Cold.WorkWarmup)
-	within := time.Duration(f.lim.Cold.ReadingWithinHours * float64(time.Hour))
 	for i := range f.set.Work {
 		w := &f.set.Work[i]
 		day := records.DayOf(w.StartedAt)
@@ -365,34 +391,37 @@ func (f *facts) stintColdFacts(sites map[string]*siteWeather) {
 			"minutes":    w.EndedAt.Sub(w.StartedAt).Minutes(),
 			"activity":   activity, "emergency": w.Emergency.IsYes(),
 			"reading": nil,
-			"step":    map[string]any{"kind": "unknown", "text": "no reading at the site: not judged"},
+			"step":    map[string]any{"kind": "unknown", "text": "no reading at the site at or before the start: not judged"},
 		}
 		var rs []*records.Weather
 		if s := sites[w.SiteID]; s != nil {
 			rs = s.readings
 		}
-		if r, ok := readingInForce(rs, w.StartedAt, within); ok {
-			wind := 0.0 // no wind recorded: calm, as for the wind chill
+		if r, ok := latestReading(rs, w.StartedAt); ok {
+			var wc, display any
 			if r.WindKmh != nil {
-				wind = *r.WindKmh
+				c := cold.WindChillC(r.AirTempC, *r.WindKmh)
+				wc, display = c, cold.Display(c)
 			}
-			wc := readingWindChill(r)
 			st["reading"] = map[string]any{
 				"ref": string(r.Ref), "at": r.At.Format("2006-01-02 15:04"),
 				"air_c": r.AirTempC, "wind_kmh": num(r.WindKmh),
-				"wind_chill_c": wc, "wind_chill_display": cold.Display(wc),
+				"wind_chill_c": wc, "wind_chill_display": display,
 				"hours_before_start": w.StartedAt.Sub(r.At).Hours(),
 			}
-			if schedErr != nil {
+			switch {
+			case r.WindKmh == nil:
+				st["step"] = map[string]any{"kind": "unknown", "text": "the reading has no wind: not judged"}
+			case schedErr != nil:
 				st["step"] = map[string]any{"kind": "unknown", "text": "the work/warm-up schedule in the limits is unusable: " + schedErr.Error()}
-			} else {
-				st["step"] = stepDoc(sched.Lookup(r.AirTempC, wind, activity))
+			default:
+				st["step"] = stepDoc(sched.Lookup(r.AirTempC, *r.WindKmh, activity))
 			}
 		}
 		d := f.doc("staff", w.StaffID)
 		sec, _ := d["cold"].(map[string]any)
 		if sec == nil {
-			sec = map[string]any{"stints": []any{}}
+			sec = map[string]any{"stints": []any{}, "readings_recorded": f.set.Present["weather.csv"]}
 			d["cold"] = sec
 		}
 		sec["stints"] = append(sec["stints"].([]any), st)
@@ -423,4 +452,48 @@ func stepDoc(s cold.Step) map[string]any {
 		m["row_warmest_c"] = s.RowWarmestC
 	}
 	return m
+}
+
+// buildingWeatherFacts gives every outdoor or sheltered building a
+// "weather" section: its exposure, its weather site (null when
+// facility.yaml names none, and the cold and heat checks of its enclosures
+// cannot be judged) and the runs of days on which one of its enclosures was
+// occupied.
+func (f *facts) buildingWeatherFacts() {
+	n := int(f.period.To-f.period.From) + 1
+	for _, b := range f.set.Facility.Buildings {
+		if !exposed(b) {
+			continue
+		}
+		occupied := make([]bool, n)
+		for _, encID := range f.byBuilding[b.ID] {
+			for _, seg := range f.segments[encID] {
+				if len(seg.Occupants) == 0 {
+					continue
+				}
+				for d := max(seg.From, f.period.From); d <= min(seg.To, f.period.To); d++ {
+					occupied[d-f.period.From] = true
+				}
+			}
+		}
+		runs := []any{}
+		var run dayRun
+		for i, occ := range occupied {
+			if from, to, done := run.step(f.period.From+records.Day(i), occ); done {
+				runs = append(runs, spanRun(from, to))
+			}
+		}
+		if from, to, done := run.flush(); done {
+			runs = append(runs, spanRun(from, to))
+		}
+		d := f.doc("building", b.ID)
+		if d["ref"] == nil && b.Line > 0 {
+			d["ref"] = fmt.Sprintf("facility.yaml:%d", b.Line)
+		}
+		d["exposure"] = b.Exposure
+		d["weather"] = map[string]any{
+			"weather_site":  nilIfEmpty(b.WeatherSite),
+			"occupied_days": runs,
+		}
+	}
 }

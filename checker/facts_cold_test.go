@@ -170,10 +170,10 @@ func TestColdSiteDays(t *testing.T) {
 	f := coldFactsOf(t, coldSet(), coldPeriod)
 	wc := cold.WindChillC
 	want := []SiteDays{{Site: "YARD", Days: []DayCold{
-		{Day: coldDay("2026-01-10"), MinAirC: 0, MinWindChillC: wc(0, 10), Readings: 2},
-		{Day: coldDay("2026-01-11"), MinAirC: -15, MinWindChillC: wc(-15, 30), Readings: 2},
-		{Day: coldDay("2026-01-12"), MinAirC: -25, MinWindChillC: wc(-25, 20), Readings: 2},
-		{Day: coldDay("2026-01-13"), MinAirC: -40, MinWindChillC: wc(-40, 10), Readings: 3},
+		{Day: coldDay("2026-01-10"), MinAirC: 0, MinWindChillC: wc(0, 10), Readings: 2, WindReadings: 2},
+		{Day: coldDay("2026-01-11"), MinAirC: -15, MinWindChillC: wc(-15, 30), Readings: 2, WindReadings: 2},
+		{Day: coldDay("2026-01-12"), MinAirC: -25, MinWindChillC: wc(-25, 20), Readings: 2, WindReadings: 2},
+		{Day: coldDay("2026-01-13"), MinAirC: -40, MinWindChillC: wc(-40, 10), Readings: 3, WindReadings: 3},
 		{Day: coldDay("2026-01-14"), Readings: 0},
 	}}}
 	if diff := cmp.Diff(want, f.weather); diff != "" {
@@ -246,6 +246,9 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 			// 01-11 is not (ECCC table and bands).
 			"days_at_or_below_frostbite_limit": []any{yardDay("2026-01-12"), yardDay("2026-01-13")},
 			"days_without_readings":            noWeather,
+			// 01-14 has no reading, so none with wind either.
+			"days_without_wind_readings": []any{with(noWeather[0].(map[string]any),
+				"days_with_readings_without_wind", 0, "evidence", []any{})},
 		}},
 		{"enclosure", "N-01", map[string]any{
 			// Two water checks a day (the building round and its own
@@ -324,11 +327,11 @@ func TestColdStintFacts(t *testing.T) {
 		staff string
 		want  any
 	}{
-		{"K-ORVO", map[string]any{"stints": []any{
+		{"K-ORVO", map[string]any{"readings_recorded": true, "stints": []any{
 			stint("outdoor_work.csv:2", "06:10", "06:51", 41, "moderate", false, at0600, limit),
 			stint("outdoor_work.csv:5", "12:20", "13:30", 70, "moderate", true, at1200, cease),
 		}}},
-		{"K-LISA", map[string]any{"stints": []any{
+		{"K-LISA", map[string]any{"readings_recorded": true, "stints": []any{
 			stint("outdoor_work.csv:3", "06:10", "06:50", 40, "moderate", false, at0600, limit),
 			stint("outdoor_work.csv:4", "12:20", "12:35", 15, "heavy", false, at1200, cease),
 		}}},
@@ -342,9 +345,12 @@ func TestColdStintFacts(t *testing.T) {
 	}
 }
 
-// The checks.md lookup rule: the latest reading at or before the start
-// within 3 h (limits cold.reading_within_hours), else the nearest.
-func TestReadingInForce(t *testing.T) {
+// The reading a stint is judged on is the latest at or before its start,
+// whatever its age (the rule compares the age with
+// cold.reading_within_hours); a reading after the start, or the nearest
+// one either side, never stands in (checks.md "Never pass what was not
+// judged": no reading within 3 h is records.value.missing).
+func TestLatestReading(t *testing.T) {
 	rs := []*records.Weather{
 		{Ref: "weather.csv:2", At: coldAt("2026-01-13", "06:00")},
 		{Ref: "weather.csv:3", At: coldAt("2026-01-13", "10:00")},
@@ -352,30 +358,29 @@ func TestReadingInForce(t *testing.T) {
 	}
 	tests := []struct {
 		name, at string
-		want     records.Ref
+		want     records.Ref // empty: none
 	}{
 		{"at the reading", "06:00", "weather.csv:2"},
 		{"2 h after, the next as near", "08:00", "weather.csv:2"},
-		{"exactly 3 h after, the next nearer", "09:00", "weather.csv:2"},
-		{"3 h 1 min after: the nearest", "09:01", "weather.csv:3"},
-		{"4 h 30 min after, the next 5 h 30 min away", "14:30", "weather.csv:3"},
-		{"6 h after, the next 4 h away", "16:00", "weather.csv:4"},
-		{"before the first reading", "05:00", "weather.csv:2"},
+		{"exactly 3 h after", "09:00", "weather.csv:2"},
+		{"3 h 1 min after: still the latest before, the next nearer is not used", "09:01", "weather.csv:2"},
+		{"6 h after, the next 4 h away", "16:00", "weather.csv:3"},
+		{"before the first reading: none, the next is not used", "05:00", ""},
 		{"after the last reading", "23:59", "weather.csv:4"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			w, ok := readingInForce(rs, coldAt("2026-01-13", tc.at), 3*time.Hour)
-			if !ok {
-				t.Fatalf("readingInForce(%s) found nothing", tc.at)
+			var got records.Ref
+			if w, ok := latestReading(rs, coldAt("2026-01-13", tc.at)); ok {
+				got = w.Ref
 			}
-			if diff := cmp.Diff(tc.want, w.Ref); diff != "" {
+			if diff := cmp.Diff(tc.want, got); diff != "" {
 				t.Errorf("reading (-want +got):\n%s", diff)
 			}
 		})
 	}
-	if _, ok := readingInForce(nil, coldAt("2026-01-13", "08:00"), 3*time.Hour); ok {
-		t.Error("readingInForce(no readings) found one")
+	if _, ok := latestReading(nil, coldAt("2026-01-13", "08:00")); ok {
+		t.Error("latestReading(no readings) found one")
 	}
 }
 
@@ -411,5 +416,133 @@ func TestColdBeddingLooksBeforePeriod(t *testing.T) {
 				t.Errorf("days since bedding of the days listed (-want +got):\n%s", diff)
 			}
 		})
+	}
+}
+
+// A reading without wind is not calm (checks.md, second-set clarifications):
+// the day's minimum wind chill is taken over the readings with wind, a day
+// whose readings all lack wind is listed for records.value.missing and is
+// not selected for the wind-chill checks, while its air temperature still
+// counts for the water check. Before, such a reading counted as calm (wind
+// chill = air temperature) and a −38 °C windless day selected a frostbite
+// and bedding day on a made-up value.
+func TestColdWindlessReadings(t *testing.T) {
+	set := coldSet()
+	for i := range set.Weather {
+		w := &set.Weather[i]
+		switch records.DayOf(w.At).String() {
+		case "2026-01-12":
+			w.WindKmh = nil // both readings of 01-12 without wind
+		case "2026-01-13":
+			if w.Ref == "weather.csv:10" {
+				w.WindKmh = nil // the coldest air of 01-13 without wind
+			}
+		}
+	}
+	f := coldFactsOf(t, set, coldPeriod)
+	days := f.weather[0].Days
+	// (−35, 8) → −44 and (−30, 40) → −48 (Environment Canada wind chill
+	// table): −48 is the lowest of the readings with wind.
+	gotDays := []any{days[2].WindReadings, days[2].MinAirC, days[3].WindReadings, cold.Display(days[3].MinWindChillC), days[3].MinAirC}
+	if diff := cmp.Diff([]any{0, -25.0, 2, -48, -40.0}, gotDays); diff != "" {
+		t.Errorf("01-12 and 01-13 (-want +got):\n%s", diff)
+	}
+	site := f.docs["site"]["YARD"]["cold"].(map[string]any)
+	wantWindless := []any{
+		map[string]any{"from": "2026-01-12", "until": "2026-01-12", "days": 1, "days_with_readings_without_wind": 1,
+			"evidence": []any{"weather.csv:6", "weather.csv:7"}},
+		map[string]any{"from": "2026-01-14", "until": "2026-01-14", "days": 1, "days_with_readings_without_wind": 0, "evidence": []any{}},
+	}
+	if diff := cmp.Diff(wantWindless, site["days_without_wind_readings"]); diff != "" {
+		t.Errorf("days without wind readings (-want +got):\n%s", diff)
+	}
+	var frost []any
+	for _, d := range site["days_at_or_below_frostbite_limit"].([]any) {
+		frost = append(frost, d.(map[string]any)["on"])
+	}
+	if diff := cmp.Diff([]any{"2026-01-13"}, frost); diff != "" {
+		t.Errorf("frostbite days (-want +got):\n%s", diff)
+	}
+	enc := f.docs["enclosure"]["N-02"]["cold"].(map[string]any)
+	var water, bedding []any
+	for _, d := range enc["days_at_or_below_water_limits"].([]any) {
+		water = append(water, d.(map[string]any)["on"])
+	}
+	for _, d := range enc["days_at_or_past_bedding_limits"].([]any) {
+		bedding = append(bedding, d.(map[string]any)["on"])
+	}
+	if diff := cmp.Diff([]any{"2026-01-10", "2026-01-11", "2026-01-12", "2026-01-13"}, water); diff != "" {
+		t.Errorf("water days (air still counts) (-want +got):\n%s", diff)
+	}
+	if diff := cmp.Diff([]any{"2026-01-11", "2026-01-13"}, bedding); diff != "" {
+		t.Errorf("bedding days (the windless day is not judged) (-want +got):\n%s", diff)
+	}
+}
+
+// A stint is given the latest reading at or before its start with its age
+// and, without wind, no schedule step: before, a windless reading was read
+// in the schedule's calm column and a stint with no reading for days was
+// judged on the nearest one, even one after it started.
+func TestColdStintReadingGaps(t *testing.T) {
+	set := coldSet()
+	set.Weather[8].WindKmh = nil // 01-13 12:00, K-LISA's 12:20 stint
+	set.Work = append(set.Work, records.OutdoorWork{
+		// Before the first reading of the period (01-10 06:00): none.
+		Ref: "outdoor_work.csv:6", StaffID: "K-ORVO", StartedAt: coldAt("2026-01-10", "05:00"),
+		EndedAt: coldAt("2026-01-10", "06:30"), SiteID: "YARD", Activity: "moderate", Emergency: records.No,
+	}, records.OutdoorWork{
+		// 01-14 08:00: the latest reading is 01-13 12:00 (without wind), 20 h before.
+		Ref: "outdoor_work.csv:7", StaffID: "K-ORVO", StartedAt: coldAt("2026-01-14", "08:00"),
+		EndedAt: coldAt("2026-01-14", "09:30"), SiteID: "YARD", Activity: "moderate", Emergency: records.No,
+	})
+	f := coldFactsOf(t, set, coldPeriod)
+	type got struct {
+		Ref, Reading, Step string
+		Hours              any
+	}
+	var gots []got
+	for _, id := range []string{"K-LISA", "K-ORVO"} {
+		for _, st := range f.docs["staff"][id]["cold"].(map[string]any)["stints"].([]any) {
+			s := st.(map[string]any)
+			g := got{Ref: s["ref"].(string), Step: s["step"].(map[string]any)["kind"].(string)}
+			if r, ok := s["reading"].(map[string]any); ok {
+				g.Reading, g.Hours = r["ref"].(string), r["hours_before_start"]
+			}
+			gots = append(gots, g)
+		}
+	}
+	want := []got{
+		{"outdoor_work.csv:3", "weather.csv:8", "limit", (10 * time.Minute).Hours()},
+		{"outdoor_work.csv:4", "weather.csv:10", "unknown", (20 * time.Minute).Hours()},
+		{"outdoor_work.csv:2", "weather.csv:8", "limit", (10 * time.Minute).Hours()},
+		{"outdoor_work.csv:5", "weather.csv:10", "unknown", (20 * time.Minute).Hours()},
+		{"outdoor_work.csv:6", "", "unknown", nil},
+		{"outdoor_work.csv:7", "weather.csv:10", "unknown", 20.0},
+	}
+	if diff := cmp.Diff(want, gots); diff != "" {
+		t.Errorf("stints (-want +got):\n%s", diff)
+	}
+}
+
+// An outdoor building without weather_site: its occupied days are listed
+// for records.value.missing (before, its enclosures' cold checks were off
+// without a word).
+func TestBuildingWithoutWeatherSite(t *testing.T) {
+	set := coldSet()
+	set.Facility.Buildings[0].WeatherSite = ""
+	set.Facility.Buildings[0].Line = 4
+	f := coldFactsOf(t, set, coldPeriod)
+	want := map[string]any{
+		"weather_site":  nil,
+		"occupied_days": []any{map[string]any{"from": "2026-01-10", "until": "2026-01-14", "days": 5}},
+	}
+	if diff := cmp.Diff(want, f.docs["building"]["SHED-N"]["weather"]); diff != "" {
+		t.Errorf("SHED-N weather (-want +got):\n%s", diff)
+	}
+	if got := f.docs["building"]["SHED-N"]["ref"]; got != "facility.yaml:4" {
+		t.Errorf("SHED-N ref = %v, want facility.yaml:4", got)
+	}
+	if _, has := f.docs["building"]["BARN"]; has {
+		t.Error("the indoor BARN got a weather section")
 	}
 }

@@ -2,6 +2,9 @@ package checker
 
 import (
 	"math"
+
+	"welfare/records"
+	"welfare/rules"
 )
 
 // enclosureFacts gives every enclosure's document its fixed attributes and
@@ -32,12 +35,13 @@ func (f *facts) enclosureFacts() {
 			for _, o := range s.Occupants {
 				sp := f.lim.Species[o.Animal.Species]
 				area, known := f.requiredArea(o, s.Occupants)
-				var areaV any
+				var areaV, missing any
 				if known {
 					required += area
 					areaV = round6(area)
 				} else {
 					unknown = append(unknown, o.Animal.ID)
+					missing = missingForArea(o.Animal, sp.Space)
 				}
 				minHeight = math.Max(minHeight, sp.Space.MinHeightCm)
 				minCage = math.Max(minCage, sp.Space.MinCageM2)
@@ -45,6 +49,7 @@ func (f *facts) enclosureFacts() {
 				platform = platform || sp.Platform
 				people = append(people, map[string]any{
 					"animal": o.Animal.ID, "species": o.Animal.Species, "stage": o.Stage, "required_m2": areaV,
+					"missing_value": missing, "animal_ref": string(o.Animal.Ref),
 				})
 				ev = append(ev, string(o.Ref))
 			}
@@ -65,6 +70,22 @@ func (f *facts) enclosureFacts() {
 		}
 		d["occupancy"] = occ
 	}
+}
+
+// missingForArea names the animals.csv column whose empty value leaves an
+// occupant's area unknown: length_cm for the 9 CFR §3.6(c)(1) formula,
+// mass_kg for the Guide's group figure; null when no recorded value would
+// give it (a species without space limits).
+func missingForArea(a *records.Animal, sp rules.Space) any {
+	switch {
+	case sp.Formula == "":
+		return nil
+	case a.LengthCm == nil:
+		return "length_cm"
+	case a.MassKg == nil:
+		return "mass_kg"
+	}
+	return nil
 }
 
 // round6 drops float noise from sums of areas (0.255 × 3) so that a cage of

@@ -17,6 +17,9 @@ type Result struct {
 	// Checks lists every check that was in force (evaluated or not), sorted by id.
 	Checks       []CheckInfo
 	NotEvaluated []Skipped
+	// Partial lists the checks evaluated only in part: items they could not
+	// judge for a missing value (records.value.missing), counted.
+	Partial []Partial
 	// Limits are the limits in force, one line per value, with the source tag
 	// from its comment in the limits file.
 	Limits []LimitLine
@@ -66,11 +69,14 @@ type SiteDays struct {
 	Days []DayCold
 }
 
-// DayCold is one day at one site: the lowest air temperature and the lowest
-// wind chill among that day's readings (°C). Readings is 0 on a day with none.
+// DayCold is one day at one site: the lowest air temperature among that
+// day's readings and the lowest wind chill among its readings with wind
+// (°C). Readings is 0 on a day with none; WindReadings counts the readings
+// with wind, and MinWindChillC means nothing when it is 0.
 type DayCold struct {
 	Day           records.Day
 	MinAirC       float64
 	MinWindChillC float64
 	Readings      int
+	WindReadings  int
 }

@@ -109,7 +109,7 @@ func hasWeather(r *checker.Result) bool {
 	edge := hazardBands()[0].Hi
 	for _, s := range r.Weather {
 		for _, d := range s.Days {
-			if d.Readings > 0 && d.MinWindChillC <= edge {
+			if d.WindReadings > 0 && d.MinWindChillC <= edge {
 				return true
 			}
 		}
@@ -139,7 +139,7 @@ func (b *auditBuilder) cover() AuditSection {
 		keyValue("Period", dayOrNone(r.Period.From)+" to "+dayOrNone(r.Period.To)+" (inclusive)", false, size),
 		keyValue("Inspector", orNone(b.opt.Inspector), false, size),
 		keyValue("Generated", b.opt.GeneratedAt.Format("2006-01-02 15:04:05 -07:00"), false, size),
-		keyValue("Checks in force", fmt.Sprintf("%d, of which %d not evaluated", len(r.Checks), len(r.NotEvaluated)), false, size),
+		keyValue("Checks in force", checksInForce(r), false, size),
 		keyValue("Findings", fmt.Sprintf("%d: %d significant, %d minor, %d note",
 			t.total(), t.severityTotal(checker.Significant), t.severityTotal(checker.Minor), t.severityTotal(checker.Note)), false, size),
 		keyValue("Reportable", reportableCover(r.Findings), false, size),
@@ -191,6 +191,11 @@ func (b *auditBuilder) summary() AuditSection {
 	tb.Rows = append(tb.Rows, Row{Bold: true, Cells: []string{"total", itoa(t.severityTotal(checker.Significant)),
 		itoa(t.severityTotal(checker.Minor)), itoa(t.severityTotal(checker.Note)), itoa(t.total())}})
 	b.add(Block{Kind: KindTable, Table: tb})
+	if len(r.Findings) == 0 && (len(r.NotEvaluated) > 0 || len(r.Partial) > 0) {
+		// Never a bare all-clear: zero findings over checks that were not
+		// all evaluated is not a clean result.
+		b.add(para(noFindings(r), "bold", 9.5))
+	}
 	if t.other > 0 {
 		b.add(para(fmt.Sprintf("%d findings carry a severity other than significant, minor or note; they are counted in the totals only.", t.other), "italic", 8.5))
 	}
@@ -219,6 +224,24 @@ func (b *auditBuilder) summary() AuditSection {
 			nt.Rows = append(nt.Rows, Row{Cells: []string{s.Check, s.Reason}})
 		}
 		b.add(Block{Kind: KindTable, Table: nt})
+	}
+	if len(r.Partial) > 0 {
+		b.add(subheading(fmt.Sprintf("Checks evaluated only in part (%d)", len(r.Partial)), 14),
+			para("These checks could not judge some of their items because a value they need was not recorded "+
+				"(each a records.value.missing finding); those items are not a clean result.", "italic", 9), space(1))
+		pt := &Table{Size: 9, Caption: "Checks evaluated only in part", Columns: []Column{
+			{Head: "Check", Width: 55, Align: "L", Mono: true},
+			{Head: "Not judged", Width: 45, Align: "L"},
+			{Head: "Why", Width: 80, Align: "L"},
+		}}
+		for _, p := range r.Partial {
+			why := make([]string, len(p.Why))
+			for i, w := range p.Why {
+				why[i] = fmt.Sprintf("%d: %s", w.Count, w.Reason)
+			}
+			pt.Rows = append(pt.Rows, Row{Cells: []string{p.Check, fmt.Sprintf("%d of %d %s", p.NotJudged, p.Total, p.Unit), strings.Join(why, "\n")}})
+		}
+		b.add(Block{Kind: KindTable, Table: pt})
 	}
 	if len(r.Warnings) > 0 {
 		b.add(subheading(fmt.Sprintf("Read but not used (%d)", len(r.Warnings)), 14))
@@ -258,9 +281,10 @@ func (b *auditBuilder) findings() AuditSection {
 		"it is in the last column when corrective_actions.csv has one, else write it there. Under each message is the finding's key "+
 		"(check, subject, first day; the problem is the key without the day) and, against a previous review, whether it is new or recurring. Every finding, including any not listed here, is in findings.csv and findings.json attached to this PDF.", "", 9.5))
 	if len(r.Findings) == 0 {
-		b.add(space(3), para("No findings in the period.", "bold", 11))
-		if len(r.NotEvaluated) > 0 {
-			b.add(para(fmt.Sprintf("%s not evaluated; see the summary.", plural(len(r.NotEvaluated), "check")), "", 10))
+		if len(r.NotEvaluated) == 0 && len(r.Partial) == 0 {
+			b.add(space(3), para("No findings in the period.", "bold", 11))
+		} else {
+			b.add(space(3), para(noFindings(r)+" See the summary.", "bold", 11))
 		}
 		return b.section("Findings", true, "Findings")
 	}
@@ -485,4 +509,14 @@ func plural(n int, noun string) string {
 		return "1 " + noun
 	}
 	return itoa(n) + " " + noun + "s"
+}
+
+// checksInForce is the cover's count of the checks in force, with those not
+// evaluated and those evaluated only in part.
+func checksInForce(r *checker.Result) string {
+	s := fmt.Sprintf("%d, of which %d not evaluated", len(r.Checks), len(r.NotEvaluated))
+	if n := len(r.Partial); n > 0 {
+		s += fmt.Sprintf(" and %d evaluated only in part", n)
+	}
+	return s
 }

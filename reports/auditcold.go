@@ -114,7 +114,7 @@ func (b *auditBuilder) coldChart(s checker.SiteDays) *DayChart {
 	// band are on every chart, and 0 so the scale reads at a glance.
 	lo, hi := -30.0, 0.0
 	var coldest *checker.DayCold
-	below, missing := 0, 0
+	below, missing, windless := 0, 0, 0
 	have := map[records.Day]bool{}
 	air := Series{Name: "air temperature, daily minimum", Points: []Point{}}
 	chill := Series{Name: "wind chill, daily minimum", Points: []Point{}}
@@ -127,8 +127,12 @@ func (b *auditBuilder) coldChart(s checker.SiteDays) *DayChart {
 		if x.Day < from || x.Day > to {
 			continue
 		}
-		lo = min(lo, x.MinAirC, x.MinWindChillC)
-		hi = max(hi, x.MinAirC, x.MinWindChillC)
+		lo, hi = min(lo, x.MinAirC), max(hi, x.MinAirC)
+		if x.WindReadings == 0 {
+			windless++
+			continue // no wind chill: a reading without wind is not calm
+		}
+		lo, hi = min(lo, x.MinWindChillC), max(hi, x.MinWindChillC)
 		if coldest == nil || x.MinWindChillC < coldest.MinWindChillC {
 			coldest = x
 		}
@@ -152,7 +156,9 @@ func (b *auditBuilder) coldChart(s checker.SiteDays) *DayChart {
 	for day := from; day <= to; day++ {
 		if x, ok := byDay[day]; ok {
 			air.Points = append(air.Points, Point{Day: day, Value: x.MinAirC})
-			chill.Points = append(chill.Points, Point{Day: day, Value: x.MinWindChillC})
+			if x.WindReadings > 0 {
+				chill.Points = append(chill.Points, Point{Day: day, Value: x.MinWindChillC})
+			}
 		}
 	}
 	yMin := math.Floor((lo-2)/5) * 5
@@ -174,6 +180,9 @@ func (b *auditBuilder) coldChart(s checker.SiteDays) *DayChart {
 	}
 
 	summary := fmt.Sprintf("Days with wind chill ≤ %s: %d. Days without readings: %d.", minus(r.ColdLines.Frostbite), below, missing)
+	if windless > 0 {
+		summary += fmt.Sprintf(" Days with readings but none with wind (no wind chill): %d.", windless)
+	}
 	if coldest != nil {
 		summary = fmt.Sprintf("Coldest wind chill %s on %s (air %s). ", celsius(coldest.MinWindChillC), coldest.Day, celsius(coldest.MinAirC)) + summary
 	}

@@ -165,7 +165,7 @@ func sampleResult(n int) *checker.Result {
 		if d == 19 {
 			air, wc, readings = 0, 0, 0
 		}
-		site.Days = append(site.Days, checker.DayCold{Day: period.From + records.Day(d), MinAirC: air, MinWindChillC: wc, Readings: readings})
+		site.Days = append(site.Days, checker.DayCold{Day: period.From + records.Day(d), MinAirC: air, MinWindChillC: wc, Readings: readings, WindReadings: readings})
 	}
 	r.Weather = []checker.SiteDays{site}
 	return r

@@ -99,10 +99,10 @@ func smallResult() *checker.Result {
 		},
 		Care: checker.CareCoverage{OccupiedDays: 20, CompleteDays: 17},
 		Weather: []checker.SiteDays{{Site: "MAST", Days: []checker.DayCold{
-			{Day: day(10), MinAirC: 0, MinWindChillC: cold.WindChillC(0, 10), Readings: 8},
-			{Day: day(11), MinAirC: -15, MinWindChillC: cold.WindChillC(-15, 20), Readings: 8},
-			{Day: day(13), MinAirC: -25, MinWindChillC: cold.WindChillC(-25, 30), Readings: 8},
-			{Day: day(14), MinAirC: -35, MinWindChillC: cold.WindChillC(-35, 10), Readings: 7},
+			{Day: day(10), MinAirC: 0, MinWindChillC: cold.WindChillC(0, 10), Readings: 8, WindReadings: 8},
+			{Day: day(11), MinAirC: -15, MinWindChillC: cold.WindChillC(-15, 20), Readings: 8, WindReadings: 8},
+			{Day: day(13), MinAirC: -25, MinWindChillC: cold.WindChillC(-25, 30), Readings: 8, WindReadings: 8},
+			{Day: day(14), MinAirC: -35, MinWindChillC: cold.WindChillC(-35, 10), Readings: 7, WindReadings: 7},
 		}}},
 		ColdLines: checker.ColdLines{Bedding: -20, Shelter: -20, Frostbite: -28},
 	}

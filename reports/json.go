@@ -23,8 +23,11 @@ type JSONReport struct {
 	Findings     []JSONFinding      `json:"findings"`
 	Checks       []JSONCheck        `json:"checks"`
 	NotEvaluated []JSONNotEvaluated `json:"not_evaluated"`
-	Warnings     []JSONWarning      `json:"warnings"`
-	CareCoverage JSONCareCoverage   `json:"care_coverage"`
+	// EvaluatedInPart lists the checks evaluated only in part: items they
+	// could not judge for a missing value (records.value.missing).
+	EvaluatedInPart []JSONPartial    `json:"evaluated_in_part"`
+	Warnings        []JSONWarning    `json:"warnings"`
+	CareCoverage    JSONCareCoverage `json:"care_coverage"`
 	// Health is present when the records folder had deaths.csv,
 	// observations.csv, treatments.csv or litters.csv.
 	Health *JSONHealth `json:"health,omitempty"`
@@ -145,6 +148,23 @@ type JSONCheck struct {
 type JSONNotEvaluated struct {
 	Check  string `json:"check"`
 	Reason string `json:"reason"`
+}
+
+// JSONPartial is a check evaluated only in part: NotJudged of Total items
+// (Unit) were not judged, counted by reason; Text is the line the summary prints.
+type JSONPartial struct {
+	Check     string       `json:"check"`
+	NotJudged int          `json:"not_judged"`
+	Total     int          `json:"total"`
+	Unit      string       `json:"unit"`
+	Why       []JSONReason `json:"why"`
+	Text      string       `json:"text"`
+}
+
+// JSONReason is one reason items were not judged, and how many.
+type JSONReason struct {
+	Reason string `json:"reason"`
+	Count  int    `json:"count"`
 }
 
 // JSONWarning is something read but not used (an unknown column, say).
@@ -309,16 +329,17 @@ func newJSONHealth(h *checker.Health) *JSONHealth {
 // than null when empty, so a reader never has to tell the two apart.
 func NewJSONReport(r *checker.Result) JSONReport {
 	doc := JSONReport{
-		Facility:     r.Facility,
-		Period:       JSONPeriod{From: r.Period.From.String(), To: r.Period.To.String()},
-		Fingerprint:  r.Fingerprint,
-		Accounting:   make([]JSONFileCount, len(r.Accounting)),
-		Findings:     make([]JSONFinding, len(r.Findings)),
-		Checks:       make([]JSONCheck, len(r.Checks)),
-		NotEvaluated: make([]JSONNotEvaluated, len(r.NotEvaluated)),
-		Warnings:     make([]JSONWarning, len(r.Warnings)),
-		CareCoverage: JSONCareCoverage{OccupiedDays: r.Care.OccupiedDays, CompleteDays: r.Care.CompleteDays},
-		Health:       newJSONHealth(r.Health),
+		Facility:        r.Facility,
+		Period:          JSONPeriod{From: r.Period.From.String(), To: r.Period.To.String()},
+		Fingerprint:     r.Fingerprint,
+		Accounting:      make([]JSONFileCount, len(r.Accounting)),
+		Findings:        make([]JSONFinding, len(r.Findings)),
+		Checks:          make([]JSONCheck, len(r.Checks)),
+		NotEvaluated:    make([]JSONNotEvaluated, len(r.NotEvaluated)),
+		EvaluatedInPart: make([]JSONPartial, len(r.Partial)),
+		Warnings:        make([]JSONWarning, len(r.Warnings)),
+		CareCoverage:    JSONCareCoverage{OccupiedDays: r.Care.OccupiedDays, CompleteDays: r.Care.CompleteDays},
+		Health:          newJSONHealth(r.Health),
 	}
 	for i, c := range r.Accounting {
 		doc.Accounting[i] = JSONFileCount{File: c.File, Read: c.Read, Accepted: c.Accepted, Rejected: c.Rejected, Failed: c.Failed}
@@ -360,6 +381,14 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	}
 	for i, s := range r.NotEvaluated {
 		doc.NotEvaluated[i] = JSONNotEvaluated{Check: s.Check, Reason: s.Reason}
+	}
+	for i, p := range r.Partial {
+		jp := JSONPartial{Check: p.Check, NotJudged: p.NotJudged, Total: p.Total, Unit: p.Unit,
+			Why: make([]JSONReason, len(p.Why)), Text: p.String()}
+		for j, w := range p.Why {
+			jp.Why[j] = JSONReason{Reason: w.Reason, Count: w.Count}
+		}
+		doc.EvaluatedInPart[i] = jp
 	}
 	for i, w := range r.Warnings {
 		doc.Warnings[i] = JSONWarning{File: w.File, Column: w.Column, Message: w.Message}

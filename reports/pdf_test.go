@@ -208,14 +208,20 @@ func TestWritePDFSparse(t *testing.T) {
 	// No weather, no findings, no limits: the sections say so rather than
 	// vanish, and the cautions and sign-off are still there.
 	r := &checker.Result{Facility: "Birchfall Fur Research Station", Period: sampleResult(0).Period,
-		Fingerprint: "ab", NotEvaluated: []checker.Skipped{{Check: "cold.frostbite.risk", Reason: "weather.csv is absent"}}}
+		Fingerprint: "ab", NotEvaluated: []checker.Skipped{{Check: "cold.frostbite.risk", Reason: "weather.csv is absent"}},
+		Partial: []checker.Partial{{Check: "enclosure.space.insufficient", NotJudged: 31, Total: 620, Unit: "occupied enclosure-days",
+			Why: []checker.Reason{{Reason: "no length_cm for an occupant of a formula species", Count: 31}}}}}
 	dir := t.TempDir()
 	file := filepath.Join(dir, "audit.pdf")
 	if err := os.WriteFile(file, writePDF(t, r, sampleOptions()), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	flat := strings.Join(strings.Fields(run(t, "pdftotext", "-raw", file, "-")), " ")
-	for _, w := range []string{"No findings in the period.", "1 check not evaluated; see the summary.", "weather.csv is absent",
+	for _, w := range []string{"No findings among the checks evaluated, but not a clean result: 1 check not evaluated (cold.frostbite.risk); " +
+		"1 check evaluated only in part (enclosure.space.insufficient). See the summary.",
+		"Checks in force 0, of which 1 not evaluated and 1 evaluated only in part", "Checks evaluated only in part (1)",
+		"31 of 620 occupied enclosure-days", "31: no length_cm for an occupant of a formula species",
+		"weather.csv is absent",
 		"No limits were reported with this result.", "No occupied enclosure-days", "Conscious foxes and mink bite",
 		"Chair, animal-care committee", "Fingerprint ab "} {
 		if !strings.Contains(flat, w) {

@@ -1,6 +1,7 @@
 package reports
 
 import (
+	"fmt"
 	"slices"
 	"sort"
 	"strings"
@@ -246,4 +247,30 @@ func careShare(c checker.CareCoverage) string {
 	return "Care records complete (an observed round and a feeding) on " +
 		itoa(c.CompleteDays) + " of " + itoa(c.OccupiedDays) + " occupied enclosure-days (" +
 		percent(c.CompleteDays, c.OccupiedDays) + ")."
+}
+
+// noFindings is what a report says when there are no findings: a bare
+// "No findings." only when every check that applies was evaluated in full;
+// otherwise how many checks were not evaluated or evaluated only in part,
+// and which (checks.md "Never pass what was not judged").
+func noFindings(r *checker.Result) string {
+	if len(r.NotEvaluated) == 0 && len(r.Partial) == 0 {
+		return "No findings."
+	}
+	var parts []string
+	if n := len(r.NotEvaluated); n > 0 {
+		ids := make([]string, n)
+		for i, s := range r.NotEvaluated {
+			ids[i] = s.Check
+		}
+		parts = append(parts, fmt.Sprintf("%s not evaluated (%s)", plural(n, "check"), strings.Join(ids, ", ")))
+	}
+	if n := len(r.Partial); n > 0 {
+		ids := make([]string, n)
+		for i, s := range r.Partial {
+			ids[i] = s.Check
+		}
+		parts = append(parts, fmt.Sprintf("%s evaluated only in part (%s)", plural(n, "check"), strings.Join(ids, ", ")))
+	}
+	return "No findings among the checks evaluated, but not a clean result: " + strings.Join(parts, "; ") + "."
 }

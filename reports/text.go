@@ -47,6 +47,13 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 		}
 		p("\n")
 	}
+	if len(r.Partial) > 0 {
+		p("Checks evaluated only in part (%d)\n", len(r.Partial))
+		for _, s := range r.Partial {
+			p("  %s\n", s)
+		}
+		p("\n")
+	}
 	if len(r.Warnings) > 0 {
 		p("Warnings (%d): read but not used\n", len(r.Warnings))
 		for _, wn := range r.Warnings {
@@ -62,7 +69,7 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 	writeFollowUp(b, r)
 
 	if len(r.Findings) == 0 {
-		p("No findings.\n\n")
+		p("%s\n\n", noFindings(r))
 	} else {
 		p("Findings, most severe first (%d)\n", len(r.Findings))
 		fs := bySeverity(r.Findings)

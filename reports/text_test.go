@@ -107,7 +107,8 @@ type jsonContract struct {
 		Check  string `json:"check"`
 		Reason string `json:"reason"`
 	} `json:"not_evaluated"`
-	Warnings []struct {
+	EvaluatedInPart []reports.JSONPartial `json:"evaluated_in_part"`
+	Warnings        []struct {
 		File    string `json:"file"`
 		Column  string `json:"column"`
 		Message string `json:"message"`
@@ -132,6 +133,8 @@ type checkContract struct {
 
 func TestWriteJSONRoundTrip(t *testing.T) {
 	r := sampleResult(320)
+	r.Partial = []checker.Partial{{Check: "cold.work.over_limit", NotJudged: 3, Total: 128, Unit: "stints",
+		Why: []checker.Reason{{Reason: "no reading within 3 h", Count: 2}, {Reason: "a reading without wind", Count: 1}}}}
 	var b bytes.Buffer
 	if err := reports.WriteJSON(&b, r); err != nil {
 		t.Fatal(err)
@@ -194,6 +197,9 @@ func TestWriteJSONRoundTrip(t *testing.T) {
 			Reason string `json:"reason"`
 		}{s.Check, s.Reason})
 	}
+	want.EvaluatedInPart = []reports.JSONPartial{{Check: "cold.work.over_limit", NotJudged: 3, Total: 128, Unit: "stints",
+		Why:  []reports.JSONReason{{Reason: "no reading within 3 h", Count: 2}, {Reason: "a reading without wind", Count: 1}},
+		Text: "cold.work.over_limit: 3 of 128 stints not judged (2 with no reading within 3 h; 1 with a reading without wind)"}}
 	for _, w := range r.Warnings {
 		want.Warnings = append(want.Warnings, struct {
 			File    string `json:"file"`
@@ -216,7 +222,7 @@ func TestWriteJSONEmpty(t *testing.T) {
 	if err := reports.WriteJSON(&b, &checker.Result{Facility: "Birchfall Fur Research Station", Period: period}); err != nil {
 		t.Fatal(err)
 	}
-	for _, w := range []string{`"findings": []`, `"accounting": []`, `"not_evaluated": []`, `"from": "2026-01-01"`} {
+	for _, w := range []string{`"findings": []`, `"accounting": []`, `"not_evaluated": []`, `"evaluated_in_part": []`, `"from": "2026-01-01"`} {
 		if !strings.Contains(b.String(), w) {
 			t.Errorf("empty result JSON lacks %s:\n%s", w, b.String())
 		}
@@ -313,5 +319,65 @@ func TestBiteCautionQuotesTheLimit(t *testing.T) {
 	}
 	if !strings.Contains(reports.RabiesExposureCaution, "MMWR 2008") || strings.Contains(reports.RabiesExposureCaution, "2022") {
 		t.Errorf("exposure caution cites %q", reports.RabiesExposureCaution)
+	}
+}
+
+// A run without findings over checks not all evaluated never prints a bare
+// "No findings." (checks.md "Never pass what was not judged"): the text
+// says how many checks were not evaluated or evaluated only in part, and
+// which; the JSON carries the counts.
+func TestNoBareAllClear(t *testing.T) {
+	partial := checker.Partial{Check: "cold.work.over_limit", NotJudged: 3, Total: 128, Unit: "stints",
+		Why: []checker.Reason{{Reason: "no reading within 3 h", Count: 3}}}
+	skipped := checker.Skipped{Check: "ppe.damaged.used", Reason: "no ppe_checks.csv in the records folder"}
+	tests := []struct {
+		name       string
+		r          *checker.Result
+		want       []string
+		wantNot    []string
+		wantInPart int
+	}{
+		{"everything evaluated", &checker.Result{Facility: "Birchfall Fur Research Station", Period: period},
+			[]string{"No findings.\n"}, []string{"not a clean result", "evaluated only in part"}, 0},
+		{"a check not evaluated", &checker.Result{Facility: "Birchfall Fur Research Station", Period: period, NotEvaluated: []checker.Skipped{skipped}},
+			[]string{"No findings among the checks evaluated, but not a clean result: 1 check not evaluated (ppe.damaged.used)."},
+			[]string{"No findings.\n"}, 0},
+		{"a check evaluated in part", &checker.Result{Facility: "Birchfall Fur Research Station", Period: period, NotEvaluated: []checker.Skipped{skipped},
+			Partial: []checker.Partial{partial}},
+			[]string{
+				"Checks evaluated only in part (1)\n  cold.work.over_limit: 3 of 128 stints not judged (no reading within 3 h)\n",
+				"No findings among the checks evaluated, but not a clean result: 1 check not evaluated (ppe.damaged.used); 1 check evaluated only in part (cold.work.over_limit).",
+			},
+			[]string{"No findings.\n"}, 1},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			var b bytes.Buffer
+			if err := reports.WriteText(&b, tc.r, reports.TextOptions{}); err != nil {
+				t.Fatal(err)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(b.String(), w) {
+					t.Errorf("text lacks %q:\n%s", w, b.String())
+				}
+			}
+			for _, w := range tc.wantNot {
+				if strings.Contains(b.String(), w) {
+					t.Errorf("text has %q:\n%s", w, b.String())
+				}
+			}
+			doc := reports.NewJSONReport(tc.r)
+			if len(doc.EvaluatedInPart) != tc.wantInPart {
+				t.Fatalf("evaluated_in_part has %d entries, want %d", len(doc.EvaluatedInPart), tc.wantInPart)
+			}
+			if tc.wantInPart > 0 {
+				want := reports.JSONPartial{Check: "cold.work.over_limit", NotJudged: 3, Total: 128, Unit: "stints",
+					Why:  []reports.JSONReason{{Reason: "no reading within 3 h", Count: 3}},
+					Text: "cold.work.over_limit: 3 of 128 stints not judged (no reading within 3 h)"}
+				if diff := cmp.Diff(want, doc.EvaluatedInPart[0]); diff != "" {
+					t.Errorf("evaluated_in_part (-want +got):\n%s", diff)
+				}
+			}
+		})
 	}
 }

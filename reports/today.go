@@ -404,16 +404,28 @@ func weatherLines(set *records.Set, o TodayOptions) (lines []string, hot bool, m
 		}
 		sort.SliceStable(rows, func(i, j int) bool { return rows[i].At.Before(rows[j].At) })
 		coldest, hottest := rows[0], rows[0]
-		minWC, maxHI := math.Inf(1), math.Inf(-1)
+		minWC, maxHI, minAir := math.Inf(1), math.Inf(-1), math.Inf(1)
 		for _, wr := range rows {
-			if wc := readingWindChill(wr); wc < minWC {
+			minAir = min(minAir, wr.AirTempC)
+			if wr.WindKmh == nil {
+				continue // no wind: no wind chill (a reading without wind is not calm)
+			}
+			if wc := cold.WindChillC(wr.AirTempC, *wr.WindKmh); wc < minWC {
 				minWC, coldest = wc, wr
 			}
+		}
+		for _, wr := range rows {
 			if hi := readingHeatIndex(wr); hi > maxHI {
 				maxHI, hottest = hi, wr
 			}
 		}
 		last := rows[len(rows)-1]
+		if math.IsInf(minWC, 1) && minAir <= 0 {
+			lines = append(lines, fmt.Sprintf("  %s: no reading with wind yet today (air down to %s °C): record the wind; the wind-chill checks wait for it",
+				site, morningNum(minAir)))
+			missing = append(missing, "no weather reading with wind today at "+site)
+			continue
+		}
 		if minWC <= 0 {
 			lines = append(lines,
 				fmt.Sprintf("  %s: coldest wind chill %d at %s (air %s °C, %s)", site, cold.Display(minWC),
@@ -440,13 +452,6 @@ func weatherLines(set *records.Set, o TodayOptions) (lines []string, hot bool, m
 			"    heat index band: "+heat.BandC(maxHI).Wording)
 	}
 	return lines, hot, missing
-}
-
-func readingWindChill(wr records.Weather) float64 {
-	if wr.WindKmh == nil {
-		return wr.AirTempC // calm, as the cold checks count it
-	}
-	return cold.WindChillC(wr.AirTempC, *wr.WindKmh)
 }
 
 func readingHeatIndex(wr records.Weather) float64 {

@@ -4,8 +4,10 @@
 #   Water, bedding and nest boxes for animals in outdoor and sheltered buildings, the
 #   work/warm-up schedule for keepers' outdoor stints, and frostbite weather at each site.
 #   Wind chill is the 2001 North American index (°C, km/h) of each reading, unrounded; a
-#   reading without wind counts as calm (wind chill = air temperature). A day's figures are
-#   the minimum over its readings. The facts pre-select the days that could be findings, comparing
+#   reading without wind has none (it is not calm). A day's minimum wind chill is taken over
+#   its readings with wind, its minimum air over all its readings; a day with no reading with
+#   wind is not judged by the wind-chill checks (bedding, shelter, frostbite) and ends a run
+#   (records.value.missing says so, see missing.rego). The facts pre-select the days that could be findings, comparing
 #   with the limits in force inclusively (the field names say which), and give each day's figures;
 #   these rules make the deciding comparisons against data.limits.cold on each day, group the days
 #   they judge into runs of consecutive days and word the messages. Days with no reading at the
@@ -13,7 +15,8 @@
 #   days_without_weather / days_without_readings.
 #   DAY = {on, min_wind_chill_c, wind_chill_display, air_c, wind_kmh, band, ref}: the day's coldest reading.
 #   Input (site): {id, cold: {readings_recorded, days_at_or_below_frostbite_limit: [DAY],
-#     days_without_readings: [{from, until, days}]}}.
+#     days_without_readings: [{from, until, days}], days_without_wind_readings: [{from, until,
+#     days, days_with_readings_without_wind, evidence}]}}.
 #   Input (enclosure, outdoor or sheltered buildings only): {id, ref, ..., cold: {exposure,
 #     weather_site, nest_box, sheltered, days_at_or_below_water_limits: [{on, min_air_c, checks, evidence}],
 #     days_at_or_past_bedding_limits: [DAY + min_air_c, bedding_below_c, more_bedding_at_or_below_c,
@@ -25,10 +28,13 @@
 #   bedding_below_c / more_bedding_at_or_below_c: the occupants' species' outdoor bedding limits
 #   (dogs, 9 CFR §3.4(b)(4)), null when none applies; bedding days are pre-selected when the wind
 #   chill is at or below the bedding limit or the day's minimum air is at or below bedding_below_c.
-#   Input (staff): {id, cold: {stints: [{on, ref, site, started_at, ended_at, minutes, activity,
-#     emergency, reading: null | {ref, at, air_c, wind_kmh, wind_chill_c, wind_chill_display,
-#     hours_before_start}, step: {kind (no_limit, limit, cease, unknown), text, cell, max_work_min,
-#     breaks, row_warmest_c, column_kmh, air_row_c, light_shift}}]}}.
+#   Input (staff): {id, cold: {readings_recorded, stints: [{on, ref, site, started_at, ended_at,
+#     minutes, activity, emergency, reading: null | {ref, at, air_c, wind_kmh, wind_chill_c,
+#     wind_chill_display, hours_before_start}, step: {kind (no_limit, limit, cease, unknown), text,
+#     cell, max_work_min, breaks, row_warmest_c, column_kmh, air_row_c, light_shift}}]}}.
+#   reading: the latest reading of the site at or before the start, whatever its age; a stint
+#   is judged only when it is at most cold.reading_within_hours old (exactly that many hours
+#   counts) and has wind (step kind unknown without wind). Otherwise records.value.missing.
 # scope: package
 # custom:
 #   subjects: [site, enclosure, staff]
@@ -187,6 +193,7 @@ needs_shelter(d) if {
 findings contains f if {
 	some s in input.cold.stints
 	not s.emergency
+	reading_in_force(s)
 	s.step.kind == "limit"
 	s.minutes > s.step.max_work_min
 	f := {
@@ -209,6 +216,7 @@ findings contains f if {
 findings contains f if {
 	some s in input.cold.stints
 	not s.emergency
+	reading_in_force(s)
 	s.step.kind == "cease"
 	f := {
 		"check": "cold.work.should_cease",
@@ -217,6 +225,13 @@ findings contains f if {
 		"message": sprintf("%v-min non-emergency %s stint at %s from %s; the work/warm-up schedule says non-emergency work should cease (cell %s; %s; %s)", [s.minutes, s.activity, s.site, s.started_at, s.step.cell, where(s.step), reading_text(s.reading)]),
 		"evidence": [s.ref, s.reading.ref],
 	}
+}
+
+# reading_in_force: the stint's reading is at most cold.reading_within_hours before its start
+# (exactly that many hours counts) and has wind; otherwise the stint is not judged.
+reading_in_force(s) if {
+	s.reading.hours_before_start <= lim.reading_within_hours
+	s.reading.wind_kmh != null
 }
 
 reading_text(r) := sprintf("reading %s: air %v °C, %s, wind chill %d", [r.at, r.air_c, wind_text(r.wind_kmh), r.wind_chill_display])

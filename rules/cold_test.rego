@@ -262,3 +262,22 @@ test_frostbite_message_speaks_of_people if {
 	contains(f.message, "for people working outdoors")
 	contains(f.message, "human skin")
 }
+
+# "Within 3 h" includes a reading exactly 3 h before (checks.md, second-set clarifications;
+# limits cold.reading_within_hours, default 3 h).
+aged_stint(hours) := object.union(stint(41, false), {"reading": {"hours_before_start": hours}})
+
+test_stint_reading_exactly_3h_before_is_judged if {
+	some f in cold.findings with input as staff(aged_stint(3))
+	f.check == "cold.work.over_limit"
+}
+
+test_stint_reading_3h_1min_before_is_not_judged if {
+	count(cold.findings) == 0 with input as staff(aged_stint(3 + (1 / 60)))
+}
+
+# A reading without wind is not calm: the stint is not judged on the schedule's calm column.
+test_stint_reading_without_wind_is_not_judged if {
+	s := object.union(cease_stint(false), {"reading": {"wind_kmh": null, "wind_chill_c": null, "wind_chill_display": null}})
+	count(cold.findings) == 0 with input as staff(s)
+}

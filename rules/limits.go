@@ -213,8 +213,9 @@ type Cold struct {
 	ShelterWindChill float64 `yaml:"shelter_wind_chill" json:"shelter_wind_chill"`
 	// Frostbite: at or below this wind chill a weather-site note is given.
 	FrostbiteWindChill float64 `yaml:"frostbite_wind_chill" json:"frostbite_wind_chill"`
-	// ReadingWithinHours: a stint uses the latest reading at or before its
-	// start within this many hours, else the nearest reading.
+	// ReadingWithinHours: a stint is judged on the latest reading at or
+	// before its start no more than this many hours before it (exactly this
+	// many counts); without one it is not judged (records.value.missing).
 	ReadingWithinHours float64    `yaml:"reading_within_hours" json:"reading_within_hours" validate:"gt=0"`
 	WorkWarmup         WorkWarmup `yaml:"work_warmup" json:"work_warmup"`
 }

@@ -135,6 +135,8 @@ type reading struct {
 	at   time.Time
 	air  float64 // rounded to 0.1 as written
 	wind float64 // whole km/h as written
+	// windless: written without wind_kmh (generate_missing_test.go)
+	windless bool
 }
 
 // dayShape is one day's planned weather: minimum and maximum air
@@ -336,7 +338,9 @@ func generate() (*scenario, error) {
 	s.buildStation()
 	h := s.buildHealth()
 	s.vetStation()
+	s.missingStation()
 	s.buildWeather(rng)
+	s.missingWeather()
 	s.buildStaff()
 	s.vetStaff()
 	s.buildRounds()
@@ -350,6 +354,7 @@ func generate() (*scenario, error) {
 	}
 	s.correctionTables()
 	s.evaluate()
+	s.evaluateMissing()
 	return s, nil
 }
 
@@ -460,7 +465,7 @@ func (s *scenario) buildWeather(rng *rand.Rand) {
 		for i, h := range readingHours {
 			air := math.Round((p.min+(p.max-p.min)*tempShape[i])*10) / 10
 			wind := math.Max(0, math.Round(p.wind*windShape[i])+float64(rng.IntN(5)-2))
-			s.readings = append(s.readings, reading{at(d, h, 0), air, wind})
+			s.readings = append(s.readings, reading{at: at(d, h, 0), air: air, wind: wind})
 			s.minAir[d] = math.Min(s.minAir[d], air)
 			s.minWC[d] = math.Min(s.minWC[d], cold.WindChillC(air, wind))
 		}
@@ -972,7 +977,7 @@ func (s *scenario) writeTables() error {
 	// weather.csv, with one planted impossible reading.
 	we := newTable("weather.csv", "observed_at,site_id,air_temp_c,wind_kmh")
 	for _, r := range s.readings {
-		we.add(stamp(r.at), site, num(r.air, 1), num(r.wind, 0))
+		we.add(stamp(r.at), site, num(r.air, 1), windCell(r))
 		if r.at.Equal(at(17, 12, 0)) {
 			line := we.add(stamp(at(17, 13, 30)), site, "-90.0", "12")
 			s.plant("records.row.rejected", we.ref(line), janDate(17), "", fmt.Sprintf(
@@ -1112,8 +1117,8 @@ func (s *scenario) evaluate() {
 			})
 		})...)
 
-		if b.exposure == "indoor" {
-			continue
+		if b.exposure == "indoor" || b.site == "" {
+			continue // no weather: records.value.missing instead
 		}
 		add(perDay("cold.water.checks_insufficient", e.id, func(d int) bool {
 			n := 0
@@ -1148,6 +1153,9 @@ func (s *scenario) evaluate() {
 			continue
 		}
 		rd := s.readingFor(w.start)
+		if rd.windless {
+			continue // not judged: records.value.missing instead
+		}
 		limit, cease := workLimit(rd.air, rd.wind, w.activity == "light")
 		if cease {
 			add(finding{check: "cold.work.should_cease", subject: w.staff, on: w.start.Format("2006-01-02")})
