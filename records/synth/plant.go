@@ -444,7 +444,7 @@ var plants = []plantFunc{
 		g.mod(a.cage, i).waterEmpty = true
 		w := g.plant("care.water.unavailable", g.cages[a.cage].id, i, -1)
 		due := i + 14 // at most the period's last day but one
-		g.act(w.Check, w.Subject, i, "Fit a heated drinker and check it at every round", g.keeperOf(a.cage), due, -1, "")
+		g.act(w.Check, w.Subject, w.On, "Fit a heated drinker and check it at every round", g.keeperOf(a.cage), due, -1, "")
 		g.plant("correction.overdue", problemOf(w), due, -1)
 	})},
 	{"correction.recurred", each(func(g *gen) {
@@ -456,7 +456,7 @@ var plants = []plantFunc{
 		g.mod(a.cage, j).waterEmpty = true
 		w := g.plant("care.water.unavailable", g.cages[a.cage].id, i, -1)
 		g.plant("care.water.unavailable", g.cages[a.cage].id, j, -1)
-		g.act(w.Check, w.Subject, i, "Replace the drinker valve", g.keeperOf(a.cage), i+7, i+2, "")
+		g.act(w.Check, w.Subject, w.On, "Replace the drinker valve", g.keeperOf(a.cage), i+7, i+2, "")
 		g.plant("correction.recurred", problemOf(w), j, -1)
 	})},
 	{"correction.plan.missing", each(func(g *gen) {
@@ -783,14 +783,14 @@ func (g *gen) baseline() {
 func problemOf(p *Planted) string { return p.Check + " " + p.Subject }
 
 // act adds a row of corrective_actions.csv answering the finding of check
-// and subject found on day index found; closed is -1 while the action is
-// open.
-func (g *gen) act(check, subject string, found int, plan, owner string, due, closed int, verifiedBy string) {
+// and subject found on foundOn (empty: every finding of that check and
+// subject), due on day index due; closed is -1 while the action is open.
+func (g *gen) act(check, subject, foundOn, plan, owner string, due, closed int, verifiedBy string) {
 	closedOn := ""
 	if closed != -1 {
 		closedOn = day(closed)
 	}
-	g.actions = append(g.actions, []string{check, subject, day(found), plan, owner, day(due), closedOn, verifiedBy})
+	g.actions = append(g.actions, []string{check, subject, foundOn, plan, owner, day(due), closedOn, verifiedBy})
 }
 
 // dayIndex is the day index of a YYYY-MM-DD date.
@@ -861,9 +861,9 @@ func (g *gen) plans() {
 		p, on := cands[k], dayIndex(cands[k].On)
 		plan := "Find the cause with the keepers and correct it"
 		if k%2 == 0 {
-			g.act(p.Check, p.Subject, on, plan, "V01", on+7, on+3, "V01") // closed before its due date, verified
+			g.act(p.Check, p.Subject, p.On, plan, "V01", on+7, on+3, "V01") // closed before its due date, verified
 		} else {
-			g.act(p.Check, p.Subject, on, plan, "V01", g.opt.Days-1+30, -1, "") // due after the period
+			g.act(p.Check, p.Subject, p.On, plan, "V01", g.opt.Days-1+30, -1, "") // due after the period
 		}
 	}
 	if g.opt.Review == nil {
@@ -872,12 +872,12 @@ func (g *gen) plans() {
 	c, on := g.freeCage("care.water.unavailable", outdoor), g.reviewDay(10)
 	g.reviewed(ReviewFinding{Check: "care.water.unavailable", Subject: c, On: day(on), Severity: "significant",
 		Message: "water found empty at the 07:30 round and not restored"})
-	g.act("care.water.unavailable", c, on, "Fit a heated drinker", "K01", on+7, on+3, "V01")
+	g.act("care.water.unavailable", c, day(on), "Fit a heated drinker", "K01", on+7, on+3, "V01")
 
 	c, on = g.freeCage("care.observation.missed", anySpecies), g.reviewDay(1)
 	g.reviewed(ReviewFinding{Check: "care.observation.missed", Subject: c, On: day(on), Until: day(on + 1), Severity: "significant",
 		Message: "not observed for 2 days in a row"}) // significant: a run of 2 days
-	g.actions = append(g.actions, []string{"care.observation.missed", c, "", "A second keeper covers the weekend rounds", "K01", day(g.opt.Days - 1 + 30), "", ""})
+	g.act("care.observation.missed", c, "", "A second keeper covers the weekend rounds", "K01", g.opt.Days-1+30, -1, "") // due after the period
 
 	c = g.freeCage("enclosure.platform.missing", fox)
 	from, to := g.reviewPeriod()

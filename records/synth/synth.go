@@ -18,7 +18,11 @@
 // within a week; a few litters are weaned at eight weeks with small losses;
 // the kennel's air stays in range; every keeper is trained and vaccinated;
 // every cage is big enough; no reading reaches the frostbite or heat-danger
-// line.
+// line; the committee's corrective actions answering a few planted findings
+// are closed before their due date or not yet due, and their problems do not
+// come back. With Options.Review the folder also has an invented previous
+// review (PreviousFile), of the Days days before the period, whose
+// significant findings have plans closed in time or not yet due.
 //
 // Each planted problem is placed by construction by one plant function (see
 // plants in plant.go): it changes a few rows of a subject no other plant
@@ -220,7 +224,8 @@ type gen struct {
 }
 
 // Generate writes the records folder and PLANTED.json into dir (created if
-// needed) and returns the planted findings.
+// needed), and the previous review when opt.Review is set, and returns the
+// planted findings.
 func Generate(dir string, opt Options) ([]Planted, error) {
 	if opt.Animals < MinAnimals {
 		return nil, fmt.Errorf("--animals %d: at least %d, so every planted problem has its own animal", opt.Animals, MinAnimals)
