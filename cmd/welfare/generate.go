@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 
 	"welfare/records/synth"
+	"welfare/records/synth/review"
 )
 
 type generateOpts struct {
@@ -43,11 +44,17 @@ func runGenerate(_ context.Context, args []string, stdout, _ io.Writer) error {
 	if entries, err := os.ReadDir(pos[0]); err == nil && len(entries) > 0 {
 		return &usageError{cmd: "generate", msg: fmt.Sprintf("%s is not empty: give a new or empty folder (generate would overwrite its record files)", pos[0])}
 	}
-	planted, err := synth.Generate(pos[0], synth.Options{Animals: o.animals, Days: o.days, Seed: o.seed})
+	planted, err := synth.Generate(pos[0], synth.Options{Animals: o.animals, Days: o.days, Seed: o.seed, Review: review.Write})
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(stdout, "wrote %s: %d animals over %d days, %d planted finding(s) listed in %s\n",
-		pos[0], o.animals, o.days, len(planted), filepath.Join(pos[0], synth.PlantedFile))
+	needs := 0
+	for _, p := range planted {
+		if p.Needs == synth.NeedsPrevious {
+			needs++
+		}
+	}
+	fmt.Fprintf(stdout, "wrote %s: %d animals over %d days, %d planted finding(s) listed in %s (%d of them found only with --previous %s)\n",
+		pos[0], o.animals, o.days, len(planted), filepath.Join(pos[0], synth.PlantedFile), needs, filepath.Join(pos[0], filepath.FromSlash(synth.PreviousFile)))
 	return nil
 }

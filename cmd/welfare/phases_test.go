@@ -10,6 +10,8 @@ import (
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
+
+	"welfare/records/synth"
 )
 
 // --timings prints one line per step, with a wall time and a peak heap,
@@ -59,11 +61,15 @@ func TestGenerateThenCheck(t *testing.T) {
 	if code, _, stderr := runMain(t, "generate", "--animals", "150", "--days", "60", "--seed", "3", dir); code != 0 {
 		t.Fatalf("generate: exit %d\n%s", code, stderr)
 	}
-	out := filepath.Join(t.TempDir(), "f.json")
+	out, outPrev := filepath.Join(t.TempDir(), "f.json"), filepath.Join(t.TempDir(), "f-prev.json")
 	if code, _, stderr := runMain(t, "check", "--fail-on", "never", "--json", out, dir); code != 0 {
 		t.Fatalf("check: exit %d\n%s", code, stderr)
 	}
-	type row struct{ Check, Subject, On, Until string }
+	prev := filepath.Join(dir, filepath.FromSlash(synth.PreviousFile))
+	if code, _, stderr := runMain(t, "check", "--fail-on", "never", "--previous", prev, "--json", outPrev, dir); code != 0 {
+		t.Fatalf("check --previous: exit %d\n%s", code, stderr)
+	}
+	type row struct{ Check, Subject, On, Until, Needs string }
 	read := func(path string, inner bool) []string {
 		b, err := os.ReadFile(path)
 		if err != nil {
@@ -82,17 +88,32 @@ func TestGenerateThenCheck(t *testing.T) {
 		}
 		var keys []string
 		for _, r := range rows {
-			keys = append(keys, strings.Join([]string{r.Check, r.Subject, r.On, r.Until}, "|"))
+			keys = append(keys, strings.Join([]string{r.Check, r.Subject, r.On, r.Until, r.Needs}, "|"))
 		}
 		sort.Strings(keys)
 		return keys
 	}
-	want, got := read(filepath.Join(dir, "PLANTED.json"), false), read(out, true)
-	if len(want) < 30 {
-		t.Fatalf("only %d planted findings", len(want))
+	// Without --previous: PLANTED.json but the entries that need it.
+	all, plain := read(filepath.Join(dir, "PLANTED.json"), false), []string(nil)
+	var needs []string
+	for _, k := range all {
+		if strings.HasSuffix(k, "|"+synth.NeedsPrevious) {
+			needs = append(needs, strings.TrimSuffix(k, synth.NeedsPrevious))
+		} else {
+			plain = append(plain, k)
+		}
 	}
-	if diff := cmp.Diff(want, got); diff != "" {
-		t.Errorf("findings (-PLANTED.json +check):\n%s", diff)
+	if len(plain) < 30 || len(needs) == 0 {
+		t.Fatalf("only %d planted findings, %d of them needing --previous", len(all), len(needs))
+	}
+	if diff := cmp.Diff(plain, read(out, true)); diff != "" {
+		t.Errorf("findings without --previous (-PLANTED.json +check):\n%s", diff)
+	}
+	// With it: every entry (the needs mark is not in findings.json).
+	withPrev := append(append([]string(nil), plain...), needs...)
+	sort.Strings(withPrev)
+	if diff := cmp.Diff(withPrev, read(outPrev, true)); diff != "" {
+		t.Errorf("findings with --previous (-PLANTED.json +check):\n%s", diff)
 	}
 	if code, _, _ := runMain(t, "generate", "--animals", "5", t.TempDir()); code != 2 {
 		t.Errorf("generate --animals 5: exit %d, want 2", code)

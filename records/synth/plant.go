@@ -3,6 +3,8 @@ package synth
 import (
 	"fmt"
 	"strconv"
+	"strings"
+	"time"
 )
 
 // A plant places problems of one check kind. To plant a new kind, add one
@@ -431,6 +433,44 @@ var plants = []plantFunc{
 		g.handle(a, i, "14:00", g.keeperOf(a.cage), func(r []string) { r[13] = p.id })
 		g.plant("protocol.review.overdue", p.id, i, -1)
 	})},
+
+	// correction: the committee's plans (corrective_actions.csv), each for a
+	// problem of its own. Water found empty and not restored is significant
+	// (shared/checks.md).
+	{"correction.overdue", each(func(g *gen) {
+		// Open at the period's end, due before its last day: answers a
+		// significant finding, so the overdue plan is significant too.
+		a, i := g.animal(anySpecies), g.dayIn(warm, 0, g.opt.Days-15)
+		g.mod(a.cage, i).waterEmpty = true
+		w := g.plant("care.water.unavailable", g.cages[a.cage].id, i, -1)
+		due := i + 14 // at most the period's last day but one
+		g.act(w.Check, w.Subject, w.On, "Fit a heated drinker and check it at every round", g.keeperOf(a.cage), due, -1, "")
+		g.plant("correction.overdue", problemOf(w), due, -1)
+	})},
+	{"correction.recurred", each(func(g *gen) {
+		// Closed two days after the finding, before its due date, and the
+		// water found empty again on a warm day after that.
+		a, i := g.animal(anySpecies), g.dayIn(warm, 0, g.opt.Days/2)
+		j := g.dayIn(warm, i+4, g.opt.Days)
+		g.mod(a.cage, i).waterEmpty = true
+		g.mod(a.cage, j).waterEmpty = true
+		w := g.plant("care.water.unavailable", g.cages[a.cage].id, i, -1)
+		g.plant("care.water.unavailable", g.cages[a.cage].id, j, -1)
+		g.act(w.Check, w.Subject, w.On, "Replace the drinker valve", g.keeperOf(a.cage), i+7, i+2, "")
+		g.plant("correction.recurred", problemOf(w), j, -1)
+	})},
+	{"correction.plan.missing", each(func(g *gen) {
+		// A significant finding of the previous review that no row of
+		// corrective_actions.csv answers. Last of the plants: its cage is
+		// one no planted water finding names.
+		if g.opt.Review == nil {
+			return
+		}
+		c, on := g.freeCage("care.water.unavailable", outdoor), g.reviewDay(0)
+		g.reviewed(ReviewFinding{Check: "care.water.unavailable", Subject: c, On: day(on), Severity: "significant",
+			Message: "water found frozen at the 07:30 round and not restored"})
+		g.plant("correction.plan.missing", "care.water.unavailable "+c, on, -1).Needs = NeedsPrevious
+	})},
 }
 
 // ---- helpers for plants
@@ -734,4 +774,113 @@ func (g *gen) baseline() {
 		age := 56 + g.rng.IntN(min(5, g.opt.Days-56-w)) // eight weeks or a few days more
 		g.litter(a, w, 5, 5, w+age, 4)                  // 1 of 5 lost: 20 %
 	}
+}
+
+// ---- corrective actions and the previous review
+
+// problemOf is the problem a finding belongs to: its check and subject
+// (the subject of the correction checks' findings).
+func problemOf(p *Planted) string { return p.Check + " " + p.Subject }
+
+// act adds a row of corrective_actions.csv answering the finding of check
+// and subject found on foundOn (empty: every finding of that check and
+// subject), due on day index due; closed is -1 while the action is open.
+func (g *gen) act(check, subject, foundOn, plan, owner string, due, closed int, verifiedBy string) {
+	closedOn := ""
+	if closed != -1 {
+		closedOn = day(closed)
+	}
+	g.actions = append(g.actions, []string{check, subject, foundOn, plan, owner, day(due), closedOn, verifiedBy})
+}
+
+// dayIndex is the day index of a YYYY-MM-DD date.
+func dayIndex(s string) int {
+	t, err := time.Parse("2006-01-02", s)
+	if err != nil {
+		return -1 << 30 // never a planted day: the generator writes every date
+	}
+	return int(t.Sub(Start).Hours() / 24)
+}
+
+// reviewDay picks a day of the previous review (a negative day index) with
+// room for n more days after it inside that review.
+func (g *gen) reviewDay(n int) int {
+	return -g.opt.Days + g.rng.IntN(g.opt.Days-n)
+}
+
+// reviewed adds a finding to the previous review.
+func (g *gen) reviewed(f ReviewFinding) { g.review = append(g.review, f) }
+
+// freeCage picks a cage of a species that ok accepts that is neither the
+// subject of a planted finding of check nor of a previous review's finding,
+// so its problem is its own.
+func (g *gen) freeCage(check string, ok func(string) bool) string {
+	taken := map[string]bool{}
+	for _, p := range g.planted {
+		if p.Check == check {
+			taken[p.Subject] = true
+		}
+	}
+	for _, f := range g.review {
+		taken[f.Subject] = true
+	}
+	for {
+		c := &g.cages[g.rng.IntN(len(g.cages))]
+		if !taken[c.id] && ok(c.species) {
+			return c.id
+		}
+	}
+}
+
+// plans adds the clean corrective actions, which cause no finding: plans
+// answering a few planted single-day findings of this period whose problem
+// has no other finding (closed in time and verified, or open and not yet
+// due), and, with a previous review, its clean findings: a significant one
+// whose plan was closed in time, a significant run whose plan is open and
+// due after this period, and a minor one, which needs no plan.
+func (g *gen) plans() {
+	count, answered := map[string]int{}, map[string]bool{}
+	for _, p := range g.planted {
+		count[problemOf(p)]++
+	}
+	for _, r := range g.actions {
+		answered[r[0]+" "+r[1]] = true
+	}
+	var cands []*Planted
+	for _, p := range g.planted {
+		k := problemOf(p)
+		if p.Until != "" || p.Needs != "" || count[k] != 1 || answered[k] || p.Check == "records.row.rejected" ||
+			strings.HasPrefix(p.Check, "correction.") || dayIndex(p.On) < 0 || dayIndex(p.On) > g.opt.Days-5 {
+			continue
+		}
+		cands = append(cands, p)
+	}
+	for k := range min(2*g.perKind(), len(cands)) {
+		n := k + g.rng.IntN(len(cands)-k)
+		cands[k], cands[n] = cands[n], cands[k]
+		p, on := cands[k], dayIndex(cands[k].On)
+		plan := "Find the cause with the keepers and correct it"
+		if k%2 == 0 {
+			g.act(p.Check, p.Subject, p.On, plan, "V01", on+7, on+3, "V01") // closed before its due date, verified
+		} else {
+			g.act(p.Check, p.Subject, p.On, plan, "V01", g.opt.Days-1+30, -1, "") // due after the period
+		}
+	}
+	if g.opt.Review == nil {
+		return
+	}
+	c, on := g.freeCage("care.water.unavailable", outdoor), g.reviewDay(10)
+	g.reviewed(ReviewFinding{Check: "care.water.unavailable", Subject: c, On: day(on), Severity: "significant",
+		Message: "water found empty at the 07:30 round and not restored"})
+	g.act("care.water.unavailable", c, day(on), "Fit a heated drinker", "K01", on+7, on+3, "V01")
+
+	c, on = g.freeCage("care.observation.missed", anySpecies), g.reviewDay(1)
+	g.reviewed(ReviewFinding{Check: "care.observation.missed", Subject: c, On: day(on), Until: day(on + 1), Severity: "significant",
+		Message: "not observed for 2 days in a row"}) // significant: a run of 2 days
+	g.act("care.observation.missed", c, "", "A second keeper covers the weekend rounds", "K01", g.opt.Days-1+30, -1, "") // due after the period
+
+	c = g.freeCage("enclosure.platform.missing", fox)
+	from, to := g.reviewPeriod()
+	g.reviewed(ReviewFinding{Check: "enclosure.platform.missing", Subject: c, On: dayOf(from), Until: dayOf(to), Severity: "minor",
+		Message: "no resting platform for foxes"})
 }

@@ -18,7 +18,11 @@
 // within a week; a few litters are weaned at eight weeks with small losses;
 // the kennel's air stays in range; every keeper is trained and vaccinated;
 // every cage is big enough; no reading reaches the frostbite or heat-danger
-// line.
+// line; the committee's corrective actions answering a few planted findings
+// are closed before their due date or not yet due, and their problems do not
+// come back. With Options.Review the folder also has an invented previous
+// review (PreviousFile), of the Days days before the period, whose
+// significant findings have plans closed in time or not yet due.
 //
 // Each planted problem is placed by construction by one plant function (see
 // plants in plant.go): it changes a few rows of a subject no other plant
@@ -30,6 +34,7 @@ import (
 	"bufio"
 	"encoding/json"
 	"fmt"
+	"io"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -45,7 +50,36 @@ type Options struct {
 	Animals int    // single cages, one animal each, in sheds of fifty
 	Days    int    // length of the period, from Start
 	Seed    uint64 // same seed, same bytes
+	// Review writes the previous review (the period of Days days just
+	// before Start) to PreviousFile as the findings file `welfare check
+	// --json` writes; package synth/review has the writer. Nil: no previous
+	// review is written and nothing that needs one is planted.
+	Review func(w io.Writer, r Review) error
 }
+
+// Review is the invented previous review of the generated farm: its
+// facility, period and findings, made by hand (not checked from records).
+type Review struct {
+	Facility string
+	From, To string // YYYY-MM-DD, inclusive
+	Findings []ReviewFinding
+}
+
+// ReviewFinding is one finding of the previous review. Its severity is the
+// check's own (shared/checks.md), set by hand like the rest.
+type ReviewFinding struct {
+	Check, Subject, On, Until, Severity, Message string
+}
+
+// PreviousFile is the previous review's findings file in the generated
+// folder (slash-separated), for `welfare check DIR --previous
+// DIR/previous/findings.json`. The records loader does not read it.
+const PreviousFile = "previous/findings.json"
+
+// NeedsPrevious marks a planted finding that only a check given the
+// previous review finds (Planted.Needs): a plain `welfare check DIR`
+// reports the check as not evaluated instead.
+const NeedsPrevious = "--previous"
 
 // Limits of the generator's sizes: fewer animals or days leave no room for
 // one planted problem of every kind on its own subject and in its season.
@@ -64,6 +98,9 @@ type Planted struct {
 	Subject string `json:"subject"`
 	On      string `json:"on"`
 	Until   string `json:"until"` // last day of a run; empty for a single day
+	// Needs is NeedsPrevious for a finding of a check that needs the
+	// previous review (correction.plan.missing); empty otherwise.
+	Needs string `json:"needs,omitempty"`
 }
 
 // PlantedFile is the answer key's file name in the generated folder.
@@ -73,6 +110,7 @@ const (
 	cagesPerShed = 50
 	site         = "YARD"
 	timeZone     = "America/Winnipeg"
+	facilityName = "Birchfall Fur Research Station, generated scale farm (invented)"
 )
 
 // dayKind is the planned weather of a day.
@@ -171,6 +209,8 @@ type gen struct {
 	obs       []event // observations beyond the baseline weighings
 	cases     []event
 	litters   []event
+	actions   [][]string      // corrective_actions.csv rows
+	review    []ReviewFinding // the previous review's findings
 	planted   []*Planted
 	keepers   []string
 
@@ -184,7 +224,8 @@ type gen struct {
 }
 
 // Generate writes the records folder and PLANTED.json into dir (created if
-// needed) and returns the planted findings.
+// needed), and the previous review when opt.Review is set, and returns the
+// planted findings.
 func Generate(dir string, opt Options) ([]Planted, error) {
 	if opt.Animals < MinAnimals {
 		return nil, fmt.Errorf("--animals %d: at least %d, so every planted problem has its own animal", opt.Animals, MinAnimals)
@@ -200,6 +241,7 @@ func Generate(dir string, opt Options) ([]Planted, error) {
 	for _, p := range plants {
 		p.plant(g)
 	}
+	g.plans()
 	if err := g.write(dir); err != nil {
 		return nil, err
 	}
@@ -366,7 +408,7 @@ func yes(b bool) string {
 
 func (g *gen) write(dir string) error {
 	var sb strings.Builder
-	sb.WriteString("name: Birchfall Fur Research Station, generated scale farm (invented)\ntime_zone: " + timeZone + "\nbuildings:\n")
+	sb.WriteString("name: " + facilityName + "\ntime_zone: " + timeZone + "\nbuildings:\n")
 	for s := 0; s*cagesPerShed < len(g.cages)-dogs; s++ {
 		fmt.Fprintf(&sb, "  - {id: S%03d, exposure: outdoor, weather_site: %s}\n", s+1, site)
 	}
@@ -383,7 +425,7 @@ func (g *gen) write(dir string) error {
 		g.writeEvents("deaths.csv", g.deaths, "animal_id", "found_dead_at", "found_by", "suspected_cause", "vet_notified_at", "necropsy", "necropsy_ref", "disposal"),
 		g.writeEvents("treatments.csv", g.cases, "case_id", "animal_id", "opened_on", "diagnosis", "prescribed_by", "reviewed_on", "closed_on", "outcome"),
 		g.writeEvents("litters.csv", g.litters, "litter_id", "dam_id", "whelped_on", "born", "born_alive", "weaned_on", "weaned"),
-		g.writeEnvironment}
+		g.writeEnvironment, g.writeActions, g.writeReview}
 	for _, step := range steps {
 		if err := step(dir); err != nil {
 			return err
@@ -683,4 +725,48 @@ func (g *gen) writeStints(dir string) error {
 		c.row(g.keepers[0], stamp(i, "09:00"), stamp(i, "09:30"), site, "moderate")
 	}
 	return c.close()
+}
+
+// writeActions writes the committee's corrective actions.
+func (g *gen) writeActions(dir string) error {
+	c, err := create(dir, "corrective_actions.csv", "check", "subject", "found_on", "plan", "owner", "due_on", "closed_on", "verified_by")
+	if err != nil {
+		return err
+	}
+	for _, r := range g.actions {
+		c.row(r...)
+	}
+	return c.close()
+}
+
+// reviewPeriod is the previous review's period: the Days days before Start.
+func (g *gen) reviewPeriod() (from, to time.Time) {
+	return Start.AddDate(0, 0, -g.opt.Days), Start.AddDate(0, 0, -1)
+}
+
+// writeReview writes the previous review with Options.Review, if any.
+func (g *gen) writeReview(dir string) error {
+	if g.opt.Review == nil {
+		return nil
+	}
+	from, to := g.reviewPeriod()
+	r := Review{Facility: facilityName, From: dayOf(from), To: dayOf(to), Findings: g.review}
+	path := filepath.Join(dir, filepath.FromSlash(PreviousFile))
+	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+		return err
+	}
+	f, err := os.Create(path)
+	if err != nil {
+		return err
+	}
+	w := bufio.NewWriter(f)
+	if err := g.opt.Review(w, r); err != nil {
+		f.Close()
+		return fmt.Errorf("%s: %w", PreviousFile, err)
+	}
+	if err := w.Flush(); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
 }

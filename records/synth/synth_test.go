@@ -5,14 +5,18 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
+	"io/fs"
 	"os"
 	"path/filepath"
+	"slices"
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
 
 	"welfare/checker"
 	"welfare/records/synth"
+	"welfare/records/synth/review"
+	"welfare/reports"
 	"welfare/rules"
 )
 
@@ -44,6 +48,7 @@ func TestFindingsEqualPlanted(t *testing.T) {
 
 func findingsEqualPlanted(t *testing.T, opt synth.Options) {
 	dir := t.TempDir()
+	opt.Review = review.Write
 	planted, err := synth.Generate(dir, opt)
 	if err != nil {
 		t.Fatal(err)
@@ -59,9 +64,9 @@ func findingsEqualPlanted(t *testing.T, opt synth.Options) {
 	if diff := cmp.Diff(planted, fromFile); diff != "" {
 		t.Fatalf("PLANTED.json differs from the returned list (-returned +file):\n%s", diff)
 	}
-	got := check(t, dir)
+	got := check(t, dir, true)
 	if diff := cmp.Diff(planted, got); diff != "" {
-		t.Errorf("findings differ from PLANTED.json (-planted +found):\n%s", diff)
+		t.Errorf("findings with --previous differ from PLANTED.json (-planted +found):\n%s", diff)
 	}
 	kinds := map[string]bool{}
 	for _, p := range planted {
@@ -74,30 +79,84 @@ func findingsEqualPlanted(t *testing.T, opt synth.Options) {
 	}
 }
 
+// A plain check, without the previous review, finds what PLANTED.json
+// lists except the entries marked "needs": "--previous", and reports
+// their checks as not evaluated.
+func TestFindingsWithoutPrevious(t *testing.T) {
+	dir := t.TempDir()
+	planted, err := synth.Generate(dir, synth.Options{Animals: 200, Days: 60, Seed: 1, Review: review.Write})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want []synth.Planted
+	needs := 0
+	for _, p := range planted {
+		if p.Needs == synth.NeedsPrevious {
+			needs++
+			continue
+		}
+		want = append(want, p)
+	}
+	if needs == 0 {
+		t.Fatalf("nothing planted needs the previous review")
+	}
+	if diff := cmp.Diff(want, check(t, dir, false)); diff != "" {
+		t.Errorf("findings without --previous (-PLANTED.json without the needs entries +found):\n%s", diff)
+	}
+}
+
+// Without Options.Review the folder has no previous review and nothing
+// planted needs one (the benchmarks generate so).
+func TestNoReviewNoNeeds(t *testing.T) {
+	dir := t.TempDir()
+	planted, err := synth.Generate(dir, synth.Options{Animals: 150, Days: 60, Seed: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, filepath.FromSlash(synth.PreviousFile))); !os.IsNotExist(err) {
+		t.Errorf("%s written without Options.Review (%v)", synth.PreviousFile, err)
+	}
+	for _, p := range planted {
+		if p.Needs != "" {
+			t.Errorf("planted without a previous review: %+v", p)
+		}
+	}
+	if diff := cmp.Diff(planted, check(t, dir, false)); diff != "" {
+		t.Errorf("findings differ from PLANTED.json (-planted +found):\n%s", diff)
+	}
+}
+
 func TestSameSeedSameBytes(t *testing.T) {
 	a, b := t.TempDir(), t.TempDir()
-	opt := synth.Options{Animals: 150, Days: 60, Seed: 7}
+	opt := synth.Options{Animals: 150, Days: 60, Seed: 7, Review: review.Write}
 	for _, d := range []string{a, b} {
 		if _, err := synth.Generate(d, opt); err != nil {
 			t.Fatal(err)
 		}
 	}
-	entries, err := os.ReadDir(a)
+	var files []string
+	err := filepath.WalkDir(a, func(path string, d fs.DirEntry, err error) error {
+		if err == nil && !d.IsDir() {
+			rel, _ := filepath.Rel(a, path)
+			files = append(files, rel)
+		}
+		return err
+	})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(entries) < 10 {
-		t.Fatalf("only %d files written", len(entries))
+	if len(files) < 10 || !slices.Contains(files, "corrective_actions.csv") || !slices.Contains(files, filepath.FromSlash(synth.PreviousFile)) {
+		t.Fatalf("files written: %v", files)
 	}
-	for _, e := range entries {
-		x, _ := os.ReadFile(filepath.Join(a, e.Name()))
-		y, err := os.ReadFile(filepath.Join(b, e.Name()))
+	for _, name := range files {
+		x, _ := os.ReadFile(filepath.Join(a, name))
+		y, err := os.ReadFile(filepath.Join(b, name))
 		if err != nil || !bytes.Equal(x, y) {
-			t.Errorf("%s differs between two runs with the same seed (%v)", e.Name(), err)
+			t.Errorf("%s differs between two runs with the same seed (%v)", name, err)
 		}
 	}
 	c := t.TempDir()
-	if _, err := synth.Generate(c, synth.Options{Animals: 150, Days: 60, Seed: 8}); err != nil {
+	if _, err := synth.Generate(c, synth.Options{Animals: 150, Days: 60, Seed: 8, Review: review.Write}); err != nil {
 		t.Fatal(err)
 	}
 	x, _ := os.ReadFile(filepath.Join(a, synth.PlantedFile))
@@ -133,20 +192,52 @@ func policy(t *testing.T) *checker.Policy {
 	return p
 }
 
-func check(t *testing.T, dir string) []synth.Planted {
+// check runs the shipped rules on dir, with its previous review when
+// previous is true, and returns the findings as planted entries (Needs set
+// for a check that needs the previous review). A check not evaluated is an
+// error, except, without the previous review, one that needs it.
+func check(t *testing.T, dir string, previous bool) []synth.Planted {
 	t.Helper()
-	res, err := policy(t).Check(context.Background(), os.DirFS(dir), checker.Period{}, nil)
+	p := policy(t)
+	var opt checker.CheckOptions
+	if previous {
+		f, err := os.Open(filepath.Join(dir, filepath.FromSlash(synth.PreviousFile)))
+		if err != nil {
+			t.Fatal(err)
+		}
+		defer f.Close()
+		if opt.Previous, err = reports.ReadFindings(f, synth.PreviousFile); err != nil {
+			t.Fatal(err)
+		}
+	}
+	res, _, err := p.CheckWith(context.Background(), os.DirFS(dir), opt)
 	if err != nil {
 		t.Fatal(err)
 	}
+	needs := map[string]bool{}
+	for _, c := range p.Checks() {
+		needs[c.ID] = slices.Contains(c.Needs, synth.NeedsPrevious)
+	}
+	skipped := map[string]bool{}
 	for _, s := range res.NotEvaluated {
-		t.Errorf("not evaluated: %s (%s)", s.Check, s.Reason)
+		skipped[s.Check] = true
+		if previous || !needs[s.Check] {
+			t.Errorf("not evaluated: %s (%s)", s.Check, s.Reason)
+		}
+	}
+	for id, n := range needs {
+		if n && !previous && !skipped[id] {
+			t.Errorf("%s needs the previous review but was evaluated without it", id)
+		}
 	}
 	got := []synth.Planted{}
 	for _, f := range res.Findings {
 		p := synth.Planted{Check: f.Check, Subject: f.Subject, On: f.On.String()}
 		if !f.Until.IsZero() && f.Until != f.On {
 			p.Until = f.Until.String()
+		}
+		if needs[f.Check] {
+			p.Needs = synth.NeedsPrevious
 		}
 		got = append(got, p)
 	}
