@@ -91,7 +91,7 @@ func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, input
 	var out []Finding
 	for _, q := range queries {
 		evalCtx, cancel := context.WithTimeout(ctx, e.opt.Timeout)
-		rs, err := q.query.Eval(evalCtx, rego.EvalParsedInput(val))
+		rs, err := q.query.Eval(evalCtx, rego.EvalParsedInput(val), rego.EvalTime(pinnedTime))
 		timedOut := errors.Is(evalCtx.Err(), context.DeadlineExceeded)
 		cancel()
 		if err != nil {
