@@ -180,6 +180,9 @@ func TestColdDemoMatchesAnswerKey(t *testing.T) {
 	}
 	got := []row{}
 	for _, f := range res.Findings {
+		if f.Check == RejectedCheck {
+			continue // listed whatever Only says; not a cold finding
+		}
 		got = append(got, row{f.Check, f.Subject, f.On.String(), f.Until.String()})
 	}
 	less := func(rs []row) func(i, j int) bool {

@@ -284,3 +284,64 @@ func compareLoc(a, b *ast.Location) int {
 	}
 	return a.Col - b.Col
 }
+
+// ruleSites finds where findings come from, for messages about a finding a
+// rule got wrong: per check id the findings rule that names it as a
+// literal "check" (else the rule its METADATA block documents), and per
+// package every findings rule, each as "file:row".
+func ruleSites(modules map[string]*ast.Module) (byCheck map[string]string, byPackage map[string][]string) {
+	byCheck, byPackage = map[string]string{}, map[string][]string{}
+	files := make([]string, 0, len(modules))
+	for f := range modules {
+		files = append(files, f)
+	}
+	sort.Strings(files)
+	site := func(loc *ast.Location) string {
+		if loc == nil {
+			return ""
+		}
+		return fmt.Sprintf("%s:%d", loc.File, loc.Row)
+	}
+	var mods []*ast.Module
+	for _, f := range files {
+		m := modules[f]
+		mods = append(mods, m)
+		name := strings.TrimPrefix(m.Package.Path.String(), "data.")
+		for _, r := range m.Rules {
+			if !isFindings(r) {
+				continue
+			}
+			at := site(r.Location)
+			byPackage[name] = append(byPackage[name], at)
+			ast.WalkTerms(r, func(t *ast.Term) bool {
+				obj, ok := t.Value.(ast.Object)
+				if !ok {
+					return false
+				}
+				if v := obj.Get(ast.StringTerm("check")); v != nil {
+					if id, ok := v.Value.(ast.String); ok {
+						if _, seen := byCheck[string(id)]; !seen {
+							byCheck[string(id)] = at
+						}
+					}
+				}
+				return false
+			})
+		}
+	}
+	as, errs := ast.BuildAnnotationSet(mods)
+	if len(errs) > 0 {
+		return byCheck, byPackage
+	}
+	for _, ar := range as.Flatten() {
+		id, _ := ar.Annotations.Custom["id"].(string)
+		r := ar.GetRule()
+		if id == "" || r == nil {
+			continue
+		}
+		if _, seen := byCheck[id]; !seen {
+			byCheck[id] = site(r.Location)
+		}
+	}
+	return byCheck, byPackage
+}

@@ -108,7 +108,16 @@ func (p *Policy) CheckScoped(ctx context.Context, recordsFS fs.FS, only []string
 	if err != nil {
 		return nil, nil, err
 	}
-	res, err := check(ctx, config{Records: judged, Limits: p.limits, Engine: p.engine, Period: period, Only: only, Progress: progress})
+	lines := capture.lineCounts()
+	for _, pr := range set.Problems {
+		// A file the loader refused unread (too large, say) is still named
+		// by its problem.
+		if _, read := lines[pr.File]; !read {
+			lines[pr.File] = 0
+		}
+	}
+	res, err := check(ctx, config{Records: judged, Limits: p.limits, Engine: p.engine, Period: period, Only: only,
+		Progress: progress, Lines: lines, Rejected: set.Problems})
 	if err != nil {
 		return nil, nil, err
 	}
