@@ -238,7 +238,7 @@ const RejectedCheck = "records.row.rejected"
 var rejectedInfo = CheckInfo{
 	ID: RejectedCheck, Domain: "records", Title: "Row rejected",
 	Description: "A row failed parsing, validation or a reference check; it was not used by any other check.",
-	Severity: Minor, Source: "common practice", Package: "(loader)",
+	Severity:    Minor, Source: "common practice", Package: "(loader)",
 }
 
 // addRejected lists every row the loader rejected among the findings: the

@@ -16,8 +16,8 @@ type Result struct {
 	// every one, whatever --only, the rules in force or severity overrides
 	// say; each is also a RejectedCheck finding.
 	Rejected []records.Problem
-	Warnings    []records.Warning
-	Findings    []Finding // in SortFindings order
+	Warnings []records.Warning
+	Findings []Finding // in SortFindings order
 	// Checks lists every check that was in force (evaluated or not), sorted by id.
 	Checks       []CheckInfo
 	NotEvaluated []Skipped
