@@ -31,6 +31,8 @@ type checkOpts struct {
 	failOn         string
 	maxPerCheck    int
 	timeoutPerEval time.Duration
+	packageTimeout time.Duration
+	evalTimeout    time.Duration
 	timings        bool
 }
 
@@ -51,9 +53,11 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.pdfOut, "pdf", "", "write the PDF audit report to `FILE`")
 	fs.StringVar(&o.inspector, "inspector", "", "`NAME` of the person inspecting, shown on the report")
 	fs.StringVar(&o.generatedAt, "generated-at", "", "report generation `TIME` (RFC 3339; default now) — the same time gives a byte-identical PDF")
-	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never)")
+	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never); rejected rows exit 1 under every value but never")
 	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; all are in JSON, CSV and PDF)")
-	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", 5*time.Second, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
+	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", checker.DefaultTimeout, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
+	fs.DurationVar(&o.packageTimeout, "package-timeout", checker.DefaultPackageBudget, "time budget of one rule package across all its subjects (a `DURATION`)")
+	fs.DurationVar(&o.evalTimeout, "evaluation-timeout", checker.DefaultTotalBudget, "time budget of the whole rule evaluation, every package and subject (a `DURATION`)")
 	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time (load, facts, rules, reports) and peak heap to stderr")
 	return fs, o
 }
@@ -102,6 +106,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		return err
 	}
 	policy, err := checker.Compile(ctx, lim, sources, checker.Options{Timeout: o.timeoutPerEval,
+		PackageBudget: o.packageTimeout, TotalBudget: o.evalTimeout,
 		Progress: func(phase string, done int) {
 			if done == 0 {
 				ph.enter(phase, map[string]string{"load": "rows", "rules": "subjects"}[phase])
@@ -184,7 +189,21 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 			return errFindings
 		}
 	}
+	// Rows the loader rejected were not judged by any check: a run with
+	// them never passes, whatever their severity says, unless the user
+	// asked for --fail-on never.
+	if failRank > 0 && len(res.Rejected) > 0 {
+		fmt.Fprintf(stderr, "exit 1: %s rejected (rejected rows fail every --fail-on but never)\n", plural(len(res.Rejected), "row was", "rows were"))
+		return errFindings
+	}
 	return nil
+}
+
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
 }
 
 func failOnRank(s string) (int, error) {
