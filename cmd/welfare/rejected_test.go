@@ -80,7 +80,9 @@ func TestRejectedRowsCannotBeFilteredAway(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			var doc struct{ Findings []struct{ Check, Subject string } }
+			var doc struct {
+				Findings []struct{ Check, Subject string }
+			}
 			if err := json.Unmarshal(b, &doc); err != nil {
 				t.Fatal(err)
 			}
