@@ -54,7 +54,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.inspector, "inspector", "", "`NAME` of the person inspecting, shown on the report")
 	fs.StringVar(&o.generatedAt, "generated-at", "", "report generation `TIME` (RFC 3339; default now) — the same time gives a byte-identical PDF")
 	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never); rejected rows exit 1 under every value but never")
-	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; all are in JSON, CSV and PDF)")
+	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; every rejected row is shown; all are in JSON, CSV and PDF)")
 	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", checker.DefaultTimeout, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
 	fs.DurationVar(&o.packageTimeout, "package-timeout", checker.DefaultPackageBudget, "time budget of one rule package across all its subjects (a `DURATION`)")
 	fs.DurationVar(&o.evalTimeout, "evaluation-timeout", checker.DefaultTotalBudget, "time budget of the whole rule evaluation, every package and subject (a `DURATION`)")
