@@ -61,10 +61,10 @@ type engine struct {
 	kinds    map[string][]*packageQuery
 	override map[string]string // check id -> severity or "off", from data.limits.severity
 	files    []ruleFile        // the rule files compiled, in the order read
-	// ruleAt is, per check id, the findings rule that makes its findings
-	// ("file:row"); packageRules every findings rule of a package.
-	ruleAt       map[string]string
-	packageRules map[string][]string
+	// ruleAt is, per check id, the findings rules that make its findings;
+	// packageRules every findings rule of a package.
+	ruleAt       map[string][]ruleSite
+	packageRules map[string][]ruleSite
 }
 
 // ruleFile is one rule file as read: its source, its path in the source,

@@ -228,21 +228,34 @@ var malformedInfo = CheckInfo{
 }
 
 // malformed turns a finding the rule got wrong into a MalformedCheck
-// finding naming the rule's file and row (its check's rule, else the
-// package's findings rules) and the offending field.
+// finding naming the rule's file and row and the offending field. The
+// rule is the one of its check (else of its package) whose literal fields
+// agree with the finding; when several could have made it, all are named.
 func (e *engine) malformed(pkg, subject string, raw any, err error) Finding {
+	candidates := e.packageRules[pkg]
+	if obj, ok := raw.(map[string]any); ok {
+		if id, ok := obj["check"].(string); ok {
+			if c, known := e.checks[id]; known && c.Package == pkg && len(e.ruleAt[id]) > 0 {
+				candidates = e.ruleAt[id]
+			}
+		}
+	}
+	// The rules whose literal fields agree with the finding, when any do.
+	var rs, all []string
+	for _, c := range candidates {
+		all = append(all, c.at)
+		if c.matches(raw) {
+			rs = append(rs, c.at)
+		}
+	}
+	if len(rs) == 0 {
+		rs = all
+	}
 	where := pkg
-	if rs := e.packageRules[pkg]; len(rs) == 1 {
+	if len(rs) == 1 {
 		where = rs[0]
 	} else if len(rs) > 1 {
 		where = strings.Join(rs, ", ") + " (one of these findings rules)"
-	}
-	if obj, ok := raw.(map[string]any); ok {
-		if id, ok := obj["check"].(string); ok {
-			if c, known := e.checks[id]; known && c.Package == pkg && e.ruleAt[id] != "" {
-				where = e.ruleAt[id]
-			}
-		}
 	}
 	return Finding{
 		Check: MalformedCheck, Domain: malformedInfo.Domain, Subject: subject, Severity: Significant,

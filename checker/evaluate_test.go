@@ -51,7 +51,7 @@ func TestEvaluateTimeBudget(t *testing.T) {
 // other findings still report. The findings rule under test is on line 16
 // of p.rego, a good one on line 18.
 func TestEvaluateBadFindings(t *testing.T) {
-	const both = "user/p.rego:16, user/p.rego:18 (one of these findings rules): welfare.sandbox"
+	const both = "user/p.rego:16: welfare.sandbox" // the rule whose literal fields agree
 	tests := []struct {
 		name, object, want string
 	}{
@@ -64,8 +64,8 @@ func TestEvaluateBadFindings(t *testing.T) {
 		{"evidence not strings", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": [12]}`,
 			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: field "evidence": must be a list of "FILE:LINE" strings, not one holding 12; the finding: {"check":"sandbox.probe.fired","evidence":[12],"message":"m","on":"2026-01-01","subject":"E-01"}`},
 		// A literal id without METADATA does not compile (TestNewEngineRulesErrors);
-		// a computed one is caught when the finding is decoded, and the
-		// package's findings rules are named.
+		// a computed one is caught when the finding is decoded, and of the
+		// package's findings rules the one whose literal fields agree is named.
 		{"check without metadata", `{"check": concat(".", ["sandbox", "probe", "other"]), "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": []}`,
 			both + ` gave a finding that was not reported: field "check": "sandbox.probe.other" has no METADATA (title, description, custom.id, custom.severity, custom.source); the finding: {"check":"sandbox.probe.other","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01"}`},
 		{"misspelt field", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "untill": "2026-01-02", "message": "m", "evidence": []}`,
@@ -94,6 +94,27 @@ func TestEvaluateBadFindings(t *testing.T) {
 				t.Errorf("findings (-want +got):\n%s", diff)
 			}
 		})
+	}
+}
+
+// TestMalformedNamesEveryRuleThatCouldHaveMadeIt: when two findings rules
+// of a check could have made the bad finding, both are named.
+func TestMalformedNamesEveryRuleThatCouldHaveMadeIt(t *testing.T) {
+	obj := `{"check": "sandbox.probe.fired", "subject": input.id, "on": input.on, "message": "m", "evidence": []}`
+	src := engHeader + "findings contains " + obj + " if input.a\n\nfindings contains " + obj + " if input.b\n"
+	src = strings.Replace(src, "# scope: package\n", "# schemas:\n#   - input: {type: object}\n# scope: package\n", 1)
+	e := engNew(t, engUser(map[string]string{"p.rego": src}), nil, checker.EngineOptions{})
+	fs, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-01", "a": true, "on": "2026-1-5"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []string{`user/p.rego:18, user/p.rego:20 (one of these findings rules): welfare.sandbox gave a finding that was not reported: field "on": "2026-1-5" is not a date (YYYY-MM-DD); the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-1-5","subject":"E-01"}`}
+	var got []string
+	for _, f := range fs {
+		got = append(got, f.Message)
+	}
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("findings (-want +got):\n%s", diff)
 	}
 }
 

@@ -285,12 +285,42 @@ func compareLoc(a, b *ast.Location) int {
 	return a.Col - b.Col
 }
 
+// ruleSite is one findings rule: its "file:row" and, for each finding
+// object it writes, the fields it gives as literal values.
+type ruleSite struct {
+	at       string
+	literals []map[string]any
+}
+
+// matches reports whether the rule could have made the finding raw: one of
+// its finding objects agrees with raw on every literal field (a rule with
+// no such object could have made anything).
+func (r ruleSite) matches(raw any) bool {
+	obj, ok := raw.(map[string]any)
+	if !ok || len(r.literals) == 0 {
+		return true
+	}
+	for _, lits := range r.literals {
+		same := true
+		for k, v := range lits {
+			if fmt.Sprint(obj[k]) != fmt.Sprint(v) {
+				same = false
+				break
+			}
+		}
+		if same {
+			return true
+		}
+	}
+	return false
+}
+
 // ruleSites finds where findings come from, for messages about a finding a
-// rule got wrong: per check id the findings rule that names it as a
+// rule got wrong: per check id the findings rules that name it as a
 // literal "check" (else the rule its METADATA block documents), and per
-// package every findings rule, each as "file:row".
-func ruleSites(modules map[string]*ast.Module) (byCheck map[string]string, byPackage map[string][]string) {
-	byCheck, byPackage = map[string]string{}, map[string][]string{}
+// package every findings rule.
+func ruleSites(modules map[string]*ast.Module) (byCheck, byPackage map[string][]ruleSite) {
+	byCheck, byPackage = map[string][]ruleSite{}, map[string][]ruleSite{}
 	files := make([]string, 0, len(modules))
 	for f := range modules {
 		files = append(files, f)
@@ -311,22 +341,36 @@ func ruleSites(modules map[string]*ast.Module) (byCheck map[string]string, byPac
 			if !isFindings(r) {
 				continue
 			}
-			at := site(r.Location)
-			byPackage[name] = append(byPackage[name], at)
+			rs := ruleSite{at: site(r.Location)}
+			var ids []string
 			ast.WalkTerms(r, func(t *ast.Term) bool {
 				obj, ok := t.Value.(ast.Object)
-				if !ok {
+				if !ok || obj.Get(ast.StringTerm("check")) == nil {
 					return false
 				}
-				if v := obj.Get(ast.StringTerm("check")); v != nil {
-					if id, ok := v.Value.(ast.String); ok {
-						if _, seen := byCheck[string(id)]; !seen {
-							byCheck[string(id)] = at
+				lits := map[string]any{}
+				obj.Foreach(func(k, v *ast.Term) {
+					key, ok := k.Value.(ast.String)
+					if !ok {
+						return
+					}
+					switch v.Value.(type) {
+					case ast.String, ast.Number, ast.Boolean:
+						if x, err := ast.JSON(v.Value); err == nil {
+							lits[string(key)] = x
 						}
 					}
+				})
+				rs.literals = append(rs.literals, lits)
+				if id, ok := lits["check"].(string); ok && !slices.Contains(ids, id) {
+					ids = append(ids, id)
 				}
 				return false
 			})
+			byPackage[name] = append(byPackage[name], rs)
+			for _, id := range ids {
+				byCheck[id] = append(byCheck[id], rs)
+			}
 		}
 	}
 	as, errs := ast.BuildAnnotationSet(mods)
@@ -340,7 +384,7 @@ func ruleSites(modules map[string]*ast.Module) (byCheck map[string]string, byPac
 			continue
 		}
 		if _, seen := byCheck[id]; !seen {
-			byCheck[id] = site(r.Location)
+			byCheck[id] = []ruleSite{{at: site(r.Location)}}
 		}
 	}
 	return byCheck, byPackage
