@@ -71,6 +71,14 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 	if len(pos) != 1 {
 		return &usageError{cmd: "check", msg: countMsg("one records folder", pos)}
 	}
+	for _, b := range []struct {
+		name string
+		d    time.Duration
+	}{{"rule-timeout", o.timeoutPerEval}, {"package-timeout", o.packageTimeout}, {"evaluation-timeout", o.evalTimeout}} {
+		if b.d <= 0 {
+			return usagef("--%s %s: a time budget must be more than 0 (such as 5s or 1m)", b.name, b.d)
+		}
+	}
 	return checkFolder(ctx, pos[0], o, stdout, stderr)
 }
 
