@@ -3,6 +3,7 @@ package checker
 import (
 	"context"
 	"fmt"
+	"slices"
 	"strings"
 
 	"welfare/records"
@@ -25,6 +26,14 @@ type config struct {
 	// Previous is the previous review (--previous), for the follow-up and
 	// the correction checks; nil when none was given.
 	Previous *Previous
+	// Rejected are the loader's rejected rows (records.Set.Problems) when
+	// Records is a part of what was loaded (records.Set.Until); nil:
+	// Records.Problems.
+	Rejected []records.Problem
+	// Lines has, per record file the loader read, its number of lines:
+	// every evidence ref must name one of them. Nil when the rows did not
+	// come from files (hand-made sets in tests): refs are then not checked.
+	Lines map[string]int
 }
 
 // check computes the facts of every subject, evaluates the rules on them
@@ -109,30 +118,51 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 	}
 
 	progress("rules", 0)
+	// The whole evaluation runs under its own budget; the packages' time
+	// and the files read go to Evaluate with the context.
+	rctx, cancel := cfg.Engine.startRun(ctx, cfg.Lines)
+	defer cancel()
 	evaluated := 0
 	var firstPass []Finding
+	malformed := false
 	for _, kind := range cfg.Engine.Kinds() {
 		inputs := f.inputs(kind)
 		if len(inputs) == 0 {
 			continue
 		}
-		found, err := cfg.Engine.Evaluate(ctx, kind, inputs)
+		found, err := cfg.Engine.Evaluate(rctx, kind, inputs)
 		if err != nil {
 			return nil, err
 		}
 		evaluated += len(inputs)
 		progress("rules", evaluated)
 		for _, fd := range found {
-			if skipped[fd.Check] {
+			switch {
+			case fd.Check == MalformedCheck:
+				// A rule's mistake is the run's problem, whatever --only says.
+				fd.On = p.From
+				malformed = true
+			case fd.Check == RejectedCheck:
+				// Rejected rows are always listed (addRejected).
+			case skipped[fd.Check]:
 				continue
-			}
-			firstPass = append(firstPass, fd) // the correction checks see every domain's
-			if len(only) > 0 && !only[fd.Domain] {
-				continue
+			default:
+				firstPass = append(firstPass, fd) // the correction checks see every domain's
+				if len(only) > 0 && !only[fd.Domain] {
+					continue
+				}
 			}
 			res.Findings = append(res.Findings, fd)
 		}
 	}
+	if malformed {
+		res.Checks = addCheck(res.Checks, malformedInfo)
+	}
+	res.Rejected = set.Problems
+	if cfg.Rejected != nil {
+		res.Rejected = cfg.Rejected
+	}
+	addRejected(res, cfg.Engine.checks, p)
 	SortFindings(res.Findings)
 	inForce := map[string]bool{}
 	for _, c := range res.Checks {
@@ -224,4 +254,64 @@ func siteOf(set *records.Set) map[string]string {
 		m[s] = s
 	}
 	return m
+}
+
+// RejectedCheck is the check id of a row the loader rejected. Its findings
+// are never filtered away: not by --only, not by a severity override
+// "off", not by leaving the shipped rules out (addRejected).
+const RejectedCheck = "records.row.rejected"
+
+// rejectedInfo is RejectedCheck's catalogue entry when the rules in force
+// do not define it (the shipped rules/records.rego does).
+var rejectedInfo = CheckInfo{
+	ID: RejectedCheck, Domain: "records", Title: "Row rejected",
+	Description: "A row failed parsing, validation or a reference check; it was not used by any other check.",
+	Severity:    Minor, Source: "common practice", Package: "(loader)",
+}
+
+// addRejected lists every row the loader rejected among the findings: the
+// rule's own finding when it made one, otherwise one made here from the
+// loader's problem, with the rule's severity when the rule is in force
+// (a severity override "off" does not hide a rejected row).
+func addRejected(res *Result, checks map[string]CheckInfo, p Period) {
+	if len(res.Rejected) == 0 {
+		return
+	}
+	listed := map[string]bool{}
+	for _, f := range res.Findings {
+		if f.Check == RejectedCheck {
+			listed[f.Subject] = true
+		}
+	}
+	info, inForce := checks[RejectedCheck]
+	if !inForce {
+		info = rejectedInfo
+	}
+	added := false
+	for _, pr := range res.Rejected {
+		ref := pr.Row()
+		if listed[string(ref)] {
+			continue
+		}
+		on := pr.Day
+		if on.IsZero() {
+			on = p.From
+		}
+		res.Findings = append(res.Findings, Finding{Check: RejectedCheck, Domain: info.Domain, Subject: string(ref), On: on,
+			Severity: info.Severity, Message: pr.Error(), Evidence: []records.Ref{ref}, Title: info.Title, Source: info.Source,
+			Reportable: info.Reportable})
+		added = true
+	}
+	if added && !inForce {
+		res.Checks = addCheck(res.Checks, rejectedInfo)
+	}
+}
+
+// addCheck adds c to checks (sorted by id) unless it is there.
+func addCheck(checks []CheckInfo, c CheckInfo) []CheckInfo {
+	i, found := slices.BinarySearchFunc(checks, c.ID, func(a CheckInfo, id string) int { return strings.Compare(a.ID, id) })
+	if found {
+		return checks
+	}
+	return slices.Insert(checks, i, c)
 }

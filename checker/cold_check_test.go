@@ -180,6 +180,9 @@ func TestColdDemoMatchesAnswerKey(t *testing.T) {
 	}
 	got := []row{}
 	for _, f := range res.Findings {
+		if f.Check == RejectedCheck {
+			continue // listed whatever Only says; not a cold finding
+		}
 		got = append(got, row{f.Check, f.Subject, f.On.String(), f.Until.String()})
 	}
 	less := func(rs []row) func(i, j int) bool {
@@ -230,7 +233,7 @@ func TestColdRuleDecides(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			src := []Source{{Name: "committee", FS: fstest.MapFS{"cold.rego": {Data: []byte(tc.src)}}}}
+			src := []Source{{Name: "committee", FS: fstest.MapFS{"cold.rego": {Data: []byte(tc.src)}}, Trusted: true}} // the shipped rule as edited in the project
 			e, err := NewEngine(context.Background(), src, data, EngineOptions{})
 			if err != nil {
 				t.Fatal(err)

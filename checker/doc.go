@@ -30,6 +30,26 @@
 // (days_at_or_past_bedding_limits), and the rule still makes the deciding
 // comparison on each entry.
 //
+// # Untrusted rules
+//
+// A committee's rule files are contained (sandbox.go): each defines a
+// package of its own under welfare. that is not a shipped package's name
+// (shipped files are recognised by path and bytes; Source.Trusted marks
+// the project's test policies); anything else, package limits above all,
+// is refused at its package line. The sandbox has no network, environment,
+// random or wall-clock built-ins (time.now_ns, certificate and token
+// verification), and every evaluation sees the same pinned time. Three
+// time budgets bound the rules (Options): one package on one subject
+// (Timeout, 5s), one package across all subjects (PackageBudget, 60s, the
+// subjects' times added up) and the whole evaluation (TotalBudget, 5 min);
+// each error names the package. A finding a rule gets wrong, evidence that
+// names no line of a record file read included, becomes a
+// rules.finding.malformed finding (MalformedCheck) naming the rule's
+// file:row and the field; the rest still reports. The loader's rejected
+// rows (Result.Rejected) are always records.row.rejected findings
+// (RejectedCheck), whatever only, the rules in force or an "off" override
+// say.
+//
 // # Files, by job
 //
 //	policy.go       Compile, Policy, Check, Test: the package's face
@@ -41,7 +61,7 @@
 //	sandbox.go      rule sources, the sandbox's built-ins, parsing, positioned errors
 //	engine.go       compiling and preparing one query per rule package
 //	metadata.go     rule packages and checks from their METADATA
-//	evaluate.go     evaluating the subjects of one kind in parallel, under a time budget
+//	evaluate.go     evaluating the subjects of one kind in parallel, under the time budgets; malformed findings
 //	findings.go     decoding findings, collapsing runs, the report order
 //	rulestest.go    the rules' own _test.rego tests
 //	fingerprint.go  the SHA-256 over records, rules and limits as read

@@ -20,6 +20,13 @@ type Options struct {
 	// (default 5s). User rules are untrusted, so a runaway loop must not hang
 	// an inspection.
 	Timeout time.Duration
+	// PackageBudget is the time budget of one rule package across all the
+	// subjects of one check (default 60s): the evaluation time of its
+	// subjects added up, however many workers ran them.
+	PackageBudget time.Duration
+	// TotalBudget is the wall time budget of the whole evaluation of one
+	// check, every package and subject (default 5 minutes).
+	TotalBudget time.Duration
 	// Workers is the number of subjects evaluated at once (default
 	// runtime.GOMAXPROCS(0)).
 	Workers int
@@ -36,6 +43,13 @@ type Options struct {
 // findings (facts_correction.go).
 var SubjectKinds = []string{"facility", "enclosure", "animal", "staff", "item", "protocol", "site", "building", "correction"}
 
+// The default time budgets (Options).
+const (
+	DefaultTimeout       = 5 * time.Second
+	DefaultPackageBudget = 60 * time.Second
+	DefaultTotalBudget   = 5 * time.Minute
+)
+
 // ErrTimeBudget is wrapped by the error Evaluate returns when one
 // evaluation runs out of its time budget.
 var ErrTimeBudget = errors.New("time budget ran out")
@@ -49,6 +63,10 @@ type engine struct {
 	kinds    map[string][]*packageQuery
 	override map[string]string // check id -> severity or "off", from data.limits.severity
 	files    []ruleFile        // the rule files compiled, in the order read
+	// ruleAt is, per check id, the findings rules that make its findings;
+	// packageRules every findings rule of a package.
+	ruleAt       map[string][]ruleSite
+	packageRules map[string][]ruleSite
 }
 
 // ruleFile is one rule file as read: its source, its path in the source,
@@ -70,7 +88,13 @@ type packageQuery struct {
 // in the rules is returned as a *RulesError.
 func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt Options) (*engine, error) {
 	if opt.Timeout <= 0 {
-		opt.Timeout = 5 * time.Second
+		opt.Timeout = DefaultTimeout
+	}
+	if opt.PackageBudget <= 0 {
+		opt.PackageBudget = DefaultPackageBudget
+	}
+	if opt.TotalBudget <= 0 {
+		opt.TotalBudget = DefaultTotalBudget
 	}
 	if opt.Workers <= 0 {
 		opt.Workers = runtime.GOMAXPROCS(0)
@@ -98,6 +122,7 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 		return nil, err
 	}
 	store := limitsStore(limits)
+	ruleAt, packageRules := ruleSites(modules)
 
 	e := &engine{
 		opt:      opt,
@@ -105,6 +130,9 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 		kinds:    map[string][]*packageQuery{},
 		override: override,
 		files:    files,
+
+		ruleAt:       ruleAt,
+		packageRules: packageRules,
 	}
 	for _, c := range checks {
 		e.sorted = append(e.sorted, c)

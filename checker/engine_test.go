@@ -17,7 +17,7 @@ import (
 
 // engBasic is the engine test rule set in testdata/policies/basic.
 func engBasic() []checker.Source {
-	return []checker.Source{{Name: "rules", FS: os.DirFS("testdata/policies/basic")}}
+	return []checker.Source{{Name: "rules", FS: os.DirFS("testdata/policies/basic"), Trusted: true}}
 }
 
 // engLimits are the limits the basic policies read. −28 °C wind chill is

@@ -9,17 +9,24 @@ import (
 	"strings"
 	"sync"
 	"sync/atomic"
+	"time"
+	"unicode/utf8"
 
 	"github.com/open-policy-agent/opa/v1/ast"
 	"github.com/open-policy-agent/opa/v1/rego"
 	"github.com/open-policy-agent/opa/v1/topdown"
+
+	"welfare/records"
 )
 
 // Evaluate runs every rule package that receives kind over each input (one
 // subject's facts: map[string]any / []any / string / float64 / int / bool),
-// in parallel, each evaluation under the time budget. It returns the
-// findings of this call, runs collapsed, sorted by domain, check, subject
-// and day.
+// in parallel, each evaluation under the time budgets (Options). It
+// returns the findings of this call, runs collapsed, sorted by domain,
+// check, subject and day. A finding a rule got wrong (a field of the wrong
+// type, a bad date, an unknown severity, a check id not of its package, an
+// evidence ref naming no record row) does not stop the rest: it becomes a
+// MalformedCheck finding naming the rule and the field.
 func (e *engine) Evaluate(ctx context.Context, kind string, inputs []map[string]any) ([]Finding, error) {
 	if !slices.Contains(SubjectKinds, kind) {
 		return nil, fmt.Errorf("unknown subject kind %q (known: %s)", kind, strings.Join(SubjectKinds, ", "))
@@ -27,6 +34,9 @@ func (e *engine) Evaluate(ctx context.Context, kind string, inputs []map[string]
 	queries := e.kinds[kind]
 	if len(queries) == 0 || len(inputs) == 0 {
 		return nil, nil
+	}
+	if runOf(ctx) == nil {
+		ctx = withRun(ctx, nil)
 	}
 
 	// On the first failure no new subjects start, but the ones already
@@ -58,13 +68,13 @@ func (e *engine) Evaluate(ctx context.Context, kind string, inputs []map[string]
 	close(next)
 	wg.Wait()
 
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
 	for _, err := range errs {
 		if err != nil {
 			return nil, err
 		}
+	}
+	if ctx.Err() != nil {
+		return nil, e.stopped(ctx, kind+" subjects", "")
 	}
 	var all []Finding
 	for _, r := range results {
@@ -73,6 +83,66 @@ func (e *engine) Evaluate(ctx context.Context, kind string, inputs []map[string]
 	all = collapseRuns(all, e.checks)
 	slices.SortStableFunc(all, compareFindings)
 	return all, nil
+}
+
+// errTotalBudget is the cause of a check's evaluation context ending when
+// the whole evaluation ran out of its budget.
+var errTotalBudget = errors.New("the whole evaluation's time budget ran out")
+
+// evalRun is the state one check's evaluation shares across its Evaluate
+// calls (through the context): the time each package has spent, and the
+// record files read with their line counts, for evidence refs.
+type evalRun struct {
+	mu    sync.Mutex
+	spent map[string]time.Duration
+	// lines has, per record file read, its number of lines; nil when the
+	// rows did not come from files (hand-made sets in tests), and evidence
+	// refs are then not compared with files.
+	lines map[string]int
+}
+
+type runKey struct{}
+
+// startRun is the context of one check's evaluation: the whole
+// evaluation's budget, and the run state its Evaluate calls share.
+func (e *engine) startRun(ctx context.Context, lines map[string]int) (context.Context, context.CancelFunc) {
+	ctx, cancel := context.WithTimeoutCause(ctx, e.opt.TotalBudget, errTotalBudget)
+	return withRun(ctx, lines), cancel
+}
+
+func withRun(ctx context.Context, lines map[string]int) context.Context {
+	return context.WithValue(ctx, runKey{}, &evalRun{spent: map[string]time.Duration{}, lines: lines})
+}
+
+func runOf(ctx context.Context) *evalRun {
+	r, _ := ctx.Value(runKey{}).(*evalRun)
+	return r
+}
+
+func (r *evalRun) spentOn(pkg string) time.Duration {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	return r.spent[pkg]
+}
+
+func (r *evalRun) add(pkg string, d time.Duration) {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	r.spent[pkg] += d
+}
+
+// stopped is the error of an evaluation whose context ended while running
+// what (a package) on subject: the whole evaluation's budget, named with
+// where it ran out, or the caller's cancellation (Ctrl-C) as it is.
+func (e *engine) stopped(ctx context.Context, what, subject string) error {
+	if errors.Is(context.Cause(ctx), errTotalBudget) {
+		if subject != "" {
+			what += ": subject " + subject
+		}
+		return fmt.Errorf("%s: the %s %w for the whole evaluation (every package and subject; a rule is looping or doing too much work)",
+			what, e.opt.TotalBudget, ErrTimeBudget)
+	}
+	return ctx.Err()
 }
 
 func inputSubject(input map[string]any) string {
@@ -88,16 +158,30 @@ func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, input
 	if err != nil {
 		return nil, fmt.Errorf("subject %s: facts cannot be given to the rules: %w", subject, err)
 	}
+	run := runOf(ctx)
 	var out []Finding
 	for _, q := range queries {
-		evalCtx, cancel := context.WithTimeout(ctx, e.opt.Timeout)
-		rs, err := q.query.Eval(evalCtx, rego.EvalParsedInput(val))
+		// A subject has the smaller of its own budget and what is left
+		// of its package's.
+		limit, packageLimited := e.opt.Timeout, false
+		if left := e.opt.PackageBudget - run.spentOn(q.name); left < limit {
+			limit, packageLimited = left, true
+		}
+		if limit <= 0 {
+			return nil, e.packageBudgetErr(q.name, subject)
+		}
+		evalCtx, cancel := context.WithTimeout(ctx, limit)
+		started := time.Now()
+		rs, err := q.query.Eval(evalCtx, rego.EvalParsedInput(val), rego.EvalTime(pinnedTime))
+		run.add(q.name, time.Since(started))
 		timedOut := errors.Is(evalCtx.Err(), context.DeadlineExceeded)
 		cancel()
 		if err != nil {
 			switch {
 			case ctx.Err() != nil:
-				return nil, ctx.Err()
+				return nil, e.stopped(ctx, q.name, subject)
+			case (timedOut || topdown.IsCancel(err)) && packageLimited:
+				return nil, e.packageBudgetErr(q.name, subject)
 			case timedOut || topdown.IsCancel(err):
 				return nil, fmt.Errorf("%s: subject %s: the %s %w (a rule is looping or doing too much work)", q.name, subject, e.opt.Timeout, ErrTimeBudget)
 			}
@@ -111,9 +195,10 @@ func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, input
 			return nil, fmt.Errorf("%s: subject %s: findings must be a set of objects, got %T", q.name, subject, rs[0].Expressions[0].Value)
 		}
 		for _, raw := range list {
-			f, keep, err := e.toFinding(q.name, raw)
+			f, keep, err := e.toFinding(q.name, raw, run.lines)
 			if err != nil {
-				return nil, fmt.Errorf("%s: subject %s: finding %s: %w", q.name, subject, compactJSON(raw), err)
+				out = append(out, e.malformed(q.name, subject, raw, err))
+				continue
 			}
 			if keep {
 				out = append(out, f)
@@ -121,6 +206,75 @@ func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, input
 		}
 	}
 	return out, nil
+}
+
+func (e *engine) packageBudgetErr(pkg, subject string) error {
+	return fmt.Errorf("%s: the %s %w for the whole package, across its subjects (it ran out at subject %s; a rule is looping or doing too much work)",
+		pkg, e.opt.PackageBudget, ErrTimeBudget, subject)
+}
+
+// MalformedCheck is the check id of a finding a rule got wrong: the rule's
+// output could not be reported as it was, so the run says where and why
+// instead of dropping it or stopping.
+const MalformedCheck = "rules.finding.malformed"
+
+// malformedInfo is the catalogue entry of MalformedCheck; a result lists it
+// among its checks when it has such findings.
+var malformedInfo = CheckInfo{
+	ID: MalformedCheck, Domain: "rules", Title: "Finding a rule got wrong",
+	Description: "A rule produced a finding that could not be reported (a field of the wrong type, a bad date, " +
+		"an unknown severity, a check id not of its package, an evidence ref naming no record row): what it judged is unknown until the rule is fixed.",
+	Severity: Significant, Source: "welfare rule contract (checker/doc.go)", Package: "(checker)",
+}
+
+// malformed turns a finding the rule got wrong into a MalformedCheck
+// finding naming the rule's file and row and the offending field. The
+// rule is the one of its check (else of its package) whose literal fields
+// agree with the finding; when several could have made it, all are named.
+func (e *engine) malformed(pkg, subject string, raw any, err error) Finding {
+	candidates := e.packageRules[pkg]
+	if obj, ok := raw.(map[string]any); ok {
+		if id, ok := obj["check"].(string); ok {
+			if c, known := e.checks[id]; known && c.Package == pkg && len(e.ruleAt[id]) > 0 {
+				candidates = e.ruleAt[id]
+			}
+		}
+	}
+	// The rules whose literal fields agree with the finding, when any do.
+	var rs, all []string
+	for _, c := range candidates {
+		all = append(all, c.at)
+		if c.matches(raw) {
+			rs = append(rs, c.at)
+		}
+	}
+	if len(rs) == 0 {
+		rs = all
+	}
+	where := pkg
+	if len(rs) == 1 {
+		where = rs[0]
+	} else if len(rs) > 1 {
+		where = strings.Join(rs, ", ") + " (one of these findings rules)"
+	}
+	return Finding{
+		Check: MalformedCheck, Domain: malformedInfo.Domain, Subject: subject, Severity: Significant,
+		Message: fmt.Sprintf("%s: %s gave a finding that was not reported: %v; the finding: %s",
+			where, pkg, err, shorten(compactJSON(raw), 300)),
+		Evidence: []records.Ref{}, Title: malformedInfo.Title, Source: malformedInfo.Source,
+	}
+}
+
+// shorten cuts s to at most n bytes (at a rune boundary), saying so.
+func shorten(s string, n int) string {
+	if len(s) <= n {
+		return s
+	}
+	cut := n
+	for cut > 0 && !utf8.RuneStart(s[cut]) {
+		cut--
+	}
+	return fmt.Sprintf("%s… (%d bytes)", s[:cut], len(s))
 }
 
 func compactJSON(v any) string {

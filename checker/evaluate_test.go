@@ -45,35 +45,100 @@ func TestEvaluateTimeBudget(t *testing.T) {
 	}
 }
 
+// TestEvaluateBadFindings: a finding a rule got wrong does not stop the
+// check: it becomes a rules.finding.malformed finding (significant) naming
+// the rule's file and row and the offending field, and the package's
+// other findings still report. The findings rule under test is on line 16
+// of p.rego, a good one on line 18.
 func TestEvaluateBadFindings(t *testing.T) {
+	const both = "user/p.rego:16: welfare.sandbox" // the rule whose literal fields agree
 	tests := []struct {
 		name, object, want string
 	}{
 		{"missing on", `{"check": "sandbox.probe.fired", "subject": "E-01", "message": "m", "evidence": []}`,
-			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","subject":"E-01"}: missing "on"`},
+			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: field "on": missing; the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","subject":"E-01"}`},
 		{"bad date", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-02-30", "message": "m", "evidence": []}`,
-			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-02-30","subject":"E-01"}: on: "2026-02-30" is not a date (YYYY-MM-DD)`},
+			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: field "on": "2026-02-30" is not a date (YYYY-MM-DD); the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-02-30","subject":"E-01"}`},
+		{"wrong type", `{"check": "sandbox.probe.fired", "subject": 7, "on": "2026-01-01", "message": "m", "evidence": []}`,
+			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: field "subject": must be a non-empty string, not 7; the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":7}`},
+		{"evidence not strings", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": [12]}`,
+			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: field "evidence": must be a list of "FILE:LINE" strings, not one holding 12; the finding: {"check":"sandbox.probe.fired","evidence":[12],"message":"m","on":"2026-01-01","subject":"E-01"}`},
 		// A literal id without METADATA does not compile (TestNewEngineRulesErrors);
-		// a computed one is caught when the finding is decoded.
+		// a computed one is caught when the finding is decoded, and of the
+		// package's findings rules the one whose literal fields agree is named.
 		{"check without metadata", `{"check": concat(".", ["sandbox", "probe", "other"]), "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": []}`,
-			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.other","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01"}: check "sandbox.probe.other" has no METADATA (title, description, custom.id, custom.severity, custom.source)`},
+			both + ` gave a finding that was not reported: field "check": "sandbox.probe.other" has no METADATA (title, description, custom.id, custom.severity, custom.source); the finding: {"check":"sandbox.probe.other","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01"}`},
 		{"misspelt field", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "untill": "2026-01-02", "message": "m", "evidence": []}`,
-			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01","untill":"2026-01-02"}: unknown field "untill" (fields: check, subject, on, until, message, evidence, severity)`},
+			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: unknown field "untill" (fields: check, subject, on, until, message, evidence, severity); the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01","untill":"2026-01-02"}`},
 		{"bad own severity", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": [], "severity": "high"}`,
-			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","severity":"high","subject":"E-01"}: severity "high" is not significant, minor or note`},
+			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: field "severity": "high" is not significant, minor or note; the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","severity":"high","subject":"E-01"}`},
 	}
+	good := `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-02", "message": "good", "evidence": []}`
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			src := engHeader + "findings contains " + tt.object + "\n"
+			src := engHeader + "findings contains " + tt.object + "\n\nfindings contains " + good + "\n"
 			e := engNew(t, engUser(map[string]string{"p.rego": src}), nil, checker.EngineOptions{})
-			_, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-01"}})
-			if err == nil {
-				t.Fatal("Evaluate accepted a bad finding")
+			fs, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-01"}})
+			if err != nil {
+				t.Fatalf("Evaluate stopped on a bad finding: %v", err)
 			}
-			if got := err.Error(); got != tt.want {
-				t.Errorf("error:\n got %s\nwant %s", got, tt.want)
+			var got []string
+			for _, f := range fs {
+				got = append(got, fmt.Sprintf("%s %s %s %s", f.Check, f.Severity, f.Subject, f.Message))
+			}
+			want := []string{
+				"rules.finding.malformed significant E-01 " + tt.want,
+				"sandbox.probe.fired minor E-01 good",
+			}
+			if diff := cmp.Diff(want, got); diff != "" {
+				t.Errorf("findings (-want +got):\n%s", diff)
 			}
 		})
+	}
+}
+
+// TestMalformedNamesEveryRuleThatCouldHaveMadeIt: when two findings rules
+// of a check could have made the bad finding, both are named.
+func TestMalformedNamesEveryRuleThatCouldHaveMadeIt(t *testing.T) {
+	obj := `{"check": "sandbox.probe.fired", "subject": input.id, "on": input.on, "message": "m", "evidence": []}`
+	src := engHeader + "findings contains " + obj + " if input.a\n\nfindings contains " + obj + " if input.b\n"
+	src = strings.Replace(src, "# scope: package\n", "# schemas:\n#   - input: {type: object}\n# scope: package\n", 1)
+	e := engNew(t, engUser(map[string]string{"p.rego": src}), nil, checker.EngineOptions{})
+	fs, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-01", "a": true, "on": "2026-1-5"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []string{`user/p.rego:18, user/p.rego:20 (one of these findings rules): welfare.sandbox gave a finding that was not reported: field "on": "2026-1-5" is not a date (YYYY-MM-DD); the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-1-5","subject":"E-01"}`}
+	var got []string
+	for _, f := range fs {
+		got = append(got, f.Message)
+	}
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("findings (-want +got):\n%s", diff)
+	}
+}
+
+// TestEvaluateCheckOfAnotherPackage: a computed check id that belongs to
+// another package is a malformed finding of the package that made it.
+func TestEvaluateCheckOfAnotherPackage(t *testing.T) {
+	other := strings.Replace(strings.Replace(engHeader, "welfare.sandbox", "welfare.other", 1), "sandbox.probe.fired", "other.probe.fired", 1) +
+		"findings contains {\"check\": concat(\".\", [\"sandbox\", \"probe\", \"fired\"]), \"subject\": input.id, \"on\": \"2026-01-01\", \"message\": \"m\", \"evidence\": []}\n"
+	sandbox := engHeader + "findings contains {\"check\": \"sandbox.probe.fired\", \"subject\": input.id, \"on\": \"2026-01-01\", \"message\": \"ok\", \"evidence\": []}\n"
+	e := engNew(t, engUser(map[string]string{"a.rego": sandbox, "b.rego": other}), nil, checker.EngineOptions{})
+	fs, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-02"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, f := range fs {
+		got = append(got, f.Check+" "+f.Message)
+	}
+	want := []string{
+		`rules.finding.malformed user/b.rego:16: welfare.other gave a finding that was not reported: field "check": "sandbox.probe.fired" belongs to package welfare.sandbox, not welfare.other; the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":"E-02"}`,
+		"sandbox.probe.fired ok",
+	}
+	if diff := cmp.Diff(want, got); diff != "" {
+		t.Errorf("findings (-want +got):\n%s", diff)
 	}
 }
 

@@ -3,6 +3,7 @@ package checker_test
 import (
 	"context"
 	"fmt"
+	"strings"
 
 	"welfare/checker"
 	"welfare/records"
@@ -31,8 +32,9 @@ func ExamplePolicy_Check() {
 		fmt.Println(err)
 		return
 	}
+	// The rows the loader rejected are listed whatever the domains asked.
 	for _, f := range res.Findings {
-		fmt.Println(f.Severity, f.Check, f.Subject, f.On, f.Until)
+		fmt.Println(strings.TrimSpace(fmt.Sprint(f.Severity, " ", f.Check, " ", f.Subject, " ", f.On, " ", f.Until)))
 	}
 	// Output:
 	// significant enclosure.height.insufficient AB-05 2026-01-01 2026-01-31
@@ -41,4 +43,9 @@ func ExamplePolicy_Check() {
 	// minor enclosure.capacity.exceeded MB-07 2026-01-10 2026-01-31
 	// minor enclosure.nest_box.missing S3-12 2026-01-01 2026-01-31
 	// minor enclosure.platform.missing S2-05 2026-01-01 2026-01-31
+	// minor records.row.rejected animals.csv:114 2026-01-05
+	// minor records.row.rejected daily_care.csv:88 2026-01-07
+	// minor records.row.rejected handling.csv:75 2026-01-01
+	// minor records.row.rejected outdoor_work.csv:51 2026-01-12
+	// minor records.row.rejected weather.csv:135 2026-01-17
 }

@@ -21,6 +21,14 @@ var (
 	RunTests  = runTests
 )
 
+// EvaluateRun is Evaluate as one check runs it: under the whole
+// evaluation's budget.
+func EvaluateRun(ctx context.Context, e *Engine, kind string, inputs []map[string]any) ([]Finding, error) {
+	ctx, cancel := e.startRun(ctx, nil)
+	defer cancel()
+	return e.Evaluate(ctx, kind, inputs)
+}
+
 func Check(ctx context.Context, cfg Config) (*Result, error) { return check(ctx, cfg) }
 
 // Fingerprint reads the record files the loader reads from fsys (the

@@ -125,7 +125,15 @@ func peopleFindings(t testing.TB, set *records.Set, lim *rules.Limits, p Period)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return res.Findings
+	// Rejected rows are listed whatever Only says; these tests are about
+	// the people domains.
+	var out []Finding
+	for _, f := range res.Findings {
+		if f.Check != RejectedCheck {
+			out = append(out, f)
+		}
+	}
+	return out
 }
 
 func TestPeopleChecksEndToEnd(t *testing.T) {

@@ -15,28 +15,33 @@ var findingKeys = map[string]bool{
 }
 
 // toFinding converts one object of a findings set. keep is false when the
-// limits turn the check off.
-func (e *engine) toFinding(pkg string, raw any) (f Finding, keep bool, err error) {
+// limits turn the check off. lines (file -> its number of lines), when not
+// nil, are the record files read: every evidence ref must name a line of
+// one of them. An error names the offending field.
+func (e *engine) toFinding(pkg string, raw any, lines map[string]int) (f Finding, keep bool, err error) {
 	obj, ok := raw.(map[string]any)
 	if !ok {
-		return f, false, errors.New("is not an object")
+		return f, false, errors.New("it is not an object")
 	}
 	for k := range obj {
 		if !findingKeys[k] {
 			return f, false, fmt.Errorf("unknown field %q (fields: check, subject, on, until, message, evidence, severity)", k)
 		}
 	}
+	bad := func(key, format string, args ...any) error {
+		return fmt.Errorf("field %q: %s", key, fmt.Sprintf(format, args...))
+	}
 	str := func(key string, required bool) (string, error) {
 		v, has := obj[key]
 		if !has {
 			if required {
-				return "", fmt.Errorf("missing %q", key)
+				return "", bad(key, "missing")
 			}
 			return "", nil
 		}
 		s, ok := v.(string)
 		if !ok || (required && s == "") {
-			return "", fmt.Errorf("%q must be a non-empty string", key)
+			return "", bad(key, "must be a non-empty string, not %s", shorten(compactJSON(v), 60))
 		}
 		return s, nil
 	}
@@ -46,10 +51,10 @@ func (e *engine) toFinding(pkg string, raw any) (f Finding, keep bool, err error
 	}
 	info, ok := e.checks[check]
 	if !ok {
-		return f, false, fmt.Errorf("check %q has no METADATA (title, description, custom.id, custom.severity, custom.source)", check)
+		return f, false, bad("check", "%q has no METADATA (title, description, custom.id, custom.severity, custom.source)", check)
 	}
 	if info.Package != pkg {
-		return f, false, fmt.Errorf("check %q belongs to package %s, not %s", check, info.Package, pkg)
+		return f, false, bad("check", "%q belongs to package %s, not %s", check, info.Package, pkg)
 	}
 	f.Check, f.Domain, f.Title, f.Source = check, info.Domain, info.Title, info.Source
 	f.Reportable = info.Reportable
@@ -63,17 +68,17 @@ func (e *engine) toFinding(pkg string, raw any) (f Finding, keep bool, err error
 		return f, false, err
 	}
 	if f.On, err = records.ParseDay(on); err != nil {
-		return f, false, fmt.Errorf("on: %w", err)
+		return f, false, bad("on", "%v", err)
 	}
 	if until, err = str("until", false); err != nil {
 		return f, false, err
 	}
 	if until != "" {
 		if f.Until, err = records.ParseDay(until); err != nil {
-			return f, false, fmt.Errorf("until: %w", err)
+			return f, false, bad("until", "%v", err)
 		}
 		if f.Until < f.On {
-			return f, false, fmt.Errorf("until %s is before on %s", until, on)
+			return f, false, bad("until", "%s is before on %s", until, on)
 		}
 		if f.Until == f.On {
 			f.Until = 0
@@ -81,16 +86,21 @@ func (e *engine) toFinding(pkg string, raw any) (f Finding, keep bool, err error
 	}
 	ev, has := obj["evidence"]
 	if !has {
-		return f, false, errors.New(`missing "evidence" (a list of "FILE:LINE", may be empty)`)
+		return f, false, bad("evidence", `missing (a list of "FILE:LINE", may be empty)`)
 	}
 	refs, ok := ev.([]any)
 	if !ok {
-		return f, false, errors.New(`"evidence" must be a list of "FILE:LINE" strings`)
+		return f, false, bad("evidence", `must be a list of "FILE:LINE" strings`)
 	}
 	for _, r := range refs {
 		s, ok := r.(string)
 		if !ok || s == "" {
-			return f, false, errors.New(`"evidence" must be a list of "FILE:LINE" strings`)
+			return f, false, bad("evidence", `must be a list of "FILE:LINE" strings, not one holding %s`, shorten(compactJSON(r), 60))
+		}
+		if lines != nil {
+			if why := refNamesNoRow(s, lines); why != "" {
+				return f, false, bad("evidence", "%q names no record row: %s", shorten(s, 80), why)
+			}
 		}
 		f.Evidence = append(f.Evidence, records.Ref(s))
 	}
@@ -103,7 +113,7 @@ func (e *engine) toFinding(pkg string, raw any) (f Finding, keep bool, err error
 	}
 	if sev != "" {
 		if Severity(sev).Rank() == 0 {
-			return f, false, fmt.Errorf("severity %q is not significant, minor or note", sev)
+			return f, false, bad("severity", "%q is not significant, minor or note", sev)
 		}
 		f.Severity = Severity(sev)
 	}
@@ -114,6 +124,31 @@ func (e *engine) toFinding(pkg string, raw any) (f Finding, keep bool, err error
 		f.Severity = Severity(o)
 	}
 	return f, true, nil
+}
+
+// refNamesNoRow says why ref is not a row of the record files read (lines:
+// file -> its number of lines), or "" when it is. A ref is FILE:LINE, or a
+// bare FILE (a file-level problem); a workbook's FILE:SHEET!ROW or
+// FILE:SHEET!CELL needs its file read (its rows are not counted in lines).
+func refNamesNoRow(ref string, lines map[string]int) string {
+	file, rest, hasLine := strings.Cut(ref, ":")
+	n, read := lines[file]
+	switch {
+	case !read:
+		return fmt.Sprintf("%s is not a record file that was read", shorten(file, 60))
+	case !hasLine:
+		return "" // the whole file, as a file-level problem names it
+	case strings.HasSuffix(file, ".xlsx"):
+		return "" // a workbook's sheet, row or cell: rows are not counted as lines
+	}
+	line, err := strconv.Atoi(rest)
+	switch {
+	case err != nil || line < 1:
+		return "it is not FILE:LINE"
+	case line > n:
+		return fmt.Sprintf("%s has %d lines", file, n)
+	}
+	return ""
 }
 
 // sortRefs sorts evidence by file, then line as a number, and drops

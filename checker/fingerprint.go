@@ -1,6 +1,7 @@
 package checker
 
 import (
+	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
@@ -64,7 +65,18 @@ type captureFS struct {
 type capture struct {
 	h        hash.Hash
 	n        int64
+	newlines int
+	last     byte // the last byte read
 	complete bool // read to the end
+}
+
+// lines is the number of lines read: the line breaks, and a last line
+// without one.
+func (c *capture) lines() int {
+	if c.n > 0 && c.last != '\n' {
+		return c.newlines + 1
+	}
+	return c.newlines
 }
 
 func newCaptureFS(fsys fs.FS) *captureFS {
@@ -104,6 +116,18 @@ func (c *captureFS) keep(name string, cp *capture) {
 	}
 }
 
+// lineCounts has, per file read, its number of lines (evidence refs are
+// checked against them).
+func (c *captureFS) lineCounts() map[string]int {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	out := make(map[string]int, len(c.files))
+	for name, cp := range c.files {
+		out[name] = cp.lines()
+	}
+	return out
+}
+
 // read lists the files read, by name.
 func (c *captureFS) read() []capturedFile {
 	c.mu.Lock()
@@ -128,6 +152,10 @@ func (r *capturedRead) Read(p []byte) (int, error) {
 	n, err := r.File.Read(p)
 	r.c.h.Write(p[:n])
 	r.c.n += int64(n)
+	if n > 0 {
+		r.c.newlines += bytes.Count(p[:n], []byte{'\n'})
+		r.c.last = p[n-1]
+	}
 	if err == io.EOF {
 		r.c.complete = true
 	}

@@ -284,3 +284,108 @@ func compareLoc(a, b *ast.Location) int {
 	}
 	return a.Col - b.Col
 }
+
+// ruleSite is one findings rule: its "file:row" and, for each finding
+// object it writes, the fields it gives as literal values.
+type ruleSite struct {
+	at       string
+	literals []map[string]any
+}
+
+// matches reports whether the rule could have made the finding raw: one of
+// its finding objects agrees with raw on every literal field (a rule with
+// no such object could have made anything).
+func (r ruleSite) matches(raw any) bool {
+	obj, ok := raw.(map[string]any)
+	if !ok || len(r.literals) == 0 {
+		return true
+	}
+	for _, lits := range r.literals {
+		same := true
+		for k, v := range lits {
+			if fmt.Sprint(obj[k]) != fmt.Sprint(v) {
+				same = false
+				break
+			}
+		}
+		if same {
+			return true
+		}
+	}
+	return false
+}
+
+// ruleSites finds where findings come from, for messages about a finding a
+// rule got wrong: per check id the findings rules that name it as a
+// literal "check" (else the rule its METADATA block documents), and per
+// package every findings rule.
+func ruleSites(modules map[string]*ast.Module) (byCheck, byPackage map[string][]ruleSite) {
+	byCheck, byPackage = map[string][]ruleSite{}, map[string][]ruleSite{}
+	files := make([]string, 0, len(modules))
+	for f := range modules {
+		files = append(files, f)
+	}
+	sort.Strings(files)
+	site := func(loc *ast.Location) string {
+		if loc == nil {
+			return ""
+		}
+		return fmt.Sprintf("%s:%d", loc.File, loc.Row)
+	}
+	var mods []*ast.Module
+	for _, f := range files {
+		m := modules[f]
+		mods = append(mods, m)
+		name := strings.TrimPrefix(m.Package.Path.String(), "data.")
+		for _, r := range m.Rules {
+			if !isFindings(r) {
+				continue
+			}
+			rs := ruleSite{at: site(r.Location)}
+			var ids []string
+			ast.WalkTerms(r, func(t *ast.Term) bool {
+				obj, ok := t.Value.(ast.Object)
+				if !ok || obj.Get(ast.StringTerm("check")) == nil {
+					return false
+				}
+				lits := map[string]any{}
+				obj.Foreach(func(k, v *ast.Term) {
+					key, ok := k.Value.(ast.String)
+					if !ok {
+						return
+					}
+					switch v.Value.(type) {
+					case ast.String, ast.Number, ast.Boolean:
+						if x, err := ast.JSON(v.Value); err == nil {
+							lits[string(key)] = x
+						}
+					}
+				})
+				rs.literals = append(rs.literals, lits)
+				if id, ok := lits["check"].(string); ok && !slices.Contains(ids, id) {
+					ids = append(ids, id)
+				}
+				return false
+			})
+			byPackage[name] = append(byPackage[name], rs)
+			for _, id := range ids {
+				byCheck[id] = append(byCheck[id], rs)
+			}
+		}
+	}
+	as, errs := ast.BuildAnnotationSet(mods)
+	if len(errs) > 0 {
+		return byCheck, byPackage
+	}
+	for _, ar := range as.Flatten() {
+		id, _ := ar.Annotations.Custom["id"].(string)
+		r := ar.GetRule()
+		if id == "" || r == nil {
+			continue
+		}
+		if _, seen := byCheck[id]; !seen {
+			byCheck[id] = []ruleSite{{at: site(r.Location)}}
+		}
+	}
+	return byCheck, byPackage
+}

@@ -121,8 +121,16 @@ func (p *Policy) CheckWith(ctx context.Context, recordsFS fs.FS, opt CheckOption
 			return nil, nil, err
 		}
 	}
+	lines := capture.lineCounts()
+	for _, pr := range set.Problems {
+		// A file the loader refused unread (too large, say) is still named
+		// by its problem.
+		if _, read := lines[pr.File]; !read {
+			lines[pr.File] = 0
+		}
+	}
 	res, err := check(ctx, config{Records: judged, Limits: p.limits, Engine: p.engine, Period: period, Only: opt.Only,
-		Progress: progress, Previous: opt.Previous})
+		Progress: progress, Previous: opt.Previous, Lines: lines, Rejected: set.Problems})
 	if err != nil {
 		return nil, nil, err
 	}

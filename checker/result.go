@@ -12,8 +12,12 @@ type Result struct {
 	Period      Period
 	Fingerprint string // SHA-256 over the records, rules and limits used
 	Accounting  []records.FileCount
-	Warnings    []records.Warning
-	Findings    []Finding // in SortFindings order
+	// Rejected are the rows the loader rejected (records.Set.Problems),
+	// every one, whatever --only, the rules in force or severity overrides
+	// say; each is also a RejectedCheck finding.
+	Rejected []records.Problem
+	Warnings []records.Warning
+	Findings []Finding // in SortFindings order
 	// Checks lists every check that was in force (evaluated or not), sorted by id.
 	Checks       []CheckInfo
 	NotEvaluated []Skipped

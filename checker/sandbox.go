@@ -1,14 +1,18 @@
 package checker
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io/fs"
 	"path"
 	"regexp"
 	"strings"
+	"time"
 
 	"github.com/open-policy-agent/opa/v1/ast"
+
+	"welfare/rules"
 )
 
 // Source is one set of Rego files: the embedded shipped rules or a folder a
@@ -17,6 +21,12 @@ import (
 type Source struct {
 	Name string
 	FS   fs.FS
+	// Trusted marks the project's own rule files (test policies): their
+	// packages are not contained. A file whose path and bytes are those of
+	// a shipped rule file (rules.FS) is trusted without it; every other
+	// file, a committee's --rules folder above all, is contained (see
+	// containPackage).
+	Trusted bool
 }
 
 // RulesError lists every problem that stops a rule set from loading: parse
@@ -49,7 +59,102 @@ func sandboxCapabilities() *ast.Capabilities {
 
 func refusedBuiltin(b *ast.Builtin) bool {
 	return b.Name == "http.send" || b.Name == "opa.runtime" ||
-		strings.HasPrefix(b.Name, "net.") || b.Nondeterministic
+		strings.HasPrefix(b.Name, "net.") || b.Nondeterministic || wallClock[b.Name]
+}
+
+// wallClock are the built-ins whose answer depends on the time of the run
+// (besides those OPA marks nondeterministic, which are refused anyway): a
+// certificate is valid or expired depending on when it is verified, and a
+// token's exp and nbf are compared with the clock. A finding must not
+// depend on the day the check happens to run.
+var wallClock = map[string]bool{
+	"time.now_ns": true,
+	"crypto.x509.parse_and_verify_certificates":              true, // verified at the current time
+	"crypto.x509.parse_and_verify_certificates_with_options": true, // CurrentTime defaults to now
+	"io.jwt.decode_verify":                                   true, // exp and nbf against now
+}
+
+// pinnedTime is the clock every evaluation sees (rego.EvalTime), so that
+// a built-in left in the sandbox that reads the evaluation's time gets the
+// same answer on every run. It is the Unix epoch: no rule can mistake it
+// for a day of the records.
+var pinnedTime = time.Unix(0, 0).UTC()
+
+// shippedFiles are the shipped rule files by path, with their bytes.
+var shippedFiles = func() map[string][]byte {
+	m := map[string][]byte{}
+	_ = fs.WalkDir(rules.FS(), ".", func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() || !strings.HasSuffix(p, ".rego") {
+			return nil
+		}
+		if b, err := fs.ReadFile(rules.FS(), p); err == nil {
+			m[p] = b
+		}
+		return nil
+	})
+	return m
+}()
+
+// shippedPackages are the second parts of the shipped package names
+// (care for welfare.care, care_test for welfare.care_test): names a
+// committee package may not take.
+var shippedPackages = func() map[string]bool {
+	m := map[string]bool{}
+	for p, b := range shippedFiles {
+		mod, err := ast.ParseModuleWithOpts(p, string(b), ast.ParserOptions{RegoVersion: ast.RegoV1})
+		if err != nil || mod == nil {
+			continue
+		}
+		parts := packageParts(mod)
+		if len(parts) >= 2 && parts[0] == "welfare" {
+			m[parts[1]] = true
+		}
+	}
+	return m
+}()
+
+func isShippedFile(p string, b []byte) bool {
+	s, ok := shippedFiles[p]
+	return ok && bytes.Equal(s, b)
+}
+
+// packageParts is a module's package path without data: [welfare care].
+func packageParts(m *ast.Module) []string {
+	var out []string
+	for _, t := range m.Package.Path[1:] {
+		s, ok := t.Value.(ast.String)
+		if !ok {
+			return append(out, t.String())
+		}
+		out = append(out, string(s))
+	}
+	return out
+}
+
+// containPackage keeps a committee's module in a package of its own: under
+// welfare., not a shipped package's name or under one, and nothing at any
+// other root (package limits would shadow data.limits, the limits every
+// rule reads). It returns the problem as "file:row:col: message", or "".
+func containPackage(m *ast.Module) string {
+	parts := packageParts(m)
+	name := strings.Join(parts, ".")
+	loc := m.Package.Location
+	at := func(format string, args ...any) string {
+		msg := fmt.Sprintf(format, args...)
+		if loc == nil {
+			return msg
+		}
+		return fmt.Sprintf("%s:%d:%d: %s", loc.File, loc.Row, loc.Col, msg)
+	}
+	switch {
+	case len(parts) > 0 && parts[0] == "limits":
+		return at("package %s is refused: data.limits are the limits in force, which rules read but never define; put the rules in a package of their own, welfare.NAME", name)
+	case len(parts) < 2 || parts[0] != "welfare":
+		return at("package %s is refused: a committee's rules go in a package of their own under welfare. (welfare.NAME)", name)
+	case shippedPackages[parts[1]]:
+		return at("package %s is refused: welfare.%s is a shipped package, which a rules folder may not add to or change; choose a name of your own (welfare.NAME)", name, parts[1])
+	}
+	return ""
 }
 
 // refusedNames are the built-ins sandboxCapabilities removes, so that an
@@ -114,6 +219,12 @@ func parseSources(sources []Source, tests bool) (map[string]*ast.Module, []ruleF
 				problems = append(problems, name+":1:1: empty policy file (no package)")
 				return nil
 			}
+			if !src.Trusted && !isShippedFile(p, b) {
+				if msg := containPackage(m); msg != "" {
+					problems = append(problems, msg)
+					return nil
+				}
+			}
 			modules[name] = m
 			return nil
 		})
@@ -144,7 +255,7 @@ var undefinedFunction = regexp.MustCompile(`undefined function ([A-Za-z0-9_.]+)`
 func formatASTError(e *ast.Error) string {
 	msg := e.Message
 	if m := undefinedFunction.FindStringSubmatch(msg); m != nil && refusedNames[m[1]] {
-		msg = fmt.Sprintf("%s is not allowed in welfare rules: rules run without network, environment or nondeterministic built-ins", m[1])
+		msg = fmt.Sprintf("%s is not allowed in welfare rules: rules run without network, environment, wall clock or nondeterministic built-ins", m[1])
 	}
 	if e.Location == nil {
 		return msg

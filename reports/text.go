@@ -15,7 +15,8 @@ import (
 // TextOptions shapes the terminal summary.
 type TextOptions struct {
 	// MaxPerCheck is how many findings of one check (and severity) are
-	// listed before "… and N more": 0 means the default of 10, a negative
+	// listed before "… and N more" (rejected rows are all listed): 0
+	// means the default of 10, a negative
 	// number lists every finding.
 	MaxPerCheck int
 }
@@ -80,7 +81,8 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 				j++
 			}
 			shown := j - i
-			if max > 0 && shown > max {
+			// Rejected rows are never cut: each is a row no check saw.
+			if max > 0 && shown > max && fs[i].Check != checker.RejectedCheck {
 				shown = max
 			}
 			for _, f := range fs[i : i+shown] {

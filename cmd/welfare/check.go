@@ -34,6 +34,8 @@ type checkOpts struct {
 	previous       string
 	maxPerCheck    int
 	timeoutPerEval time.Duration
+	packageTimeout time.Duration
+	evalTimeout    time.Duration
 	timings        bool
 }
 
@@ -55,9 +57,11 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.inspector, "inspector", "", "`NAME` of the person inspecting, shown on the report")
 	fs.StringVar(&o.generatedAt, "generated-at", "", "report generation `TIME` (RFC 3339; default now) — the same time gives a byte-identical PDF")
 	fs.StringVar(&o.previous, "previous", "", "the previous review's findings `FILE` (JSON written by --json): class each finding new or recurring, list what was resolved, judge the corrective actions")
-	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never)")
-	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; all are in JSON, CSV and PDF)")
-	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", 5*time.Second, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
+	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never); rejected rows exit 1 under every value but never")
+	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; every rejected row is shown; all are in JSON, CSV and PDF)")
+	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", checker.DefaultTimeout, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
+	fs.DurationVar(&o.packageTimeout, "package-timeout", checker.DefaultPackageBudget, "time budget of one rule package across all its subjects (a `DURATION`)")
+	fs.DurationVar(&o.evalTimeout, "evaluation-timeout", checker.DefaultTotalBudget, "time budget of the whole rule evaluation, every package and subject (a `DURATION`)")
 	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time (load, facts, rules, reports) and peak heap to stderr")
 	return fs, o
 }
@@ -70,6 +74,14 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 	}
 	if len(pos) != 1 {
 		return &usageError{cmd: "check", msg: countMsg("one records folder", pos)}
+	}
+	for _, b := range []struct {
+		name string
+		d    time.Duration
+	}{{"rule-timeout", o.timeoutPerEval}, {"package-timeout", o.packageTimeout}, {"evaluation-timeout", o.evalTimeout}} {
+		if b.d <= 0 {
+			return usagef("--%s %s: a time budget must be more than 0 (such as 5s or 1m)", b.name, b.d)
+		}
 	}
 	return checkFolder(ctx, pos[0], o, stdout, stderr)
 }
@@ -106,6 +118,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		return err
 	}
 	policy, err := checker.Compile(ctx, lim, sources, checker.Options{Timeout: o.timeoutPerEval,
+		PackageBudget: o.packageTimeout, TotalBudget: o.evalTimeout,
 		Progress: func(phase string, done int) {
 			if done == 0 {
 				ph.enter(phase, map[string]string{"load": "rows", "rules": "subjects"}[phase])
@@ -201,7 +214,21 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 			return errFindings
 		}
 	}
+	// Rows the loader rejected were not judged by any check: a run with
+	// them never passes, whatever their severity says, unless the user
+	// asked for --fail-on never.
+	if failRank > 0 && len(res.Rejected) > 0 {
+		fmt.Fprintf(stderr, "exit 1: %s rejected (rejected rows fail every --fail-on but never)\n", plural(len(res.Rejected), "row was", "rows were"))
+		return errFindings
+	}
 	return nil
+}
+
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
 }
 
 func failOnRank(s string) (int, error) {

@@ -182,9 +182,13 @@ func TestBadRulesExit2WithPosition(t *testing.T) {
 func TestMorningView(t *testing.T) {
 	// 2026-01-29 stays above freezing all day in the demo; 2026-01-10 is its
 	// coldest windy day (wind chill -50, a fox cage without a nest box).
+	// Its cold part is clear, but the demo's undated rejected row
+	// (handling.csv:75, placed on the first day checked) is listed whatever
+	// --only says, so there is no all-clear.
 	code, stdout, stderr := runMain(t, "check", "--on", "2026-01-29", "--only", "cold", demoRecords)
-	if code != exitOK || !strings.Contains(stdout, "All clear") {
-		t.Errorf("mild day: exit %d, want 0 and an all-clear\n%s%s", code, stdout, stderr)
+	if code != exitFindings || strings.Contains(stdout, "All clear") || !strings.Contains(stdout, "handling.csv:75: Row rejected") ||
+		strings.Contains(stdout, "Fix now") {
+		t.Errorf("mild day: exit %d, want 1 with the rejected row as its only problem\n%s%s", code, stdout, stderr)
 	}
 	code, stdout, stderr = runMain(t, "check", "--on", "2026-01-10", "--only", "cold", demoRecords)
 	if code != exitFindings || strings.Contains(stdout, "All clear") {
@@ -295,10 +299,18 @@ test_small_cage_fires if {
 	if len(doc.Findings) == 0 {
 		t.Fatal("the committee's check found nothing; the demo's mink cages are under 1.0 m²")
 	}
+	rejected := 0
 	for _, f := range doc.Findings {
+		if f.Check == "records.row.rejected" {
+			rejected++ // listed whatever --only says
+			continue
+		}
 		if f.Check != "house.space.below_standard" || f.Source != "facility choice" {
 			t.Errorf("--only house let through %s (source %q)", f.Check, f.Source)
 		}
+	}
+	if rejected != 5 {
+		t.Errorf("--only house: %d rejected rows listed, want the demo's 5", rejected)
 	}
 	if code, out, stderr := runMain(t, "rules", "test", dir); code != exitOK || !strings.Contains(out, "test_small_cage_fires") {
 		t.Errorf("rules test DIR: exit %d\n%s%s", code, out, stderr)
