@@ -20,7 +20,7 @@ type checkOpts struct {
 	at             string // --on: the time of day to look from
 	plain          bool   // --on: no box drawing
 	only           string
-	limits         string
+	limits         limitsFiles
 	rules          listFlag
 	rulesOnly      bool
 	jsonOut        string
@@ -43,7 +43,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.at, "at", "", "with --on: the time of day `HH:MM` to look from (default: now when the day is today, the end of the day otherwise)")
 	fs.BoolVar(&o.plain, "plain", false, "with --on: plain text, no box drawing")
 	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report ("+strings.Join(checker.Domains(), ", ")+", or a committee's own)")
-	fs.StringVar(&o.limits, "limits", "", "limits `FILE` (replaces the built-in limits; see 'welfare limits show')")
+	addLimitsFlags(fs, &o.limits)
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
 	fs.BoolVar(&o.rulesOnly, "rules-only", false, "use only the --rules folders, not the built-in rules")
 	fs.StringVar(&o.jsonOut, "json", "", "write the findings as JSON to `FILE`")
