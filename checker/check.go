@@ -63,7 +63,6 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		Period:     p,
 		Accounting: set.Accounting,
 		Warnings:   set.Warnings,
-		Checks:     cfg.Engine.Checks(),
 		Care:       f.coverage,
 		SiteOf:     siteOf(set),
 		Weather:    f.weather,
@@ -71,6 +70,7 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 			Frostbite: cfg.Limits.Cold.FrostbiteWindChill},
 	}
 	res.Limits = cfg.Limits.Lines()
+	res.Scope, res.Checks = scopeOf(cfg.Engine, cfg.Limits, cfg.Only)
 
 	only := map[string]bool{}
 	for _, d := range cfg.Only {

@@ -104,7 +104,12 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 		override: override,
 		files:    files,
 	}
-	for _, c := range checks {
+	local := localFiles(files)
+	for id, c := range checks {
+		if local[c.File] {
+			c.Local = true
+			checks[id] = c
+		}
 		e.sorted = append(e.sorted, c)
 	}
 	sort.Slice(e.sorted, func(i, j int) bool { return e.sorted[i].ID < e.sorted[j].ID })

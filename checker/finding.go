@@ -71,6 +71,9 @@ type CheckInfo struct {
 	// Reportable is custom.reportable: findings of the check are
 	// noncompliance reported to the institutional official (PHS Policy IV.F.3).
 	Reportable bool `json:"reportable,omitempty"`
+	// Local: the check is defined by a rule file that is not one of the
+	// shipped rules (a committee's own package, or an edited copy).
+	Local bool `json:"local,omitempty"`
 }
 
 // Skipped is a check that was not evaluated, and why.

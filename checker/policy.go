@@ -115,7 +115,7 @@ func (p *Policy) CheckScoped(ctx context.Context, recordsFS fs.FS, only []string
 	if err != nil {
 		return nil, nil, err
 	}
-	res.Fingerprint = fingerprint(capture.read(), p.engine.files, p.limits.Source())
+	res.Fingerprint = fingerprint(capture.read(), p.engine.files, p.limits.Source(), only)
 	return res, judged, nil
 }
 

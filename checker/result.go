@@ -14,7 +14,11 @@ type Result struct {
 	Accounting  []records.FileCount
 	Warnings    []records.Warning
 	Findings    []Finding // in SortFindings order
-	// Checks lists every check that was in force (evaluated or not), sorted by id.
+	// Scope: --only, the checks switched off, the limits changed, the local
+	// rules (see RunScope).
+	Scope RunScope
+	// Checks lists every check that was in force (evaluated or not), sorted
+	// by id; checks switched off by the limits are in Scope.Off instead.
 	Checks       []CheckInfo
 	NotEvaluated []Skipped
 	// Limits are the limits in force, one line per value, with the source tag

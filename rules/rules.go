@@ -63,9 +63,12 @@ func LoadLimits(r io.Reader, name string) (*Limits, error) {
 	return ParseLimits(name, src)
 }
 
+// BuiltInName is the name the shipped limits are read under.
+const BuiltInName = "limits.yaml (built in)"
+
 // Default parses the shipped limits.yaml.
 func Default() (*Limits, error) {
-	return ParseLimits("limits.yaml (built in)", DefaultLimits())
+	return ParseLimits(BuiltInName, DefaultLimits())
 }
 
 // Name is the file the limits were read from.
