@@ -69,7 +69,7 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		ColdLines: ColdLines{Bedding: cfg.Limits.Cold.BeddingWindChill, Shelter: cfg.Limits.Cold.ShelterWindChill,
 			Frostbite: cfg.Limits.Cold.FrostbiteWindChill},
 	}
-	res.Limits = cfg.Limits.Lines()
+	res.Limits, res.LimitsText, res.Location = cfg.Limits.Lines(), cfg.Limits.Source(), set.Location
 	res.Scope, res.Checks = scopeOf(cfg.Engine, cfg.Limits, cfg.Only)
 
 	only := map[string]bool{}

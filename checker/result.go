@@ -1,6 +1,8 @@
 package checker
 
 import (
+	"time"
+
 	"welfare/records"
 	"welfare/rules"
 )
@@ -22,8 +24,12 @@ type Result struct {
 	Checks       []CheckInfo
 	NotEvaluated []Skipped
 	// Limits are the limits in force, one line per value, with the source tag
-	// from its comment in the limits file.
-	Limits []LimitLine
+	// from its comment in the limits file; LimitsText is that file's text
+	// (the merged text for limits laid over the defaults).
+	Limits     []LimitLine
+	LimitsText []byte
+	// Location is the facility's time zone (nil: UTC).
+	Location *time.Location
 	// Care is the share of occupied enclosure-days with complete care records.
 	Care CareCoverage
 	// SiteOf maps the subject of a cold finding (an enclosure, a keeper or a

@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"regexp"
+	"slices"
 	"strings"
 	"time"
 
@@ -135,16 +137,30 @@ func (b *auditBuilder) cover() AuditSection {
 	b.add(Block{Kind: KindTitle, Text: "Welfare records audit", Subtitle: orNone(r.Facility)})
 	const size = 10.5
 	b.add(
-		keyValue("Period", dayOrNone(r.Period.From)+" to "+dayOrNone(r.Period.To)+" (inclusive)", false, size),
 		keyValue("Inspector", orNone(b.opt.Inspector), false, size),
-		keyValue("Generated", b.opt.GeneratedAt.Format("2006-01-02 15:04:05 -07:00"), false, size),
-		keyValue("Checks in force", fmt.Sprintf("%d, of which %d not evaluated", len(r.Checks), len(r.NotEvaluated)), false, size),
+		keyValue("Generated", generatedIn(b.opt.GeneratedAt, r.Location), false, size),
 		keyValue("Findings", fmt.Sprintf("%d: %d significant, %d minor, %d note",
 			t.total(), t.severityTotal(checker.Significant), t.severityTotal(checker.Minor), t.severityTotal(checker.Note)), false, size),
 		keyValue("Reportable", reportableCover(r.Findings), false, size),
+		keyValue("Checks in force", checksInForce(r), false, size),
+	)
+	// The scope: what this report was limited to, switched off, changed or
+	// added, before anyone reads its counts as a pass.
+	for _, it := range scopeItems(r) {
+		b.add(keyValue(it.Label, it.Value, false, size))
+		for _, m := range it.More {
+			b.add(Block{Kind: KindParagraph, Size: 8.5, Indent: 42, Text: m})
+		}
+	}
+	b.add(
 		keyValue("Fingerprint", orNone(r.Fingerprint), true, 9.5),
 		Block{Kind: KindParagraph, Style: "italic", Size: 8.5, Indent: 42,
-			Text: "SHA-256 over the records, rules and limits used. Every page carries its first 12 digits."},
+			Text: "SHA-256 over the records, rules and limits used and the checks selected. Every page carries its first 12 digits."},
+	)
+	if v := toVerify(r.Limits); v != "" {
+		b.add(space(2), Block{Kind: KindNotice, Text: v})
+	}
+	b.add(
 		subheading("Rows read per file", 20),
 	)
 	if len(r.Accounting) == 0 {
@@ -445,6 +461,111 @@ func (b *auditBuilder) signOff() AuditSection {
 		Roles:  []string{"Attending veterinarian", "Chair, animal-care committee"},
 		Fields: []string{"Name", "Signature", "Date"}})
 	return b.section("Sign-off", false, "")
+}
+
+// checksInForce counts the checks in force, those --only selected, and
+// those not evaluated.
+func checksInForce(r *checker.Result) string {
+	if len(r.Scope.Only) == 0 {
+		return fmt.Sprintf("%d, of which %d not evaluated", len(r.Checks), len(r.NotEvaluated))
+	}
+	n := 0
+	for _, c := range r.Checks {
+		if slices.Contains(r.Scope.Only, c.Domain) {
+			n++
+		}
+	}
+	return fmt.Sprintf("%d; %d of them selected by --only, of which %d not evaluated", len(r.Checks), n, len(r.NotEvaluated))
+}
+
+// generatedIn is the generation time in the facility's time zone, with
+// the zone's name.
+func generatedIn(t time.Time, loc *time.Location) string {
+	if loc == nil {
+		loc = time.UTC
+	}
+	return t.In(loc).Format("2006-01-02 15:04 MST (-07:00)") + ", " + zoneName(loc)
+}
+
+func zoneName(loc *time.Location) string {
+	if loc.String() == "UTC" || loc.String() == "" {
+		return "UTC"
+	}
+	return "time zone " + loc.String()
+}
+
+// toVerify is the cover's box of limits in force recalled from memory
+// ([M] in their source): to be verified by the committee before the
+// report is relied on. "" when there are none.
+func toVerify(lines []checker.LimitLine) string {
+	var sources []string
+	keys := map[string][]string{}
+	n := 0
+	for _, l := range lines {
+		if !strings.Contains(l.Source, "[M") {
+			continue
+		}
+		n++
+		k, src := verifyKey(l.Key), verifySource(l.Source)
+		if _, ok := keys[src]; !ok {
+			sources = append(sources, src)
+		}
+		if !slices.Contains(keys[src], k) {
+			keys[src] = append(keys[src], k)
+		}
+	}
+	if n == 0 {
+		return ""
+	}
+	out := fmt.Sprintf("To be verified by the committee: %s in force recalled from memory [M], "+
+		"not yet checked against their source; each source with the limits it gives (* = every species):", plural(n, "value"))
+	for _, src := range sources {
+		out += "\n• " + src + ": " + strings.Join(keys[src], ", ")
+	}
+	return out
+}
+
+// verifyKey shortens a limit's key for the box of values to verify: one
+// line stands for every species, and for every method of a euthanasia list.
+func verifyKey(k string) string {
+	parts := strings.Split(k, ".")
+	if len(parts) > 2 && parts[0] == "species" {
+		parts[1] = "*"
+	}
+	for i, p := range parts {
+		if p == "euthanasia" {
+			return strings.Join(parts[:i+1], ".")
+		}
+	}
+	return strings.Join(parts, ".")
+}
+
+var memoryMark = regexp.MustCompile(`\[M(:[^\]]*)?\]`)
+
+// verifySource is a limit's source cut to the work it names and what is to
+// be verified: "[P] Council of Europe fur-animal recommendation (1999) [M:
+// section]".
+func verifySource(src string) string {
+	head := src
+	for _, cut := range []string{" as ", ":", ";", " — ", " ["} {
+		if i := strings.Index(head, cut); i > 0 {
+			head = head[:i]
+		}
+	}
+	head = shorten(strings.TrimSpace(head), 90)
+	if m := memoryMark.FindString(src); m != "" && !strings.HasPrefix(head, m) {
+		head += " " + m
+	}
+	return head
+}
+
+// shorten cuts s to at most n runes, with an ellipsis.
+func shorten(s string, n int) string {
+	r := []rune(s)
+	if len(r) <= n {
+		return s
+	}
+	return string(r[:n-1]) + "…"
 }
 
 // reportableCover is the cover's count of reportable findings (PHS Policy

@@ -15,9 +15,11 @@ import (
 
 // JSONReport is findings.json: one object per check run.
 type JSONReport struct {
-	Facility     string             `json:"facility"`
-	Period       JSONPeriod         `json:"period"`
-	Fingerprint  string             `json:"fingerprint"` // SHA-256 over the records, rules and limits used
+	Facility    string     `json:"facility"`
+	Period      JSONPeriod `json:"period"`
+	Fingerprint string     `json:"fingerprint"` // SHA-256 over the records, rules and limits used, and --only
+	// Scope: --only, the checks switched off, the limits changed, the local rules.
+	Scope        JSONScope          `json:"scope"`
 	Accounting   []JSONFileCount    `json:"accounting"`
 	Findings     []JSONFinding      `json:"findings"`
 	Checks       []JSONCheck        `json:"checks"`
@@ -75,6 +77,8 @@ type JSONCheck struct {
 	Needs       []string `json:"needs,omitempty"`
 	Runs        bool     `json:"runs,omitempty"`
 	Subjects    []string `json:"subjects,omitempty"`
+	// Local: defined by a rule file not shipped with welfare.
+	Local bool `json:"local,omitempty"`
 }
 
 // JSONNotEvaluated is a check that found no records to read, and why.
@@ -248,6 +252,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 		Facility:     r.Facility,
 		Period:       JSONPeriod{From: r.Period.From.String(), To: r.Period.To.String()},
 		Fingerprint:  r.Fingerprint,
+		Scope:        newJSONScope(r.Scope),
 		Accounting:   make([]JSONFileCount, len(r.Accounting)),
 		Findings:     make([]JSONFinding, len(r.Findings)),
 		Checks:       make([]JSONCheck, len(r.Checks)),
@@ -286,7 +291,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	for i, c := range r.Checks {
 		doc.Checks[i] = JSONCheck{ID: c.ID, Domain: c.Domain, Title: c.Title, Description: c.Description,
 			Severity: string(c.Severity), Source: c.Source, Package: c.Package, File: c.File,
-			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects}
+			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects, Local: c.Local}
 	}
 	for i, s := range r.NotEvaluated {
 		doc.NotEvaluated[i] = JSONNotEvaluated{Check: s.Check, Reason: s.Reason}

@@ -34,7 +34,7 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 	p := func(format string, a ...any) { fmt.Fprintf(b, format, a...) }
 
 	p("Welfare records check: %s\n", orNone(r.Facility))
-	p("Period: %s to %s\n", dayOrNone(r.Period.From), dayOrNone(r.Period.To))
+	writeScope(b, r)
 	p("Fingerprint: %s\n\n", orNone(r.Fingerprint))
 
 	writeAccounting(b, r)
