@@ -58,7 +58,7 @@ func TestEvaluateBadFindings(t *testing.T) {
 		{"check without metadata", `{"check": concat(".", ["sandbox", "probe", "other"]), "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": []}`,
 			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.other","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01"}: check "sandbox.probe.other" has no METADATA (title, description, custom.id, custom.severity, custom.source)`},
 		{"misspelt field", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "untill": "2026-01-02", "message": "m", "evidence": []}`,
-			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01","untill":"2026-01-02"}: unknown field "untill" (fields: check, subject, on, until, message, evidence, severity)`},
+			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01","untill":"2026-01-02"}: unknown field "untill" (fields: check, subject, on, until, message, evidence, severity, severity_reason)`},
 		{"bad own severity", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": [], "severity": "high"}`,
 			`welfare.sandbox: subject E-01: finding {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","severity":"high","subject":"E-01"}: severity "high" is not significant, minor or note`},
 	}

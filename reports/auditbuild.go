@@ -84,6 +84,11 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 		{Name: "findings.json", Description: "Every finding, with the accounting and the checks in force (JSON)", Content: js.Bytes(), Bytes: js.Len()},
 		{Name: "findings.csv", Description: "Every finding, one per row (CSV)", Content: cs.Bytes(), Bytes: cs.Len()},
 	}
+	if len(r.LimitsText) > 0 {
+		a.Attachments = append(a.Attachments, Attachment{Name: "limits.yaml",
+			Description: "The limits in force, whole (a file of changes laid over the defaults is shown merged)",
+			Content:     r.LimitsText, Bytes: len(r.LimitsText)})
+	}
 	return a, nil
 }
 
@@ -350,6 +355,9 @@ func findingCells(f *checker.Finding) []string {
 		when = dayOrNone(f.On) + " –\n" + f.Until.String()
 	}
 	msg := f.Message
+	if f.SeverityWhy != "" {
+		msg += "\nSeverity " + f.SeverityWhy + "."
+	}
 	if f.Reportable {
 		msg += "\n» " + capitalise(ReportableMark) + " (PHS Policy IV.F.3)."
 	}
@@ -364,15 +372,20 @@ func (b *auditBuilder) limits() AuditSection {
 	if len(r.Limits) == 0 {
 		b.add(para("No limits were reported with this result.", "italic", 10))
 	} else {
-		tb := &Table{Size: 8.5, Caption: "Limits in force", Columns: []Column{
-			{Head: "Limit", Width: 68, Align: "L", Mono: true},
-			{Head: "Value", Width: 42, Align: "L"},
-			{Head: "Source", Width: 70, Align: "L"},
-		}}
-		for _, l := range r.Limits {
-			tb.Rows = append(tb.Rows, Row{Cells: []string{l.Key, l.Value, l.Source}})
+		b.add(para("The whole limits file in force is attached to this PDF (limits.yaml).", "italic", 8.5))
+		for _, g := range limitGroups(r.Limits) {
+			b.add(subheading(g.title, 14))
+			tb := &Table{Size: 8, Caption: "Limits: " + g.title, Columns: []Column{
+				{Head: "Limit", Width: 62, Align: "L", Mono: true},
+				{Head: "Value", Width: 38, Align: "L"},
+				{Head: "Unit", Width: 14, Align: "L"},
+				{Head: "Source", Width: 66, Align: "L"},
+			}}
+			for _, l := range g.lines {
+				tb.Rows = append(tb.Rows, Row{Cells: []string{l.Key, l.Value, unitOf(l.Key), l.Source}})
+			}
+			b.add(Block{Kind: KindTable, Table: tb})
 		}
-		b.add(Block{Kind: KindTable, Table: tb})
 	}
 
 	b.add(subheading(fmt.Sprintf("Checks in force (%d)", len(r.Checks)), 20))
@@ -384,10 +397,16 @@ func (b *auditBuilder) limits() AuditSection {
 	for _, s := range r.NotEvaluated {
 		skipped[s.Check] = true
 	}
+	overrides := map[string]string{}
+	for _, l := range r.Limits {
+		if id, ok := strings.CutPrefix(l.Key, "severity."); ok {
+			overrides[id] = l.Value
+		}
+	}
 	ct := &Table{Size: 8, Caption: "Checks in force", Columns: []Column{
-		{Head: "Check", Width: 52, Align: "L", Mono: true},
-		{Head: "Title", Width: 58, Align: "L"},
-		{Head: "Default", Width: 20, Align: "L"},
+		{Head: "Check", Width: 48, Align: "L", Mono: true},
+		{Head: "Title", Width: 44, Align: "L"},
+		{Head: "Severity", Width: 38, Align: "L"},
 		{Head: "Source", Width: 50, Align: "L"},
 	}}
 	for _, c := range r.Checks {
@@ -395,10 +414,76 @@ func (b *auditBuilder) limits() AuditSection {
 		if skipped[c.ID] {
 			id += "\n(not evaluated)"
 		}
-		ct.Rows = append(ct.Rows, Row{Cells: []string{id, c.Title, string(c.Severity), c.Source}})
+		if c.Local {
+			id += "\n(local)"
+		}
+		sev := string(c.Severity)
+		if c.Escalation != "" {
+			sev += "; " + c.Escalation
+		}
+		if o, ok := overrides[c.ID]; ok && o != string(c.Severity) {
+			sev = o + " (limits override; default " + sev + ")"
+		}
+		ct.Rows = append(ct.Rows, Row{Cells: []string{id, c.Title, sev, c.Source}})
+	}
+	if len(r.Scope.Off) > 0 {
+		b.add(para("Switched off by the limits (severity: off), not in force: "+strings.Join(r.Scope.Off, ", ")+".", "italic", 8.5))
 	}
 	b.add(Block{Kind: KindTable, Table: ct})
 	return b.section("Limits in force", true, "Limits in force")
+}
+
+// limitGroup is the limits of one domain (or one species profile), with
+// keys shown relative to it.
+type limitGroup struct {
+	title string
+	lines []checker.LimitLine
+}
+
+// limitGroups groups the limits in force by their first key (species by
+// profile), in the order of the limits file.
+func limitGroups(lines []checker.LimitLine) []limitGroup {
+	var out []limitGroup
+	for _, l := range lines {
+		parts := strings.SplitN(l.Key, ".", 3)
+		title, rest := parts[0], strings.Join(parts[1:], ".")
+		if parts[0] == "species" && len(parts) == 3 {
+			title, rest = "species "+parts[1], parts[2]
+		}
+		if rest == "" {
+			rest = parts[0]
+		}
+		if len(out) == 0 || out[len(out)-1].title != title {
+			out = append(out, limitGroup{title: title})
+		}
+		l.Key = rest
+		out[len(out)-1].lines = append(out[len(out)-1].lines, l)
+	}
+	return out
+}
+
+// units by the ending of a limit's key (the limits file names units in
+// its keys).
+var units = []struct{ suffix, unit string }{
+	{"_m2", "m²"}, {"_cm", "cm"}, {"_mm", "mm"}, {"_kg", "kg"}, {"wind_chill", "wind chill °C"}, {"_c", "°C"},
+	{"_kmh", "km/h"}, {"_days", "days"}, {"_hours", "h"}, {"_min", "min"}, {"_months", "months"},
+	{"_pct", "%"}, {"_iu_ml", "IU/mL"}, {"_ppm_max", "ppm"},
+}
+
+// unitOf is a limit's unit, read from the last part of its key that names
+// one (a map entry such as max_duration_min.weighing takes its map's);
+// "" when none does.
+func unitOf(key string) string {
+	parts := strings.Split(key, ".")
+	for i := len(parts) - 1; i >= 0; i-- {
+		p, _, _ := strings.Cut(parts[i], "[")
+		for _, u := range units {
+			if strings.HasSuffix(p, u.suffix) {
+				return u.unit
+			}
+		}
+	}
+	return ""
 }
 
 // biteReportItem marks where the bite-report caution, which quotes the limit

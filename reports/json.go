@@ -49,16 +49,18 @@ type JSONFileCount struct {
 
 // JSONFinding is one finding; Until is present only for a run of days.
 type JSONFinding struct {
-	Severity string   `json:"severity"`
-	Check    string   `json:"check"`
-	Domain   string   `json:"domain"`
-	Subject  string   `json:"subject"`
-	On       string   `json:"on"`
-	Until    string   `json:"until,omitempty"`
-	Message  string   `json:"message"`
-	Evidence []string `json:"evidence"`
-	Title    string   `json:"title"`
-	Source   string   `json:"source"`
+	Severity string `json:"severity"`
+	// SeverityWhy: why the severity differs from the check's default (absent when it does not).
+	SeverityWhy string   `json:"severity_why,omitempty"`
+	Check       string   `json:"check"`
+	Domain      string   `json:"domain"`
+	Subject     string   `json:"subject"`
+	On          string   `json:"on"`
+	Until       string   `json:"until,omitempty"`
+	Message     string   `json:"message"`
+	Evidence    []string `json:"evidence"`
+	Title       string   `json:"title"`
+	Source      string   `json:"source"`
 	// Reportable findings are marked "report to the institutional official" (PHS Policy IV.F.3).
 	Reportable bool   `json:"reportable,omitempty"`
 	ReportTo   string `json:"report_to,omitempty"`
@@ -77,6 +79,8 @@ type JSONCheck struct {
 	Needs       []string `json:"needs,omitempty"`
 	Runs        bool     `json:"runs,omitempty"`
 	Subjects    []string `json:"subjects,omitempty"`
+	// Escalation: when a finding's severity departs from the default.
+	Escalation string `json:"escalation,omitempty"`
 	// Local: defined by a rule file not shipped with welfare.
 	Local bool `json:"local,omitempty"`
 }
@@ -267,15 +271,16 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	for i := range r.Findings {
 		f := &r.Findings[i]
 		jf := JSONFinding{
-			Severity: string(f.Severity),
-			Check:    f.Check,
-			Domain:   domainOf(f),
-			Subject:  f.Subject,
-			On:       f.On.String(),
-			Message:  f.Message,
-			Evidence: make([]string, len(f.Evidence)),
-			Title:    f.Title,
-			Source:   f.Source,
+			Severity:    string(f.Severity),
+			SeverityWhy: f.SeverityWhy,
+			Check:       f.Check,
+			Domain:      domainOf(f),
+			Subject:     f.Subject,
+			On:          f.On.String(),
+			Message:     f.Message,
+			Evidence:    make([]string, len(f.Evidence)),
+			Title:       f.Title,
+			Source:      f.Source,
 		}
 		if f.Reportable {
 			jf.Reportable, jf.ReportTo = true, ReportableMark
@@ -291,7 +296,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	for i, c := range r.Checks {
 		doc.Checks[i] = JSONCheck{ID: c.ID, Domain: c.Domain, Title: c.Title, Description: c.Description,
 			Severity: string(c.Severity), Source: c.Source, Package: c.Package, File: c.File,
-			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects, Local: c.Local}
+			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects, Escalation: c.Escalation, Local: c.Local}
 	}
 	for i, s := range r.NotEvaluated {
 		doc.NotEvaluated[i] = JSONNotEvaluated{Check: s.Check, Reason: s.Reason}

@@ -78,6 +78,9 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 			for _, f := range fs[i : i+shown] {
 				p("\n%s  %s  %s  %s\n", strings.ToUpper(string(f.Severity)), f.Check, orNone(f.Subject), dates(f))
 				p("  %s\n", oneLine(f.Message))
+				if f.SeverityWhy != "" {
+					p("  severity: %s\n", f.SeverityWhy)
+				}
 				if f.Reportable {
 					p("  reportable: %s (PHS Policy IV.F.3)\n", ReportableMark)
 				}

@@ -17,12 +17,16 @@ run_severity(days) := "significant" if {
 	days >= data.limits.care.significant_run_days
 } else := "minor"
 
+# Why a run's severity is what it is, said on the finding when it departs from the default.
+run_reason(days) := sprintf("significant: %d days in a row (the limit is %d)", [days, data.limits.care.significant_run_days])
+
 # METADATA
 # title: Animals not observed
 # description: An occupied enclosure had no round with every animal observed on a day.
 # custom:
 #   id: care.observation.missed
 #   severity: minor
+#   escalation: "significant when the run reaches care.significant_run_days (default 2) days in a row"
 #   source: "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112: animals observed at least daily"
 #   runs: true
 #   needs: [daily_care.csv]
@@ -34,6 +38,7 @@ findings contains f if {
 		"on": r.from,
 		"until": r.until,
 		"severity": run_severity(r.days),
+		"severity_reason": run_reason(r.days),
 		"message": sprintf("no round observed the animals on %d day(s) in a row", [r.days]),
 		"evidence": [input.ref],
 	}
@@ -45,6 +50,7 @@ findings contains f if {
 # custom:
 #   id: care.feeding.missed
 #   severity: minor
+#   escalation: "significant when the unfed run reaches care.significant_run_days (default 2) days in a row"
 #   source: common practice
 #   runs: true
 #   needs: [daily_care.csv]
@@ -57,6 +63,7 @@ findings contains f if {
 		"on": r.due_on,
 		"until": r.until,
 		"severity": run_severity(r.days),
+		"severity_reason": run_reason(r.days),
 		"message": sprintf("no feeding recorded for %d day(s) in a row (%s to %s); the species is fed every %d day(s)", [r.days, r.from, r.until, r.every_days]),
 		"evidence": [input.ref],
 	}

@@ -122,6 +122,7 @@ losses contains x if {
 # custom:
 #   id: health.weight.loss
 #   severity: minor
+#   escalation: "significant when the loss reaches health.weight_loss_significant_pct (default 20 %)"
 #   source: common practice (weight loss as a welfare and humane-endpoint signal)
 #   needs: [observations.csv]
 findings contains f if {
@@ -133,6 +134,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": on,
 		"severity": loss_severity(x),
+		"severity_reason": sprintf("significant: %.1f %% lost, at or above %v %%", [x.pct, lim.weight_loss_significant_pct]),
 		"message": sprintf("weighed %.2f kg on %s, %.1f %% below %.2f kg on %s (limit %v %% within %d days). %s", [
 			x.w.kg, x.w.on, x.pct, x.peak.kg, x.peak.on, lim.weight_loss_pct, lim.weight_loss_days, defer,
 		]),
@@ -150,6 +152,7 @@ loss_severity(x) := "significant" if {
 # custom:
 #   id: health.condition.poor
 #   severity: minor
+#   escalation: "significant at body condition health.condition_severe_max (default 1 of 5) or below"
 #   source: common practice
 #   needs: [observations.csv]
 findings contains f if {
@@ -161,6 +164,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": on,
 		"severity": condition_severity(lowest),
+		"severity_reason": sprintf("significant: body condition %d of 5, at or below %d", [lowest, lim.condition_severe_max]),
 		"message": sprintf("body condition %d of 5 (poor at %d or below). %s", [lowest, lim.condition_poor_max, defer]),
 		"evidence": [c.ref | some c in input.conditions; c.on == on],
 	}

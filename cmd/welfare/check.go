@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"path/filepath"
 	"slices"
 	"strings"
 	"time"
@@ -47,7 +48,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
 	fs.BoolVar(&o.rulesOnly, "rules-only", false, "use only the --rules folders, not the built-in rules")
 	fs.StringVar(&o.jsonOut, "json", "", "write the findings as JSON to `FILE`")
-	fs.StringVar(&o.csvOut, "csv", "", "write the findings as CSV to `FILE`")
+	fs.StringVar(&o.csvOut, "csv", "", "write the findings as CSV to `FILE`, and the run's scope beside it (FILE's name with .scope.txt)")
 	fs.StringVar(&o.pdfOut, "pdf", "", "write the PDF audit report to `FILE`")
 	fs.StringVar(&o.inspector, "inspector", "", "`NAME` of the person inspecting, shown on the report")
 	fs.StringVar(&o.generatedAt, "generated-at", "", "report generation `TIME` (RFC 3339; default now) — the same time gives a byte-identical PDF")
@@ -158,6 +159,9 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	}{
 		{o.jsonOut, func(w io.Writer) error { return reports.WriteJSON(w, res) }},
 		{o.csvOut, func(w io.Writer) error { return reports.WriteCSV(w, res) }},
+		// The scope goes beside the CSV, not into it: a spreadsheet reads
+		// findings.csv as one header row and one finding per row.
+		{scopePath(o.csvOut), func(w io.Writer) error { return reports.WriteScope(w, res) }},
 		{o.pdfOut, func(w io.Writer) error {
 			return pdf.Write(w, res, reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: res.SiteOf})
 		}},
@@ -185,6 +189,15 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		}
 	}
 	return nil
+}
+
+// scopePath is the scope file written beside a CSV: findings.csv →
+// findings.scope.txt; "" for no CSV.
+func scopePath(csv string) string {
+	if csv == "" {
+		return ""
+	}
+	return strings.TrimSuffix(csv, filepath.Ext(csv)) + ".scope.txt"
 }
 
 func failOnRank(s string) (int, error) {
