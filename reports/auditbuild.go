@@ -566,17 +566,14 @@ func checksInForce(r *checker.Result) string {
 // generatedIn is the generation time in the facility's time zone, with
 // the zone's name.
 func generatedIn(t time.Time, loc *time.Location) string {
-	if loc == nil {
-		loc = time.UTC
+	if loc != nil {
+		t = t.In(loc)
 	}
-	return t.In(loc).Format("2006-01-02 15:04 MST (-07:00)") + ", " + zoneName(loc)
-}
-
-func zoneName(loc *time.Location) string {
-	if loc.String() == "UTC" || loc.String() == "" {
-		return "UTC"
+	s := t.Format("2006-01-02 15:04 -07:00")
+	if name := t.Location().String(); name != "" && name != "Local" {
+		s += " (" + name + ")"
 	}
-	return "time zone " + loc.String()
+	return s
 }
 
 // toVerify is the cover's box of limits in force recalled from memory

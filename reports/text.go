@@ -79,7 +79,7 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 				p("\n%s  %s  %s  %s\n", strings.ToUpper(string(f.Severity)), f.Check, orNone(f.Subject), dates(f))
 				p("  %s\n", oneLine(f.Message))
 				if f.SeverityWhy != "" {
-					p("  severity: %s\n", f.SeverityWhy)
+					p("  why this severity: %s\n", f.SeverityWhy)
 				}
 				if f.Reportable {
 					p("  reportable: %s (PHS Policy IV.F.3)\n", ReportableMark)

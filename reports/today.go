@@ -408,7 +408,7 @@ func weatherLines(set *records.Set, o TodayOptions) (lines []string, hot bool, m
 		last := rows[len(rows)-1]
 		if minWC <= 0 {
 			lines = append(lines,
-				fmt.Sprintf("  %s: coldest wind chill %d at %s (air %s °C, %s)", site, cold.Display(minWC),
+				fmt.Sprintf("  %s: coldest wind chill %d °C at %s (air %s °C, %s)", site, cold.Display(minWC),
 					coldest.At.In(loc).Format("15:04"), morningNum(coldest.AirTempC), windText(coldest.WindKmh)),
 				"    wind chill band: "+cold.Band(minWC).Wording)
 			if o.Schedule != nil {

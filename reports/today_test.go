@@ -121,7 +121,7 @@ func TestWriteTodayWeather(t *testing.T) {
 		"Weather so far:",
 		// Environment Canada wind chill table: −40 °C air, 10 km/h → −51;
 		// ECCC hazard band −48 to −54: exposed skin can freeze in 2–5 min.
-		"  YARD: coldest wind chill -51 at 03:00 (air -40 °C, wind 10 km/h)",
+		"  YARD: coldest wind chill -51 °C at 03:00 (air -40 °C, wind 10 km/h)",
 		"    wind chill band: exposed skin can freeze in 2–5 min",
 		"    latest 06:00: air -36.5 °C, wind 5 km/h; work/warm-up schedule:",
 		// ACGIH TLV work/warm-up schedule, row −35 to −37 °C, 5 mph (8 km/h)

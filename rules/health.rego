@@ -209,9 +209,9 @@ findings contains f if {
 		"check": "health.signs.unattended",
 		"subject": input.id,
 		"on": on,
-		"message": sprintf("%s observed %s; no %s within %v h and no case opened within %d day(s). %s", [
+		"message": sprintf("%s observed %s; no %s within %v h and no case opened within %s. %s", [
 			concat(", ", sort(signs)), concat(", ", sort([s.at | some s in obs])),
-			concat(" or ", lim.signs_answered_by), lim.signs_answer_hours, lim.signs_case_days, defer,
+			concat(" or ", lim.signs_answered_by), lim.signs_answer_hours, count_of(lim.signs_case_days, "day", "days"), defer,
 		]),
 		"evidence": [s.ref | some s in obs],
 	}
@@ -284,3 +284,8 @@ findings contains f if {
 		"evidence": sort({c.ref, iv.ref}),
 	}
 }
+
+# count_of is "1 day" or "2 days": messages are read by people.
+count_of(n, one, many) := sprintf("%d %s", [n, one]) if n == 1
+
+else := sprintf("%d %s", [n, many])
