@@ -63,6 +63,15 @@ func TestOnlyColdCoverAndFingerprint(t *testing.T) {
 	if !strings.Contains(whole[0], "Checks selected all") {
 		t.Errorf("the whole run's cover does not say all checks were selected:\n%s", whole[0])
 	}
+	// The cover: the generation time in the facility's time zone (the demo
+	// station keeps America/Winnipeg time), and one box of the values
+	// recalled from memory for the committee to verify.
+	for _, want := range []string{"Generated 2026-01-31 12:00 -06:00 (America/Winnipeg)",
+		"To be verified by the committee:", "[M] AVMA Guidelines for the Euthanasia of Animals (2020): species.*.euthanasia"} {
+		if !strings.Contains(whole[0]+" "+whole[1], want) {
+			t.Errorf("the cover lacks %q:\n%s", want, whole[0])
+		}
+	}
 	if wholeDoc["fingerprint"] == coldDoc["fingerprint"] {
 		t.Errorf("--only cold has the whole run's fingerprint %v", wholeDoc["fingerprint"])
 	}
@@ -135,5 +144,36 @@ func TestMistypedLimitsRefused(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// The terminal summary opens with the scope, and the CSV gets it in a side
+// file so that findings.csv stays one header row and one finding per row.
+func TestScopeInSummaryAndBesideCSV(t *testing.T) {
+	csvPath := filepath.Join(t.TempDir(), "findings.csv")
+	code, out, stderr := runMain(t, "check", "--only", "cold", "--fail-on", "never", "--from", "2026-01-01", "--to", "2026-01-31",
+		"--csv", csvPath, demoRecords)
+	if code != exitOK {
+		t.Fatalf("exit %d\n%s", code, stderr)
+	}
+	head := strings.SplitN(out, "Rows per file", 2)[0]
+	if !strings.Contains(head, "Checks selected: only cold (--only)") || !strings.Contains(head, "Switched off: none") {
+		t.Errorf("the summary does not open with the scope:\n%s", head)
+	}
+	side, err := os.ReadFile(strings.TrimSuffix(csvPath, ".csv") + ".scope.txt")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"Fingerprint: ", "Checks selected: only cold (--only)", "Limits: the built-in defaults"} {
+		if !strings.Contains(string(side), want) {
+			t.Errorf("findings.scope.txt lacks %q:\n%s", want, side)
+		}
+	}
+	b, err := os.ReadFile(csvPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.HasPrefix(string(b), "severity,check,") {
+		t.Errorf("findings.csv does not start with its header row: %q", strings.SplitN(string(b), "\n", 2)[0])
 	}
 }
