@@ -26,7 +26,7 @@ run_reason(days) := sprintf("significant: %d days in a row, at or above the limi
 # custom:
 #   id: care.observation.missed
 #   severity: minor
-#   escalation: "significant when the run reaches care.significant_run_days (default 2) days in a row"
+#   escalation: "significant from 2 days in a row by default (limit significant_run_days)"
 #   source: "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112: animals observed at least daily"
 #   runs: true
 #   needs: [daily_care.csv]
@@ -50,7 +50,7 @@ findings contains f if {
 # custom:
 #   id: care.feeding.missed
 #   severity: minor
-#   escalation: "significant when the unfed run reaches care.significant_run_days (default 2) days in a row"
+#   escalation: "significant from 2 unfed days in a row by default (limit significant_run_days)"
 #   source: common practice
 #   runs: true
 #   needs: [daily_care.csv]

@@ -122,7 +122,7 @@ losses contains x if {
 # custom:
 #   id: health.weight.loss
 #   severity: minor
-#   escalation: "significant when the loss reaches health.weight_loss_significant_pct (default 20 %)"
+#   escalation: "significant from a loss of 20 % by default (limit weight_loss_significant_pct)"
 #   source: common practice (weight loss as a welfare and humane-endpoint signal)
 #   needs: [observations.csv]
 findings contains f if {
@@ -152,7 +152,7 @@ loss_severity(x) := "significant" if {
 # custom:
 #   id: health.condition.poor
 #   severity: minor
-#   escalation: "significant at body condition health.condition_severe_max (default 1 of 5) or below"
+#   escalation: "significant at body condition 1 of 5 or below by default (limit condition_severe_max)"
 #   source: common practice
 #   needs: [observations.csv]
 findings contains f if {
