@@ -145,7 +145,7 @@ func TestWriteTodayNoAllClear(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := []string{"no weather reading today at YARD", "1 check(s) could not run without daily_care.csv"}
+	want := []string{"no weather reading today at YARD", "1 check could not run without daily_care.csv"}
 	if d := cmp.Diff(want, v.Missing); d != "" || v.AllClear() {
 		t.Errorf("missing (-want +got):\n%s", d)
 	}
@@ -177,7 +177,7 @@ func TestWriteTodayOneScreen(t *testing.T) {
 			t.Errorf("line wider than %d: %q", reports.TodayMaxCols, l)
 		}
 	}
-	if !strings.Contains(b.String(), "\n  "+all+"\n") || !strings.Contains(b.String(), "more line(s), all shown by:") {
+	if !strings.Contains(b.String(), "\n  "+all+"\n") || !strings.Contains(b.String(), "more lines, all shown by:") {
 		t.Errorf("no command for the rest:\n%s", b.String())
 	}
 }

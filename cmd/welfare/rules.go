@@ -84,7 +84,11 @@ func printChecks(w io.Writer, checks []checker.CheckInfo, overrides map[string]s
 		if o, ok := overrides[c.ID]; ok {
 			sev = o + " (limits override; rule: " + sev + ")"
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\n", c.ID, sev, c.Title, c.Source)
+		id := c.ID
+		if c.Local {
+			id += " (local)" // not one of the shipped rules
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\n", id, sev, c.Title, c.Source)
 	}
 	tw.Flush()
 	fmt.Fprintln(w, "\nSources marked 'from memory' are to be verified against the current text before relying on them.")
