@@ -78,14 +78,14 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		Period:     p,
 		Accounting: set.Accounting,
 		Warnings:   set.Warnings,
-		Checks:     cfg.Engine.Checks(),
 		Care:       f.coverage,
 		SiteOf:     siteOf(set),
 		Weather:    f.weather,
 		ColdLines: ColdLines{Bedding: cfg.Limits.Cold.BeddingWindChill, Shelter: cfg.Limits.Cold.ShelterWindChill,
 			Frostbite: cfg.Limits.Cold.FrostbiteWindChill},
 	}
-	res.Limits = cfg.Limits.Lines()
+	res.Limits, res.LimitsText, res.Location = cfg.Limits.Lines(), cfg.Limits.Source(), set.Location
+	res.Scope, res.Checks = scopeOf(cfg.Engine, cfg.Limits, cfg.Only)
 
 	only := map[string]bool{}
 	for _, d := range cfg.Only {

@@ -134,7 +134,12 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 		ruleAt:       ruleAt,
 		packageRules: packageRules,
 	}
-	for _, c := range checks {
+	local := localFiles(files)
+	for id, c := range checks {
+		if local[c.File] {
+			c.Local = true
+			checks[id] = c
+		}
 		e.sorted = append(e.sorted, c)
 	}
 	sort.Slice(e.sorted, func(i, j int) bool { return e.sorted[i].ID < e.sorted[j].ID })

@@ -209,7 +209,7 @@ func TestEngineChecksAndKinds(t *testing.T) {
 			Description: "An occupied enclosure was not fed; significant from the second unfed day.",
 			Severity:    checker.Minor, Source: "common practice", Package: "welfare.care",
 			File: "rules/care.rego", Needs: []string{"daily_care.csv", "animals.csv"},
-			Subjects: []string{"enclosure"},
+			Subjects: []string{"enclosure"}, Local: true, // test rules, not the shipped files
 		},
 		{
 			ID: "care.observation.missed", Domain: "care", Title: "Observation missed",
@@ -217,20 +217,20 @@ func TestEngineChecksAndKinds(t *testing.T) {
 			Severity:    checker.Minor,
 			Source:      "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112",
 			Package:     "welfare.care", File: "rules/care.rego", Needs: []string{"daily_care.csv"},
-			Runs: true, Subjects: []string{"enclosure"},
+			Runs: true, Subjects: []string{"enclosure"}, Local: true, // test rules, not the shipped files
 		},
 		{
 			ID: "care.water.unavailable", Domain: "care", Title: "Water unavailable",
 			Description: "A round found water empty or frozen and it was not restored.",
 			Severity:    checker.Significant, Source: "OLAW, inoperative watering is a significant deficiency",
-			Package: "welfare.care", File: "rules/care.rego", Subjects: []string{"enclosure"},
+			Package: "welfare.care", File: "rules/care.rego", Subjects: []string{"enclosure"}, Local: true, // test rules, not the shipped files
 		},
 		{
 			ID: "cold.frostbite.risk", Domain: "cold", Title: "Frostbite risk",
 			Description: "Minimum wind chill at or below the frostbite limit.",
 			Severity:    checker.Note, Source: "Environment and Climate Change Canada wind chill hazard bands",
 			Package: "welfare.cold", File: "rules/cold.rego", Runs: true,
-			Subjects: []string{"site", "enclosure"},
+			Subjects: []string{"site", "enclosure"}, Local: true,
 		},
 	}
 	if diff := cmp.Diff(want, e.Checks()); diff != "" {

@@ -69,7 +69,7 @@ func TestEvaluateBadFindings(t *testing.T) {
 		{"check without metadata", `{"check": concat(".", ["sandbox", "probe", "other"]), "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": []}`,
 			both + ` gave a finding that was not reported: field "check": "sandbox.probe.other" has no METADATA (title, description, custom.id, custom.severity, custom.source); the finding: {"check":"sandbox.probe.other","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01"}`},
 		{"misspelt field", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "untill": "2026-01-02", "message": "m", "evidence": []}`,
-			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: unknown field "untill" (fields: check, subject, on, until, message, evidence, severity); the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01","untill":"2026-01-02"}`},
+			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: unknown field "untill" (fields: check, subject, on, until, message, evidence, severity, severity_reason); the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","subject":"E-01","untill":"2026-01-02"}`},
 		{"bad own severity", `{"check": "sandbox.probe.fired", "subject": "E-01", "on": "2026-01-01", "message": "m", "evidence": [], "severity": "high"}`,
 			`user/p.rego:16: welfare.sandbox gave a finding that was not reported: field "severity": "high" is not significant, minor or note; the finding: {"check":"sandbox.probe.fired","evidence":[],"message":"m","on":"2026-01-01","severity":"high","subject":"E-01"}`},
 	}

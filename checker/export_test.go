@@ -48,5 +48,5 @@ func Fingerprint(fsys fs.FS, rules []ruleFile, limits []byte) (string, error) {
 			return "", err
 		}
 	}
-	return fingerprint(c.read(), rules, limits), nil
+	return fingerprint(c.read(), rules, limits, nil), nil
 }

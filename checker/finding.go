@@ -35,10 +35,13 @@ type Finding struct {
 	On       records.Day
 	Until    records.Day // last day of a run; zero for a single day
 	Severity Severity
-	Message  string
-	Evidence []records.Ref
-	Title    string
-	Source   string
+	// SeverityWhy says why Severity differs from the check's default ("significant: 2 days
+	// in a row", "limits override ..."); "" when it does not.
+	SeverityWhy string
+	Message     string
+	Evidence    []records.Ref
+	Title       string
+	Source      string
 	// Reportable: noncompliance the institution reports (PHS Policy
 	// IV.F.3); outputs mark it "report to the institutional official".
 	Reportable bool
@@ -70,6 +73,12 @@ type CheckInfo struct {
 	// Reportable is custom.reportable: findings of the check are
 	// noncompliance reported to the institutional official (PHS Policy IV.F.3).
 	Reportable bool `json:"reportable,omitempty"`
+	// Escalation is custom.escalation: when a finding's severity departs
+	// from the default ("significant from 2 days in a row").
+	Escalation string `json:"escalation,omitempty"`
+	// Local: the check is defined by a rule file that is not one of the
+	// shipped rules (a committee's own package, or an edited copy).
+	Local bool `json:"local,omitempty"`
 }
 
 // Skipped is a check that was not evaluated, and why.

@@ -11,7 +11,7 @@ import (
 
 var findingKeys = map[string]bool{
 	"check": true, "subject": true, "on": true, "until": true,
-	"message": true, "evidence": true, "severity": true,
+	"message": true, "evidence": true, "severity": true, "severity_reason": true,
 }
 
 // toFinding converts one object of a findings set. keep is false when the
@@ -25,7 +25,7 @@ func (e *engine) toFinding(pkg string, raw any, lines map[string]int) (f Finding
 	}
 	for k := range obj {
 		if !findingKeys[k] {
-			return f, false, fmt.Errorf("unknown field %q (fields: check, subject, on, until, message, evidence, severity)", k)
+			return f, false, fmt.Errorf("unknown field %q (fields: check, subject, on, until, message, evidence, severity, severity_reason)", k)
 		}
 	}
 	bad := func(key, format string, args ...any) error {
@@ -117,11 +117,32 @@ func (e *engine) toFinding(pkg string, raw any, lines map[string]int) (f Finding
 		}
 		f.Severity = Severity(sev)
 	}
+	reason, err := str("severity_reason", false)
+	if err != nil {
+		return f, false, err
+	}
+	if f.Severity != info.Severity {
+		// The finding says why it differs from the check's default.
+		switch {
+		case reason != "":
+			f.SeverityWhy = reason
+		case info.Escalation != "":
+			f.SeverityWhy = info.Escalation
+		default:
+			f.SeverityWhy = "set by the rule from the records (the check's default: " + string(info.Severity) + ")"
+		}
+	}
 	if o, has := e.override[check]; has {
 		if o == "off" {
 			return f, false, nil
 		}
+		if Severity(o) != f.Severity {
+			f.SeverityWhy = "limits override (severity: " + o + "; the check's default: " + string(info.Severity) + ")"
+		}
 		f.Severity = Severity(o)
+		if f.Severity == info.Severity && f.SeverityWhy != "" && !strings.HasPrefix(f.SeverityWhy, "limits") {
+			f.SeverityWhy = ""
+		}
 	}
 	return f, true, nil
 }

@@ -8,6 +8,7 @@ import (
 	"hash"
 	"io"
 	"io/fs"
+	"slices"
 	"sort"
 	"strings"
 	"sync"
@@ -21,7 +22,7 @@ import (
 // read (each source's files in lexical order), so the same inputs always
 // give the same fingerprint and a signed report can be tied to the records
 // it came from. The bytes hashed are the bytes read: nothing is read twice.
-func fingerprint(recordFiles []capturedFile, rules []ruleFile, limits []byte) string {
+func fingerprint(recordFiles []capturedFile, rules []ruleFile, limits []byte, only []string) string {
 	h := sha256.New()
 	for _, f := range recordFiles {
 		// Each records file is framed by its length and its own SHA-256,
@@ -36,6 +37,14 @@ func fingerprint(recordFiles []capturedFile, rules []ruleFile, limits []byte) st
 		frame(h, "rules:"+r.source+"/"+r.path, r.data)
 	}
 	frame(h, "limits", limits)
+	if len(only) > 0 {
+		// A run limited by --only reports fewer findings from the same
+		// inputs: it must not share the whole run's fingerprint. (A whole
+		// run hashes as before.)
+		sel := slices.Clone(only)
+		slices.Sort(sel)
+		frame(h, "only", []byte(strings.Join(slices.Compact(sel), ",")))
+	}
 	return hex.EncodeToString(h.Sum(nil))
 }
 

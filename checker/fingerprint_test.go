@@ -32,11 +32,11 @@ func readAll(t *testing.T, fsys fs.FS) []capturedFile {
 func TestFingerprint(t *testing.T) {
 	recs := fstest.MapFS{"animals.csv": {Data: []byte("animal_id\nF1\n")}, "facility.yaml": {Data: []byte("name: X\n")}}
 	rules := []ruleFile{{"rules", "a.rego", []byte("package welfare.a")}, {"rules", "a_test.rego", []byte("x")}}
-	base := fingerprint(readAll(t, recs), rules, []byte("limits"))
+	base := fingerprint(readAll(t, recs), rules, []byte("limits"), nil)
 	if len(base) != 64 {
 		t.Fatalf("fingerprint %q is not a SHA-256 hex digest", base)
 	}
-	if again := fingerprint(readAll(t, recs), rules, []byte("limits")); again != base {
+	if again := fingerprint(readAll(t, recs), rules, []byte("limits"), nil); again != base {
 		t.Error("same inputs gave a different fingerprint")
 	}
 	changed := []struct {
@@ -52,10 +52,20 @@ func TestFingerprint(t *testing.T) {
 	}
 	for _, tc := range changed {
 		t.Run(tc.name, func(t *testing.T) {
-			if got := fingerprint(readAll(t, tc.recs), tc.rules, []byte(tc.lim)); got == base {
+			if got := fingerprint(readAll(t, tc.recs), tc.rules, []byte(tc.lim), nil); got == base {
 				t.Error("a changed input kept the fingerprint")
 			}
 		})
+	}
+	// A run limited by --only reports fewer findings from the same inputs:
+	// its fingerprint differs from the whole run's, and the order of the
+	// domains named does not matter.
+	cold := fingerprint(readAll(t, recs), rules, []byte("limits"), []string{"cold", "care"})
+	if cold == base {
+		t.Error("--only kept the whole run's fingerprint")
+	}
+	if again := fingerprint(readAll(t, recs), rules, []byte("limits"), []string{"care", "cold"}); again != cold {
+		t.Error("the order of --only changed the fingerprint")
 	}
 	// Files the loader does not read do not change it; a workbook does.
 	withNote := fstest.MapFS{"animals.csv": recs["animals.csv"], "facility.yaml": recs["facility.yaml"], "notes.txt": {Data: []byte("x")}, "old/animals.csv": {Data: []byte("x")}}
@@ -68,7 +78,7 @@ func TestFingerprint(t *testing.T) {
 	}
 	// Rule tests do not change findings, so they do not change the fingerprint.
 	noTests := []ruleFile{{"rules", "a.rego", []byte("package welfare.a")}}
-	if got := fingerprint(readAll(t, recs), noTests, []byte("limits")); got != base {
+	if got := fingerprint(readAll(t, recs), noTests, []byte("limits"), nil); got != base {
 		t.Error("a _test.rego file changed the fingerprint")
 	}
 }

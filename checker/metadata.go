@@ -236,6 +236,14 @@ func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, stri
 		}
 		info.Reportable = b
 	}
+	if r, has := a.Custom["escalation"]; has {
+		s, isStr := r.(string)
+		if !isStr || strings.TrimSpace(s) == "" {
+			at(a.Location, "check %s: custom.escalation must be a text saying when the severity departs from the default", id)
+			good = false
+		}
+		info.Escalation = s
+	}
 	if n, has := a.Custom["needs"]; has {
 		needs, err := metaStrings(n)
 		if err != nil {
@@ -249,7 +257,7 @@ func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, stri
 
 func sameCheck(a, b CheckInfo) bool {
 	return a.Title == b.Title && a.Description == b.Description && a.Severity == b.Severity &&
-		a.Source == b.Source && a.Runs == b.Runs && a.Reportable == b.Reportable && slices.Equal(a.Needs, b.Needs)
+		a.Source == b.Source && a.Runs == b.Runs && a.Reportable == b.Reportable && a.Escalation == b.Escalation && slices.Equal(a.Needs, b.Needs)
 }
 
 func metaStrings(v any) ([]string, error) {

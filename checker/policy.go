@@ -40,6 +40,9 @@ func Compile(ctx context.Context, limits *rules.Limits, sources []Source, opt Op
 	if err != nil {
 		return nil, err
 	}
+	if err := checkOverrides(limits, e.Checks()); err != nil {
+		return nil, err
+	}
 	return &Policy{limits: limits, data: data, sources: sources, engine: e, progress: opt.Progress}, nil
 }
 
@@ -134,7 +137,7 @@ func (p *Policy) CheckWith(ctx context.Context, recordsFS fs.FS, opt CheckOption
 	if err != nil {
 		return nil, nil, err
 	}
-	res.Fingerprint = fingerprint(capture.read(), p.engine.files, p.limits.Source())
+	res.Fingerprint = fingerprint(capture.read(), p.engine.files, p.limits.Source(), opt.Only)
 	return res, judged, nil
 }
 
@@ -150,4 +153,71 @@ func (p *Policy) Test(ctx context.Context, w io.Writer, verbose bool) (passed, f
 // RuleTests runs the same tests as Test and returns one result per test.
 func (p *Policy) RuleTests(ctx context.Context) ([]RuleTest, error) {
 	return ruleTests(ctx, p.sources, p.data)
+}
+
+// checkOverrides refuses a severity override that names no check of the
+// rules in force: a misspelt id would otherwise leave the check at its
+// default without a word. The error is at the override's line.
+func checkOverrides(l *rules.Limits, checks []CheckInfo) error {
+	ids := make([]string, len(checks))
+	for i, c := range checks {
+		ids[i] = c.ID
+	}
+	keys := make([]string, 0, len(l.Severity))
+	for k := range l.Severity {
+		keys = append(keys, k)
+	}
+	slices.Sort(keys)
+	for _, k := range keys {
+		if slices.Contains(ids, k) {
+			continue
+		}
+		reason := fmt.Sprintf("%q is not a check of the rules in force", k)
+		if s := nearestID(k, ids); s != "" {
+			reason += fmt.Sprintf(" (did you mean %s?)", s)
+		} else {
+			reason += " (welfare rules list shows them)"
+		}
+		key := "severity[" + k + "]"
+		return &records.LoadError{File: l.Name(), Line: l.KeyLine(key), Column: key, Reason: reason}
+	}
+	return nil
+}
+
+// nearestID is the check id closest to s by edit distance, when within
+// three edits; "" when none is.
+func nearestID(s string, ids []string) string {
+	best, bestD := "", 4
+	for _, id := range ids {
+		if d := editDistance(s, id); d < bestD {
+			best, bestD = id, d
+		}
+	}
+	return best
+}
+
+// editDistance is the Levenshtein distance, swaps of two neighbouring
+// letters counting one.
+func editDistance(a, b string) int {
+	d := make([][]int, len(a)+1)
+	for i := range d {
+		d[i] = make([]int, len(b)+1)
+		d[i][0] = i
+	}
+	for j := range d[0] {
+		d[0][j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			d[i][j] = min(d[i-1][j]+1, d[i][j-1]+1, d[i-1][j-1]+cost)
+			if i > 1 && j > 1 && a[i-1] == b[j-2] && a[i-2] == b[j-1] {
+				d[i][j] = min(d[i][j], d[i-2][j-2]+1)
+			}
+		}
+	}
+	return d[len(a)][len(b)]
 }

@@ -1,6 +1,8 @@
 package checker
 
 import (
+	"time"
+
 	"welfare/records"
 	"welfare/rules"
 )
@@ -18,15 +20,23 @@ type Result struct {
 	Rejected []records.Problem
 	Warnings []records.Warning
 	Findings []Finding // in SortFindings order
-	// Checks lists every check that was in force (evaluated or not), sorted by id.
+	// Scope: --only, the checks switched off, the limits changed, the local
+	// rules (see RunScope).
+	Scope RunScope
+	// Checks lists every check that was in force (evaluated or not), sorted
+	// by id; checks switched off by the limits are in Scope.Off instead.
 	Checks       []CheckInfo
 	NotEvaluated []Skipped
 	// Partial lists the checks evaluated only in part: items they could not
 	// judge for a missing value (records.value.missing), counted.
 	Partial []Partial
 	// Limits are the limits in force, one line per value, with the source tag
-	// from its comment in the limits file.
-	Limits []LimitLine
+	// from its comment in the limits file; LimitsText is that file's text
+	// (the merged text for limits laid over the defaults).
+	Limits     []LimitLine
+	LimitsText []byte
+	// Location is the facility's time zone (nil: UTC).
+	Location *time.Location
 	// Care is the share of occupied enclosure-days with complete care records.
 	Care CareCoverage
 	// SiteOf maps the subject of a cold finding (an enclosure, a keeper or a

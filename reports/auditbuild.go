@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"regexp"
+	"slices"
 	"strings"
 	"time"
 
@@ -83,6 +85,11 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 		{Name: "findings.json", Description: "Every finding, with the accounting and the checks in force (JSON)", Content: js.Bytes(), Bytes: js.Len()},
 		{Name: "findings.csv", Description: "Every finding, one per row (CSV)", Content: cs.Bytes(), Bytes: cs.Len()},
 	}
+	if len(r.LimitsText) > 0 {
+		a.Attachments = append(a.Attachments, Attachment{Name: "limits.yaml",
+			Description: "The limits in force, whole (a file of changes laid over the defaults is shown merged)",
+			Content:     r.LimitsText, Bytes: len(r.LimitsText)})
+	}
 	return a, nil
 }
 
@@ -136,16 +143,30 @@ func (b *auditBuilder) cover() AuditSection {
 	b.add(Block{Kind: KindTitle, Text: "Welfare records audit", Subtitle: orNone(r.Facility)})
 	const size = 10.5
 	b.add(
-		keyValue("Period", dayOrNone(r.Period.From)+" to "+dayOrNone(r.Period.To)+" (inclusive)", false, size),
 		keyValue("Inspector", orNone(b.opt.Inspector), false, size),
-		keyValue("Generated", b.opt.GeneratedAt.Format("2006-01-02 15:04:05 -07:00"), false, size),
-		keyValue("Checks in force", checksInForce(r), false, size),
+		keyValue("Generated", generatedIn(b.opt.GeneratedAt, r.Location), false, size),
 		keyValue("Findings", fmt.Sprintf("%d: %d significant, %d minor, %d note",
 			t.total(), t.severityTotal(checker.Significant), t.severityTotal(checker.Minor), t.severityTotal(checker.Note)), false, size),
 		keyValue("Reportable", reportableCover(r.Findings), false, size),
+		keyValue("Checks in force", checksInForce(r), false, size),
+	)
+	// The scope: what this report was limited to, switched off, changed or
+	// added, before anyone reads its counts as a pass.
+	for _, it := range scopeItems(r) {
+		b.add(keyValue(it.Label, it.Value, false, size))
+		for _, m := range it.More {
+			b.add(Block{Kind: KindParagraph, Size: 8.5, Indent: 42, Text: m})
+		}
+	}
+	b.add(
 		keyValue("Fingerprint", orNone(r.Fingerprint), true, 9.5),
 		Block{Kind: KindParagraph, Style: "italic", Size: 8.5, Indent: 42,
-			Text: "SHA-256 over the records, rules and limits used. Every page carries its first 12 digits."},
+			Text: "SHA-256 over the records, rules and limits used and the checks selected. Every page carries its first 12 digits."},
+	)
+	if v := toVerify(r.Limits); v != "" {
+		b.add(space(2), Block{Kind: KindNotice, Text: v})
+	}
+	b.add(
 		subheading("Rows read per file", 20),
 	)
 	if len(r.Accounting) == 0 {
@@ -363,6 +384,9 @@ func findingCells(f *checker.Finding) []string {
 		when = dayOrNone(f.On) + " –\n" + f.Until.String()
 	}
 	msg := f.Message
+	if f.SeverityWhy != "" {
+		msg += "\nSeverity " + f.SeverityWhy + "."
+	}
 	if f.Reportable {
 		msg += "\n» " + capitalise(ReportableMark) + " (PHS Policy IV.F.3)."
 	}
@@ -377,15 +401,20 @@ func (b *auditBuilder) limits() AuditSection {
 	if len(r.Limits) == 0 {
 		b.add(para("No limits were reported with this result.", "italic", 10))
 	} else {
-		tb := &Table{Size: 8.5, Caption: "Limits in force", Columns: []Column{
-			{Head: "Limit", Width: 68, Align: "L", Mono: true},
-			{Head: "Value", Width: 42, Align: "L"},
-			{Head: "Source", Width: 70, Align: "L"},
-		}}
-		for _, l := range r.Limits {
-			tb.Rows = append(tb.Rows, Row{Cells: []string{l.Key, l.Value, l.Source}})
+		b.add(para("The whole limits file in force is attached to this PDF (limits.yaml).", "italic", 8.5))
+		for _, g := range limitGroups(r.Limits) {
+			b.add(subheading(g.title, 14))
+			tb := &Table{Size: 8, Caption: "Limits: " + g.title, Columns: []Column{
+				{Head: "Limit", Width: 62, Align: "L", Mono: true},
+				{Head: "Value", Width: 38, Align: "L"},
+				{Head: "Unit", Width: 14, Align: "L"},
+				{Head: "Source", Width: 66, Align: "L"},
+			}}
+			for _, l := range g.lines {
+				tb.Rows = append(tb.Rows, Row{Cells: []string{l.Key, l.Value, unitOf(l.Key), l.Source}})
+			}
+			b.add(Block{Kind: KindTable, Table: tb})
 		}
-		b.add(Block{Kind: KindTable, Table: tb})
 	}
 
 	b.add(subheading(fmt.Sprintf("Checks in force (%d)", len(r.Checks)), 20))
@@ -397,10 +426,16 @@ func (b *auditBuilder) limits() AuditSection {
 	for _, s := range r.NotEvaluated {
 		skipped[s.Check] = true
 	}
+	overrides := map[string]string{}
+	for _, l := range r.Limits {
+		if id, ok := strings.CutPrefix(l.Key, "severity."); ok {
+			overrides[id] = l.Value
+		}
+	}
 	ct := &Table{Size: 8, Caption: "Checks in force", Columns: []Column{
-		{Head: "Check", Width: 52, Align: "L", Mono: true},
-		{Head: "Title", Width: 58, Align: "L"},
-		{Head: "Default", Width: 20, Align: "L"},
+		{Head: "Check", Width: 48, Align: "L", Mono: true},
+		{Head: "Title", Width: 44, Align: "L"},
+		{Head: "Severity", Width: 38, Align: "L"},
 		{Head: "Source", Width: 50, Align: "L"},
 	}}
 	for _, c := range r.Checks {
@@ -408,10 +443,76 @@ func (b *auditBuilder) limits() AuditSection {
 		if skipped[c.ID] {
 			id += "\n(not evaluated)"
 		}
-		ct.Rows = append(ct.Rows, Row{Cells: []string{id, c.Title, string(c.Severity), c.Source}})
+		if c.Local {
+			id += "\n(local)"
+		}
+		sev := string(c.Severity)
+		if c.Escalation != "" {
+			sev += "; " + c.Escalation
+		}
+		if o, ok := overrides[c.ID]; ok && o != string(c.Severity) {
+			sev = o + " (limits override; default " + sev + ")"
+		}
+		ct.Rows = append(ct.Rows, Row{Cells: []string{id, c.Title, sev, c.Source}})
+	}
+	if len(r.Scope.Off) > 0 {
+		b.add(para("Switched off by the limits (severity: off), not in force: "+strings.Join(r.Scope.Off, ", ")+".", "italic", 8.5))
 	}
 	b.add(Block{Kind: KindTable, Table: ct})
 	return b.section("Limits in force", true, "Limits in force")
+}
+
+// limitGroup is the limits of one domain (or one species profile), with
+// keys shown relative to it.
+type limitGroup struct {
+	title string
+	lines []checker.LimitLine
+}
+
+// limitGroups groups the limits in force by their first key (species by
+// profile), in the order of the limits file.
+func limitGroups(lines []checker.LimitLine) []limitGroup {
+	var out []limitGroup
+	for _, l := range lines {
+		parts := strings.SplitN(l.Key, ".", 3)
+		title, rest := parts[0], strings.Join(parts[1:], ".")
+		if parts[0] == "species" && len(parts) == 3 {
+			title, rest = "species "+parts[1], parts[2]
+		}
+		if rest == "" {
+			rest = parts[0]
+		}
+		if len(out) == 0 || out[len(out)-1].title != title {
+			out = append(out, limitGroup{title: title})
+		}
+		l.Key = rest
+		out[len(out)-1].lines = append(out[len(out)-1].lines, l)
+	}
+	return out
+}
+
+// units by the ending of a limit's key (the limits file names units in
+// its keys).
+var units = []struct{ suffix, unit string }{
+	{"_m2", "m²"}, {"_cm", "cm"}, {"_mm", "mm"}, {"_kg", "kg"}, {"wind_chill", "wind chill °C"}, {"_c", "°C"},
+	{"_kmh", "km/h"}, {"_days", "days"}, {"_hours", "h"}, {"_min", "min"}, {"_months", "months"},
+	{"_pct", "%"}, {"_iu_ml", "IU/mL"}, {"_ppm_max", "ppm"},
+}
+
+// unitOf is a limit's unit, read from the last part of its key that names
+// one (a map entry such as max_duration_min.weighing takes its map's);
+// "" when none does.
+func unitOf(key string) string {
+	parts := strings.Split(key, ".")
+	for i := len(parts) - 1; i >= 0; i-- {
+		p, _, _ := strings.Cut(parts[i], "[")
+		for _, u := range units {
+			if strings.HasSuffix(p, u.suffix) {
+				return u.unit
+			}
+		}
+	}
+	return ""
 }
 
 // biteReportItem marks where the bite-report caution, which quotes the limit
@@ -476,6 +577,112 @@ func (b *auditBuilder) signOff() AuditSection {
 	return b.section("Sign-off", false, "")
 }
 
+// checksInForce counts the checks in force, those --only selected, those
+// not evaluated and those evaluated only in part.
+func checksInForce(r *checker.Result) string {
+	part := ""
+	if n := len(r.Partial); n > 0 {
+		part = fmt.Sprintf(" and %d evaluated only in part", n)
+	}
+	if len(r.Scope.Only) == 0 {
+		return fmt.Sprintf("%d, of which %d not evaluated%s", len(r.Checks), len(r.NotEvaluated), part)
+	}
+	n := 0
+	for _, c := range r.Checks {
+		if slices.Contains(r.Scope.Only, c.Domain) {
+			n++
+		}
+	}
+	return fmt.Sprintf("%d; %d of them selected by --only, of which %d not evaluated%s", len(r.Checks), n, len(r.NotEvaluated), part)
+}
+
+// generatedIn is the generation time in the facility's time zone, with
+// the zone's name.
+func generatedIn(t time.Time, loc *time.Location) string {
+	if loc != nil {
+		t = t.In(loc)
+	}
+	s := t.Format("2006-01-02 15:04 -07:00")
+	if name := t.Location().String(); name != "" && name != "Local" {
+		s += " (" + name + ")"
+	}
+	return s
+}
+
+// toVerify is the cover's box of limits in force recalled from memory
+// ([M] in their source): to be verified by the committee before the
+// report is relied on. "" when there are none.
+func toVerify(lines []checker.LimitLine) string {
+	var sources []string
+	keys := map[string][]string{}
+	n := 0
+	for _, l := range lines {
+		if !strings.Contains(l.Source, "[M") {
+			continue
+		}
+		n++
+		k, src := verifyKey(l.Key), verifySource(l.Source)
+		if _, ok := keys[src]; !ok {
+			sources = append(sources, src)
+		}
+		if !slices.Contains(keys[src], k) {
+			keys[src] = append(keys[src], k)
+		}
+	}
+	if n == 0 {
+		return ""
+	}
+	out := fmt.Sprintf("To be verified by the committee: %s in force recalled from memory [M], "+
+		"not yet checked against their source; each source with the limits it gives (* = every species):", plural(n, "value"))
+	for _, src := range sources {
+		out += "\n• " + src + ": " + strings.Join(keys[src], ", ")
+	}
+	return out
+}
+
+// verifyKey shortens a limit's key for the box of values to verify: one
+// line stands for every species, and for every method of a euthanasia list.
+func verifyKey(k string) string {
+	parts := strings.Split(k, ".")
+	if len(parts) > 2 && parts[0] == "species" {
+		parts[1] = "*"
+	}
+	for i, p := range parts {
+		if p == "euthanasia" {
+			return strings.Join(parts[:i+1], ".")
+		}
+	}
+	return strings.Join(parts, ".")
+}
+
+var memoryMark = regexp.MustCompile(`\[M(:[^\]]*)?\]`)
+
+// verifySource is a limit's source cut to the work it names and what is to
+// be verified: "[P] Council of Europe fur-animal recommendation (1999) [M:
+// section]".
+func verifySource(src string) string {
+	head := src
+	for _, cut := range []string{" as ", ":", ";", " — ", " ["} {
+		if i := strings.Index(head, cut); i > 0 {
+			head = head[:i]
+		}
+	}
+	head = shorten(strings.TrimSpace(head), 90)
+	if m := memoryMark.FindString(src); m != "" && !strings.HasPrefix(head, m) {
+		head += " " + m
+	}
+	return head
+}
+
+// shorten cuts s to at most n runes, with an ellipsis.
+func shorten(s string, n int) string {
+	r := []rune(s)
+	if len(r) <= n {
+		return s
+	}
+	return string(r[:n-1]) + "…"
+}
+
 // reportableCover is the cover's count of reportable findings (PHS Policy
 // IV.F.3), said even when there are none so a reader sees it was looked at.
 func reportableCover(fs []checker.Finding) string {
@@ -509,14 +716,4 @@ func plural(n int, noun string) string {
 		return "1 " + noun
 	}
 	return itoa(n) + " " + noun + "s"
-}
-
-// checksInForce is the cover's count of the checks in force, with those not
-// evaluated and those evaluated only in part.
-func checksInForce(r *checker.Result) string {
-	s := fmt.Sprintf("%d, of which %d not evaluated", len(r.Checks), len(r.NotEvaluated))
-	if n := len(r.Partial); n > 0 {
-		s += fmt.Sprintf(" and %d evaluated only in part", n)
-	}
-	return s
 }

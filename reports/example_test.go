@@ -35,7 +35,12 @@ func ExampleWriteText() {
 	}
 	// Output:
 	// Welfare records check: Birchfall Fur Research Station
-	// Period: 2026-01-01 to 2026-01-31
+	// Period: 2026-01-01 to 2026-01-31 (inclusive)
+	// Checks selected: all
+	// Switched off: none
+	// Limits: the built-in defaults
+	// Local rules: none (only the shipped rules)
+	// Not evaluated: none: every check in force was evaluated
 	// Fingerprint: 3f9a1c07be52d4e8a6103f7c2b9e5d4a8c1f06e7d2b3a9c5e8f1d0a7b6c4e2f9
 	//
 	// Rows per file
@@ -113,7 +118,7 @@ func ExampleBuildAudit() {
 		fmt.Printf("%s (%s): %d blocks\n", s.Title, start, len(s.Blocks))
 	}
 	// Output:
-	// Cover (new page): 13 blocks
+	// Cover (new page): 18 blocks
 	// Summary (new page): 9 blocks
 	// Findings (new page): 3 blocks
 	// Limits in force (new page): 5 blocks

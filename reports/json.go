@@ -16,9 +16,11 @@ import (
 
 // JSONReport is findings.json: one object per check run.
 type JSONReport struct {
-	Facility     string             `json:"facility"`
-	Period       JSONPeriod         `json:"period"`
-	Fingerprint  string             `json:"fingerprint"` // SHA-256 over the records, rules and limits used
+	Facility    string     `json:"facility"`
+	Period      JSONPeriod `json:"period"`
+	Fingerprint string     `json:"fingerprint"` // SHA-256 over the records, rules and limits used, and --only
+	// Scope: --only, the checks switched off, the limits changed, the local rules.
+	Scope        JSONScope          `json:"scope"`
 	Accounting   []JSONFileCount    `json:"accounting"`
 	Findings     []JSONFinding      `json:"findings"`
 	Checks       []JSONCheck        `json:"checks"`
@@ -99,16 +101,18 @@ type JSONFileCount struct {
 
 // JSONFinding is one finding; Until is present only for a run of days.
 type JSONFinding struct {
-	Severity string   `json:"severity"`
-	Check    string   `json:"check"`
-	Domain   string   `json:"domain"`
-	Subject  string   `json:"subject"`
-	On       string   `json:"on"`
-	Until    string   `json:"until,omitempty"`
-	Message  string   `json:"message"`
-	Evidence []string `json:"evidence"`
-	Title    string   `json:"title"`
-	Source   string   `json:"source"`
+	Severity string `json:"severity"`
+	// SeverityWhy: why the severity differs from the check's default (absent when it does not).
+	SeverityWhy string   `json:"severity_why,omitempty"`
+	Check       string   `json:"check"`
+	Domain      string   `json:"domain"`
+	Subject     string   `json:"subject"`
+	On          string   `json:"on"`
+	Until       string   `json:"until,omitempty"`
+	Message     string   `json:"message"`
+	Evidence    []string `json:"evidence"`
+	Title       string   `json:"title"`
+	Source      string   `json:"source"`
 	// Reportable findings are marked "report to the institutional official" (PHS Policy IV.F.3).
 	Reportable bool   `json:"reportable,omitempty"`
 	ReportTo   string `json:"report_to,omitempty"`
@@ -142,6 +146,10 @@ type JSONCheck struct {
 	Needs       []string `json:"needs,omitempty"`
 	Runs        bool     `json:"runs,omitempty"`
 	Subjects    []string `json:"subjects,omitempty"`
+	// Escalation: when a finding's severity departs from the default.
+	Escalation string `json:"escalation,omitempty"`
+	// Local: defined by a rule file not shipped with welfare.
+	Local bool `json:"local,omitempty"`
 }
 
 // JSONNotEvaluated is a check that found no records to read, and why.
@@ -332,6 +340,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 		Facility:        r.Facility,
 		Period:          JSONPeriod{From: r.Period.From.String(), To: r.Period.To.String()},
 		Fingerprint:     r.Fingerprint,
+		Scope:           newJSONScope(r.Scope),
 		Accounting:      make([]JSONFileCount, len(r.Accounting)),
 		Findings:        make([]JSONFinding, len(r.Findings)),
 		Checks:          make([]JSONCheck, len(r.Checks)),
@@ -347,18 +356,19 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	for i := range r.Findings {
 		f := &r.Findings[i]
 		jf := JSONFinding{
-			Severity: string(f.Severity),
-			Check:    f.Check,
-			Domain:   domainOf(f),
-			Subject:  f.Subject,
-			On:       f.On.String(),
-			Message:  f.Message,
-			Evidence: make([]string, len(f.Evidence)),
-			Title:    f.Title,
-			Source:   f.Source,
-			Key:      f.Key(),
-			Problem:  f.Problem(),
-			Class:    r.ClassOf(f),
+			Severity:    string(f.Severity),
+			SeverityWhy: f.SeverityWhy,
+			Check:       f.Check,
+			Domain:      domainOf(f),
+			Subject:     f.Subject,
+			On:          f.On.String(),
+			Message:     f.Message,
+			Evidence:    make([]string, len(f.Evidence)),
+			Title:       f.Title,
+			Source:      f.Source,
+			Key:         f.Key(),
+			Problem:     f.Problem(),
+			Class:       r.ClassOf(f),
 		}
 		if a := r.ActionFor(f); a != nil {
 			jf.Action = &JSONFindingAction{Plan: a.Action.Plan, Owner: a.Action.Owner, DueOn: a.Action.DueOn.String(), Status: a.Status}
@@ -377,7 +387,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	for i, c := range r.Checks {
 		doc.Checks[i] = JSONCheck{ID: c.ID, Domain: c.Domain, Title: c.Title, Description: c.Description,
 			Severity: string(c.Severity), Source: c.Source, Package: c.Package, File: c.File,
-			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects}
+			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects, Escalation: c.Escalation, Local: c.Local}
 	}
 	for i, s := range r.NotEvaluated {
 		doc.NotEvaluated[i] = JSONNotEvaluated{Check: s.Check, Reason: s.Reason}

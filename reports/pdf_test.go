@@ -123,7 +123,7 @@ func TestWritePDFContent(t *testing.T) {
 	wants := []string{
 		// Cover
 		"Welfare records audit", "Birchfall Fur Research Station", "2026-01-01 to 2026-01-31",
-		"Dr. Tuomas Vähäkangas", "2026-02-03 09:30:00 -06:00", r.Fingerprint,
+		"Dr. Tuomas Vähäkangas", "2026-02-03 09:30 -06:00", r.Fingerprint,
 		fmt.Sprintf("Findings %d: %d significant, %d minor, %d note", len(r.Findings), sig, minor, note),
 		"care_rounds.csv 1540 1534 6", "total 2800 2793 7",
 		"not used: missing required column \"method\"",
@@ -139,7 +139,7 @@ func TestWritePDFContent(t *testing.T) {
 		fmt.Sprintf("%d more care.observation.missed findings in the attached findings.csv / findings.json",
 			perCheck["care.observation.missed"]-reports.DefaultPDFMaxPerCheck),
 		// Limits
-		"Limits in force", "cold.bedding_wind_chill_c −20", "Checks in force (17)",
+		"Limits in force", "bedding_wind_chill_c −20", "Checks in force (17)",
 		// Cautions
 		"Conscious foxes and mink bite", "bite-resistant gloves", "Report every bite or scratch",
 		"soap and running water for about 15 minutes (WHO rabies position paper, 2018)",

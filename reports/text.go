@@ -35,7 +35,7 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 	p := func(format string, a ...any) { fmt.Fprintf(b, format, a...) }
 
 	p("Welfare records check: %s\n", orNone(r.Facility))
-	p("Period: %s to %s\n", dayOrNone(r.Period.From), dayOrNone(r.Period.To))
+	writeScope(b, r)
 	p("Fingerprint: %s\n\n", orNone(r.Fingerprint))
 
 	writeAccounting(b, r)
@@ -88,6 +88,9 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 			for _, f := range fs[i : i+shown] {
 				p("\n%s  %s  %s  %s\n", strings.ToUpper(string(f.Severity)), f.Check, orNone(f.Subject), dates(f))
 				p("  %s\n", oneLine(f.Message))
+				if f.SeverityWhy != "" {
+					p("  why this severity: %s\n", f.SeverityWhy)
+				}
 				if f.Reportable {
 					p("  reportable: %s (PHS Policy IV.F.3)\n", ReportableMark)
 				}

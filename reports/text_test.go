@@ -85,7 +85,21 @@ type jsonContract struct {
 		To   string `json:"to"`
 	} `json:"period"`
 	Fingerprint string `json:"fingerprint"`
-	Accounting  []struct {
+	Scope       struct {
+		Only          []string `json:"only"`
+		Off           []string `json:"off"`
+		LimitsFile    string   `json:"limits_file"`
+		LimitsWhole   bool     `json:"limits_whole"`
+		LimitsChanged []struct {
+			Key, Old, New, Source string
+		} `json:"limits_changed"`
+		LocalRules []struct {
+			Source      string   `json:"source"`
+			Files       []string `json:"files"`
+			Fingerprint string   `json:"fingerprint"`
+		} `json:"local_rules"`
+	} `json:"scope"`
+	Accounting []struct {
 		File     string `json:"file"`
 		Read     int    `json:"read"`
 		Accepted int    `json:"accepted"`
@@ -154,6 +168,14 @@ func TestWriteJSONRoundTrip(t *testing.T) {
 	want.Facility = r.Facility
 	want.Period.From, want.Period.To = "2026-01-01", "2026-01-31"
 	want.Fingerprint = r.Fingerprint
+	// The scope is always written whole: empty lists, never null.
+	want.Scope.Only, want.Scope.Off = []string{}, []string{}
+	want.Scope.LimitsChanged = []struct{ Key, Old, New, Source string }{}
+	want.Scope.LocalRules = []struct {
+		Source      string   `json:"source"`
+		Files       []string `json:"files"`
+		Fingerprint string   `json:"fingerprint"`
+	}{}
 	want.Accounting = make([]struct {
 		File     string `json:"file"`
 		Read     int    `json:"read"`

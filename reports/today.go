@@ -257,7 +257,7 @@ func WriteToday(w io.Writer, r *checker.Result, o TodayOptions) (TodayVerdict, e
 		if len(lines) > room {
 			n := len(lines) - room + 1
 			cut += n
-			lines = append(lines[:room-1:room-1], fmt.Sprintf("  … %d more line(s), all shown by:", n))
+			lines = append(lines[:room-1:room-1], fmt.Sprintf("  … %s, all shown by:", plural(n, "more line")))
 		}
 		body = append(body, lines...)
 	}
@@ -352,14 +352,14 @@ func notRun(sk []checker.Skipped) string {
 		}
 	}
 	if len(files) == 0 {
-		return fmt.Sprintf("%d check(s) could not run: %s", len(sk), strings.Join(reasons, "; "))
+		return fmt.Sprintf("%s could not run: %s", plural(len(sk), "check"), strings.Join(reasons, "; "))
 	}
 	more := ""
 	if len(files) > 3 {
 		more = fmt.Sprintf(" and %d more", len(files)-3)
 		files = files[:3]
 	}
-	return fmt.Sprintf("%d check(s) could not run without %s%s", len(sk), strings.Join(files, ", "), more)
+	return fmt.Sprintf("%s could not run without %s%s", plural(len(sk), "check"), strings.Join(files, ", "), more)
 }
 
 // verdict is the view's last word before the caution: an all-clear only
@@ -371,9 +371,9 @@ func verdict(v TodayVerdict, endOfDay bool) string {
 	case v.AllClear():
 		return "All clear so far: nothing due now is missing or wrong."
 	case v.Problems > 0 && len(v.Missing) > 0:
-		return fmt.Sprintf("Not all clear: %d finding(s) due now; and %s.", v.Problems, strings.Join(v.Missing, "; "))
+		return fmt.Sprintf("Not all clear: %s due now; and %s.", plural(v.Problems, "finding"), strings.Join(v.Missing, "; "))
 	case v.Problems > 0:
-		return fmt.Sprintf("Not all clear: %d finding(s) due now.", v.Problems)
+		return fmt.Sprintf("Not all clear: %s due now.", plural(v.Problems, "finding"))
 	}
 	return "No all-clear can be given: " + strings.Join(v.Missing, "; ") + "."
 }
@@ -428,7 +428,7 @@ func weatherLines(set *records.Set, o TodayOptions) (lines []string, hot bool, m
 		}
 		if minWC <= 0 {
 			lines = append(lines,
-				fmt.Sprintf("  %s: coldest wind chill %d at %s (air %s °C, %s)", site, cold.Display(minWC),
+				fmt.Sprintf("  %s: coldest wind chill %d °C at %s (air %s °C, %s)", site, cold.Display(minWC),
 					coldest.At.In(loc).Format("15:04"), morningNum(coldest.AirTempC), windText(coldest.WindKmh)),
 				"    wind chill band: "+cold.Band(minWC).Wording)
 			if o.Schedule != nil {

@@ -121,7 +121,7 @@ func TestWriteTodayWeather(t *testing.T) {
 		"Weather so far:",
 		// Environment Canada wind chill table: −40 °C air, 10 km/h → −51;
 		// ECCC hazard band −48 to −54: exposed skin can freeze in 2–5 min.
-		"  YARD: coldest wind chill -51 at 03:00 (air -40 °C, wind 10 km/h)",
+		"  YARD: coldest wind chill -51 °C at 03:00 (air -40 °C, wind 10 km/h)",
 		"    wind chill band: exposed skin can freeze in 2–5 min",
 		"    latest 06:00: air -36.5 °C, wind 5 km/h; work/warm-up schedule:",
 		// ACGIH TLV work/warm-up schedule, row −35 to −37 °C, 5 mph (8 km/h)
@@ -145,7 +145,7 @@ func TestWriteTodayNoAllClear(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := []string{"no weather reading today at YARD", "1 check(s) could not run without daily_care.csv"}
+	want := []string{"no weather reading today at YARD", "1 check could not run without daily_care.csv"}
 	if d := cmp.Diff(want, v.Missing); d != "" || v.AllClear() {
 		t.Errorf("missing (-want +got):\n%s", d)
 	}
@@ -177,7 +177,7 @@ func TestWriteTodayOneScreen(t *testing.T) {
 			t.Errorf("line wider than %d: %q", reports.TodayMaxCols, l)
 		}
 	}
-	if !strings.Contains(b.String(), "\n  "+all+"\n") || !strings.Contains(b.String(), "more line(s), all shown by:") {
+	if !strings.Contains(b.String(), "\n  "+all+"\n") || !strings.Contains(b.String(), "more lines, all shown by:") {
 		t.Errorf("no command for the rest:\n%s", b.String())
 	}
 }

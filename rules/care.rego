@@ -17,12 +17,16 @@ run_severity(days) := "significant" if {
 	days >= data.limits.care.significant_run_days
 } else := "minor"
 
+# Why a run's severity is what it is, said on the finding when it departs from the default.
+run_reason(days) := sprintf("significant: %d days in a row, at or above the limit of %d", [days, data.limits.care.significant_run_days])
+
 # METADATA
 # title: Animals not observed
 # description: An occupied enclosure had no round with every animal observed on a day.
 # custom:
 #   id: care.observation.missed
 #   severity: minor
+#   escalation: "significant from 2 days in a row by default (limit significant_run_days)"
 #   source: "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112: animals observed at least daily"
 #   runs: true
 #   needs: [daily_care.csv]
@@ -34,7 +38,8 @@ findings contains f if {
 		"on": r.from,
 		"until": r.until,
 		"severity": run_severity(r.days),
-		"message": sprintf("no round observed the animals on %d day(s) in a row", [r.days]),
+		"severity_reason": run_reason(r.days),
+		"message": sprintf("no round observed the animals on %s in a row", [count_of(r.days, "day", "days")]),
 		"evidence": [input.ref],
 	}
 }
@@ -45,6 +50,7 @@ findings contains f if {
 # custom:
 #   id: care.feeding.missed
 #   severity: minor
+#   escalation: "significant from 2 unfed days in a row by default (limit significant_run_days)"
 #   source: common practice
 #   runs: true
 #   needs: [daily_care.csv]
@@ -57,7 +63,8 @@ findings contains f if {
 		"on": r.due_on,
 		"until": r.until,
 		"severity": run_severity(r.days),
-		"message": sprintf("no feeding recorded for %d day(s) in a row (%s to %s); the species is fed every %d day(s)", [r.days, r.from, r.until, r.every_days]),
+		"severity_reason": run_reason(r.days),
+		"message": sprintf("no feeding recorded for %s in a row (%s to %s); the species is fed every %s", [count_of(r.days, "day", "days"), r.from, r.until, count_of(r.every_days, "day", "days")]),
 		"evidence": [input.ref],
 	}
 }
@@ -136,7 +143,7 @@ findings contains f if {
 		"check": "care.cleaning.overdue",
 		"subject": input.id,
 		"on": later(due, g.period_from),
-		"message": sprintf("no cleaning recorded for more than %d days: %s, %d day(s) without one up to %s", [n, since_text(g), g.days, g.until]),
+		"message": sprintf("no cleaning recorded for more than %d days: %s, %s without one up to %s", [n, since_text(g), count_of(g.days, "day", "days"), g.until]),
 		"evidence": g.evidence,
 	}
 }
@@ -150,3 +157,8 @@ since_text(g) := sprintf("last cleaned %s", [g.from]) if g.since == "cleaned"
 else := sprintf("none since the first care round on %s", [g.from]) if g.since == "first_round"
 
 else := sprintf("none since the enclosure was occupied on %s", [g.from])
+
+# count_of is "1 day" or "2 days": messages are read by people.
+count_of(n, one, many) := sprintf("%d %s", [n, one]) if n == 1
+
+else := sprintf("%d %s", [n, many])

@@ -75,7 +75,7 @@ follows(n, i) if n[i - 1] == n[i] - 1
 followed(n, i) if n[i + 1] == n[i] + 1
 
 # conditions describes the coldest reading of a run for a keeper.
-conditions(r) := sprintf("coldest wind chill %d on %s (air %v °C, %s)", [r.wind_chill_display, r.coldest_on, r.air_c, wind_text(r.wind_kmh)])
+conditions(r) := sprintf("coldest wind chill %d °C on %s (air %v °C, %s)", [r.wind_chill_display, r.coldest_on, r.air_c, wind_text(r.wind_kmh)])
 
 # METADATA
 # title: Too few water checks on a freezing day
@@ -93,7 +93,7 @@ findings contains f if {
 		"check": "cold.water.checks_insufficient",
 		"subject": input.id,
 		"on": w.on,
-		"message": sprintf("%d water check(s) recorded on a day down to %v °C air; below %v °C at least %d are needed so frozen water is found", [w.checks, w.min_air_c, lim.water_check_below_c, lim.water_checks_min]),
+		"message": sprintf("%s recorded on a day down to %v °C air; below %v °C at least %d are needed so frozen water is found", [count_of(w.checks, "water check", "water checks"), w.min_air_c, lim.water_check_below_c, lim.water_checks_min]),
 		"evidence": w.evidence,
 	}
 }
@@ -119,7 +119,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("no bedding added in the %d days up to each of %d day(s) %s; %s; %s", [lim.bedding_days, r.days, bedding_why(r.first), conditions(r), last_bedding(r.first)]),
+		"message": sprintf("no bedding added in the %d days up to each of %s %s; %s; %s", [lim.bedding_days, count_of(r.days, "day", "days"), bedding_why(r.first), conditions(r), last_bedding(r.first)]),
 		"evidence": [input.ref, r.coldest_ref],
 	}
 }
@@ -133,7 +133,7 @@ bedding_cold(d) if {
 	d.min_air_c < d.bedding_below_c
 }
 
-bedding_why(d) := sprintf("with wind chill at or below %v", [lim.bedding_wind_chill]) if {
+bedding_why(d) := sprintf("with wind chill at or below %v °C", [lim.bedding_wind_chill]) if {
 	d.min_wind_chill_c <= lim.bedding_wind_chill
 } else := sprintf("with air below %v °C, when 9 CFR §3.4(b)(4) requires clean, dry bedding for dogs outdoors (more at or below %v °C)", [d.bedding_below_c, d.more_bedding_at_or_below_c])
 
@@ -168,7 +168,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("no nest box or other shelter recorded for animals that need one on %d day(s) with wind chill at or below %v; %s", [r.days, lim.shelter_wind_chill, conditions(r)]),
+		"message": sprintf("no nest box or other shelter recorded for animals that need one on %s with wind chill at or below %v °C; %s", [count_of(r.days, "day", "days"), lim.shelter_wind_chill, conditions(r)]),
 		"evidence": [input.ref, r.coldest_ref],
 	}
 }
@@ -234,7 +234,7 @@ reading_in_force(s) if {
 	s.reading.wind_kmh != null
 }
 
-reading_text(r) := sprintf("reading %s: air %v °C, %s, wind chill %d", [r.at, r.air_c, wind_text(r.wind_kmh), r.wind_chill_display])
+reading_text(r) := sprintf("reading %s: air %v °C, %s, wind chill %d °C", [r.at, r.air_c, wind_text(r.wind_kmh), r.wind_chill_display])
 
 # where names the schedule cell's row and column.
 where(step) := sprintf("row %v °C, %v km/h column%s", [step.row_warmest_c, step.column_kmh, light(step)])
@@ -263,7 +263,12 @@ findings contains f if {
 		"subject": input.id,
 		"on": r.from,
 		"until": r.until,
-		"message": sprintf("wind chill at or below %v on %d day(s); %s: for people working outdoors, %s (Environment and Climate Change Canada times for human skin)", [lim.frostbite_wind_chill, r.days, conditions(r), r.band]),
+		"message": sprintf("wind chill at or below %v °C on %s; %s: for people working outdoors, %s (Environment and Climate Change Canada times for human skin)", [lim.frostbite_wind_chill, count_of(r.days, "day", "days"), conditions(r), r.band]),
 		"evidence": [r.coldest_ref],
 	}
 }
+
+# count_of is "1 day" or "2 days": messages are read by people.
+count_of(n, one, many) := sprintf("%d %s", [n, one]) if n == 1
+
+else := sprintf("%d %s", [n, many])

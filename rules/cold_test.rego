@@ -80,7 +80,7 @@ test_one_water_check_on_freezing_day_fires if {
 	f.check == "cold.water.checks_insufficient"
 	f.on == "2026-01-12"
 	f.evidence == ["enclosures.csv:4", "weather.csv:38"]
-	contains(f.message, "1 water check(s)")
+	contains(f.message, "1 water check recorded")
 	contains(f.message, "-0.5 °C")
 }
 
@@ -100,9 +100,9 @@ test_bedding_stale_at_exactly_minus_20_fires if {
 	f.on == "2026-01-12"
 	f.until == "2026-01-13"
 	f.evidence == ["enclosures.csv:4", "weather.csv:39"]
-	contains(f.message, "each of 2 day(s)")
+	contains(f.message, "each of 2 days")
 	contains(f.message, "bedding last added 2026-01-02")
-	contains(f.message, "coldest wind chill -20 on 2026-01-12")
+	contains(f.message, "coldest wind chill -20 °C on 2026-01-12")
 }
 
 test_bedding_just_above_minus_20_is_quiet if {
@@ -159,7 +159,7 @@ test_frostbite_at_exactly_minus_28_fires if {
 	f.on == "2026-01-12"
 	f.until == "2026-01-13"
 	f.evidence == ["weather.csv:39"]
-	contains(f.message, "on 2 day(s)")
+	contains(f.message, "on 2 days")
 	contains(f.message, "low (risk of hypothermia with long exposure)")
 }
 
@@ -194,7 +194,7 @@ test_stint_one_minute_over_fires if {
 	f.evidence == ["outdoor_work.csv:7", "weather.csv:41"]
 	contains(f.message, "41-min")
 	contains(f.message, "longer than the 40 min")
-	contains(f.message, "wind chill -44")
+	contains(f.message, "wind chill -44 °C")
 }
 
 test_emergency_stint_over_limit_is_exempt if {

@@ -88,3 +88,25 @@ test_fox_cub_alone_still_needs_0_8 if {
 	{f.check | some f in enclosure.findings with input as cage({"area_m2": 0.79}, cub)} == {"enclosure.space.insufficient"}
 	count(enclosure.findings) == 0 with input as cage({"area_m2": 0.8}, cub)
 }
+
+# 9 CFR §3.6(c)(1): a dog of 30 in (76.2 cm) needs (30 + 6)² / 144 = 9 ft² = 0.836127 m²;
+# the message rounds areas for people (0.836 m², two decimals from 1 m²), and says "1 animal".
+test_space_message_rounds_areas_and_counts_in_words if {
+	dog := seg({
+		"occupants": [{"animal": "D1", "species": "canis_familiaris", "stage": "adult", "required_m2": 1.107546}],
+		"required_m2": 1.107546, "min_cage_m2": 0, "min_height_cm": 0, "needs_nest_box": false, "needs_platform": false,
+	})
+	some f in enclosure.findings with input as cage({"area_m2": 1.045, "nest_box": false, "platform": false}, dog)
+	f.check == "enclosure.space.insufficient"
+	f.message == "1.04 m² for 1 animal needing 1.11 m²"
+}
+
+test_space_message_below_one_square_metre_keeps_three_decimals if {
+	dog := seg({
+		"occupants": [{"animal": "D1", "species": "canis_familiaris", "stage": "adult", "required_m2": 0.836127}],
+		"required_m2": 0.836127, "min_cage_m2": 0, "min_height_cm": 0, "needs_nest_box": false, "needs_platform": false,
+	})
+	some f in enclosure.findings with input as cage({"area_m2": 0.5, "nest_box": false, "platform": false}, dog)
+	f.check == "enclosure.space.insufficient"
+	f.message == "0.5 m² for 1 animal needing 0.836 m²"
+}

@@ -65,7 +65,7 @@ findings contains f if {
 		"check": "environment.humidity.out_of_range",
 		"subject": input.id,
 		"on": d.on,
-		"message": sprintf("%d of %d humidity reading(s) outside %v–%v %% (from %v to %v %%)", [count(outside), count(d.humidity_pct), lim.humidity_pct.min, lim.humidity_pct.max, min(values), max(values)]),
+		"message": sprintf("%d of %s outside %v–%v %% (from %v to %v %%)", [count(outside), count_of(count(d.humidity_pct), "humidity reading", "humidity readings"), lim.humidity_pct.min, lim.humidity_pct.max, min(values), max(values)]),
 		"evidence": [d.humidity_refs[i] | some i in outside],
 	}
 }
@@ -95,3 +95,8 @@ findings contains f if {
 		"evidence": [d.ammonia_ref],
 	}
 }
+
+# count_of is "1 day" or "2 days": messages are read by people.
+count_of(n, one, many) := sprintf("%d %s", [n, one]) if n == 1
+
+else := sprintf("%d %s", [n, many])

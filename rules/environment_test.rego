@@ -43,7 +43,7 @@ test_more_than_4_hours_fires if {
 test_humidity_above_70_fires if {
 	some f in environment.findings with input as bld({"days": [day([55, 70.5, 80], 3)]})
 	f.check == "environment.humidity.out_of_range"
-	contains(f.message, "2 of 3 humidity reading(s) outside 30–70 % (from 70.5 to 80 %)")
+	contains(f.message, "2 of 3 humidity readings outside 30–70 % (from 70.5 to 80 %)")
 	f.evidence == ["environment.csv:11", "environment.csv:12"]
 }
 

@@ -31,7 +31,7 @@ conscious_bite_risk(e) if {
 	not unconscious[e.restraint]
 }
 
-shown(x) := "(none recorded)" if x == null
+shown(x) := "none recorded" if x == null
 
 else := x
 

@@ -122,6 +122,7 @@ losses contains x if {
 # custom:
 #   id: health.weight.loss
 #   severity: minor
+#   escalation: "significant from a loss of 20 % by default (limit weight_loss_significant_pct)"
 #   source: common practice (weight loss as a welfare and humane-endpoint signal)
 #   needs: [observations.csv]
 findings contains f if {
@@ -133,6 +134,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": on,
 		"severity": loss_severity(x),
+		"severity_reason": sprintf("significant: %.1f %% lost, at or above %v %%", [x.pct, lim.weight_loss_significant_pct]),
 		"message": sprintf("weighed %.2f kg on %s, %.1f %% below %.2f kg on %s (limit %v %% within %d days). %s", [
 			x.w.kg, x.w.on, x.pct, x.peak.kg, x.peak.on, lim.weight_loss_pct, lim.weight_loss_days, defer,
 		]),
@@ -150,6 +152,7 @@ loss_severity(x) := "significant" if {
 # custom:
 #   id: health.condition.poor
 #   severity: minor
+#   escalation: "significant at body condition 1 of 5 or below by default (limit condition_severe_max)"
 #   source: common practice
 #   needs: [observations.csv]
 findings contains f if {
@@ -161,6 +164,7 @@ findings contains f if {
 		"subject": input.id,
 		"on": on,
 		"severity": condition_severity(lowest),
+		"severity_reason": sprintf("significant: body condition %d of 5, at or below %d", [lowest, lim.condition_severe_max]),
 		"message": sprintf("body condition %d of 5 (poor at %d or below). %s", [lowest, lim.condition_poor_max, defer]),
 		"evidence": [c.ref | some c in input.conditions; c.on == on],
 	}
@@ -205,9 +209,9 @@ findings contains f if {
 		"check": "health.signs.unattended",
 		"subject": input.id,
 		"on": on,
-		"message": sprintf("%s observed %s; no %s within %v h and no case opened within %d day(s). %s", [
+		"message": sprintf("%s observed %s; no %s within %v h and no case opened within %s. %s", [
 			concat(", ", sort(signs)), concat(", ", sort([s.at | some s in obs])),
-			concat(" or ", lim.signs_answered_by), lim.signs_answer_hours, lim.signs_case_days, defer,
+			concat(" or ", lim.signs_answered_by), lim.signs_answer_hours, count_of(lim.signs_case_days, "day", "days"), defer,
 		]),
 		"evidence": [s.ref | some s in obs],
 	}
@@ -280,3 +284,8 @@ findings contains f if {
 		"evidence": sort({c.ref, iv.ref}),
 	}
 }
+
+# count_of is "1 day" or "2 days": messages are read by people.
+count_of(n, one, many) := sprintf("%d %s", [n, one]) if n == 1
+
+else := sprintf("%d %s", [n, many])

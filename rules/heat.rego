@@ -66,7 +66,7 @@ findings contains f if {
 		"check": "heat.water.checks_insufficient",
 		"subject": input.id,
 		"on": d.on,
-		"message": sprintf("%d water check(s) recorded on a day up to %v °C air; from %v °C at least %d are needed so empty water is found", [d.water_checks, d.max_air_c, lim.hot_day_c, lim.water_checks_min]),
+		"message": sprintf("%s recorded on a day up to %v °C air; from %v °C at least %d are needed so empty water is found", [count_of(d.water_checks, "water check", "water checks"), d.max_air_c, lim.hot_day_c, lim.water_checks_min]),
 		"evidence": d.evidence,
 	}
 }
@@ -89,7 +89,7 @@ findings contains f if {
 		"check": "heat.shade.missing",
 		"subject": input.id,
 		"on": d.on,
-		"message": sprintf("%s on %d day(s) with heat index at or above %v °C; %s; outdoor animals need shade from direct sun", [shade_text(input.heat), run_of(d).days, lim.hot_day_c, run_text(run_of(d))]),
+		"message": sprintf("%s on %s with heat index at or above %v °C; %s; outdoor animals need shade from direct sun", [shade_text(input.heat), count_of(run_of(d).days, "day", "days"), lim.hot_day_c, run_text(run_of(d))]),
 		"evidence": d.evidence,
 	}
 }
@@ -114,7 +114,7 @@ findings contains f if {
 		"check": "heat.danger",
 		"subject": input.id,
 		"on": d.on,
-		"message": sprintf("heat index at or above %v °C on %d day(s); %s", [lim.danger_heat_index_c, run_of(d).days, run_text(run_of(d))]),
+		"message": sprintf("heat index at or above %v °C on %s; %s", [lim.danger_heat_index_c, count_of(run_of(d).days, "day", "days"), run_text(run_of(d))]),
 		"evidence": d.evidence,
 	}
 }
@@ -122,3 +122,8 @@ findings contains f if {
 pct(p) := sprintf("%v %%", [p]) if p != null
 
 else := "not recorded"
+
+# count_of is "1 day" or "2 days": messages are read by people.
+count_of(n, one, many) := sprintf("%d %s", [n, one]) if n == 1
+
+else := sprintf("%d %s", [n, many])

@@ -39,7 +39,7 @@ test_one_water_check_at_exactly_25_fires if {
 	some f in heat.findings with input as enc({"shade": true, "hot_days": [hot_day(25, 24.6, 1)]})
 	f.check == "heat.water.checks_insufficient"
 	f.on == "2026-07-14"
-	contains(f.message, "1 water check(s)")
+	contains(f.message, "1 water check recorded")
 	f.evidence == ["enclosures.csv:4", "weather.csv:120"]
 }
 
@@ -55,7 +55,7 @@ test_two_water_checks_is_quiet if {
 test_no_shade_at_heat_index_exactly_25_fires if {
 	some f in heat.findings with input as enc({"hot_days": [hot_day(24.9, 25, 2)]})
 	f.check == "heat.shade.missing"
-	contains(f.message, "enclosure recorded without shade on 1 day(s) with heat index at or above 25 °C")
+	contains(f.message, "enclosure recorded without shade on 1 day with heat index at or above 25 °C")
 	contains(f.message, "NWS extreme caution")
 }
 
@@ -89,7 +89,7 @@ test_no_humidity_says_air_temperature_stands if {
 test_run_message_speaks_for_the_run if {
 	some f in heat.findings with input as site([in_run(day(30, 33))])
 	f.check == "heat.danger"
-	contains(f.message, "on 3 day(s)")
+	contains(f.message, "on 3 days")
 	contains(f.message, "hottest 2026-07-16: heat index 35 °C (95 °F), NWS extreme caution")
 	contains(f.message, "humidity not recorded")
 	contains(f.message, "no humidity recorded on 2026-07-16")

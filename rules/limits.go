@@ -1,5 +1,7 @@
 package rules
 
+import "go.yaml.in/yaml/v3"
+
 // Limits is limits.yaml: the facility's own welfare limits. The shipped
 // defaults carry their source in a comment beside each value. Rules read the
 // same document as data.limits; the Go facts read it through this type.
@@ -33,9 +35,13 @@ type Limits struct {
 	// Follow-up of earlier findings.
 	Correction CorrectionLim `yaml:"correction" json:"correction"`
 
-	// name and src are the file and text ParseLimits read.
-	name string
-	src  []byte
+	// name and src are the file and text ParseLimits read (for limits laid
+	// over the defaults, the merged text); doc is the file's own YAML, for
+	// the lines of its keys; overlay: laid over the defaults.
+	name    string
+	src     []byte
+	doc     *yaml.Node
+	overlay bool
 }
 
 // Species is one species profile.
@@ -147,20 +153,20 @@ type Care struct {
 	// A health concern must be answered by a check of the animal within this many hours.
 	ConcernResponseHours float64 `yaml:"concern_response_hours" json:"concern_response_hours" validate:"gt=0"`
 	// Handling purposes that answer a health concern.
-	ConcernAnsweredBy []string `yaml:"concern_answered_by" json:"concern_answered_by" validate:"dive,code"`
+	ConcernAnsweredBy []string `yaml:"concern_answered_by" json:"concern_answered_by" validate:"dive,code,purpose"`
 	// An occupied enclosure with no cleaning for more than this many days is overdue.
 	CleanEveryDays int `yaml:"clean_every_days" json:"clean_every_days" validate:"gte=1"`
 }
 
 // Handling holds the handling-event limits.
 type Handling struct {
-	AcceptedGloves       []string `yaml:"accepted_gloves" json:"accepted_gloves" validate:"min=1,dive,code"`
+	AcceptedGloves       []string `yaml:"accepted_gloves" json:"accepted_gloves" validate:"min=1,dive,code,glove"`
 	MinGloveMm           float64  `yaml:"min_glove_thickness_mm" json:"min_glove_thickness_mm" validate:"gte=0"`
-	UnconsciousRestraint []string `yaml:"unconscious_restraint" json:"unconscious_restraint" validate:"dive,code"`
+	UnconsciousRestraint []string `yaml:"unconscious_restraint" json:"unconscious_restraint" validate:"dive,code,restraint"`
 	// RequiredPPE by purpose; the key "default" applies to every purpose not listed.
-	RequiredPPE map[string][]string `yaml:"required_ppe" json:"required_ppe" validate:"dive,keys,code,endkeys,dive,code"`
+	RequiredPPE map[string][]string `yaml:"required_ppe" json:"required_ppe" validate:"dive,keys,code,purpose_or_default,endkeys,dive,code,ppe_item"`
 	// MaxDurationMin by purpose; a purpose not listed has no maximum.
-	MaxDurationMin map[string]float64 `yaml:"max_duration_min" json:"max_duration_min" validate:"dive,keys,code,endkeys,gt=0"`
+	MaxDurationMin map[string]float64 `yaml:"max_duration_min" json:"max_duration_min" validate:"dive,keys,code,purpose,endkeys,gt=0"`
 	// A bite or scratch must be reported within this many hours.
 	ReportWithinHours float64 `yaml:"report_within_hours" json:"report_within_hours" validate:"gt=0"`
 }
@@ -189,7 +195,7 @@ type RabiesLimit struct {
 type PPE struct {
 	// InspectionDays by item kind: an item used with no check in this many
 	// days up to the day of use is overdue.
-	InspectionDays map[string]int `yaml:"inspection_days" json:"inspection_days" validate:"dive,keys,code,endkeys,gte=1"`
+	InspectionDays map[string]int `yaml:"inspection_days" json:"inspection_days" validate:"dive,keys,code,item_kind,endkeys,gte=1"`
 }
 
 // ProtoLim holds protocol limits.
@@ -255,13 +261,13 @@ type HealthLim struct {
 	ConditionSevereMax int `yaml:"condition_severe_max" json:"condition_severe_max" validate:"gte=1,lte=5"`
 	// Signs that need a veterinarian, the handling purposes that answer them,
 	// within how many hours, or a case opened within how many days.
-	NeedsVet         []string `yaml:"needs_vet" json:"needs_vet" validate:"dive,code"`
-	SignsAnsweredBy  []string `yaml:"signs_answered_by" json:"signs_answered_by" validate:"dive,code"`
+	NeedsVet         []string `yaml:"needs_vet" json:"needs_vet" validate:"dive,code,sign"`
+	SignsAnsweredBy  []string `yaml:"signs_answered_by" json:"signs_answered_by" validate:"dive,code,purpose"`
 	SignsAnswerHours float64  `yaml:"signs_answer_hours" json:"signs_answer_hours" validate:"gt=0"`
 	SignsCaseDays    int      `yaml:"signs_case_days" json:"signs_case_days" validate:"gte=0"`
 	// Abnormal behaviour: BehaviourCount observations with one of
 	// BehaviourSigns within BehaviourDays.
-	BehaviourSigns []string `yaml:"behaviour_signs" json:"behaviour_signs" validate:"min=1,dive,code"`
+	BehaviourSigns []string `yaml:"behaviour_signs" json:"behaviour_signs" validate:"min=1,dive,code,sign"`
 	BehaviourCount int      `yaml:"behaviour_count" json:"behaviour_count" validate:"gte=1"`
 	BehaviourDays  int      `yaml:"behaviour_days" json:"behaviour_days" validate:"gte=1"`
 	// An open case needs a veterinarian's review at least every CaseReviewDays.

@@ -44,7 +44,7 @@ func TestLoadLimitsErrors(t *testing.T) {
 		name, src, at, want string
 	}{
 		{"unknown key", strings.Replace(base, "  bedding_days: 7", "  beding_days: 7", 1), "beding_days", "beding_days: unknown key"},
-		{"wrong type", strings.Replace(base, "water_checks_min: 2", "water_checks_min: two", 1), "water_checks_min: two", "cannot unmarshal"},
+		{"wrong type", strings.Replace(base, "water_checks_min: 2", "water_checks_min: two", 1), "water_checks_min: two", `"two" is not a whole number`},
 		{"out of range", strings.Replace(base, "water_checks_min: 2", "water_checks_min: 0", 1), "water_checks_min: 0", "cold.water_checks_min: 0 is out of range"},
 		{"bad schedule cell", strings.Replace(base, "75/2, 55/3, 40/4]", "75/2, 55/3, 40-4]", 1), "40-4", "not a schedule cell"},
 		{"species limit", strings.Replace(base, "adult_m2: 0.255", "adult_m2: -1", 1), "adult_m2: -1", "species[neogale_vison].space.adult_m2: -1 is out of range"},

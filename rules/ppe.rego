@@ -70,7 +70,12 @@ findings contains f if {
 		"check": "ppe.damaged.used",
 		"subject": input.id,
 		"on": u.on,
-		"message": sprintf("%s %s used on %s in %d handling(s), but the inspection on %s %s", [u.kind, input.id, u.on, count(u.refs), c.on, why]),
+		"message": sprintf("%s %s used on %s in %s, but the inspection on %s %s", [u.kind, input.id, u.on, count_of(count(u.refs), "handling", "handlings"), c.on, why]),
 		"evidence": array.concat(u.refs, [c.ref]),
 	}
 }
+
+# count_of is "1 day" or "2 days": messages are read by people.
+count_of(n, one, many) := sprintf("%d %s", [n, one]) if n == 1
+
+else := sprintf("%d %s", [n, many])

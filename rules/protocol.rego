@@ -47,7 +47,7 @@ findings contains f if {
 		"check": "protocol.inactive",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%d handling or cull row(s) under protocol %s on %s, %s. %s", [count(e.refs), input.id, e.on, when(e.on), report]),
+		"message": sprintf("%s under protocol %s on %s, %s. %s", [count_of(count(e.refs), "handling or cull row", "handling or cull rows"), input.id, e.on, when(e.on), report]),
 		"evidence": array.concat([input.ref], e.refs),
 	}
 }
@@ -134,7 +134,7 @@ findings contains f if {
 		"check": "protocol.expiring",
 		"subject": input.id,
 		"on": p.expires_on,
-		"message": sprintf("protocol %s (%s) expires on %s, %d day(s) after the checked period; renew it before work continues", [input.id, input.name, p.expires_on, p.expires_after_period_by]),
+		"message": sprintf("protocol %s (%s) expires on %s, %s after the checked period; renew it before work continues", [input.id, input.name, p.expires_on, count_of(p.expires_after_period_by, "day", "days")]),
 		"evidence": [input.ref],
 	}
 }
@@ -220,3 +220,8 @@ findings contains f if {
 		"evidence": array.concat([input.ref], e.refs),
 	}
 }
+
+# count_of is "1 day" or "2 days": messages are read by people.
+count_of(n, one, many) := sprintf("%d %s", [n, one]) if n == 1
+
+else := sprintf("%d %s", [n, many])

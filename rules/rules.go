@@ -45,12 +45,12 @@ func ParseLimits(name string, src []byte) (*Limits, error) {
 	var l Limits
 	doc, err := records.DecodeYAML(name, src, &l)
 	if err != nil {
-		return nil, err
+		return nil, plainTypeError(err)
 	}
 	if key, reason := validateLimits(&l); reason != "" {
-		return nil, &records.LoadError{File: name, Line: records.KeyLine(doc, key), Column: key, Reason: reason}
+		return nil, &records.LoadError{File: name, Line: keyLine(doc, key), Column: key, Reason: reason}
 	}
-	l.name, l.src = name, src
+	l.name, l.src, l.doc = name, src, doc
 	return &l, nil
 }
 
@@ -63,9 +63,12 @@ func LoadLimits(r io.Reader, name string) (*Limits, error) {
 	return ParseLimits(name, src)
 }
 
+// BuiltInName is the name the shipped limits are read under.
+const BuiltInName = "limits.yaml (built in)"
+
 // Default parses the shipped limits.yaml.
 func Default() (*Limits, error) {
-	return ParseLimits("limits.yaml (built in)", DefaultLimits())
+	return ParseLimits(BuiltInName, DefaultLimits())
 }
 
 // Name is the file the limits were read from.
@@ -87,6 +90,9 @@ func newValidator() *validator.Validate {
 	v.RegisterTagNameFunc(func(f reflect.StructField) string { return yamlName(f.Tag.Get("yaml")) })
 	_ = v.RegisterValidation("code", func(fl validator.FieldLevel) bool { return records.IsCode(fl.Field().String()) })
 	_ = v.RegisterValidation("check_id", func(fl validator.FieldLevel) bool { return CheckID.MatchString(fl.Field().String()) })
+	for _, name := range []string{"purpose", "purpose_or_default", "ppe_item", "glove", "restraint", "item_kind", "sign"} {
+		_ = v.RegisterValidation(name, func(fl validator.FieldLevel) bool { return inCatalogue(name, fl.Field().String()) })
+	}
 	_ = v.RegisterValidation("warmup_cell", func(fl validator.FieldLevel) bool { return cellRe.MatchString(fl.Field().String()) })
 	return v
 }
@@ -122,6 +128,11 @@ func validateLimits(l *Limits) (key, reason string) {
 	if !sort.Float64sAreSorted(ww.WindColumnsKmh) {
 		return "cold.work_warmup.wind_columns_kmh", "wind columns must rise"
 	}
+	for _, sp := range sortedKeys(l.Litter.MinWeaningDays) {
+		if _, ok := l.Species[sp]; !ok {
+			return "litter.min_weaning_days[" + sp + "]", fmt.Sprintf("%q is not a species profile of these limits (%s)", sp, strings.Join(l.SpeciesCodes(), ", "))
+		}
+	}
 	return "", ""
 }
 
@@ -146,6 +157,8 @@ func describe(fe validator.FieldError) string {
 		return fmt.Sprintf("%q is not a check id (domain.topic.problem)", v)
 	case "gtefield":
 		return fmt.Sprintf("%s is out of range: must be at least %s", v, strings.ToLower(fe.Param()))
+	case "purpose", "purpose_or_default", "ppe_item", "glove", "restraint", "item_kind", "sign":
+		return catalogueReason(fe.Tag(), v)
 	case "warmup_cell":
 		return fmt.Sprintf("%q is not a schedule cell (N, C or MINUTES/BREAKS such as 40/4)", v)
 	}

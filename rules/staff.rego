@@ -131,7 +131,7 @@ findings contains f if {
 		"check": "staff.handling.untrained",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s handled %d animal(s): %s (refresher every %d months)", [input.name, count(e.refs), why, data.limits.staff.handling_training_months]),
+		"message": sprintf("%s handled %s: %s (refresher every %d months)", [input.name, count_of(count(e.refs), "animal", "animals"), why, data.limits.staff.handling_training_months]),
 		"evidence": evidence(e),
 	}
 }
@@ -151,7 +151,7 @@ findings contains f if {
 		"check": "staff.euthanasia.untrained",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s performed %d cull(s) by %s: %s. Euthanasia must be done only by people trained for the method, as the attending veterinarian and the AVMA Guidelines direct", [input.name, count(e.refs), concat(", ", e.methods), why]),
+		"message": sprintf("%s performed %s by %s: %s. Euthanasia must be done only by people trained for the method, as the attending veterinarian and the AVMA Guidelines direct", [input.name, count_of(count(e.refs), "cull", "culls"), concat(", ", e.methods), why]),
 		"evidence": evidence(e),
 	}
 }
@@ -169,10 +169,10 @@ euthanasia_reasons(e) := {w |
 rabies_work(w) := concat(", ", [x |
 	some k in ["handlings", "culls", "care_rounds"]
 	w[k] > 0
-	x := sprintf("%d %s", [w[k], work_word[k]])
+	x := count_of(w[k], work_word[k][0], work_word[k][1])
 ])
 
-work_word := {"handlings": "handling(s)", "culls": "cull(s)", "care_rounds": "care round(s) of occupied enclosures"}
+work_word := {"handlings": ["handling", "handlings"], "culls": ["cull", "culls"], "care_rounds": ["care round of occupied enclosures", "care rounds of occupied enclosures"]}
 
 # METADATA
 # title: Rabies-risk work without pre-exposure vaccination
@@ -243,11 +243,16 @@ findings contains f if {
 	}
 }
 
-window := sprintf("%s to %s", [shown(s.active_from), shown(s.active_to)])
-
-shown(x) := "(open)" if x == null
-
-else := x
+# The employment window in words: "2025-03-01 to 2026-02-28", or
+# "from 2025-03-01, open-ended" when no end is recorded.
+window := sprintf("%s to %s", [s.active_from, s.active_to]) if {
+	s.active_from != null
+	s.active_to != null
+} else := sprintf("from %s, open-ended", [s.active_from]) if {
+	s.active_from != null
+} else := sprintf("up to %s", [s.active_to]) if {
+	s.active_to != null
+} else := "with no dates recorded"
 
 # METADATA
 # title: Person named outside employment
@@ -263,7 +268,12 @@ findings contains f if {
 		"check": "staff.inactive",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s is named on %d row(s) on %s, outside their employment %s", [input.name, count(e.refs), e.on, window]),
+		"message": sprintf("%s is named on %s on %s, outside their employment %s", [input.name, count_of(count(e.refs), "row", "rows"), e.on, window]),
 		"evidence": evidence(e),
 	}
 }
+
+# count_of is "1 day" or "2 days": messages are read by people.
+count_of(n, one, many) := sprintf("%d %s", [n, one]) if n == 1
+
+else := sprintf("%d %s", [n, many])

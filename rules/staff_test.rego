@@ -76,7 +76,7 @@ test_rabies_covers_care_rounds_and_culls if {
 	care := object.union(rab, {"refs": ["daily_care.csv:7"], "work": {"handlings": 0, "culls": 0, "care_rounds": 2}, "primary_on": null})
 	some f in staff.findings with input as keeper({"rabies": [care]})
 	f.check == "staff.rabies.unprotected"
-	contains(f.message, "2 care round(s) of occupied enclosures")
+	contains(f.message, "2 care rounds of occupied enclosures")
 	f.evidence == ["staff.csv:2", "daily_care.csv:7"]
 	cull := object.union(care, {"refs": ["culls.csv:3"], "work": {"handlings": 0, "culls": 1, "care_rounds": 0}})
 	checks({"rabies": [cull]}) == {"staff.rabies.unprotected"}

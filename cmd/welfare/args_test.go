@@ -185,7 +185,7 @@ func TestCommandLineMistakes(t *testing.T) {
 		{[]string{"rules", "lsit"},
 			"welfare rules: unknown verb \"lsit\" (did you mean \"list\"?)\nRun 'welfare help rules' for usage.\n"},
 		{[]string{"limits", "--pdf", "x"},
-			"welfare limits: unknown flag --pdf (limits takes no flags)\nRun 'welfare help limits' for usage.\n"},
+			"welfare limits: unknown flag --pdf\nRun 'welfare help limits' for usage.\n"},
 		{[]string{"help", "chekc"},
 			"welfare: help: no command \"chekc\" (did you mean \"check\"?)\nRun 'welfare help' for usage.\n"},
 	}

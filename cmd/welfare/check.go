@@ -22,7 +22,7 @@ type checkOpts struct {
 	at             string // --on: the time of day to look from
 	plain          bool   // --on: no box drawing
 	only           string
-	limits         string
+	limits         limitsFiles
 	rules          listFlag
 	rulesOnly      bool
 	jsonOut        string
@@ -48,11 +48,11 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.at, "at", "", "with --on: the time of day `HH:MM` to look from (default: now when the day is today, the end of the day otherwise)")
 	fs.BoolVar(&o.plain, "plain", false, "with --on: plain text, no box drawing")
 	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report ("+strings.Join(checker.Domains(), ", ")+", or a committee's own)")
-	fs.StringVar(&o.limits, "limits", "", "limits `FILE` (replaces the built-in limits; see 'welfare limits show')")
+	addLimitsFlags(fs, &o.limits)
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
 	fs.BoolVar(&o.rulesOnly, "rules-only", false, "use only the --rules folders, not the built-in rules")
 	fs.StringVar(&o.jsonOut, "json", "", "write the findings as JSON to `FILE`")
-	fs.StringVar(&o.csvOut, "csv", "", "write the findings as CSV to `FILE`")
+	fs.StringVar(&o.csvOut, "csv", "", "write the findings as CSV to `FILE`, and the run's scope beside it (FILE's name with .scope.txt)")
 	fs.StringVar(&o.pdfOut, "pdf", "", "write the PDF audit report to `FILE`")
 	fs.StringVar(&o.inspector, "inspector", "", "`NAME` of the person inspecting, shown on the report")
 	fs.StringVar(&o.generatedAt, "generated-at", "", "report generation `TIME` (RFC 3339; default now) — the same time gives a byte-identical PDF")
@@ -188,6 +188,9 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	}{
 		{o.jsonOut, func(w io.Writer) error { return reports.WriteJSON(w, res) }},
 		{o.csvOut, func(w io.Writer) error { return reports.WriteCSV(w, res) }},
+		// The scope goes beside the CSV, not into it: a spreadsheet reads
+		// findings.csv as one header row and one finding per row.
+		{scopePath(o.csvOut), func(w io.Writer) error { return reports.WriteScope(w, res) }},
 		{o.pdfOut, func(w io.Writer) error {
 			return pdf.Write(w, res, reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: res.SiteOf})
 		}},
@@ -229,6 +232,15 @@ func plural(n int, one, many string) string {
 		return "1 " + one
 	}
 	return fmt.Sprintf("%d %s", n, many)
+}
+
+// scopePath is the scope file written beside a CSV: findings.csv →
+// findings.scope.txt; "" for no CSV.
+func scopePath(csv string) string {
+	if csv == "" {
+		return ""
+	}
+	return strings.TrimSuffix(csv, filepath.Ext(csv)) + ".scope.txt"
 }
 
 func failOnRank(s string) (int, error) {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"flag"
 	"fmt"
 	"io/fs"
 	"os"
@@ -12,8 +13,27 @@ import (
 	"welfare/rules"
 )
 
-// loadLimits reads --limits FILE, or the shipped defaults when empty.
-func loadLimits(path string) (*rules.Limits, error) {
+// limitsFiles are the --limits and --limits-replace flags of a command.
+type limitsFiles struct {
+	over, replace string
+}
+
+// addLimitsFlags registers --limits and --limits-replace on fs.
+func addLimitsFlags(fs *flag.FlagSet, l *limitsFiles) {
+	fs.StringVar(&l.over, "limits", "", "limits `FILE` holding the committee's changes, laid over the built-in limits (see 'welfare limits show')")
+	fs.StringVar(&l.replace, "limits-replace", "", "a whole limits `FILE` used instead of the built-in limits")
+}
+
+// loadLimits reads --limits FILE laid over the shipped defaults, or
+// --limits-replace FILE alone, or the shipped defaults when neither is given.
+func loadLimits(l limitsFiles) (*rules.Limits, error) {
+	if l.over != "" && l.replace != "" {
+		return nil, usagef("give --limits (changes laid over the built-in limits) or --limits-replace (a whole file), not both")
+	}
+	path, parse := l.over, rules.ParseLimitsOver
+	if l.replace != "" {
+		path, parse = l.replace, rules.ParseLimits
+	}
 	if path == "" {
 		return rules.Default()
 	}
@@ -21,7 +41,7 @@ func loadLimits(path string) (*rules.Limits, error) {
 	if err != nil {
 		return nil, fmt.Errorf("limits: %w", err)
 	}
-	return rules.ParseLimits(path, b)
+	return parse(path, b)
 }
 
 // ruleSources are the shipped rules (unless rulesOnly) plus each --rules DIR.

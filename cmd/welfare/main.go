@@ -96,7 +96,7 @@ func init() {
 		"generate": {runGenerate, func() *flag.FlagSet { fs, _ := generateFlags(); return fs }},
 		"demo":     {runDemo, func() *flag.FlagSet { fs, _ := demoFlags(); return fs }},
 		"rules":    {runRules, func() *flag.FlagSet { fs, _ := rulesFlags(); return fs }},
-		"limits":   {runLimits, limitsFlags},
+		"limits":   {runLimits, func() *flag.FlagSet { fs, _ := limitsFlags(); return fs }},
 		"init":     {runInit, initFlags},
 		"plans":    {runPlans, func() *flag.FlagSet { fs, _ := plansFlags(); return fs }},
 		"help":     {runHelp, helpFlags},

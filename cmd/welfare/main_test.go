@@ -292,12 +292,34 @@ test_small_cage_fires if {
 	}
 	var doc struct {
 		Findings []struct{ Check, Source string }
+		Checks   []struct {
+			ID    string
+			Local bool
+		}
+		Scope struct {
+			LocalRules []struct {
+				Source      string
+				Files       []string
+				Fingerprint string
+			} `json:"local_rules"`
+		}
 	}
 	if err := json.Unmarshal(b, &doc); err != nil {
 		t.Fatal(err)
 	}
 	if len(doc.Findings) == 0 {
 		t.Fatal("the committee's check found nothing; the demo's mink cages are under 1.0 m²")
+	}
+	// The committee's package is named as local, with its files' short fingerprint,
+	// and its check is marked local wherever checks are listed.
+	if lr := doc.Scope.LocalRules; len(lr) != 1 || lr[0].Source != filepath.Clean(dir) ||
+		!cmp.Equal(lr[0].Files, []string{"house.rego"}) || len(lr[0].Fingerprint) != 12 {
+		t.Errorf("scope.local_rules = %+v, want %s: [house.rego] with a 12-digit fingerprint", lr, dir)
+	}
+	for _, c := range doc.Checks {
+		if c.Local != (c.ID == "house.space.below_standard") {
+			t.Errorf("check %s: local = %v", c.ID, c.Local)
+		}
 	}
 	rejected := 0
 	for _, f := range doc.Findings {
@@ -333,7 +355,10 @@ func TestLimitsSeverityOverride(t *testing.T) {
 	}
 	b, _ := os.ReadFile(jsonPath)
 	var doc struct {
-		Findings []struct{ Check, Severity string }
+		Findings []struct {
+			Check, Severity string
+			Why             string `json:"severity_why"`
+		}
 	}
 	if err := json.Unmarshal(b, &doc); err != nil {
 		t.Fatal(err)
@@ -345,6 +370,10 @@ func TestLimitsSeverityOverride(t *testing.T) {
 			nest++
 			if f.Severity != "significant" {
 				t.Errorf("nest box finding is %s, want the override significant", f.Severity)
+			}
+			// The finding says why its severity is not the check's default.
+			if want := "limits override (severity: significant; the check's default: minor)"; f.Why != want {
+				t.Errorf("nest box finding's severity_why = %q, want %q", f.Why, want)
 			}
 		case "cold.frostbite.risk":
 			t.Error("cold.frostbite.risk was turned off but still reported")

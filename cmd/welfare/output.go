@@ -15,7 +15,7 @@ import (
 // a folder; two outputs must not share one path.
 func checkOutputs(o *checkOpts) error {
 	seen := map[string]string{}
-	for _, out := range []struct{ flag, path string }{{"json", o.jsonOut}, {"csv", o.csvOut}, {"pdf", o.pdfOut}} {
+	for _, out := range []struct{ flag, path string }{{"json", o.jsonOut}, {"csv", o.csvOut}, {"csv", scopePath(o.csvOut)}, {"pdf", o.pdfOut}} {
 		if out.path == "" {
 			continue
 		}

@@ -15,7 +15,7 @@ import (
 type rulesOpts struct {
 	rules     listFlag
 	rulesOnly bool
-	limits    string
+	limits    limitsFiles
 	verbose   bool
 }
 
@@ -24,7 +24,7 @@ func rulesFlags() (*flag.FlagSet, *rulesOpts) {
 	fs := flag.NewFlagSet("rules", flag.ContinueOnError)
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
 	fs.BoolVar(&o.rulesOnly, "rules-only", false, "use only the --rules folders, not the built-in rules")
-	fs.StringVar(&o.limits, "limits", "", "limits `FILE` the rules read as data.limits (default: the built-in limits)")
+	addLimitsFlags(fs, &o.limits)
 	fs.BoolVar(&o.verbose, "v", false, "test: print every test, not only failures")
 	return fs, o
 }
@@ -84,7 +84,11 @@ func printChecks(w io.Writer, checks []checker.CheckInfo, overrides map[string]s
 		if o, ok := overrides[c.ID]; ok {
 			sev = o + " (limits override; rule: " + sev + ")"
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\n", c.ID, sev, c.Title, c.Source)
+		id := c.ID
+		if c.Local {
+			id += " (local)" // not one of the shipped rules
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\n", id, sev, c.Title, c.Source)
 	}
 	tw.Flush()
 	fmt.Fprintln(w, "\nSources marked 'from memory' are to be verified against the current text before relying on them.")

@@ -22,7 +22,7 @@ func todayFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.at, "at", "", "the time of day `HH:MM` to look from (default: now when the day is today, the end of the day otherwise)")
 	fs.BoolVar(&o.plain, "plain", false, "plain text: no box drawing, for a shared screen or a message")
 	fs.StringVar(&o.only, "only", "", "comma-separated `DOMAINS` to report (as for check)")
-	fs.StringVar(&o.limits, "limits", "", "limits `FILE` (replaces the built-in limits)")
+	addLimitsFlags(fs, &o.limits)
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
 	fs.BoolVar(&o.rulesOnly, "rules-only", false, "use only the --rules folders, not the built-in rules")
 	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", 5*time.Second, "time budget of one rule package on one subject (a `DURATION`)")

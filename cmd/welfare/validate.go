@@ -11,14 +11,14 @@ import (
 )
 
 type validateOpts struct {
-	limits  string
+	limits  limitsFiles
 	timings bool
 }
 
 func validateFlags() (*flag.FlagSet, *validateOpts) {
 	o := &validateOpts{}
 	fs := flag.NewFlagSet("validate", flag.ContinueOnError)
-	fs.StringVar(&o.limits, "limits", "", "limits `FILE` whose species profiles are known (default: the built-in limits)")
+	addLimitsFlags(fs, &o.limits)
 	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time and peak heap to stderr")
 	return fs, o
 }
