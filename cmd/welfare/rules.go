@@ -65,15 +65,7 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		printChecks(stdout, policy.Checks(), lim.Severity)
 		return nil
 	}
-	// Test prints each test and the closing "N passed, M failed".
-	_, failed, err := policy.Test(ctx, stdout, o.verbose)
-	if err != nil {
-		return err
-	}
-	if failed > 0 {
-		return errFindings
-	}
-	return nil
+	return testRules(ctx, policy, sources, o.rules, !o.rulesOnly, o.verbose, stdout)
 }
 
 func printChecks(w io.Writer, checks []checker.CheckInfo, overrides map[string]string) {
