@@ -95,6 +95,11 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 	if err != nil {
 		return nil, err
 	}
+	for id, reads := range limitReads(compiler.Modules, checks) {
+		c := checks[id]
+		c.Limits = reads
+		checks[id] = c
+	}
 	store := limitsStore(limits)
 
 	e := &engine{
@@ -135,6 +140,7 @@ func (e *engine) Checks() []CheckInfo {
 	for i, c := range e.sorted {
 		c.Needs = slices.Clone(c.Needs)
 		c.Subjects = slices.Clone(c.Subjects)
+		c.Limits = slices.Clone(c.Limits)
 		out[i] = c
 	}
 	return out

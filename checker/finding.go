@@ -59,6 +59,11 @@ type CheckInfo struct {
 	Source      string   `json:"source"`
 	Package     string   `json:"package"` // e.g. welfare.care
 	File        string   `json:"file"`    // where the rule is defined
+	Row         int      `json:"row"`     // the row of the rule's METADATA in File
+	// Limits are the limits the check reads, as dotted paths of the
+	// limits file ("health.weight_loss_pct"; [_] for a part chosen at run
+	// time), found in the compiled rules.
+	Limits []string `json:"limits,omitempty"`
 	// Needs lists the record files the check reads; when one is absent the
 	// check is "not evaluated".
 	Needs []string `json:"needs,omitempty"`
