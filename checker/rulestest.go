@@ -21,12 +21,12 @@ const testTimeout = 5 * time.Second
 
 // RuleTest is the outcome of one Rego test.
 type RuleTest struct {
-	Name     string // welfare.care_test.test_unobserved_day_is_minor
-	File     string
-	Row      int
-	Status   string // PASS, FAIL or SKIP
-	Error    string // why it could not run to the end (FAIL)
-	Output   string // its print output
+	Name   string // welfare.care_test.test_unobserved_day_is_minor
+	File   string
+	Row    int
+	Status string // PASS, FAIL or SKIP
+	Error  string // why it could not run to the end (FAIL)
+	Output string // its print output
 	// Produced says, for a test that failed (not one that errored), the
 	// expression of the test that did not hold, as FILE:ROW: EXPR, and
 	// the values of the test's variables there, as NAME = VALUE: what
