@@ -32,6 +32,7 @@ type checkOpts struct {
 	maxPerCheck    int
 	timeoutPerEval time.Duration
 	timings        bool
+	explain        string
 }
 
 func checkFlags() (*flag.FlagSet, *checkOpts) {
@@ -54,6 +55,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.StringVar(&o.failOn, "fail-on", "significant", "exit 1 when a finding is at or above this `SEVERITY` (significant, minor, note, never)")
 	fs.IntVar(&o.maxPerCheck, "max", 20, "findings shown per check in the terminal (`N`; all are in JSON, CSV and PDF)")
 	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", 5*time.Second, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
+	fs.StringVar(&o.explain, "explain", "", "print why one finding fired instead of the summary: the facts the rule saw, the limits it read, the rule and the evidence rows (`KEY` = \"CHECK SUBJECT YYYY-MM-DD\")")
 	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time (load, facts, rules, reports) and peak heap to stderr")
 	return fs, o
 }
@@ -66,6 +68,9 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 	}
 	if len(pos) != 1 {
 		return &usageError{cmd: "check", msg: countMsg("one records folder", pos)}
+	}
+	if o.explain != "" {
+		return explainFinding(ctx, pos[0], o, stdout)
 	}
 	return checkFolder(ctx, pos[0], o, stdout, stderr)
 }

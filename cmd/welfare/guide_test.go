@@ -5,8 +5,11 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
+
+	"welfare/rules"
 )
 
 // guideStep is one thing the committee guide tells its reader to do: write
@@ -130,6 +133,26 @@ func TestCommitteeGuide(t *testing.T) {
 			ran = append(ran, s.command)
 		}
 	}
+	// The commands the guide names in its text run as printed too, after
+	// the steps (placeholders as in TestPrintedCommandsRun).
+	if err := os.WriteFile("limits.yaml", rules.DefaultLimits(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	inline, _ := printedCommands(string(b))
+	for _, line := range inline {
+		if slices.Contains(ran, line) {
+			continue
+		}
+		args, _, err := r.substitute(line)
+		if err != nil {
+			t.Errorf("the guide names %q: %v", line, err)
+			continue
+		}
+		if code, stdout, stderr := r.run(args); code == exitUsage {
+			t.Errorf("the guide names %q, which exits 2:\n%s%s", line, stdout, stderr)
+		}
+		ran = append(ran, line)
+	}
 	want := []string{"our-rules/eyes.rego", "our-rules/eyes_test.rego", "our-limits.yaml (added)", "our-rules/weight.rego", "our-rules/weight_test.rego"}
 	for _, w := range want {
 		if !strings.Contains(strings.Join(written, "\n"), w) {
@@ -148,6 +171,13 @@ func TestCommitteeGuide(t *testing.T) {
 	// demo as a weight loss: (7.4-6.5)/7.4 = 12.2 %, more than 10 %.
 	if !strings.Contains(outputs["check welfare-demo/records"], "RF-416") {
 		t.Errorf("the weight example does not fire for RF-416")
+	}
+	// --explain on the weight example: its limits and both weighings
+	// (7.4 kg on Dec 29, 6.5 kg on Jan 26, testdata/demo/PLANTED.md).
+	for _, s := range []string{"local.weight_drop_days = 30", "local.weight_drop_pct = 10", "our-rules/weight.rego:", "2025-12-29T10:48,RF-416,ST-04,7.4,", "2026-01-26T10:48,RF-416,ST-04,6.5,"} {
+		if !strings.Contains(outputs["check welfare-demo/records"], s) {
+			t.Errorf("--explain of the weight example lacks %q", s)
+		}
 	}
 	if _, err := exec.LookPath("pdftotext"); err != nil {
 		t.Skip("pdftotext not installed (apt-get install poppler-utils)")
