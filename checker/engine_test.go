@@ -210,7 +210,7 @@ func TestEngineChecksAndKinds(t *testing.T) {
 			ID: "care.feeding.missed", Domain: "care", Title: "Feeding missed",
 			Description: "An occupied enclosure was not fed; significant from the second unfed day.",
 			Severity:    checker.Minor, Source: "common practice", Package: "welfare.care",
-			File: "rules/care.rego", Needs: []string{"daily_care.csv", "animals.csv"},
+			File: "rules/care.rego", Row: 41, Needs: []string{"daily_care.csv", "animals.csv"},
 			Subjects: []string{"enclosure"},
 		},
 		{
@@ -218,20 +218,22 @@ func TestEngineChecksAndKinds(t *testing.T) {
 			Description: "An occupied enclosure had no observation round that day.",
 			Severity:    checker.Minor,
 			Source:      "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112",
-			Package:     "welfare.care", File: "rules/care.rego", Needs: []string{"daily_care.csv"},
+			Package:     "welfare.care", File: "rules/care.rego", Row: 19, Needs: []string{"daily_care.csv"},
 			Runs: true, Subjects: []string{"enclosure"},
 		},
 		{
 			ID: "care.water.unavailable", Domain: "care", Title: "Water unavailable",
 			Description: "A round found water empty or frozen and it was not restored.",
 			Severity:    checker.Significant, Source: "OLAW, inoperative watering is a significant deficiency",
-			Package: "welfare.care", File: "rules/care.rego", Subjects: []string{"enclosure"},
+			Package: "welfare.care", File: "rules/care.rego", Row: 79, Subjects: []string{"enclosure"},
 		},
 		{
 			ID: "cold.frostbite.risk", Domain: "cold", Title: "Frostbite risk",
 			Description: "Minimum wind chill at or below the frostbite limit.",
 			Severity:    checker.Note, Source: "Environment and Climate Change Canada wind chill hazard bands",
-			Package: "welfare.cold", File: "rules/cold.rego", Runs: true,
+			Package: "welfare.cold", File: "rules/cold.rego", Row: 15, Runs: true,
+			// cold.rego compares with this limit (line 25).
+			Limits: []string{"cold.frostbite_wind_chill_c"},
 			Subjects: []string{"site", "enclosure"},
 		},
 	}

@@ -76,6 +76,7 @@ func (p *Policy) Explainer(ctx context.Context, recordsFS fs.FS, period Period, 
 	for _, d := range domains {
 		d.facts(f)
 	}
+	f.addExtra()
 	x := &Explainer{policy: p, records: recordsFS, result: res, facts: f, findings: map[string]Finding{}}
 	for _, fd := range res.Findings {
 		x.findings[ExplainKey(fd)] = fd

@@ -40,7 +40,7 @@ func limitReads(modules map[string]*ast.Module, checks map[string]CheckInfo) map
 		for _, r := range byCheck[id] {
 			limitRefsOf(r, index, seen, reads)
 		}
-		list := make([]string, 0, len(reads))
+		var list []string
 		for k := range reads {
 			if !coveredBy(k, reads) {
 				list = append(list, k)
