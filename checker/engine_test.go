@@ -233,7 +233,7 @@ func TestEngineChecksAndKinds(t *testing.T) {
 			Severity:    checker.Note, Source: "Environment and Climate Change Canada wind chill hazard bands",
 			Package: "welfare.cold", File: "rules/cold.rego", Row: 15, Runs: true,
 			// cold.rego compares with this limit (line 25).
-			Limits: []string{"cold.frostbite_wind_chill_c"},
+			Limits:   []string{"cold.frostbite_wind_chill_c"},
 			Subjects: []string{"site", "enclosure"},
 		},
 	}

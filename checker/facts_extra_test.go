@@ -134,7 +134,7 @@ func TestLocalColumns(t *testing.T) {
 		got["weight "+w.(map[string]any)["ref"].(string)] = w.(map[string]any)["extra"]
 	}
 	want := map[string]any{
-		"animal":                      map[string]any{"x_line": rf416["ref"]},
+		"animal":                     map[string]any{"x_line": rf416["ref"]},
 		"weight observations.csv:31": map[string]any{"x_line": "observations.csv:31"},
 		"weight observations.csv:32": map[string]any{"x_line": "observations.csv:32"},
 	}
