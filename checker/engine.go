@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"path"
 	"runtime"
 	"slices"
 	"sort"
@@ -95,9 +96,24 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 	if err != nil {
 		return nil, err
 	}
+	// A check is local when its file comes from a Source marked Local
+	// (file names as parseSources gives them).
+	localSource := map[string]bool{}
+	for _, s := range sources {
+		localSource[s.Name] = s.Local
+	}
+	local := map[string]bool{}
+	for _, f := range files {
+		name := f.path
+		if f.source != "" {
+			name = path.Join(f.source, f.path)
+		}
+		local[name] = localSource[f.source]
+	}
 	for id, reads := range limitReads(compiler.Modules, checks) {
 		c := checks[id]
 		c.Limits = reads
+		c.Local = local[c.File]
 		checks[id] = c
 	}
 	store := limitsStore(limits)

@@ -42,6 +42,8 @@ type Finding struct {
 	// Reportable: noncompliance the institution reports (PHS Policy
 	// IV.F.3); outputs mark it "report to the institutional official".
 	Reportable bool
+	// Local: the check is a committee's own (CheckInfo.Local).
+	Local bool
 }
 
 // Key is the finding's stable identity: check id, subject and first day.
@@ -64,6 +66,9 @@ type CheckInfo struct {
 	// limits file ("health.weight_loss_pct"; [_] for a part chosen at run
 	// time), found in the compiled rules.
 	Limits []string `json:"limits,omitempty"`
+	// Local is true for a committee's own check (from a Source marked
+	// Local); outputs mark its findings "local rule".
+	Local bool `json:"local,omitempty"`
 	// Needs lists the record files the check reads; when one is absent the
 	// check is "not evaluated".
 	Needs []string `json:"needs,omitempty"`

@@ -17,6 +17,9 @@ import (
 type Source struct {
 	Name string
 	FS   fs.FS
+	// Local marks a committee's own rules (a --rules folder), as opposed
+	// to the shipped ones: their checks and findings are marked "local".
+	Local bool
 }
 
 // RulesError lists every problem that stops a rule set from loading: parse

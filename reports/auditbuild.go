@@ -379,7 +379,11 @@ func (b *auditBuilder) limits() AuditSection {
 		if skipped[c.ID] {
 			id += "\n(not evaluated)"
 		}
-		ct.Rows = append(ct.Rows, Row{Cells: []string{id, c.Title, string(c.Severity), c.Source}})
+		title := c.Title
+		if c.Local {
+			title += LocalMark
+		}
+		ct.Rows = append(ct.Rows, Row{Cells: []string{id, title, string(c.Severity), c.Source}})
 	}
 	b.add(Block{Kind: KindTable, Table: ct})
 	return b.section("Limits in force", true, "Limits in force")

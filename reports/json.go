@@ -60,6 +60,8 @@ type JSONFinding struct {
 	// Reportable findings are marked "report to the institutional official" (PHS Policy IV.F.3).
 	Reportable bool   `json:"reportable,omitempty"`
 	ReportTo   string `json:"report_to,omitempty"`
+	// Local is true for a finding of the committee's own rules.
+	Local bool `json:"local,omitempty"`
 }
 
 // JSONCheck is one check in force, from its rule's METADATA.
@@ -75,6 +77,8 @@ type JSONCheck struct {
 	Needs       []string `json:"needs,omitempty"`
 	Runs        bool     `json:"runs,omitempty"`
 	Subjects    []string `json:"subjects,omitempty"`
+	// Local is true for a check of the committee's own rules.
+	Local bool `json:"local,omitempty"`
 }
 
 // JSONNotEvaluated is a check that found no records to read, and why.
@@ -271,6 +275,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 			Evidence: make([]string, len(f.Evidence)),
 			Title:    f.Title,
 			Source:   f.Source,
+			Local:    f.Local,
 		}
 		if f.Reportable {
 			jf.Reportable, jf.ReportTo = true, ReportableMark
@@ -286,7 +291,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	for i, c := range r.Checks {
 		doc.Checks[i] = JSONCheck{ID: c.ID, Domain: c.Domain, Title: c.Title, Description: c.Description,
 			Severity: string(c.Severity), Source: c.Source, Package: c.Package, File: c.File,
-			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects}
+			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects, Local: c.Local}
 	}
 	for i, s := range r.NotEvaluated {
 		doc.NotEvaluated[i] = JSONNotEvaluated{Check: s.Check, Reason: s.Reason}

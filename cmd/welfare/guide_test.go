@@ -187,7 +187,7 @@ func TestCommitteeGuide(t *testing.T) {
 		t.Fatalf("pdftotext our-audit.pdf: %v", err)
 	}
 	pdf := strings.Join(strings.Fields(string(out)), " ")
-	for _, s := range []string{"local.eyes.unprotected", "local.weight.dropped", "No eye protection when handling a conscious animal", "local.weight_drop_pct"} {
+	for _, s := range []string{"local.eyes.unprotected", "local.weight.dropped", "No eye protection when handling a conscious animal (local rule)", "Weight dropped more than 10 % in 30 days (local rule)", "local.weight_drop_pct"} {
 		if !strings.Contains(pdf, s) {
 			t.Errorf("the PDF lacks %q", s)
 		}

@@ -109,14 +109,20 @@ func TestLocalColumnRule(t *testing.T) {
 		t.Fatal(err)
 	}
 	var doc struct {
-		Findings []struct{ Check, Subject, On string }
+		Findings []struct {
+			Check, Subject, On string
+			Local              bool
+		}
 	}
 	if err := json.Unmarshal(b, &doc); err != nil {
 		t.Fatal(err)
 	}
 	var got []string
 	for _, f := range doc.Findings {
-		if strings.HasPrefix(f.Check, "local.") {
+		if f.Local != strings.HasPrefix(f.Check, "local.") {
+			t.Errorf("%s: local %v in findings.json", f.Check, f.Local)
+		}
+		if f.Local {
 			got = append(got, f.Check+" "+f.Subject+" "+f.On)
 		}
 	}

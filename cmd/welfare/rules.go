@@ -69,7 +69,7 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		return err
 	}
 	if verb == "list" {
-		return printChecks(stdout, listChecks(policy.Checks(), lim.Severity, sources, !o.rulesOnly), o.json)
+		return printChecks(stdout, listChecks(policy.Checks(), lim.Severity), o.json)
 	}
 	return testRules(ctx, policy, sources, o.rules, !o.rulesOnly, o.verbose, stdout)
 }

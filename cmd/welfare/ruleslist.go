@@ -28,14 +28,14 @@ type listedCheck struct {
 	Needs       []string `json:"needs"`
 }
 
-// listChecks describes the checks in force; a check is local when its file
-// is not among the shipped rules (sources[0] when shipped is true).
-func listChecks(checks []checker.CheckInfo, overrides map[string]string, sources []checker.Source, shipped bool) []listedCheck {
+// listChecks describes the checks in force; a check is local when it comes
+// from a --rules folder.
+func listChecks(checks []checker.CheckInfo, overrides map[string]string) []listedCheck {
 	out := make([]listedCheck, 0, len(checks))
 	for _, c := range checks {
-		origin := "local"
-		if shipped && strings.HasPrefix(c.File, sources[0].Name+"/") {
-			origin = "shipped"
+		origin := "shipped"
+		if c.Local {
+			origin = "local"
 		}
 		inForce := string(c.Severity)
 		if o, ok := overrides[c.ID]; ok {
