@@ -14,7 +14,7 @@ type Limits struct {
 	// Local holds the committee's own values for its own rules, read by
 	// them as data.limits.local.NAME: lower_snake_case names, any YAML
 	// value (a number, text, a list or a map). Shipped rules never read it.
-	Local map[string]any `yaml:"local,omitempty" json:"local,omitempty" validate:"dive,keys,code,endkeys"`
+	Local map[string]any `yaml:"local,omitempty" json:"local,omitempty"`
 
 	// Species profiles by species code. A species absent here rejects the
 	// animal rows that name it.

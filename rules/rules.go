@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
+	"math"
 	"reflect"
 	"regexp"
 	"sort"
@@ -109,7 +110,7 @@ func validateLimits(l *Limits) (key, reason string) {
 		}
 		return "", err.Error()
 	}
-	if key, reason := localValues("local", l.Local); reason != "" {
+	if key, reason := localValues("local", map[string]any(l.Local)); reason != "" {
 		return key, reason
 	}
 	ww := l.Cold.WorkWarmup
@@ -155,7 +156,11 @@ func localValues(key string, v any) (string, string) {
 		}
 	case nil:
 		return key, "has no value (write one, or leave the name out)"
-	case string, bool, int, int64, uint64, float64:
+	case float64:
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return key, "is not a finite number"
+		}
+	case string, bool, int, int64, uint64:
 	default:
 		return key, fmt.Sprintf("is not a number, text, true/false, list or map (%T)", v)
 	}
