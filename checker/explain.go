@@ -152,7 +152,7 @@ func (x *Explainer) unknownKey(key string) error {
 		}
 	}
 	if len(same) == 0 {
-		return fmt.Errorf("--explain: no finding has the key %q (a key is CHECK SUBJECT YYYY-MM-DD, as in the findings' key column)", key)
+		return fmt.Errorf("--explain: no finding has the key %q (a key is CHECK SUBJECT YYYY-MM-DD: a finding's check, subject and first day)", key)
 	}
 	sort.Strings(same)
 	if len(same) > 10 {
