@@ -130,6 +130,12 @@ func runTests(ctx context.Context, sources []Source, limits map[string]any, w io
 		} else {
 			fmt.Fprintf(w, "%s %s %s\n", r.Status, where, r.Name)
 		}
+		if len(r.Produced) > 0 {
+			fmt.Fprintf(w, "    did not hold: %s\n", r.Produced[0])
+			for _, v := range r.Produced[1:] {
+				fmt.Fprintf(w, "      %s\n", v)
+			}
+		}
 		if r.Error != "" {
 			fmt.Fprintf(w, "    error: %s\n", r.Error)
 		}

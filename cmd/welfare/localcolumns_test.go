@@ -101,6 +101,9 @@ func TestLocalColumnRule(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("check: exit %d\n%s%s", code, out, errOut)
 	}
+	if !strings.Contains(out, "NOTE  local.tail.short (local rule)  RF-416  2026-01-01") {
+		t.Errorf("the summary does not mark the committee's finding local:\n%s", out)
+	}
 	if strings.Contains(out+errOut, "x_tail_length_cm") && strings.Contains(out+errOut, "unknown column") {
 		t.Errorf("a local column is reported as unknown:\n%s%s", out, errOut)
 	}

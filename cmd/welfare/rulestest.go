@@ -100,7 +100,10 @@ func testRules(ctx context.Context, policy *checker.Policy, sources []checker.So
 			fmt.Fprintf(w, "Rule tests in %s: %d of %d passed, %d failed\n", name, passed[i], total, failed[i])
 		}
 	}
-	if hiddenFailed > 0 {
+	switch {
+	case hiddenFailed == 1:
+		fmt.Fprintln(w, "1 other rule test failed (shown above)")
+	case hiddenFailed > 1:
 		fmt.Fprintf(w, "%d other rule tests failed (shown above)\n", hiddenFailed)
 	}
 	if anyFailed {
