@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -8,6 +9,8 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"github.com/google/go-cmp/cmp"
 
 	"welfare/rules"
 )
@@ -153,6 +156,35 @@ func TestCommitteeGuide(t *testing.T) {
 		}
 		ran = append(ran, line)
 	}
+	// The guide's severity example is a valid severity map of checks that
+	// exist, and switches its check off.
+	i := strings.Index(string(b), "```yaml\nseverity:\n")
+	if i < 0 {
+		t.Fatal("the guide has no severity example")
+	}
+	block := string(b)[i+len("```yaml\n"):]
+	block = block[:strings.Index(block, "```")]
+	lim := strings.Replace(string(rules.DefaultLimits()), "severity: {}\n", block, 1)
+	if err := os.WriteFile("severity.yaml", []byte(lim), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, out, errOut := r.run([]string{"rules", "list", "--json", "--limits", "severity.yaml"})
+	if code != exitOK {
+		t.Fatalf("the guide's severity example: exit %d\n%s", code, errOut)
+	}
+	var listed []listedCheck
+	if err := json.Unmarshal([]byte(out), &listed); err != nil {
+		t.Fatal(err)
+	}
+	inForce := map[string]string{}
+	for _, c := range listed {
+		inForce[c.ID] = c.InForce
+	}
+	if diff := cmp.Diff(map[string]string{"handling.duration.exceeded": "note", "cold.frostbite.risk": "off"},
+		map[string]string{"handling.duration.exceeded": inForce["handling.duration.exceeded"], "cold.frostbite.risk": inForce["cold.frostbite.risk"]}); diff != "" {
+		t.Errorf("severity in force after the guide's example (-want +got):\n%s", diff)
+	}
+
 	want := []string{"our-rules/eyes.rego", "our-rules/eyes_test.rego", "our-limits.yaml (added)", "our-rules/weight.rego", "our-rules/weight_test.rego"}
 	for _, w := range want {
 		if !strings.Contains(strings.Join(written, "\n"), w) {
@@ -182,11 +214,11 @@ func TestCommitteeGuide(t *testing.T) {
 	if _, err := exec.LookPath("pdftotext"); err != nil {
 		t.Skip("pdftotext not installed (apt-get install poppler-utils)")
 	}
-	out, err := exec.Command("pdftotext", "-layout", "our-audit.pdf", "-").Output()
+	pdfOut, err := exec.Command("pdftotext", "-layout", "our-audit.pdf", "-").Output()
 	if err != nil {
 		t.Fatalf("pdftotext our-audit.pdf: %v", err)
 	}
-	pdf := strings.Join(strings.Fields(string(out)), " ")
+	pdf := strings.Join(strings.Fields(string(pdfOut)), " ")
 	for _, s := range []string{"local.eyes.unprotected", "local.weight.dropped", "No eye protection when handling a conscious animal (local rule)", "Weight dropped more than 10 % in 30 days (local rule)", "local.weight_drop_pct"} {
 		if !strings.Contains(pdf, s) {
 			t.Errorf("the PDF lacks %q", s)
