@@ -72,6 +72,7 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 	for _, d := range domains {
 		d.facts(f)
 	}
+	f.addExtra()
 
 	res := &Result{
 		Facility:   set.Facility.Name,

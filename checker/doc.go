@@ -63,7 +63,10 @@
 //	metadata.go     rule packages and checks from their METADATA
 //	evaluate.go     evaluating the subjects of one kind in parallel, under the time budgets; malformed findings
 //	findings.go     decoding findings, collapsing runs, the report order
-//	rulestest.go    the rules' own _test.rego tests
+//	rulestest.go    the rules' own _test.rego tests (a failing one traced again for what it saw)
+//	limitrefs.go    the data.limits paths each check reads, from the compiled rules
+//	explain.go      --explain: one finding's subject evaluated again, its limits and evidence lines
+//	facts_extra.go  the committee's own x_ columns as extra on the objects of their rows
 //	fingerprint.go  the SHA-256 over records, rules and limits as read
 //	partial.go      the checks evaluated only in part (Result.Partial), counted from the facts
 //	result.go, finding.go  what reports render
@@ -89,5 +92,8 @@
 // them there: name is a person's name, a protocol's title or the
 // facility's name, ref the FILE:LINE of the subject's own row, null when
 // there is none); lists of entries carry on (the day) and their rows as
-// ref, refs or evidence.
+// ref, refs or evidence. An object whose ref names a row with local
+// columns (x_…, records.Set.Extra) gets extra: {x_name: "text"} after the
+// fact builders have run (facts.addExtra); every object schema with a ref
+// allows extra, so a fact builder need do nothing for it.
 package checker

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"path"
 	"runtime"
 	"slices"
 	"sort"
@@ -121,6 +122,26 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 	if err != nil {
 		return nil, err
 	}
+	// A check is local when its file comes from a Source marked Local
+	// (file names as parseSources gives them).
+	localSource := map[string]bool{}
+	for _, s := range sources {
+		localSource[s.Name] = s.Local
+	}
+	local := map[string]bool{}
+	for _, f := range files {
+		name := f.path
+		if f.source != "" {
+			name = path.Join(f.source, f.path)
+		}
+		local[name] = localSource[f.source]
+	}
+	for id, reads := range limitReads(compiler.Modules, checks) {
+		c := checks[id]
+		c.Limits = reads
+		c.Local = local[c.File]
+		checks[id] = c
+	}
 	store := limitsStore(limits)
 	ruleAt, packageRules := ruleSites(modules)
 
@@ -134,9 +155,11 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 		ruleAt:       ruleAt,
 		packageRules: packageRules,
 	}
-	local := localFiles(files)
+	// A check is also local when its file is not one of the shipped rule
+	// files as shipped (an edited copy of a shipped package).
+	edited := localFiles(files)
 	for id, c := range checks {
-		if local[c.File] {
+		if edited[c.File] {
 			c.Local = true
 			checks[id] = c
 		}
@@ -170,6 +193,7 @@ func (e *engine) Checks() []CheckInfo {
 	for i, c := range e.sorted {
 		c.Needs = slices.Clone(c.Needs)
 		c.Subjects = slices.Clone(c.Subjects)
+		c.Limits = slices.Clone(c.Limits)
 		out[i] = c
 	}
 	return out

@@ -10,9 +10,11 @@ import (
 	"testing/fstest"
 
 	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
 
 	"welfare/checker"
 	"welfare/records"
+	"welfare/rules"
 )
 
 // engBasic is the engine test rule set in testdata/policies/basic.
@@ -208,7 +210,7 @@ func TestEngineChecksAndKinds(t *testing.T) {
 			ID: "care.feeding.missed", Domain: "care", Title: "Feeding missed",
 			Description: "An occupied enclosure was not fed; significant from the second unfed day.",
 			Severity:    checker.Minor, Source: "common practice", Package: "welfare.care",
-			File: "rules/care.rego", Needs: []string{"daily_care.csv", "animals.csv"},
+			File: "rules/care.rego", Row: 41, Needs: []string{"daily_care.csv", "animals.csv"},
 			Subjects: []string{"enclosure"}, Local: true, // test rules, not the shipped files
 		},
 		{
@@ -216,20 +218,22 @@ func TestEngineChecksAndKinds(t *testing.T) {
 			Description: "An occupied enclosure had no observation round that day.",
 			Severity:    checker.Minor,
 			Source:      "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112",
-			Package:     "welfare.care", File: "rules/care.rego", Needs: []string{"daily_care.csv"},
+			Package:     "welfare.care", File: "rules/care.rego", Row: 19, Needs: []string{"daily_care.csv"},
 			Runs: true, Subjects: []string{"enclosure"}, Local: true, // test rules, not the shipped files
 		},
 		{
 			ID: "care.water.unavailable", Domain: "care", Title: "Water unavailable",
 			Description: "A round found water empty or frozen and it was not restored.",
 			Severity:    checker.Significant, Source: "OLAW, inoperative watering is a significant deficiency",
-			Package: "welfare.care", File: "rules/care.rego", Subjects: []string{"enclosure"}, Local: true, // test rules, not the shipped files
+			Package: "welfare.care", File: "rules/care.rego", Row: 79, Subjects: []string{"enclosure"}, Local: true, // test rules, not the shipped files
 		},
 		{
 			ID: "cold.frostbite.risk", Domain: "cold", Title: "Frostbite risk",
 			Description: "Minimum wind chill at or below the frostbite limit.",
 			Severity:    checker.Note, Source: "Environment and Climate Change Canada wind chill hazard bands",
-			Package: "welfare.cold", File: "rules/cold.rego", Runs: true,
+			Package: "welfare.cold", File: "rules/cold.rego", Row: 15, Runs: true,
+			// cold.rego compares with this limit (line 25).
+			Limits:   []string{"cold.frostbite_wind_chill_c"},
 			Subjects: []string{"site", "enclosure"}, Local: true,
 		},
 	}
@@ -367,5 +371,66 @@ func TestRuleReadingAFieldTheInputLacksFailsToCompile(t *testing.T) {
 				t.Errorf("the corrected rule does not compile: %v", err)
 			}
 		})
+	}
+}
+
+// TestLimitReads: the limits a check reads are found in its compiled rule,
+// through the package's aliases and helper rules. Expected values are read
+// off the rule text (rules/health.rego, rules/handling.rego) and the
+// guide's example rule.
+func TestLimitReads(t *testing.T) {
+	local := map[string]string{"weight.rego": `# METADATA
+# title: W
+# description: w
+# scope: package
+# custom:
+#   subjects: [animal]
+package welfare.weight
+
+lim := data.limits.local
+
+dropped(w) if w.kg * 100 < lim.weight_drop_pct * 2
+
+# METADATA
+# title: Drop
+# description: d
+# custom:
+#   id: local.weight.dropped
+#   severity: minor
+#   source: facility choice
+findings contains f if {
+	some w in input.weights
+	dropped(w)
+	f := {"check": "local.weight.dropped", "subject": input.id, "on": w.on, "message": "m", "evidence": [w.ref]}
+}
+`}
+	sources := append([]checker.Source{{Name: "rules", FS: rules.FS()}}, engUser(local)...)
+	lim, err := rules.Default()
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := checker.Compile(context.Background(), lim, sources, checker.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := map[string][]string{}
+	for _, c := range p.Checks() {
+		got[c.ID] = c.Limits
+	}
+	tests := []struct {
+		check string
+		want  []string
+	}{
+		// health.rego: weight_loss_days and _pct in losses, _significant_pct in loss_severity.
+		{"health.weight.loss", []string{"health.weight_loss_days", "health.weight_loss_pct", "health.weight_loss_significant_pct"}},
+		// handling.rego: bite_risk per species, unconscious_restraint, accepted_gloves, min_glove_thickness_mm.
+		{"handling.glove.inadequate", []string{"handling.accepted_gloves", "handling.min_glove_thickness_mm", "handling.unconscious_restraint[_]", "species[_].bite_risk"}},
+		{"handling.bite.not_washed", []string{}},
+		{"local.weight.dropped", []string{"local.weight_drop_pct"}},
+	}
+	for _, tt := range tests {
+		if diff := cmp.Diff(tt.want, got[tt.check], cmpopts.EquateEmpty()); diff != "" {
+			t.Errorf("%s reads (-want +got):\n%s", tt.check, diff)
+		}
 	}
 }

@@ -217,6 +217,7 @@ func TestEvaluateRunsAndEvidence(t *testing.T) {
 			Evidence: []records.Ref{"daily_care.csv:10", "daily_care.csv:11", "daily_care.csv:12"},
 			Title:    "Observation missed",
 			Source:   "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112",
+			Local:    true, // test rules, not the shipped files
 		},
 		{
 			Check: "care.observation.missed", Domain: "care", Subject: "E-01",
@@ -225,6 +226,7 @@ func TestEvaluateRunsAndEvidence(t *testing.T) {
 			Evidence: []records.Ref{"daily_care.csv:13"},
 			Title:    "Observation missed",
 			Source:   "Guide for the Care and Use of Laboratory Animals, 8th ed. (2011), p. 112",
+			Local:    true, // test rules, not the shipped files
 		},
 	}
 	if diff := cmp.Diff(want, fs); diff != "" {
@@ -250,6 +252,7 @@ func TestEvaluateRunsAndEvidence(t *testing.T) {
 		Evidence: []records.Ref{"weather.csv:9", "weather.csv:10", "weather.csv:12"},
 		Title:    "Frostbite risk",
 		Source:   "Environment and Climate Change Canada wind chill hazard bands",
+		Local:    true,
 	}}
 	if diff := cmp.Diff(wantSite, fs); diff != "" {
 		t.Errorf("site findings (-want +got):\n%s", diff)

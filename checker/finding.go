@@ -45,6 +45,8 @@ type Finding struct {
 	// Reportable: noncompliance the institution reports (PHS Policy
 	// IV.F.3); outputs mark it "report to the institutional official".
 	Reportable bool
+	// Local: the check is a committee's own (CheckInfo.Local).
+	Local bool
 }
 
 // Key is the finding's stable identity: check id, subject and first day,
@@ -61,6 +63,11 @@ type CheckInfo struct {
 	Source      string   `json:"source"`
 	Package     string   `json:"package"` // e.g. welfare.care
 	File        string   `json:"file"`    // where the rule is defined
+	Row         int      `json:"row"`     // the row of the rule's METADATA in File
+	// Limits are the limits the check reads, as dotted paths of the
+	// limits file ("health.weight_loss_pct"; [_] for a part chosen at run
+	// time), found in the compiled rules.
+	Limits []string `json:"limits,omitempty"`
 	// Needs lists the record files the check reads; when one is absent the
 	// check is "not evaluated".
 	Needs []string `json:"needs,omitempty"`
@@ -76,8 +83,9 @@ type CheckInfo struct {
 	// Escalation is custom.escalation: when a finding's severity departs
 	// from the default ("significant from 2 days in a row").
 	Escalation string `json:"escalation,omitempty"`
-	// Local: the check is defined by a rule file that is not one of the
-	// shipped rules (a committee's own package, or an edited copy).
+	// Local: the check is the committee's own — from a Source marked Local
+	// (a --rules folder), or a rule file that is not one of the shipped
+	// rules as shipped (an edited copy); outputs mark it "local rule".
 	Local bool `json:"local,omitempty"`
 }
 

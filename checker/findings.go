@@ -56,7 +56,7 @@ func (e *engine) toFinding(pkg string, raw any, lines map[string]int) (f Finding
 	if info.Package != pkg {
 		return f, false, bad("check", "%q belongs to package %s, not %s", check, info.Package, pkg)
 	}
-	f.Check, f.Domain, f.Title, f.Source = check, info.Domain, info.Title, info.Source
+	f.Check, f.Domain, f.Title, f.Source, f.Local = check, info.Domain, info.Title, info.Source, info.Local
 	f.Reportable = info.Reportable
 	if f.Subject, err = str("subject", true); err != nil {
 		return f, false, err

@@ -198,6 +198,7 @@ func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, stri
 		Description: a.Description,
 		Package:     pkg,
 		File:        file,
+		Row:         a.Location.Row,
 	}
 	good := true
 	if info.Title == "" {

@@ -27,6 +27,9 @@ type Source struct {
 	// file, a committee's --rules folder above all, is contained (see
 	// containPackage).
 	Trusted bool
+	// Local marks a committee's own rules (a --rules folder), as opposed
+	// to the shipped ones: their checks and findings are marked "local".
+	Local bool
 }
 
 // RulesError lists every problem that stops a rule set from loading: parse

@@ -129,6 +129,10 @@ type loaded[T any] struct {
 	file  string
 	sheet string
 	at    func(ci, line int) string
+	// local are the committee's own columns (x_…) by header index, and
+	// extra their cells per accepted row.
+	local map[int]string
+	extra map[Ref]map[string]string
 }
 
 func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
@@ -227,8 +231,17 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 		return l
 	}
 	l.plan = p
+	l.local = localColumns(p)
 	for _, u := range unknown {
-		l.warnings = append(l.warnings, Warning{File: l.count.File, Column: u, Message: "unknown column, not read"})
+		switch key := strings.ToLower(u); {
+		case strings.HasPrefix(key, "x_") && IsCode(key):
+			// A local column: carried to the rules as text.
+		case strings.HasPrefix(key, "x_"):
+			l.warnings = append(l.warnings, Warning{File: l.count.File, Column: u,
+				Message: "not read: a local column's name is x_ and lower_snake_case (x_tail_length_cm)"})
+		default:
+			l.warnings = append(l.warnings, Warning{File: l.count.File, Column: u, Message: "unknown column, not read"})
+		}
 	}
 	d := newDecoder(p, e, src.file)
 	d.refBase = rr.refBase()
@@ -405,7 +418,11 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 			l.rows = l.rows[:len(l.rows)-1]
 			continue
 		}
-		reflect.ValueOf(row).Elem().Field(p.rt.ref).SetString(string(d.ref(line)))
+		ref := d.ref(line)
+		reflect.ValueOf(row).Elem().Field(p.rt.ref).SetString(string(ref))
+		if len(l.local) > 0 {
+			l.keepLocal(ref, rec)
+		}
 		l.count.Accepted++
 	}
 }
@@ -755,7 +772,46 @@ func collect[T any](s *Set, l *loaded[T]) {
 		}
 		s.Columns[l.spec.name] = l.plan.columns()
 	}
+	if len(l.extra) > 0 {
+		if s.Extra == nil {
+			s.Extra = map[Ref]map[string]string{}
+		}
+		for ref, m := range l.extra {
+			s.Extra[ref] = m
+		}
+	}
 	s.Accounting = append(s.Accounting, l.count)
 	s.Problems = append(s.Problems, l.problems...)
 	s.Warnings = append(s.Warnings, l.warnings...)
+}
+
+// localColumns finds the committee's own columns of a header: names
+// starting with x_, lower_snake_case (compared in lower case, as every
+// column is), by header index.
+func localColumns(p *plan) map[int]string {
+	var out map[int]string
+	for i, c := range p.cols {
+		key := strings.ToLower(c.header)
+		if c.field < 0 && strings.HasPrefix(key, "x_") && IsCode(key) {
+			if out == nil {
+				out = map[int]string{}
+			}
+			out[i] = key
+		}
+	}
+	return out
+}
+
+// keepLocal keeps the local columns' cells of an accepted row, as text
+// (an empty cell is kept empty: the rule can tell it from a column the
+// file lacks).
+func (l *loaded[T]) keepLocal(ref Ref, rec []string) {
+	if l.extra == nil {
+		l.extra = map[Ref]map[string]string{}
+	}
+	m := make(map[string]string, len(l.local))
+	for i, name := range l.local {
+		m[name] = strings.TrimSpace(rec[i])
+	}
+	l.extra[ref] = m
 }

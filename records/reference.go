@@ -192,6 +192,11 @@ A check whose records are absent is reported as "not evaluated", never as passed
   (15/01/2026), a semicolon or tab between columns and text that is not UTF-8 are refused with the fix.
 - Measured columns carry their unit in the name; any one of the alternatives is accepted and
   converted. Ids are 1–64 letters, digits or - _ . : / and unique within their file.
+- Local columns: a column whose name starts with ` + "`x_`" + ` (lower_snake_case, such as
+  ` + "`x_tail_length_cm`" + ` in animals.csv) is the committee's own. It is not checked by the loader and is no
+  warning; its cells reach the rules as text, on the row's subject or event: ` + "`input.extra.x_tail_length_cm`" + `
+  on the animal's document, ` + "`extra.x_…`" + ` on the entry of an event (a handling, a weighing) wherever
+  the facts list it. Only a committee's own rules read them (rules/README.md).
 
 `
 

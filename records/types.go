@@ -69,6 +69,11 @@ type Set struct {
 	Problems []Problem
 	// Warnings are unknown files and columns: nothing was lost, but something was not read.
 	Warnings []Warning
+	// Extra holds the committee's own columns (names starting with x_) of
+	// each accepted row, by the row's ref, as text: the checker gives them
+	// to the rules as the extra object of the subject or event the row
+	// belongs to. Nil when no file has such a column.
+	Extra map[Ref]map[string]string
 }
 
 // FileCount is the row accounting of one file: Read == Accepted + Rejected.

@@ -443,8 +443,9 @@ func (b *auditBuilder) limits() AuditSection {
 		if skipped[c.ID] {
 			id += "\n(not evaluated)"
 		}
+		title := c.Title
 		if c.Local {
-			id += "\n(local)"
+			title += LocalMark
 		}
 		sev := string(c.Severity)
 		if c.Escalation != "" {
@@ -453,7 +454,7 @@ func (b *auditBuilder) limits() AuditSection {
 		if o, ok := overrides[c.ID]; ok && o != string(c.Severity) {
 			sev = o + " (limits override; default " + sev + ")"
 		}
-		ct.Rows = append(ct.Rows, Row{Cells: []string{id, c.Title, sev, c.Source}})
+		ct.Rows = append(ct.Rows, Row{Cells: []string{id, title, sev, c.Source}})
 	}
 	if len(r.Scope.Off) > 0 {
 		b.add(para("Switched off by the limits (severity: off), not in force: "+strings.Join(r.Scope.Off, ", ")+".", "italic", 8.5))

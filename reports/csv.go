@@ -15,6 +15,10 @@ var csvHeader = []string{"severity", "check", "domain", "subject", "on", "until"
 // (PHS Policy IV.F.3: noncompliance reported through the institutional official).
 const ReportableMark = "report to the institutional official"
 
+// LocalMark follows the title of a check from the committee's own rules
+// (a --rules folder) in every output.
+const LocalMark = " (local rule)"
+
 // WriteCSV writes one finding per row, in r.Findings order, evidence refs
 // joined with "; ". A cell a spreadsheet would run as a formula is neutralised
 // (see Neutralise).
@@ -39,6 +43,9 @@ func WriteCSV(w io.Writer, r *checker.Result) error {
 		row[6] = f.Message
 		row[7] = refsString(f.Evidence, "; ")
 		row[8] = f.Title
+		if f.Local {
+			row[8] += LocalMark
+		}
 		row[9] = f.Source
 		row[10] = ""
 		if f.Reportable {

@@ -123,6 +123,8 @@ type JSONFinding struct {
 	Class string `json:"class,omitempty"`
 	// Action is the corrective action answering the finding, if any.
 	Action *JSONFindingAction `json:"action,omitempty"`
+	// Local is true for a finding of the committee's own rules.
+	Local bool `json:"local,omitempty"`
 }
 
 // JSONFindingAction is the plan answering a finding and its status.
@@ -369,6 +371,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 			Key:         f.Key(),
 			Problem:     f.Problem(),
 			Class:       r.ClassOf(f),
+			Local:       f.Local,
 		}
 		if a := r.ActionFor(f); a != nil {
 			jf.Action = &JSONFindingAction{Plan: a.Action.Plan, Owner: a.Action.Owner, DueOn: a.Action.DueOn.String(), Status: a.Status}

@@ -149,6 +149,9 @@ func groupFindings(r *checker.Result) []domainGroup {
 			if g.title == "" {
 				g.title = info[f.Check].Title
 			}
+			if f.Local || info[f.Check].Local {
+				g.title += LocalMark
+			}
 			if g.source == "" {
 				g.source = info[f.Check].Source
 			}

@@ -86,7 +86,11 @@ func WriteText(w io.Writer, r *checker.Result, opt TextOptions) error {
 				shown = max
 			}
 			for _, f := range fs[i : i+shown] {
-				p("\n%s  %s  %s  %s\n", strings.ToUpper(string(f.Severity)), f.Check, orNone(f.Subject), dates(f))
+				check := f.Check
+				if f.Local {
+					check += LocalMark
+				}
+				p("\n%s  %s  %s  %s\n", strings.ToUpper(string(f.Severity)), check, orNone(f.Subject), dates(f))
 				p("  %s\n", oneLine(f.Message))
 				if f.SeverityWhy != "" {
 					p("  why this severity: %s\n", f.SeverityWhy)

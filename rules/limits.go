@@ -13,6 +13,11 @@ type Limits struct {
 	// note, or off (the check is not reported).
 	Severity map[string]string `yaml:"severity" json:"severity" validate:"dive,keys,check_id,endkeys,oneof=significant minor note off"`
 
+	// Local holds the committee's own values for its own rules, read by
+	// them as data.limits.local.NAME: lower_snake_case names, any YAML
+	// value (a number, text, a list or a map). Shipped rules never read it.
+	Local map[string]any `yaml:"local,omitempty" json:"local,omitempty"`
+
 	// Species profiles by species code. A species absent here rejects the
 	// animal rows that name it.
 	Species map[string]Species `yaml:"species" json:"species" validate:"required,min=1,dive,keys,code,endkeys"`

@@ -3,8 +3,11 @@ package rules
 import (
 	"bytes"
 	"fmt"
+	"slices"
 	"strings"
 	"testing"
+
+	"github.com/google/go-cmp/cmp"
 )
 
 func TestDefaultLimitsLoad(t *testing.T) {
@@ -62,6 +65,62 @@ func TestLoadLimitsErrors(t *testing.T) {
 				prefix = fmt.Sprintf("mine.yaml:%d: ", lineOf(tc.src, tc.at))
 			}
 			if !strings.HasPrefix(err.Error(), prefix) {
+				t.Errorf("err = %v, want it to start %q", err, prefix)
+			}
+		})
+	}
+}
+
+// TestLocalValues: the committee's own values under local: reach the rules
+// as data.limits.local, appear among the limits in force, and a bad name
+// or an empty value is refused with its line.
+func TestLocalValues(t *testing.T) {
+	base := string(DefaultLimits())
+	good := base + "\nlocal:\n  weight_drop_pct: 10     # [F] our committee\n  muzzle_species: [vulpes_vulpes]\n  night:\n    from: \"22:00\"\n"
+	l, err := ParseLimits("mine.yaml", []byte(good))
+	if err != nil {
+		t.Fatal(err)
+	}
+	data, err := l.Data()
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string]any{"weight_drop_pct": float64(10), "muzzle_species": []any{"vulpes_vulpes"}, "night": map[string]any{"from": "22:00"}}
+	if diff := cmp.Diff(want, data["local"]); diff != "" {
+		t.Errorf("data.limits.local (-want +got):\n%s", diff)
+	}
+	var lines []string
+	for _, ln := range l.Lines() {
+		if strings.HasPrefix(ln.Key, "local.") {
+			lines = append(lines, ln.Key+" = "+ln.Value+" "+ln.Source)
+		}
+	}
+	if !slices.Contains(lines, "local.weight_drop_pct = 10 [F] our committee") {
+		t.Errorf("limits in force lack the local value: %q", lines)
+	}
+	// The shipped limits have no local section: a rule reading one finds nothing.
+	def, err := Default()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d, _ := def.Data(); d["local"] != nil {
+		t.Errorf("shipped limits have data.limits.local = %v", d["local"])
+	}
+
+	bad := []struct{ name, src, at, want string }{
+		{"name not lower_snake_case", base + "\nlocal:\n  WeightDrop: 10\n", "WeightDrop", `local.WeightDrop: "WeightDrop" is not a lower_snake_case name`},
+		{"nested name", base + "\nlocal:\n  night:\n    From: 1\n", "From: 1", `local.night.From: "From" is not a lower_snake_case name`},
+		{"not a finite number", base + "\nlocal:\n  ratio: .nan\n", "ratio:", "local.ratio: is not a finite number"},
+		{"empty value", base + "\nlocal:\n  weight_drop_pct:\n", "weight_drop_pct:", "local.weight_drop_pct: has no value"},
+	}
+	for _, tc := range bad {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParseLimits("mine.yaml", []byte(tc.src))
+			if err == nil || !strings.Contains(err.Error(), tc.want) {
+				t.Fatalf("err = %v, want one containing %q", err, tc.want)
+			}
+			line := strings.Count(tc.src[:strings.LastIndex(tc.src, tc.at)], "\n") + 1
+			if prefix := fmt.Sprintf("mine.yaml:%d: ", line); !strings.HasPrefix(err.Error(), prefix) {
 				t.Errorf("err = %v, want it to start %q", err, prefix)
 			}
 		})

@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
+	"math"
 	"reflect"
 	"regexp"
 	"sort"
@@ -115,6 +116,9 @@ func validateLimits(l *Limits) (key, reason string) {
 		}
 		return "", err.Error()
 	}
+	if key, reason := localValues("local", map[string]any(l.Local)); reason != "" {
+		return key, reason
+	}
 	ww := l.Cold.WorkWarmup
 	for i, row := range ww.Rows {
 		if len(row.Cells) != len(ww.WindColumnsKmh) {
@@ -132,6 +136,44 @@ func validateLimits(l *Limits) (key, reason string) {
 		if _, ok := l.Species[sp]; !ok {
 			return "litter.min_weaning_days[" + sp + "]", fmt.Sprintf("%q is not a species profile of these limits (%s)", sp, strings.Join(l.SpeciesCodes(), ", "))
 		}
+	}
+	return "", ""
+}
+
+// localValues checks the committee's own values: plain YAML (numbers,
+// text, true/false, lists, maps with lower_snake_case names), so that each
+// reaches the rules as data.limits.local unchanged.
+func localValues(key string, v any) (string, string) {
+	switch x := v.(type) {
+	case map[string]any:
+		names := make([]string, 0, len(x))
+		for k := range x {
+			names = append(names, k)
+		}
+		sort.Strings(names)
+		for _, k := range names {
+			if !records.IsCode(k) {
+				return key + "." + k, fmt.Sprintf("%q is not a lower_snake_case name", k)
+			}
+			if k2, r := localValues(key+"."+k, x[k]); r != "" {
+				return k2, r
+			}
+		}
+	case []any:
+		for i, e := range x {
+			if k2, r := localValues(fmt.Sprintf("%s[%d]", key, i), e); r != "" {
+				return k2, r
+			}
+		}
+	case nil:
+		return key, "has no value (write one, or leave the name out)"
+	case float64:
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return key, "is not a finite number"
+		}
+	case string, bool, int, int64, uint64:
+	default:
+		return key, fmt.Sprintf("is not a number, text, true/false, list or map (%T)", v)
 	}
 	return "", ""
 }

@@ -37,6 +37,7 @@ type checkOpts struct {
 	packageTimeout time.Duration
 	evalTimeout    time.Duration
 	timings        bool
+	explain        string
 }
 
 func checkFlags() (*flag.FlagSet, *checkOpts) {
@@ -62,6 +63,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.DurationVar(&o.timeoutPerEval, "rule-timeout", checker.DefaultTimeout, "time budget of one rule package on one subject (a `DURATION` such as 5s or 1m)")
 	fs.DurationVar(&o.packageTimeout, "package-timeout", checker.DefaultPackageBudget, "time budget of one rule package across all its subjects (a `DURATION`)")
 	fs.DurationVar(&o.evalTimeout, "evaluation-timeout", checker.DefaultTotalBudget, "time budget of the whole rule evaluation, every package and subject (a `DURATION`)")
+	fs.StringVar(&o.explain, "explain", "", "print why one finding fired instead of the summary: the facts the rule saw, the limits it read, the rule and the evidence rows (`KEY` = \"CHECK SUBJECT YYYY-MM-DD\")")
 	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time (load, facts, rules, reports) and peak heap to stderr")
 	return fs, o
 }
@@ -82,6 +84,9 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		if b.d <= 0 {
 			return usagef("--%s %s: a time budget must be more than 0 (such as 5s or 1m)", b.name, b.d)
 		}
+	}
+	if o.explain != "" {
+		return explainFinding(ctx, pos[0], o, stdout)
 	}
 	return checkFolder(ctx, pos[0], o, stdout, stderr)
 }

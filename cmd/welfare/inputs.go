@@ -58,7 +58,7 @@ func ruleSources(dirs []string, rulesOnly bool) ([]checker.Source, error) {
 		if !st.IsDir() {
 			return nil, usagef("--rules %s is not a folder", d)
 		}
-		out = append(out, checker.Source{Name: filepath.Clean(d), FS: os.DirFS(d)})
+		out = append(out, checker.Source{Name: filepath.Clean(d), FS: os.DirFS(d), Local: true})
 	}
 	if len(out) == 0 {
 		return nil, usagef("--rules-only needs at least one --rules DIR")

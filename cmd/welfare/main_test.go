@@ -334,8 +334,11 @@ test_small_cage_fires if {
 	if rejected != 5 {
 		t.Errorf("--only house: %d rejected rows listed, want the demo's 5", rejected)
 	}
-	if code, out, stderr := runMain(t, "rules", "test", dir); code != exitOK || !strings.Contains(out, "test_small_cage_fires") {
+	if code, out, stderr := runMain(t, "rules", "test", dir); code != exitOK || !strings.Contains(out, "Rule tests in "+dir+": 1 of 1 passed") {
 		t.Errorf("rules test DIR: exit %d\n%s%s", code, out, stderr)
+	}
+	if code, out, stderr := runMain(t, "rules", "test", dir, "-v"); code != exitOK || !strings.Contains(out, "PASS "+dir+"/house_test.rego:5 welfare.house_test.test_small_cage_fires") {
+		t.Errorf("rules test DIR -v: exit %d\n%s%s", code, out, stderr)
 	}
 }
 

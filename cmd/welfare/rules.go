@@ -17,6 +17,7 @@ type rulesOpts struct {
 	rulesOnly bool
 	limits    limitsFiles
 	verbose   bool
+	json      bool
 }
 
 func rulesFlags() (*flag.FlagSet, *rulesOpts) {
@@ -25,7 +26,8 @@ func rulesFlags() (*flag.FlagSet, *rulesOpts) {
 	fs.Var(&o.rules, "rules", "add the rule packages in `DIR` (repeatable)")
 	fs.BoolVar(&o.rulesOnly, "rules-only", false, "use only the --rules folders, not the built-in rules")
 	addLimitsFlags(fs, &o.limits)
-	fs.BoolVar(&o.verbose, "v", false, "test: print every test, not only failures")
+	fs.BoolVar(&o.verbose, "v", false, "test: print every test, the shipped ones too, not only failures")
+	fs.BoolVar(&o.json, "json", false, "list: write the checks as JSON")
 	return fs, o
 }
 
@@ -38,14 +40,19 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		return err
 	}
 	if len(pos) == 0 {
-		return &usageError{cmd: "rules", msg: "needs list, test or input"}
+		return &usageError{cmd: "rules", msg: "needs list, test, new, export or input"}
 	}
 	verb := pos[0]
-	if verb == "input" {
+	switch verb {
+	case "input":
 		return printInput(pos[1:], stdout)
-	}
-	if verb != "list" && verb != "test" {
-		return &usageError{cmd: "rules", msg: unknownVerb(verb, "list", "test", "input")}
+	case "new":
+		return newRulePackage(pos[1:], stdout)
+	case "export":
+		return exportRules(pos[1:], stdout)
+	case "list", "test":
+	default:
+		return &usageError{cmd: "rules", msg: unknownVerb(verb, "list", "test", "new", "export", "input")}
 	}
 	// "welfare rules test DIR" reads naturally: a bare folder is a --rules folder.
 	o.rules = append(o.rules, pos[1:]...)
@@ -62,36 +69,9 @@ func runRules(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		return err
 	}
 	if verb == "list" {
-		printChecks(stdout, policy.Checks(), lim.Severity)
-		return nil
+		return printChecks(stdout, listChecks(policy.Checks(), lim.Severity), o.json)
 	}
-	// Test prints each test and the closing "N passed, M failed".
-	_, failed, err := policy.Test(ctx, stdout, o.verbose)
-	if err != nil {
-		return err
-	}
-	if failed > 0 {
-		return errFindings
-	}
-	return nil
-}
-
-func printChecks(w io.Writer, checks []checker.CheckInfo, overrides map[string]string) {
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "check\tseverity\ttitle\tsource")
-	for _, c := range checks {
-		sev := string(c.Severity)
-		if o, ok := overrides[c.ID]; ok {
-			sev = o + " (limits override; rule: " + sev + ")"
-		}
-		id := c.ID
-		if c.Local {
-			id += " (local)" // not one of the shipped rules
-		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\n", id, sev, c.Title, c.Source)
-	}
-	tw.Flush()
-	fmt.Fprintln(w, "\nSources marked 'from memory' are to be verified against the current text before relying on them.")
+	return testRules(ctx, policy, sources, o.rules, !o.rulesOnly, o.verbose, stdout)
 }
 
 // printInput prints the input document of one subject kind as a table: the
