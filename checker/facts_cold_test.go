@@ -222,8 +222,14 @@ func yardDay(on string, kv ...any) map[string]any {
 func TestColdSiteAndEnclosureFacts(t *testing.T) {
 	f := coldFactsOf(t, coldSet(), coldPeriod)
 	noWeather := []any{map[string]any{"from": "2026-01-14", "until": "2026-01-14", "days": 1}}
-	water := func(enc, on string, air float64, checks int, airRef string) any {
-		return map[string]any{"on": on, "min_air_c": air, "checks": checks, "evidence": []any{enc, airRef}}
+	// The four freezing days of an enclosure, all with the same number of
+	// water checks: one group.
+	water := func(checks int) []any {
+		return []any{map[string]any{"checks": checks,
+			"on":        []any{"2026-01-10", "2026-01-11", "2026-01-12", "2026-01-13"},
+			"min_air_c": []any{0.0, -15.0, -25.0, -40.0},
+			"air_refs":  []any{"weather.csv:2", "weather.csv:4", "weather.csv:6", "weather.csv:10"},
+		}}
 	}
 	// The days that could be findings, selected with the limits inclusively
 	// (two checks against a minimum of two is listed), with their figures:
@@ -252,12 +258,7 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 			// round; "frozen" is a recorded state), fresh bedding on 01-11
 			// and a nest box.
 			"exposure": "outdoor", "weather_site": "YARD", "nest_box": true, "sheltered": true,
-			"days_at_or_below_water_limits": []any{
-				water("enclosures.csv:2", "2026-01-10", 0, 2, "weather.csv:2"),
-				water("enclosures.csv:2", "2026-01-11", -15, 2, "weather.csv:4"),
-				water("enclosures.csv:2", "2026-01-12", -25, 2, "weather.csv:6"),
-				water("enclosures.csv:2", "2026-01-13", -40, 2, "weather.csv:10"),
-			},
+			"days_at_or_below_water_limits_by_checks": water(2),
 			// Bedding 0–2 days old and a nest box: not selected.
 			"days_at_or_past_bedding_limits":                  []any{},
 			"days_at_or_below_shelter_limit_without_nest_box": []any{},
@@ -266,12 +267,7 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 		{"enclosure", "N-02", map[string]any{
 			"exposure": "outdoor", "weather_site": "YARD", "nest_box": false, "sheltered": false,
 			// At or below 0 °C from 01-10; not_checked does not count.
-			"days_at_or_below_water_limits": []any{
-				water("enclosures.csv:3", "2026-01-10", 0, 1, "weather.csv:2"),
-				water("enclosures.csv:3", "2026-01-11", -15, 1, "weather.csv:4"),
-				water("enclosures.csv:3", "2026-01-12", -25, 1, "weather.csv:6"),
-				water("enclosures.csv:3", "2026-01-13", -40, 1, "weather.csv:10"),
-			},
+			"days_at_or_below_water_limits_by_checks": water(1),
 			// Last bedding 01-04: 01-11 is 7 days on.
 			"days_at_or_past_bedding_limits": []any{
 				bedding("enclosures.csv:3", "2026-01-11", "2026-01-04", 7),
