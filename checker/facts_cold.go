@@ -239,6 +239,12 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 	c := f.careIndex()
 	bed := f.beddingDays()
 	lc := f.lim.Cold
+	// The period's days as text, made once: the water groups of every
+	// enclosure share them.
+	days := make([]string, max(int(f.period.To-f.period.From)+1, 0))
+	for i := range days {
+		days[i] = (f.period.From + records.Day(i)).String()
+	}
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		b := f.buildings[e.BuildingID]
@@ -247,7 +253,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 		}
 		s := sites[b.WeatherSite]
 		bedding, shelter, unknown := []any{}, []any{}, []any{}
-		water := newWaterGroups(lc.WaterChecksMin)
+		water := newWaterGroups(lc.WaterChecksMin, days)
 		var unknownRun dayRun
 		// 9 CFR §3.4: in an outdoor building a species with an outdoor
 		// shelter requirement (dogs) is sheltered by a nest box; a sheltered
@@ -277,7 +283,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 					continue
 				}
 				if checks := int(c.on(e.ID, e.BuildingID, d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
-					water.add(checks, d, dc.MinAirC, s.coldestAir[d-f.period.From].Ref)
+					water.add(checks, int(d-f.period.From), dc.MinAirC, s.coldestAir[d-f.period.From].Ref)
 				}
 				last := bed.last(e.ID, e.BuildingID, d)
 				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
@@ -320,26 +326,34 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 // waterGroups gathers an enclosure's days at or below the water limits by
 // the number of water checks recorded (0 to cold.water_checks_min): one
 // group per count, its days in day order as parallel arrays (the day, its
-// lowest air temperature and the reading that gave it).
-type waterGroups []struct {
-	on, minAirC, airRefs []any
+// lowest air temperature and the reading that gave it). The texts are
+// []string, which OPA takes without boxing each one.
+type waterGroups struct {
+	days   []string // the period's days as text, by day of the period
+	groups []waterGroup
 }
 
-func newWaterGroups(maxChecks int) waterGroups {
-	return make(waterGroups, max(maxChecks+1, 0))
+type waterGroup struct {
+	on, airRefs []string
+	minAirC     []any
 }
 
-func (w waterGroups) add(checks int, d records.Day, minAirC float64, air records.Ref) {
-	g := &w[checks]
-	g.on = append(g.on, d.String())
+func newWaterGroups(maxChecks int, days []string) *waterGroups {
+	return &waterGroups{days: days, groups: make([]waterGroup, max(maxChecks+1, 0))}
+}
+
+// add lists day i of the period, with checks water checks.
+func (w *waterGroups) add(checks, i int, minAirC float64, air records.Ref) {
+	g := &w.groups[checks]
+	g.on = append(g.on, w.days[i])
 	g.minAirC = append(g.minAirC, minAirC)
 	g.airRefs = append(g.airRefs, string(air))
 }
 
 // doc gives the groups that have days, fewest checks first.
-func (w waterGroups) doc() []any {
+func (w *waterGroups) doc() []any {
 	out := []any{}
-	for checks, g := range w {
+	for checks, g := range w.groups {
 		if len(g.on) > 0 {
 			out = append(out, map[string]any{"checks": checks, "on": g.on, "min_air_c": g.minAirC, "air_refs": g.airRefs})
 		}

@@ -226,9 +226,9 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 	// water checks: one group.
 	water := func(checks int) []any {
 		return []any{map[string]any{"checks": checks,
-			"on":        []any{"2026-01-10", "2026-01-11", "2026-01-12", "2026-01-13"},
+			"on":        []string{"2026-01-10", "2026-01-11", "2026-01-12", "2026-01-13"},
 			"min_air_c": []any{0.0, -15.0, -25.0, -40.0},
-			"air_refs":  []any{"weather.csv:2", "weather.csv:4", "weather.csv:6", "weather.csv:10"},
+			"air_refs":  []string{"weather.csv:2", "weather.csv:4", "weather.csv:6", "weather.csv:10"},
 		}}
 	}
 	// The days that could be findings, selected with the limits inclusively
