@@ -26,8 +26,12 @@ import (
 // rules day by day, so Go pre-selects the days that could be findings,
 // comparing with the limits inclusively, and the field's name says so:
 //
-//   - days_at_or_below_water_limits: lowest air temperature at or below
-//     cold.water_check_below_c and at most cold.water_checks_min water checks;
+//   - days_at_or_below_water_limits_by_checks: lowest air temperature at or
+//     below cold.water_check_below_c and at most cold.water_checks_min water
+//     checks, grouped by the number of checks (one group per count, its days
+//     as parallel arrays), since in a cold year nearly every occupied day is
+//     one of them: the rule compares a group's checks once and each of its
+//     days' air temperature only when the checks fall short;
 //   - days_at_or_past_bedding_limits: lowest wind chill at or below
 //     cold.bedding_wind_chill and bedding added cold.bedding_days or more
 //     days before (or never);
@@ -271,6 +275,12 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 	c := f.careIndex()
 	bed := f.beddingDays()
 	lc := f.lim.Cold
+	// The period's days as text, made once: the water groups of every
+	// enclosure share them.
+	days := make([]string, max(int(f.period.To-f.period.From)+1, 0))
+	for i := range days {
+		days[i] = (f.period.From + records.Day(i)).String()
+	}
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		b := f.buildings[e.BuildingID]
@@ -278,7 +288,8 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			continue
 		}
 		s := sites[b.WeatherSite]
-		water, bedding, shelter, unknown := []any{}, []any{}, []any{}, []any{}
+		bedding, shelter, unknown := []any{}, []any{}, []any{}
+		water := newWaterGroups(lc.WaterChecksMin, days)
 		var unknownRun dayRun
 		// 9 CFR §3.4: in an outdoor building a species with an outdoor
 		// shelter requirement (dogs) is sheltered by a nest box; a sheltered
@@ -311,11 +322,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				// wind; the water check needs the air temperature alone.
 				_, _, windOK := s.windDay(f.period, d)
 				if checks := int(c.on(e.ID, e.BuildingID, d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
-					air := s.coldestAir[d-f.period.From]
-					water = append(water, map[string]any{
-						"on": d.String(), "min_air_c": dc.MinAirC, "checks": checks,
-						"evidence": refs(e.Ref, air.Ref),
-					})
+					water.add(checks, int(d-f.period.From), dc.MinAirC, s.coldestAir[d-f.period.From].Ref)
 				}
 				last := bed.last(e.ID, e.BuildingID, d)
 				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
@@ -343,16 +350,54 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			unknown = append(unknown, spanRun(from, to))
 		}
 		f.doc("enclosure", e.ID)["cold"] = map[string]any{
-			"exposure":                       b.Exposure,
-			"weather_site":                   nilIfEmpty(b.WeatherSite),
-			"nest_box":                       e.NestBox.IsYes(),
-			"sheltered":                      sheltered,
-			"days_at_or_below_water_limits":  water,
-			"days_at_or_past_bedding_limits": bedding,
+			"exposure":     b.Exposure,
+			"weather_site": nilIfEmpty(b.WeatherSite),
+			"nest_box":     e.NestBox.IsYes(),
+			"sheltered":    sheltered,
+			"days_at_or_below_water_limits_by_checks":         water.doc(),
+			"days_at_or_past_bedding_limits":                  bedding,
 			"days_at_or_below_shelter_limit_without_nest_box": shelter,
 			"days_without_weather":                            unknown,
 		}
 	}
+}
+
+// waterGroups gathers an enclosure's days at or below the water limits by
+// the number of water checks recorded (0 to cold.water_checks_min): one
+// group per count, its days in day order as parallel arrays (the day, its
+// lowest air temperature and the reading that gave it). The texts are
+// []string, which OPA takes without boxing each one.
+type waterGroups struct {
+	days   []string // the period's days as text, by day of the period
+	groups []waterGroup
+}
+
+type waterGroup struct {
+	on, airRefs []string
+	minAirC     []any
+}
+
+func newWaterGroups(maxChecks int, days []string) *waterGroups {
+	return &waterGroups{days: days, groups: make([]waterGroup, max(maxChecks+1, 0))}
+}
+
+// add lists day i of the period, with checks water checks.
+func (w *waterGroups) add(checks, i int, minAirC float64, air records.Ref) {
+	g := &w.groups[checks]
+	g.on = append(g.on, w.days[i])
+	g.minAirC = append(g.minAirC, minAirC)
+	g.airRefs = append(g.airRefs, string(air))
+}
+
+// doc gives the groups that have days, fewest checks first.
+func (w *waterGroups) doc() []any {
+	out := []any{}
+	for checks, g := range w.groups {
+		if len(g.on) > 0 {
+			out = append(out, map[string]any{"checks": checks, "on": g.on, "min_air_c": g.minAirC, "air_refs": g.airRefs})
+		}
+	}
+	return out
 }
 
 // latestReading is the latest reading at or before t, whatever its age

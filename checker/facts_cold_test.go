@@ -3,6 +3,7 @@ package checker
 import (
 	"bytes"
 	"fmt"
+	"sort"
 	"testing"
 	"time"
 
@@ -222,8 +223,14 @@ func yardDay(on string, kv ...any) map[string]any {
 func TestColdSiteAndEnclosureFacts(t *testing.T) {
 	f := coldFactsOf(t, coldSet(), coldPeriod)
 	noWeather := []any{map[string]any{"from": "2026-01-14", "until": "2026-01-14", "days": 1}}
-	water := func(enc, on string, air float64, checks int, airRef string) any {
-		return map[string]any{"on": on, "min_air_c": air, "checks": checks, "evidence": []any{enc, airRef}}
+	// The four freezing days of an enclosure, all with the same number of
+	// water checks: one group.
+	water := func(checks int) []any {
+		return []any{map[string]any{"checks": checks,
+			"on":        []string{"2026-01-10", "2026-01-11", "2026-01-12", "2026-01-13"},
+			"min_air_c": []any{0.0, -15.0, -25.0, -40.0},
+			"air_refs":  []string{"weather.csv:2", "weather.csv:4", "weather.csv:6", "weather.csv:10"},
+		}}
 	}
 	// The days that could be findings, selected with the limits inclusively
 	// (two checks against a minimum of two is listed), with their figures:
@@ -255,12 +262,7 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 			// round; "frozen" is a recorded state), fresh bedding on 01-11
 			// and a nest box.
 			"exposure": "outdoor", "weather_site": "YARD", "nest_box": true, "sheltered": true,
-			"days_at_or_below_water_limits": []any{
-				water("enclosures.csv:2", "2026-01-10", 0, 2, "weather.csv:2"),
-				water("enclosures.csv:2", "2026-01-11", -15, 2, "weather.csv:4"),
-				water("enclosures.csv:2", "2026-01-12", -25, 2, "weather.csv:6"),
-				water("enclosures.csv:2", "2026-01-13", -40, 2, "weather.csv:10"),
-			},
+			"days_at_or_below_water_limits_by_checks": water(2),
 			// Bedding 0–2 days old and a nest box: not selected.
 			"days_at_or_past_bedding_limits":                  []any{},
 			"days_at_or_below_shelter_limit_without_nest_box": []any{},
@@ -269,12 +271,7 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 		{"enclosure", "N-02", map[string]any{
 			"exposure": "outdoor", "weather_site": "YARD", "nest_box": false, "sheltered": false,
 			// At or below 0 °C from 01-10; not_checked does not count.
-			"days_at_or_below_water_limits": []any{
-				water("enclosures.csv:3", "2026-01-10", 0, 1, "weather.csv:2"),
-				water("enclosures.csv:3", "2026-01-11", -15, 1, "weather.csv:4"),
-				water("enclosures.csv:3", "2026-01-12", -25, 1, "weather.csv:6"),
-				water("enclosures.csv:3", "2026-01-13", -40, 1, "weather.csv:10"),
-			},
+			"days_at_or_below_water_limits_by_checks": water(1),
 			// Last bedding 01-04: 01-11 is 7 days on.
 			"days_at_or_past_bedding_limits": []any{
 				bedding("enclosures.csv:3", "2026-01-11", "2026-01-04", 7),
@@ -465,9 +462,12 @@ func TestColdWindlessReadings(t *testing.T) {
 	}
 	enc := f.docs["enclosure"]["N-02"]["cold"].(map[string]any)
 	var water, bedding []any
-	for _, d := range enc["days_at_or_below_water_limits"].([]any) {
-		water = append(water, d.(map[string]any)["on"])
+	for _, g := range enc["days_at_or_below_water_limits_by_checks"].([]any) {
+		for _, on := range g.(map[string]any)["on"].([]string) {
+			water = append(water, on)
+		}
 	}
+	sort.Slice(water, func(i, j int) bool { return water[i].(string) < water[j].(string) })
 	for _, d := range enc["days_at_or_past_bedding_limits"].([]any) {
 		bedding = append(bedding, d.(map[string]any)["on"])
 	}

@@ -209,8 +209,10 @@ func rabiesRecord(s *records.Staff, d records.Day, work []records.Ref) map[strin
 
 // rabiesRiskRounds returns whether a care round covers an enclosure occupied
 // that day by a rabies-risk species (a building round covers every
-// enclosure of its building). Results are kept per enclosure or building
-// and day, since a year of rounds names the same few hundred of each.
+// enclosure of its building). A building round's result is kept per
+// building and day, since a year of them names the same few hundred of
+// each; an enclosure's round is looked up directly (its occupancy is one
+// search in a short list, cheaper than a memo of a million enclosure days).
 func (f *facts) rabiesRiskRounds() func(r *records.CareRound) bool {
 	byBuilding := map[string][]string{}
 	for i := range f.set.Enclosures {
@@ -224,25 +226,19 @@ func (f *facts) rabiesRiskRounds() func(r *records.CareRound) bool {
 		})
 	}
 	type key struct {
-		id       string
-		building bool
+		building string
 		day      records.Day
 	}
 	memo := map[key]bool{}
 	return func(r *records.CareRound) bool {
-		k := key{r.EnclosureID, r.EnclosureID == "", r.Day}
-		if k.building {
-			k.id = r.BuildingID
+		if r.EnclosureID != "" {
+			return risky(r.EnclosureID, r.Day)
 		}
+		k := key{r.BuildingID, r.Day}
 		if v, ok := memo[k]; ok {
 			return v
 		}
-		v := false
-		if k.building {
-			v = slices.ContainsFunc(byBuilding[k.id], func(e string) bool { return risky(e, r.Day) })
-		} else {
-			v = risky(k.id, r.Day)
-		}
+		v := slices.ContainsFunc(byBuilding[k.building], func(e string) bool { return risky(e, r.Day) })
 		memo[k] = v
 		return v
 	}

@@ -18,7 +18,10 @@
 #     days_without_readings: [{from, until, days}], days_without_wind_readings: [{from, until,
 #     days, days_with_readings_without_wind, evidence}]}}.
 #   Input (enclosure, outdoor or sheltered buildings only): {id, ref, ..., cold: {exposure,
-#     weather_site, nest_box, sheltered, days_at_or_below_water_limits: [{on, min_air_c, checks, evidence}],
+#     weather_site, nest_box, sheltered, days_at_or_below_water_limits_by_checks: [{checks, on: [day],
+#     min_air_c: [°C], air_refs: [ref]}] (one group per number of water checks, fewest first; the
+#     days of a group in day order, its arrays parallel: the i-th day's lowest air temperature and
+#     the reading that gave it),
 #     days_at_or_past_bedding_limits: [DAY + min_air_c, bedding_below_c, more_bedding_at_or_below_c,
 #     last_bedding, days_since_bedding, evidence],
 #     days_at_or_below_shelter_limit_without_nest_box: [DAY + needs_nest_box, needs_shelter, evidence],
@@ -86,15 +89,16 @@ conditions(r) := sprintf("coldest wind chill %d °C on %s (air %v °C, %s)", [r.
 #   source: common practice
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
-	some w in input.cold.days_at_or_below_water_limits
-	w.min_air_c < lim.water_check_below_c
-	w.checks < lim.water_checks_min
+	some g in input.cold.days_at_or_below_water_limits_by_checks
+	g.checks < lim.water_checks_min
+	some i, on in g.on
+	g.min_air_c[i] < lim.water_check_below_c
 	f := {
 		"check": "cold.water.checks_insufficient",
 		"subject": input.id,
-		"on": w.on,
-		"message": sprintf("%s recorded on a day down to %v °C air; below %v °C at least %d are needed so frozen water is found", [count_of(w.checks, "water check", "water checks"), w.min_air_c, lim.water_check_below_c, lim.water_checks_min]),
-		"evidence": w.evidence,
+		"on": on,
+		"message": sprintf("%s recorded on a day down to %v °C air; below %v °C at least %d are needed so frozen water is found", [count_of(g.checks, "water check", "water checks"), g.min_air_c[i], lim.water_check_below_c, lim.water_checks_min]),
+		"evidence": [input.ref, g.air_refs[i]],
 	}
 }
 

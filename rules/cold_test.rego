@@ -10,7 +10,7 @@ import data.welfare.cold
 enc(cold_facts) := {"kind": "enclosure", "id": "SHED1-03", "ref": "enclosures.csv:4", "cold": object.union(
 	{
 		"exposure": "outdoor", "weather_site": "YARD", "nest_box": false,
-		"days_at_or_below_water_limits": [], "days_at_or_past_bedding_limits": [],
+		"days_at_or_below_water_limits_by_checks": [], "days_at_or_past_bedding_limits": [],
 		"days_at_or_below_shelter_limit_without_nest_box": [], "days_without_weather": [],
 	},
 	cold_facts,
@@ -73,7 +73,7 @@ test_clean_enclosure_no_findings if {
 }
 
 # Water: at least 2 checks below 0 °C (common practice).
-water(air, checks) := {"days_at_or_below_water_limits": [{"on": "2026-01-12", "min_air_c": air, "checks": checks, "evidence": ["enclosures.csv:4", "weather.csv:38"]}]}
+water(air, checks) := {"days_at_or_below_water_limits_by_checks": [{"checks": checks, "on": ["2026-01-12"], "min_air_c": [air], "air_refs": ["weather.csv:38"]}]}
 
 test_one_water_check_on_freezing_day_fires if {
 	some f in cold.findings with input as enc(water(-0.5, 1))
@@ -91,6 +91,20 @@ test_exactly_two_water_checks_is_quiet if {
 test_water_at_exactly_zero_is_quiet if {
 	# "below 0 °C": a day whose minimum is exactly 0 does not need two checks.
 	count(cold.findings) == 0 with input as enc(water(0, 0))
+}
+
+test_water_group_judges_each_day_with_its_own_reading if {
+	# One group of days with one check each: the day at exactly 0 °C is quiet, the day below
+	# fires with its own temperature and reading; a group with two checks is quiet however cold.
+	facts := {"days_at_or_below_water_limits_by_checks": [
+		{"checks": 1, "on": ["2026-01-11", "2026-01-12"], "min_air_c": [0, -3], "air_refs": ["weather.csv:30", "weather.csv:38"]},
+		{"checks": 2, "on": ["2026-01-13"], "min_air_c": [-30], "air_refs": ["weather.csv:46"]},
+	]}
+	fs := [f | some f in cold.findings with input as enc(facts)]
+	count(fs) == 1
+	fs[0].on == "2026-01-12"
+	fs[0].evidence == ["enclosures.csv:4", "weather.csv:38"]
+	contains(fs[0].message, "down to -3 °C")
 }
 
 # Bedding: wind chill at or below −20 (facility choice), none added in 7 days.
