@@ -14,7 +14,6 @@ import (
 	"strings"
 	"sync"
 	"time"
-	"unsafe"
 )
 
 // Options are what loading needs from outside the records folder.
@@ -119,16 +118,9 @@ type loaded[T any] struct {
 	warnings []Warning
 	plan     *plan
 	// chunks are the full blocks of accepted rows while reading: rows grow
-	// by blocks as they are read (sized from the file's length only after a
-	// full block, from the bytes those rows took, see grow) and are joined
-	// once at the end, sized by the rows actually accepted.
+	// by blocks as they are read (never sized from the file's length) and
+	// are joined once at the end, sized by the rows actually accepted.
 	chunks [][]T
-	// consumed, when known, tells how many bytes of the file have been read
-	// and its size, so that the rows can be sized once from the first block
-	// (see grow).
-	consumed func() (read, size int64)
-	// sized is set once the rows have been given their estimated capacity.
-	sized bool
 	// rejected maps the ids of rejected rows to their ref, so a reference to
 	// one can say why it is unknown.
 	rejected map[string]Ref
@@ -168,12 +160,6 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 			return l
 		}
 		defer f.Close()
-		if c, ok := f.(*capped); ok {
-			if st, err := c.f.Stat(); err == nil {
-				size := st.Size()
-				l.consumed = func() (int64, int64) { return c.limit - c.left, size }
-			}
-		}
 		br := bufio.NewReaderSize(f, 4096)
 		if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
 			_, _ = br.Discard(3)
@@ -463,33 +449,8 @@ func textCheck(rec []string, p *plan) *cellError {
 // maxChunk is the most rows in one block while reading.
 const maxChunk = 1 << 14
 
-// grow puts the full block of rows aside and starts a new one. Once a full
-// block has been read from a file whose size is known, the rows get one
-// slice sized from the bytes per row so far (with a margin), so that a
-// large file is not held twice while its blocks are joined; the estimate
-// is bounded by the file's own size (at most maxRowBytesPerByte bytes of
-// rows per byte of file). If the rows outgrow it, reading goes on by blocks.
+// grow puts the full block of rows aside and starts a new one.
 func (l *loaded[T]) grow() {
-	if !l.sized && l.consumed != nil && len(l.chunks) > 0 && cap(l.rows) >= maxChunk {
-		l.sized = true
-		if read, size := l.consumed(); read > 0 && size > read {
-			n := len(l.rows)
-			for _, c := range l.chunks {
-				n += len(c)
-			}
-			est := int64(float64(n)*float64(size)/float64(read)*1.05) + maxChunk
-			bound := size * maxRowBytesPerByte / max(int64(unsafe.Sizeof(*new(T))), 1)
-			if est = min(est, bound); est > int64(n+maxChunk) {
-				all := make([]T, 0, est)
-				for _, c := range l.chunks {
-					all = append(all, c...)
-				}
-				l.rows = append(all, l.rows...)
-				l.chunks = nil
-				return
-			}
-		}
-	}
 	next := 256
 	if c := cap(l.rows); c > 0 {
 		l.chunks = append(l.chunks, l.rows)
@@ -497,10 +458,6 @@ func (l *loaded[T]) grow() {
 	}
 	l.rows = make([]T, 0, next)
 }
-
-// maxRowBytesPerByte bounds the rows sized from a file's length: a care
-// round (about 170 bytes in memory) is read from about 50 bytes of CSV.
-const maxRowBytesPerByte = 8
 
 // flatten joins the blocks of rows into one slice.
 func (l *loaded[T]) flatten() {
