@@ -273,10 +273,8 @@ func (fu *FollowUp) actionStates(set *records.Set, p Period, judged []Finding, s
 // The set is copied when a row is rejected; the caller's is left as it was.
 func knownChecks(set *records.Set, checks []CheckInfo) *records.Set {
 	known := map[string]bool{}
-	var ids []string
 	for _, c := range checks {
 		known[c.ID] = true
-		ids = append(ids, c.ID)
 	}
 	var bad []int
 	for i := range set.CorrectiveActions {

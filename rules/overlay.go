@@ -180,18 +180,6 @@ func keyLine(doc *yaml.Node, key string) int {
 	return line
 }
 
-func mapValue(n *yaml.Node, key string) *yaml.Node {
-	if n == nil || n.Kind != yaml.MappingNode {
-		return nil
-	}
-	for i := 0; i+1 < len(n.Content); i += 2 {
-		if n.Content[i].Value == key {
-			return n.Content[i+1]
-		}
-	}
-	return nil
-}
-
 // LimitChange is one limit whose value differs from the shipped default.
 type LimitChange struct {
 	Key    string `json:"key"`

@@ -62,9 +62,6 @@ func windCell(r reading) string {
 	return num(r.wind, 0)
 }
 
-// siteOf is the weather site of an enclosure's building ("" when none).
-func (s *scenario) siteOf(enclID string) string { return s.buildingOf(enclID).site }
-
 // evaluateMissing adds the records.value.missing findings, worked out from
 // the scenario: the occupied days of K-02 and of S1's enclosures, the
 // windless day, and the non-emergency stints whose reading has no wind.
