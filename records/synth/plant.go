@@ -43,6 +43,17 @@ var plants = []plantFunc{
 		g.handle(a, i+3, "11:00", g.keeperOf(a.cage), nil)
 		g.plant("records.event.after_departure", a.id, i+3, -1)
 	})},
+	{"records.value.missing", each(func(g *gen) {
+		// A stint at 14:00 on a warm day without its 12:00 reading: the
+		// latest, at 09:00, is 5 h before the start, more than
+		// cold.reading_within_hours (3), so the work/warm-up schedule
+		// cannot judge it. The missing reading is neither the day's
+		// lowest nor its highest, and the baseline 09:00 stint has its own.
+		p, i := g.freshStaff(), g.someDay(warm)
+		g.noNoon[i] = true
+		g.stint(p.id, i, "14:00", "14:30")
+		g.plant("records.value.missing", p.id, i, -1)
+	})},
 	{"records.cull.mismatch", each(func(g *gen) {
 		a, i := g.animal(fox), g.dayIn(warm, 0, g.opt.Days-2)
 		g.cull(a, i, "V01", "barbiturate_overdose", nil)

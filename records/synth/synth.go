@@ -221,6 +221,7 @@ type gen struct {
 	envHumid   map[int]bool // kennel days with a humid reading
 	envNH3     map[int]bool // kennel days with an ammonia peak
 	heatPeak   map[int]bool // hot days with a 15:00 reading in the NWS extreme caution band
+	noNoon     map[int]bool // warm days without the 12:00 reading
 }
 
 // Generate writes the records folder and PLANTED.json into dir (created if
@@ -280,7 +281,7 @@ func SortPlanted(ps []Planted) {
 func newGen(opt Options) *gen {
 	g := &gen{opt: opt, rng: rand.New(rand.NewPCG(opt.Seed, 0x5eed)), snapAir: map[int]float64{}, care: map[[2]int]*careMod{},
 		deathSlots: map[string]bool{}, envDays: map[int]bool{}, envHot: map[int]bool{}, envHumid: map[int]bool{},
-		envNH3: map[int]bool{}, heatPeak: map[int]bool{}}
+		envNH3: map[int]bool{}, heatPeak: map[int]bool{}, noNoon: map[int]bool{}}
 	// Season: cos over the period, 1 (winter) at both ends, −1 (summer) in the middle.
 	for i := range opt.Days {
 		s := math.Cos(2 * math.Pi * float64(i) / float64(opt.Days))
@@ -654,6 +655,9 @@ func (g *gen) writeWeather(dir string) error {
 	}
 	for i := range g.opt.Days {
 		for h, hour := range readingHours {
+			if h == 4 && g.noNoon[i] {
+				continue
+			}
 			air, wind, humidity := g.reading(i, h)
 			c.row(stamp(i, fmt.Sprintf("%02d:00", hour)), site, strconv.FormatFloat(air, 'f', 1, 64), strconv.Itoa(int(wind)), strconv.Itoa(int(humidity)))
 		}
