@@ -215,20 +215,28 @@ func TestPackageBudget(t *testing.T) {
 	calib := engNew(t, src, nil, checker.EngineOptions{Workers: 1})
 	n, per := 100, time.Duration(0)
 	for ; n < 1_000_000; n *= 2 {
-		started := time.Now()
-		if _, err := calib.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-00", "n": n}}); err != nil {
-			t.Fatal(err)
+		// The fastest of three runs: the first warms the engine up, and a
+		// busy machine slows one run, never all three by much.
+		per = time.Hour
+		for range 3 {
+			started := time.Now()
+			if _, err := calib.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-00", "n": n}}); err != nil {
+				t.Fatal(err)
+			}
+			per = min(per, time.Since(started))
 		}
-		if per = time.Since(started); per >= 20*time.Millisecond {
+		if per >= 20*time.Millisecond {
 			break
 		}
 	}
-	inputs := make([]map[string]any, 40)
+	inputs := make([]map[string]any, 60)
 	for i := range inputs {
 		inputs[i] = map[string]any{"id": fmt.Sprintf("E-%02d", i+1), "n": n}
 	}
-	// 40 subjects of about per each against a budget of 10 of them.
-	budget := (10 * per).Round(time.Millisecond)
+	// 60 subjects of about per each against a budget of 8 of them: the
+	// budget still runs out when the calibration was slowed by a busy
+	// machine (per overestimated several times over).
+	budget := (8 * per).Round(time.Millisecond)
 	e := engNew(t, src, nil, checker.EngineOptions{Timeout: time.Minute, PackageBudget: budget, Workers: 1})
 	_, err := checker.EvaluateRun(context.Background(), e, "enclosure", inputs)
 	if !errors.Is(err, checker.ErrTimeBudget) {
@@ -238,9 +246,9 @@ func TestPackageBudget(t *testing.T) {
 	if !strings.HasPrefix(err.Error(), want) {
 		t.Fatalf("error = %q,\nwant it to start with %q", err, want)
 	}
-	if strings.HasPrefix(err.Error(), want+"01;") {
-		t.Errorf("the budget ran out on the first subject, not across subjects: %v", err)
-	}
+	// Which subject it ran out at depends on the machine's load; that it is
+	// the package's budget (each subject had a minute of its own) is what
+	// the message above proves.
 }
 
 // TestTotalBudget: the whole evaluation has its own budget, named with the
