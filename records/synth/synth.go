@@ -28,6 +28,10 @@
 // plants in plant.go): it changes a few rows of a subject no other plant
 // touches and records the finding it must cause. The planted list is never
 // computed by running the checker.
+//
+// With Options.Failing the folder is the failing farm instead (failing.go):
+// every enclosure fails every check it can, every day, the worst case for
+// the reports, with its findings listed by construction in PLANTED.json.
 package synth
 
 import (
@@ -55,6 +59,11 @@ type Options struct {
 	// --json` writes; package synth/review has the writer. Nil: no previous
 	// review is written and nothing that needs one is planted.
 	Review func(w io.Writer, r Review) error
+	// Failing writes the failing farm instead of the clean baseline with
+	// its planted problems: every enclosure fails every check it can,
+	// every day (see failAll), the worst case for the reports. Days may
+	// then be as few as MinFailingDays.
+	Failing bool
 }
 
 // Review is the invented previous review of the generated farm: its
@@ -231,18 +240,26 @@ func Generate(dir string, opt Options) ([]Planted, error) {
 	if opt.Animals < MinAnimals {
 		return nil, fmt.Errorf("--animals %d: at least %d, so every planted problem has its own animal", opt.Animals, MinAnimals)
 	}
-	if opt.Days < MinDays || opt.Days > MaxDays {
-		return nil, fmt.Errorf("--days %d: between %d and %d (a cold and a warm stretch, within one year of training records)", opt.Days, MinDays, MaxDays)
+	minDays := MinDays
+	if opt.Failing {
+		minDays = MinFailingDays
+	}
+	if opt.Days < minDays || opt.Days > MaxDays {
+		return nil, fmt.Errorf("--days %d: between %d and %d (a cold and a warm stretch, within one year of training records)", opt.Days, minDays, MaxDays)
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, err
 	}
 	g := newGen(opt)
-	g.baseline()
-	for _, p := range plants {
-		p.plant(g)
+	if opt.Failing {
+		g.failAll()
+	} else {
+		g.baseline()
+		for _, p := range plants {
+			p.plant(g)
+		}
+		g.plans()
 	}
-	g.plans()
 	if err := g.write(dir); err != nil {
 		return nil, err
 	}
@@ -499,6 +516,10 @@ func (g *gen) writeCare(dir string) error {
 	if err != nil {
 		return err
 	}
+	if g.opt.Failing {
+		g.failingCare(c)
+		return c.close()
+	}
 	// The baseline rows of a cage, written whole: the round's time, then
 	// these cells (the morning's ends with its cleaned cell).
 	amCells, pmCells := make([]string, len(g.cages)), make([]string, len(g.cages))
@@ -567,6 +588,10 @@ func (g *gen) writeHandling(dir string) error {
 		for ai := i % 30; ai < len(g.animals); ai += 30 {
 			a := &g.animals[ai]
 			if a.noHandlingFrom >= 0 && i >= a.noHandlingFrom {
+				continue
+			}
+			if g.opt.Failing {
+				c.row(g.failingWeighing(i, a)...)
 				continue
 			}
 			c.row(stamp(i, "10:00"), a.id, g.keeperOf(a.cage), "weighing", "gloved_hand", "2", "bite_resistant", "", "coverall", "no", "no", "", "", "")
@@ -684,6 +709,9 @@ func (g *gen) writeEnvironment(dir string) error {
 			}
 			if g.envNH3[i] && h == 4 {
 				nh3 = "32"
+			}
+			if g.opt.Failing {
+				air, humidity, nh3 = "31.0", "80", "32"
 			}
 			c.row(stamp(i, fmt.Sprintf("%02d:00", hour)), kennel, air, humidity, nh3)
 		}

@@ -244,3 +244,65 @@ func check(t *testing.T, dir string, previous bool) []synth.Planted {
 	synth.SortPlanted(got)
 	return got
 }
+
+// TestFailingFindingsEqualPlanted: the failing farm's findings are exactly
+// the list it plants by construction (every day check on every day, every
+// run check as one run), with and without a cleaning gap in the period and
+// with a freezing, a hard-cold, a warm and a hot stretch.
+func TestFailingFindingsEqualPlanted(t *testing.T) {
+	for _, opt := range []synth.Options{
+		{Animals: synth.MinAnimals, Days: synth.MinFailingDays, Seed: 1, Failing: true},
+		{Animals: 160, Days: 40, Seed: 2, Failing: true},
+	} {
+		t.Run(fmt.Sprintf("animals=%d/days=%d", opt.Animals, opt.Days), func(t *testing.T) {
+			dir := t.TempDir()
+			planted, err := synth.Generate(dir, opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if n := synth.FailingFindings(opt.Animals, opt.Days); n != len(planted) {
+				t.Errorf("FailingFindings(%d, %d) = %d, planted %d", opt.Animals, opt.Days, n, len(planted))
+			}
+			if diff := cmp.Diff(planted, check(t, dir, false)); diff != "" {
+				t.Errorf("findings differ from PLANTED.json (-planted +found):\n%s", diff)
+			}
+		})
+	}
+}
+
+// The failing farm is deterministic with the seed too, and the seed is
+// used (the weighings' minutes).
+func TestFailingSameSeedSameBytes(t *testing.T) {
+	read := func(seed uint64) map[string][]byte {
+		dir := t.TempDir()
+		if _, err := synth.Generate(dir, synth.Options{Animals: 120, Days: 8, Seed: seed, Failing: true}); err != nil {
+			t.Fatal(err)
+		}
+		out := map[string][]byte{}
+		entries, err := os.ReadDir(dir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, e := range entries {
+			if !e.IsDir() {
+				out[e.Name()], _ = os.ReadFile(filepath.Join(dir, e.Name()))
+			}
+		}
+		return out
+	}
+	a, b, c := read(3), read(3), read(4)
+	if len(a) < 10 {
+		t.Fatalf("files written: %d", len(a))
+	}
+	for name, x := range a {
+		if !bytes.Equal(x, b[name]) {
+			t.Errorf("%s differs between two runs with the same seed", name)
+		}
+	}
+	if bytes.Equal(a["handling.csv"], c["handling.csv"]) {
+		t.Errorf("seeds 3 and 4 wrote the same handling.csv")
+	}
+	if _, err := synth.Generate(t.TempDir(), synth.Options{Animals: 120, Days: synth.MinFailingDays - 1, Failing: true}); err == nil {
+		t.Errorf("failing farm of %d days: no error", synth.MinFailingDays-1)
+	}
+}
