@@ -59,7 +59,7 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 	if err := WriteCSV(&cs, r); err != nil {
 		return nil, fmt.Errorf("reports: attached findings.csv: %w", err)
 	}
-	b := &auditBuilder{r: r, opt: opt, tall: countFindings(r.Findings)}
+	b := &auditBuilder{r: r, opt: opt, tall: countFindings(r.Findings), groups: groupFindings(r)}
 	a := &Audit{
 		Title:       "Welfare records audit: " + orNone(r.Facility),
 		Subject:     "Period " + dayOrNone(r.Period.From) + " to " + dayOrNone(r.Period.To),
@@ -94,10 +94,63 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 }
 
 type auditBuilder struct {
-	r    *checker.Result
-	opt  PDFOptions
-	tall tally
-	out  []Block
+	r      *checker.Result
+	opt    PDFOptions
+	tall   tally
+	groups []domainGroup // the findings by domain and check, as the findings section lists them
+	out    []Block
+}
+
+// onPages is how many findings the findings section lists: at most
+// MaxPerCheck of each check.
+func (b *auditBuilder) onPages() int {
+	n := 0
+	for _, g := range b.groups {
+		for _, c := range g.checks {
+			n += b.shown(len(c.findings))
+		}
+	}
+	return n
+}
+
+// shown is how many of n rows a capped listing prints (MaxPerCheck; a
+// negative cap prints them all).
+func (b *auditBuilder) shown(n int) int {
+	if b.opt.MaxPerCheck > 0 && n > b.opt.MaxPerCheck {
+		return b.opt.MaxPerCheck
+	}
+	return n
+}
+
+// listing is a table of a figure that grows with the records or the
+// findings (deaths, open cases, plans, recurring problems, cleaning gaps):
+// over the cap (MaxPerCheck rows) its bold rows, those with a finding or
+// overdue, come first, the first MaxPerCheck are printed, and a line says
+// how many more there are and where they are (more names them: "deaths
+// in the attached findings.json (health.deaths)"). The pages of a report
+// stay bounded however many there are; the attached files hold them all.
+func (b *auditBuilder) listing(t *Table, more string) []Block {
+	n := b.shown(len(t.Rows))
+	if n == len(t.Rows) {
+		return []Block{{Kind: KindTable, Table: t}}
+	}
+	rows := slices.Clone(t.Rows)
+	slices.SortStableFunc(rows, func(x, y Row) int {
+		switch {
+		case x.Bold == y.Bold:
+			return 0
+		case x.Bold:
+			return -1
+		}
+		return 1
+	})
+	t.Rows = rows[:n]
+	first := ""
+	if rows[0].Bold {
+		first = " (those in bold first)"
+	}
+	return []Block{{Kind: KindTable, Table: t},
+		para(fmt.Sprintf("%d of %d listed%s; %d more %s.", n, len(rows), first, len(rows)-n, more), "italic", 8.5)}
 }
 
 func (b *auditBuilder) add(bl ...Block) { b.out = append(b.out, bl...) }
@@ -148,8 +201,13 @@ func (b *auditBuilder) cover() AuditSection {
 		keyValue("Findings", fmt.Sprintf("%d: %d significant, %d minor, %d note",
 			t.total(), t.severityTotal(checker.Significant), t.severityTotal(checker.Minor), t.severityTotal(checker.Note)), false, size),
 		keyValue("Reportable", reportableCover(r.Findings), false, size),
-		keyValue("Checks in force", checksInForce(r), false, size),
 	)
+	// A capped listing says so before the report is signed.
+	if n, all := b.onPages(), len(r.Findings); n < all {
+		b.add(keyValue("On these pages", fmt.Sprintf("%d of the %d findings (at most %d per check); all %d are in the attached findings.csv and findings.json",
+			n, all, b.opt.MaxPerCheck, all), false, size))
+	}
+	b.add(keyValue("Checks in force", checksInForce(r), false, size))
 	// The scope: what this report was limited to, switched off, changed or
 	// added, before anyone reads its counts as a pass.
 	for _, it := range scopeItems(r) {
@@ -309,7 +367,12 @@ func (b *auditBuilder) findings() AuditSection {
 		}
 		return b.section("Findings", true, "Findings")
 	}
-	for gi, g := range groupFindings(r) {
+	if n, all := b.onPages(), len(r.Findings); n < all {
+		b.add(space(2), Block{Kind: KindNotice, Text: fmt.Sprintf("%d of the %d findings are listed below, the first %d of each check "+
+			"(significant first); the other %d are not on these pages but in the attached findings.csv and findings.json, "+
+			"each check's count of them under its table.", n, all, b.opt.MaxPerCheck, all-n)})
+	}
+	for gi, g := range b.groups {
 		if gi > 0 {
 			b.add(space(3))
 		}
@@ -348,10 +411,7 @@ func (b *auditBuilder) checkFindings(c checkGroup) Block {
 	if c.findings[0].Reportable {
 		meta += ". Reportable: " + ReportableMark + " (PHS Policy IV.F.3)."
 	}
-	shown := len(c.findings)
-	if b.opt.MaxPerCheck > 0 && shown > b.opt.MaxPerCheck {
-		shown = b.opt.MaxPerCheck
-	}
+	shown := b.shown(len(c.findings))
 	for _, f := range c.findings[:shown] {
 		cells := findingCells(f)
 		cells[3] += "\n" + keyLine(b.r, f)

@@ -74,23 +74,25 @@ func (b *auditBuilder) sinceLast() AuditSection {
 		if len(rec) == 0 {
 			b.add(para("None.", "", 10))
 		} else {
-			b.add(Block{Kind: KindTable, Table: &Table{Size: 8.5, Caption: "Recurring significant problems", Columns: []Column{
+			b.add(b.listing(&Table{Size: 8.5, Caption: "Recurring significant problems", Columns: []Column{
 				{Head: "Check", Width: 55, Align: "L", Mono: true},
 				{Head: "Subject", Width: 25, Align: "L", Mono: true},
 				{Head: "This period", Width: 30, Align: "L"},
 				{Head: "Plan and schedule", Width: 70, Align: "L"},
-			}, Rows: rec}})
+			}, Rows: rec}, "in the attached findings.csv and findings.json (class recurring, severity significant)")...)
 		}
 		b.add(subheading(fmt.Sprintf("Resolved since the previous review (%d)", len(fu.Resolved)), 14))
 		if len(fu.Resolved) == 0 {
 			b.add(para("None.", "", 10))
 		} else {
-			b.add(Block{Kind: KindTable, Table: pastTable("Resolved since the previous review", fu.Resolved, false)})
+			b.add(b.listing(pastTable("Resolved since the previous review", fu.Resolved, false),
+				"in the attached findings.json (follow_up.resolved)")...)
 		}
 		if len(fu.NotRechecked) > 0 {
 			b.add(subheading(fmt.Sprintf("Not re-checked this time (%d)", len(fu.NotRechecked)), 14),
-				para("Their checks were not evaluated in this period, so whether they were corrected is not known.", "italic", 9),
-				Block{Kind: KindTable, Table: pastTable("Not re-checked this time", fu.NotRechecked, true)})
+				para("Their checks were not evaluated in this period, so whether they were corrected is not known.", "italic", 9))
+			b.add(b.listing(pastTable("Not re-checked this time", fu.NotRechecked, true),
+				"in the attached findings.json (follow_up.not_rechecked)")...)
 		}
 	} else {
 		b.add(para("No previous review was given (--previous), so findings are not classed new or recurring; "+
@@ -120,7 +122,7 @@ func (b *auditBuilder) sinceLast() AuditSection {
 			at.Rows = append(at.Rows, Row{Bold: a.Status == checker.StatusOverdue, Cells: []string{a.Status, a.Problem(),
 				a.Action.Plan, orDash(a.Action.Owner), a.Action.DueOn.String(), closed}})
 		}
-		b.add(Block{Kind: KindTable, Table: at})
+		b.add(b.listing(at, "in the attached findings.json (follow_up.corrective_actions) and the records' corrective_actions.csv")...)
 		b.add(para("9 CFR §2.31(c)(3): a significant deficiency not corrected by the date in its plan is reported to APHIS and "+
 			"any funding agency within 15 business days; the institution decides, with its attending veterinarian and committee.", "italic", 8.5))
 	}

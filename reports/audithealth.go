@@ -46,7 +46,7 @@ func (b *auditBuilder) healthSection() AuditSection {
 		for _, d := range h.Deaths {
 			tb.Rows = append(tb.Rows, Row{Cells: []string{d.On.String(), d.Animal, d.Species, orDash(d.Building), d.Cause, yesNo(d.Necropsy), string(d.Ref)}})
 		}
-		b.add(Block{Kind: KindTable, Table: tb})
+		b.add(b.listing(tb, "deaths in the attached findings.json (health.deaths)")...)
 
 		b.add(subheading("Mortality per building and month", 20),
 			para(fmt.Sprintf("Deaths (deaths.csv, not culls) against the building's mean daily population (animal-days ÷ days in the month). "+
@@ -74,7 +74,7 @@ func (b *auditBuilder) healthSection() AuditSection {
 			}
 			mt.Rows = append(mt.Rows, Row{Bold: m.High, Cells: []string{m.Building, m.Month.String()[:7], itoa(m.Deaths), itoa(m.AnimalDays), mean, rate, note}})
 		}
-		b.add(Block{Kind: KindTable, Table: mt})
+		b.add(b.listing(mt, "building-months in the attached findings.json (health.mortality), those over the limit also as health.mortality.high findings")...)
 	}
 
 	b.add(subheading("Veterinary cases open at the end of the period", 12))
@@ -101,7 +101,7 @@ func (b *auditBuilder) healthSection() AuditSection {
 			ct.Rows = append(ct.Rows, Row{Bold: c.Unreviewed, Cells: []string{c.Case, c.Animal, c.Diagnosis, c.Opened.String(),
 				dayOrDash(c.Reviewed), itoa(int(b.r.Period.To-c.Opened) + 1), note}})
 		}
-		b.add(Block{Kind: KindTable, Table: ct})
+		b.add(b.listing(ct, "open cases in the attached findings.json (health.open_cases), those unreviewed also as health.case.unreviewed findings")...)
 	}
 
 	keep := 12.0
@@ -156,7 +156,7 @@ func (b *auditBuilder) healthSection() AuditSection {
 			lt.Rows = append(lt.Rows, Row{Cells: []string{l.Litter, l.Dam, l.Species, l.Whelped.String(), l.WeanedOn.String(),
 				itoa(l.AgeDays), minDays, itoa(l.Born) + " / " + weaned}})
 		}
-		b.add(Block{Kind: KindTable, Table: lt})
+		b.add(b.listing(lt, "litters in the attached findings.json (health.early_weaning) and as litter.weaning.early findings")...)
 	}
 	return b.section("Health and mortality", true, "Health and mortality")
 }

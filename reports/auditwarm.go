@@ -100,7 +100,7 @@ func (b *auditBuilder) warmSeason() AuditSection {
 		}
 		tb.Rows = append(tb.Rows, Row{Bold: g.Overdue, Cells: []string{g.Enclosure, g.From.String(), g.Until.String(), itoa(g.Days), note}})
 	}
-	b.add(Block{Kind: KindTable, Table: tb})
+	b.add(b.listing(tb, "gaps; every overdue one is a care.cleaning.overdue finding in the attached findings.csv and findings.json")...)
 	return b.section(title, true, title)
 }
 
