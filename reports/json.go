@@ -1,7 +1,10 @@
 package reports
 
 import (
+	"bufio"
+	"bytes"
 	"encoding/json"
+	"fmt"
 	"io"
 
 	"welfare/checker"
@@ -445,10 +448,54 @@ func jsonPast(ps []checker.PastProblem) []JSONPastProblem {
 // WriteJSON writes r as one JSON object (indented by two spaces): facility,
 // period, fingerprint, accounting, findings, checks, not_evaluated, warnings
 // care_coverage and, when health records were read, health (see JSONReport). Dates are YYYY-MM-DD.
+//
+// The findings are written one at a time, each indented as in the whole
+// document, so a run with hundreds of thousands of findings is not held
+// twice more in memory (marshalled, then indented) on its way out.
 func WriteJSON(w io.Writer, r *checker.Result) error {
+	doc := NewJSONReport(r)
+	findings := doc.Findings
+	doc.Findings = nil // written as null, then replaced by the streamed array
+	var head bytes.Buffer
+	if err := encodeJSON(&head, doc, ""); err != nil {
+		return err
+	}
+	const hole = "\n  \"findings\": null"
+	at := bytes.Index(head.Bytes(), []byte(hole))
+	if at < 0 {
+		return fmt.Errorf("reports: findings.json: no place for the findings in the document")
+	}
+	at += len(hole) - len("null")
+	bw := bufio.NewWriterSize(w, 1<<16)
+	bw.Write(head.Bytes()[:at])
+	if len(findings) == 0 {
+		bw.WriteString("[]")
+	} else {
+		bw.WriteString("[\n")
+		var one bytes.Buffer
+		for i := range findings {
+			one.Reset()
+			if err := encodeJSON(&one, &findings[i], "    "); err != nil {
+				return err
+			}
+			bw.WriteString("    ")
+			bw.Write(bytes.TrimSuffix(one.Bytes(), []byte("\n")))
+			if i < len(findings)-1 {
+				bw.WriteByte(',')
+			}
+			bw.WriteByte('\n')
+		}
+		bw.WriteString("  ]")
+	}
+	bw.Write(head.Bytes()[at+len("null"):])
+	return bw.Flush()
+}
+
+// encodeJSON writes v indented by two spaces under prefix, HTML left as it
+// is: messages quote limits such as "≤ −20 °C"; keep them readable.
+func encodeJSON(w io.Writer, v any, prefix string) error {
 	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	// Messages quote limits such as "≤ −20 °C"; keep them readable.
+	enc.SetIndent(prefix, "  ")
 	enc.SetEscapeHTML(false)
-	return enc.Encode(NewJSONReport(r))
+	return enc.Encode(v)
 }

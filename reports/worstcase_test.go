@@ -3,6 +3,7 @@ package reports_test
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"fmt"
 	"io"
 	"os"
@@ -190,5 +191,30 @@ func BenchmarkWorstCase(b *testing.B) {
 				})
 			}
 		})
+	}
+}
+
+// WriteJSON streams the findings one by one; the bytes are those of the
+// whole document encoded at once (two-space indent, HTML not escaped),
+// with findings, none, and a message that needs escaping.
+func TestWriteJSONStreamsSameBytes(t *testing.T) {
+	for _, n := range []int{0, 1, 320} {
+		r := sampleResult(n)
+		if n > 0 {
+			r.Findings[0].Message = "wind chill ≤ −20 <said \"twice\"> & more\n"
+		}
+		var got, want bytes.Buffer
+		if err := reports.WriteJSON(&got, r); err != nil {
+			t.Fatal(err)
+		}
+		enc := json.NewEncoder(&want)
+		enc.SetIndent("", "  ")
+		enc.SetEscapeHTML(false)
+		if err := enc.Encode(reports.NewJSONReport(r)); err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(got.Bytes(), want.Bytes()) {
+			t.Errorf("%d findings: streamed JSON differs from the document encoded whole (%d vs %d bytes)", n, got.Len(), want.Len())
+		}
 	}
 }
