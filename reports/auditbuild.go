@@ -149,7 +149,7 @@ func (b *auditBuilder) listing(t *Table, more string) []Block {
 	if rows[0].Bold {
 		first = " (those in bold first)"
 	}
-	return []Block{{Kind: KindTable, Table: t},
+	return []Block{{Kind: KindTable, Table: t}, space(1),
 		para(fmt.Sprintf("%d of %d listed%s; %d more %s.", n, len(rows), first, len(rows)-n, more), "italic", 8.5)}
 }
 
