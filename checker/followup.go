@@ -61,6 +61,10 @@ type FollowUp struct {
 	NotRechecked []PastProblem `json:"-"`
 	// Actions are the corrective actions, overdue first, then by due date.
 	Actions []ActionState `json:"-"`
+	// byProblem indexes Actions by check and subject (ProblemOf), so a
+	// report asking for each of many findings' action does not compare it
+	// with every action; nil when built by hand (ActionFor then scans).
+	byProblem map[string][]int
 }
 
 // PastProblem is one problem of the previous review: its check, subject,
@@ -114,15 +118,23 @@ func (r *Result) ActionFor(f *Finding) *ActionState {
 		return nil
 	}
 	var best *ActionState
-	for i := range r.FollowUp.Actions {
-		a := &r.FollowUp.Actions[i]
+	consider := func(a *ActionState) {
 		if !Answers(&a.Action, f.Check, f.Subject, f.On) {
-			continue
+			return
 		}
 		if best == nil || (!a.Action.FoundOn.IsZero() && best.Action.FoundOn.IsZero()) ||
 			(a.Action.FoundOn.IsZero() == best.Action.FoundOn.IsZero() && a.Action.DueOn > best.Action.DueOn) {
 			best = a
 		}
+	}
+	if fu := r.FollowUp; fu.byProblem != nil {
+		for _, i := range fu.byProblem[ProblemOf(f.Check, f.Subject)] {
+			consider(&fu.Actions[i])
+		}
+		return best
+	}
+	for i := range r.FollowUp.Actions {
+		consider(&r.FollowUp.Actions[i])
 	}
 	return best
 }
@@ -265,6 +277,11 @@ func (fu *FollowUp) actionStates(set *records.Set, p Period, judged []Finding, s
 		}
 		return strings.Compare(a.Problem(), b.Problem())
 	})
+	fu.byProblem = make(map[string][]int, len(fu.Actions))
+	for i := range fu.Actions {
+		k := ProblemOf(fu.Actions[i].Action.Check, fu.Actions[i].Action.Subject)
+		fu.byProblem[k] = append(fu.byProblem[k], i)
+	}
 }
 
 // knownChecks rejects the corrective actions whose check is not a check in

@@ -211,3 +211,31 @@ func TestFollowUpWithoutPrevious(t *testing.T) {
 		}
 	}
 }
+
+// TestActionForIndexed: the index by check and subject picks, for every
+// finding of the demo, the action a scan of every action picks (the
+// demo's plans include one per finding day and one for a whole problem).
+func TestActionForIndexed(t *testing.T) {
+	res := followCheck(t, nil, followPrevious(t))
+	if res.FollowUp.byProblem == nil {
+		t.Fatal("the follow-up has no action index")
+	}
+	scan := *res
+	fu := *res.FollowUp
+	fu.byProblem = nil
+	scan.FollowUp = &fu
+	answered := 0
+	for i := range res.Findings {
+		f := &res.Findings[i]
+		got, want := res.ActionFor(f), scan.ActionFor(f)
+		if (got == nil) != (want == nil) || (got != nil && got.Action != want.Action) {
+			t.Errorf("%s: indexed %v, scanned %v", f.Key(), got, want)
+		}
+		if got != nil {
+			answered++
+		}
+	}
+	if answered == 0 {
+		t.Fatal("no demo finding has an action: the comparison tested nothing")
+	}
+}
