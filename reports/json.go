@@ -150,6 +150,9 @@ type JSONCheck struct {
 	Subjects    []string `json:"subjects,omitempty"`
 	// Escalation: when a finding's severity departs from the default.
 	Escalation string `json:"escalation,omitempty"`
+	// Period: "review" for a check judged over a review period, not day
+	// by day (custom.period); absent for a daily check.
+	Period string `json:"period,omitempty"`
 	// Local: defined by a rule file not shipped with welfare.
 	Local bool `json:"local,omitempty"`
 }
@@ -390,7 +393,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	for i, c := range r.Checks {
 		doc.Checks[i] = JSONCheck{ID: c.ID, Domain: c.Domain, Title: c.Title, Description: c.Description,
 			Severity: string(c.Severity), Source: c.Source, Package: c.Package, File: c.File,
-			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects, Escalation: c.Escalation, Local: c.Local}
+			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects, Escalation: c.Escalation, Period: c.Period, Local: c.Local}
 	}
 	for i, s := range r.NotEvaluated {
 		doc.NotEvaluated[i] = JSONNotEvaluated{Check: s.Check, Reason: s.Reason}

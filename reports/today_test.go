@@ -2,9 +2,12 @@ package reports_test
 
 import (
 	"bytes"
+	"context"
 	"fmt"
+	"slices"
 	"strings"
 	"testing"
+	"testing/fstest"
 	"time"
 	"unicode/utf8"
 
@@ -151,6 +154,70 @@ func TestWriteTodayNoAllClear(t *testing.T) {
 	}
 	if !strings.Contains(b.String(), "No all-clear can be given: ") {
 		t.Errorf("view does not say why there is no all-clear:\n%s", b.String())
+	}
+}
+
+// A check whose METADATA says it is judged over a review period
+// (custom.period: review) does not hold back a keeper's all-clear when it
+// cannot run: the shipped follow-up checks (correction.*) and a committee's
+// own rule with the flag alike. A committee rule without the flag still does.
+func TestWriteTodayLeavesOutReviewPeriodChecks(t *testing.T) {
+	ctx := context.Background()
+	lim, err := rules.ParseLimits("limits.yaml (built in)", rules.DefaultLimits())
+	if err != nil {
+		t.Fatal(err)
+	}
+	rule := func(id, extra string) string {
+		return "# METADATA\n# title: " + id + "\n# description: A committee check under test.\n# custom:\n" +
+			"#   id: " + id + "\n#   severity: minor\n#   source: facility choice\n" + extra +
+			"findings contains f if {\n\tinput.id == \"never\"\n\tf := {\"check\": \"" + id +
+			"\", \"subject\": input.id, \"on\": \"2026-01-13\", \"message\": \"m\", \"evidence\": []}\n}\n\n"
+	}
+	local := fstest.MapFS{"audit.rego": {Data: []byte("# METADATA\n# title: Committee audit\n# description: Test rules.\n" +
+		"# scope: package\n# custom:\n#   subjects: [enclosure]\npackage welfare.audit\n\n" +
+		rule("audit.logbook.unsigned", "#   needs: [logbook.csv]\n#   period: review\n") +
+		rule("audit.gate.unlocked", "#   needs: [gates.csv]\n"))}}
+	policy, err := checker.Compile(ctx, lim, []checker.Source{{Name: "rules", FS: rules.FS()},
+		{Name: "ours", FS: local, Local: true}}, checker.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	periods := map[string]string{}
+	for _, c := range policy.Checks() {
+		periods[c.ID] = c.Period
+	}
+	for _, id := range []string{"correction.overdue", "correction.recurred", "correction.plan.missing", "audit.logbook.unsigned"} {
+		if periods[id] != checker.PeriodReview {
+			t.Errorf("check %s: period %q, want %q", id, periods[id], checker.PeriodReview)
+		}
+	}
+	if p := periods["audit.gate.unlocked"]; p != "" {
+		t.Errorf("check audit.gate.unlocked: period %q, want none", p)
+	}
+
+	set, _, day := todayFixture()
+	r := &checker.Result{Facility: "Birchfall Fur Research Station", Checks: policy.Checks(),
+		NotEvaluated: []checker.Skipped{
+			{Check: "correction.overdue", Reason: "no corrective_actions.csv in the records folder"},
+			{Check: "audit.logbook.unsigned", Reason: "no logbook.csv in the records folder"},
+		}}
+	view := func() reports.TodayVerdict {
+		t.Helper()
+		var b bytes.Buffer
+		v, err := reports.WriteToday(&b, r, reports.TodayOptions{Day: day, At: 6 * 60, Records: set})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	for _, m := range view().Missing {
+		if strings.Contains(m, "could not run") {
+			t.Errorf("a review-period check holds back the all-clear: %q", m)
+		}
+	}
+	r.NotEvaluated = append(r.NotEvaluated, checker.Skipped{Check: "audit.gate.unlocked", Reason: "no gates.csv in the records folder"})
+	if got := view().Missing; !slices.Contains(got, "1 check could not run without gates.csv") {
+		t.Errorf("missing = %q, want the day check without gates.csv named", got)
 	}
 }
 
