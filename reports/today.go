@@ -428,8 +428,9 @@ func weatherLines(set *records.Set, o TodayOptions) (lines []string, hot bool, m
 		}
 		last := rows[len(rows)-1]
 		if math.IsInf(minWC, 1) && minAir <= 0 {
-			lines = append(lines, fmt.Sprintf("  %s: no reading with wind yet today (air down to %s °C): record the wind; the wind-chill checks wait for it",
-				site, morningNum(minAir)))
+			// Two lines: on one, the screen's width cut off what to do.
+			lines = append(lines, fmt.Sprintf("  %s: no reading with wind yet today (air down to %s °C)", site, morningNum(minAir)),
+				"    record the wind: the wind-chill checks wait for it")
 			missing = append(missing, "no weather reading with wind today at "+site)
 			continue
 		}

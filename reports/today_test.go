@@ -137,6 +137,60 @@ func TestWriteTodayWeather(t *testing.T) {
 	}
 }
 
+// A freezing day whose readings have no wind: the view says the wind-chill
+// checks wait for it and gives no all-clear; once one reading has wind the
+// line gives way to the coldest wind chill.
+func TestWriteTodayNoWindYet(t *testing.T) {
+	const noWind = "  YARD: no reading with wind yet today (air down to -40 °C)"
+	wind := func(v float64) *float64 { return &v }
+	tests := []struct {
+		name     string
+		winds    [2]*float64 // of the 03:00 (−40 °C) and 06:00 (−36.5 °C) readings
+		want     string      // the site's first weather line
+		missing  bool        // "no weather reading with wind today at YARD" among the reasons
+		notWants string
+	}{
+		{"no reading has wind", [2]*float64{nil, nil}, noWind, true, ""},
+		// Environment Canada wind chill formula, −36.5 °C air, 5 km/h:
+		// 13.12 + 0.6215·T − 11.37·V^0.16 + 0.3965·T·V^0.16 = −43.0.
+		{"one reading has wind", [2]*float64{nil, wind(5)},
+			"  YARD: coldest wind chill -43 °C at 06:00 (air -36.5 °C, wind 5 km/h)", false, noWind},
+		{"calm is a wind of 0 km/h, not a missing one", [2]*float64{wind(0), nil},
+			"  YARD: coldest wind chill -40 °C at 03:00 (air -40 °C, wind 0 km/h)", false, noWind},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			set, _, day := todayFixture()
+			set.Weather[0].WindKmh, set.Weather[1].WindKmh = tc.winds[0], tc.winds[1]
+			r := &checker.Result{Facility: "Birchfall Fur Research Station"}
+			var b bytes.Buffer
+			v, err := reports.WriteToday(&b, r, reports.TodayOptions{Day: day, At: 6 * 60, Records: set, Plain: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			lines := strings.Split(b.String(), "\n")
+			if len(lines) < 3 || lines[1] != "Weather so far:" || lines[2] != tc.want {
+				t.Errorf("weather lines, want %q after the heading:\n%s", tc.want, b.String())
+			}
+			if tc.missing && (len(lines) < 4 || lines[3] != "    record the wind: the wind-chill checks wait for it") {
+				t.Errorf("no line saying what to do after %q:\n%s", tc.want, b.String())
+			}
+			if strings.Contains(b.String(), "…") {
+				t.Errorf("a line is cut at the screen's edge:\n%s", b.String())
+			}
+			if tc.notWants != "" && strings.Contains(b.String(), tc.notWants) {
+				t.Errorf("view says %q:\n%s", tc.notWants, b.String())
+			}
+			if got := slices.Contains(v.Missing, "no weather reading with wind today at YARD"); got != tc.missing {
+				t.Errorf("missing = %q; want the wind reason %v", v.Missing, tc.missing)
+			}
+			if tc.missing && v.AllClear() {
+				t.Error("an all-clear without a reading with wind")
+			}
+		})
+	}
+}
+
 // No reading yet and checks that could not run: no all-clear, saying why.
 func TestWriteTodayNoAllClear(t *testing.T) {
 	set, _, day := todayFixture()
