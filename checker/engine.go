@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"path"
 	"runtime"
 	"slices"
 	"sort"
@@ -122,24 +121,9 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 	if err != nil {
 		return nil, err
 	}
-	// A check is local when its file comes from a Source marked Local
-	// (file names as parseSources gives them).
-	localSource := map[string]bool{}
-	for _, s := range sources {
-		localSource[s.Name] = s.Local
-	}
-	local := map[string]bool{}
-	for _, f := range files {
-		name := f.path
-		if f.source != "" {
-			name = path.Join(f.source, f.path)
-		}
-		local[name] = localSource[f.source]
-	}
 	for id, reads := range limitReads(compiler.Modules, checks) {
 		c := checks[id]
 		c.Limits = reads
-		c.Local = local[c.File]
 		checks[id] = c
 	}
 	store := limitsStore(limits)
@@ -155,14 +139,10 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 		ruleAt:       ruleAt,
 		packageRules: packageRules,
 	}
-	// A check is also local when its file is not one of the shipped rule
-	// files as shipped (an edited copy of a shipped package).
-	edited := localFiles(files)
+	local := localFiles(sources, files)
 	for id, c := range checks {
-		if edited[c.File] {
-			c.Local = true
-			checks[id] = c
-		}
+		c.Local = local[c.File]
+		checks[id] = c
 		e.sorted = append(e.sorted, c)
 	}
 	sort.Slice(e.sorted, func(i, j int) bool { return e.sorted[i].ID < e.sorted[j].ID })

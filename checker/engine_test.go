@@ -160,6 +160,13 @@ func TestNewEngineRulesErrors(t *testing.T) {
 			},
 		},
 		{
+			name: "unknown period",
+			files: map[string]string{"period.rego": strings.Replace(engHeader,
+				"severity: minor\n", "severity: minor\n#   period: week\n", 1) +
+				"findings contains \"x\" if false\n"},
+			want: []string{"user/period.rego:9:1: check sandbox.probe.fired: custom.period must be day or review, not week"},
+		},
+		{
 			name: "check id in two packages",
 			files: map[string]string{
 				"a.rego": engHeader + "findings contains \"x\" if false\n",

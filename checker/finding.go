@@ -83,11 +83,25 @@ type CheckInfo struct {
 	// Escalation is custom.escalation: when a finding's severity departs
 	// from the default ("significant from 2 days in a row").
 	Escalation string `json:"escalation,omitempty"`
+	// Period is custom.period: the stretch of time the check is judged
+	// over. "review" (PeriodReview) is a review period, as for the
+	// follow-up of corrective plans: a keeper's view of one day leaves such
+	// a check out. Empty (or "day" in the METADATA) is the default: the
+	// check judges days.
+	Period string `json:"period,omitempty"`
 	// Local: the check is the committee's own — from a Source marked Local
 	// (a --rules folder), or a rule file that is not one of the shipped
 	// rules as shipped (an edited copy); outputs mark it "local rule".
 	Local bool `json:"local,omitempty"`
 }
+
+// PeriodReview is the custom.period of a check judged over a review period,
+// not a keeper's day.
+const PeriodReview = "review"
+
+// ReviewPeriod reports whether the check is judged over a review period
+// (custom.period: review) rather than day by day.
+func (c CheckInfo) ReviewPeriod() bool { return c.Period == PeriodReview }
 
 // Skipped is a check that was not evaluated, and why.
 type Skipped struct {

@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"slices"
-	"strconv"
 	"strings"
 	"welfare/records"
 )
@@ -152,21 +151,28 @@ func (e *engine) toFinding(pkg string, raw any, lines map[string]int) (f Finding
 // bare FILE (a file-level problem); a workbook's FILE:SHEET!ROW or
 // FILE:SHEET!CELL needs its file read (its rows are not counted in lines).
 func refNamesNoRow(ref string, lines map[string]int) string {
-	file, rest, hasLine := strings.Cut(ref, ":")
+	if !strings.Contains(ref, ":") {
+		if _, read := lines[ref]; !read {
+			return fmt.Sprintf("%s is not a record file that was read", shorten(ref, 60))
+		}
+		return "" // the whole file, as a file-level problem names it
+	}
+	p, err := records.ParseRef(ref)
+	file := p.File
+	if err != nil {
+		file = ref[:strings.LastIndexByte(ref, ':')]
+	}
 	n, read := lines[file]
 	switch {
 	case !read:
 		return fmt.Sprintf("%s is not a record file that was read", shorten(file, 60))
-	case !hasLine:
-		return "" // the whole file, as a file-level problem names it
+	case err != nil:
+		return "it is not FILE:LINE"
 	case strings.HasSuffix(file, ".xlsx"):
 		return "" // a workbook's sheet, row or cell: rows are not counted as lines
-	}
-	line, err := strconv.Atoi(rest)
-	switch {
-	case err != nil || line < 1:
-		return "it is not FILE:LINE"
-	case line > n:
+	case p.Sheet != "":
+		return "it is not FILE:LINE" // a sheet of a text file
+	case p.Line > n:
 		return fmt.Sprintf("%s has %d lines", file, n)
 	}
 	return ""
@@ -182,14 +188,18 @@ func sortRefs(refs []records.Ref) []records.Ref {
 	return slices.Compact(refs)
 }
 
+// compareRefs orders refs by file, then sheet, then line (or row) as a
+// number, then text; a malformed ref sorts by its whole text, before lines.
 func compareRefs(a, b records.Ref) int {
-	fa, la := splitRef(a)
-	fb, lb := splitRef(b)
-	if c := strings.Compare(fa, fb); c != 0 {
+	pa, pb := refOrder(a), refOrder(b)
+	if c := strings.Compare(pa.File, pb.File); c != 0 {
 		return c
 	}
-	if la != lb {
-		if la < lb {
+	if c := strings.Compare(pa.Sheet, pb.Sheet); c != 0 {
+		return c
+	}
+	if pa.Line != pb.Line {
+		if pa.Line < pb.Line {
 			return -1
 		}
 		return 1
@@ -197,18 +207,12 @@ func compareRefs(a, b records.Ref) int {
 	return strings.Compare(string(a), string(b))
 }
 
-func splitRef(r records.Ref) (string, int) {
-	s := string(r)
-	// FILE:LINE, or a workbook's FILE:SHEET!ROW or FILE:SHEET!CELL (C212).
-	i := strings.LastIndexAny(s, ":!")
-	if i < 0 {
-		return s, -1
-	}
-	n, err := strconv.Atoi(strings.TrimLeft(s[i+1:], "ABCDEFGHIJKLMNOPQRSTUVWXYZ"))
+func refOrder(r records.Ref) records.RefPlace {
+	p, err := records.ParseRef(string(r))
 	if err != nil {
-		return s, -1
+		return records.RefPlace{File: string(r), Line: -1}
 	}
-	return s[:i], n
+	return p
 }
 
 // collapseRuns merges, for checks marked runs, findings of the same check

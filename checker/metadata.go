@@ -245,6 +245,16 @@ func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, stri
 		}
 		info.Escalation = s
 	}
+	if r, has := a.Custom["period"]; has {
+		switch s, _ := r.(string); s {
+		case "day":
+		case PeriodReview:
+			info.Period = s
+		default:
+			at(a.Location, "check %s: custom.period must be day or %s, not %v", id, PeriodReview, r)
+			good = false
+		}
+	}
 	if n, has := a.Custom["needs"]; has {
 		needs, err := metaStrings(n)
 		if err != nil {
@@ -258,7 +268,7 @@ func metaCheck(a *ast.Annotations, pkg, file string, at func(*ast.Location, stri
 
 func sameCheck(a, b CheckInfo) bool {
 	return a.Title == b.Title && a.Description == b.Description && a.Severity == b.Severity &&
-		a.Source == b.Source && a.Runs == b.Runs && a.Reportable == b.Reportable && a.Escalation == b.Escalation && slices.Equal(a.Needs, b.Needs)
+		a.Source == b.Source && a.Runs == b.Runs && a.Reportable == b.Reportable && a.Escalation == b.Escalation && a.Period == b.Period && slices.Equal(a.Needs, b.Needs)
 }
 
 func metaStrings(v any) ([]string, error) {

@@ -116,9 +116,13 @@ var shippedPackages = func() map[string]bool {
 	return m
 }()
 
-func isShippedFile(p string, b []byte) bool {
-	s, ok := shippedFiles[p]
-	return ok && bytes.Equal(s, b)
+// shipped reports whether f is one of the shipped rule files byte for byte,
+// whatever source gives it. It is the one test of both questions asked of a
+// rule file: is it trusted (not held to a rules folder's package limits,
+// parseSources), and are its checks the committee's own (localFiles)?
+func (f ruleFile) shipped() bool {
+	s, ok := shippedFiles[f.path]
+	return ok && bytes.Equal(s, f.data)
 }
 
 // packageParts is a module's package path without data: [welfare care].
@@ -212,7 +216,8 @@ func parseSources(sources []Source, tests bool) (map[string]*ast.Module, []ruleF
 			if err != nil {
 				return err
 			}
-			files = append(files, ruleFile{source: src.Name, path: p, data: b})
+			rf := ruleFile{source: src.Name, path: p, data: b}
+			files = append(files, rf)
 			m, err := ast.ParseModuleWithOpts(name, string(b), opts)
 			if err != nil {
 				problems = append(problems, formatASTErrors(err)...)
@@ -222,7 +227,7 @@ func parseSources(sources []Source, tests bool) (map[string]*ast.Module, []ruleF
 				problems = append(problems, name+":1:1: empty policy file (no package)")
 				return nil
 			}
-			if !src.Trusted && !isShippedFile(p, b) {
+			if !src.Trusted && !rf.shipped() {
 				if msg := containPackage(m); msg != "" {
 					problems = append(problems, msg)
 					return nil

@@ -1,10 +1,8 @@
 package checker
 
 import (
-	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
-	"io/fs"
 	"path"
 	"slices"
 	"strings"
@@ -41,27 +39,28 @@ type LocalRules struct {
 }
 
 // localFiles marks the rule files (by their name as CheckInfo.File gives
-// it) whose text is not the shipped file of the same path.
-func localFiles(files []ruleFile) map[string]bool {
+// it) whose checks are the committee's own: those of a Source marked Local,
+// and those whose text is not the shipped file of the same path (an edited
+// copy of a shipped package, a test policy).
+func localFiles(sources []Source, files []ruleFile) map[string]bool {
+	localSource := map[string]bool{}
+	for _, s := range sources {
+		localSource[s.Name] = s.Local
+	}
 	out := map[string]bool{}
 	for _, f := range files {
-		if !shipped(f) {
+		if localSource[f.source] || !f.shipped() {
 			out[path.Join(f.source, f.path)] = true
 		}
 	}
 	return out
 }
 
-func shipped(f ruleFile) bool {
-	b, err := fs.ReadFile(rules.FS(), f.path)
-	return err == nil && bytes.Equal(b, f.data)
-}
-
 // localRules groups the local rule files (tests left out) by source.
 func localRules(files []ruleFile) []LocalRules {
 	var out []LocalRules
 	for _, f := range files {
-		if shipped(f) || isTest(f.path) {
+		if f.shipped() || isTest(f.path) {
 			continue
 		}
 		if len(out) == 0 || out[len(out)-1].Source != f.source {

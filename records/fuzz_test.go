@@ -322,21 +322,22 @@ func FuzzFacilityYAML(f *testing.F) {
 	})
 }
 
-// FuzzParseRef: a ref parses back into the file and line it was made of.
+// FuzzParseRef: a ref parses back into the place it was made of.
 func FuzzParseRef(f *testing.F) {
-	for _, s := range []string{"daily_care.csv:212", "facility.yaml:7", "a:b:3", ":3", "x:", "x:0", "x:01", "x:-1", "x:99999999999"} {
+	for _, s := range []string{"daily_care.csv:212", "facility.yaml:7", "a:b:3", ":3", "x:", "x:0", "x:01", "x:-1", "x:99999999999",
+		"records.xlsx:daily_care!212", "records.xlsx:daily_care!E4", "x.xlsx:!5", "x.xlsx:s!XFE4", "x.xlsx:s!E"} {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {
-		file, line, err := ParseRef(s)
+		p, err := ParseRef(s)
 		if err != nil {
 			return
 		}
-		if file == "" || line < 1 {
-			t.Fatalf("ParseRef(%q) = %q, %d", s, file, line)
+		if p.File == "" || p.Line < 1 || (p.Column != "" && p.Sheet == "") {
+			t.Fatalf("ParseRef(%q) = %+v", s, p)
 		}
-		if got := string(MakeRef(file, line)); got != s {
-			t.Fatalf("ParseRef(%q) = %q, %d, which makes %q", s, file, line, got)
+		if got := string(p.Ref()); got != s {
+			t.Fatalf("ParseRef(%q) = %+v, which makes %q", s, p, got)
 		}
 	})
 }
@@ -345,9 +346,9 @@ func FuzzParseRef(f *testing.F) {
 func TestRefRoundTrip(t *testing.T) {
 	s := mustLoad(t, folder(nil))
 	for _, a := range s.Animals {
-		file, line, err := ParseRef(string(a.Ref))
-		if err != nil || file != animalsFile || MakeRef(file, line) != a.Ref {
-			t.Errorf("ParseRef(%q) = %q, %d, %v", a.Ref, file, line, err)
+		p, err := ParseRef(string(a.Ref))
+		if err != nil || p.File != animalsFile || p.Sheet != "" || MakeRef(p.File, p.Line) != a.Ref {
+			t.Errorf("ParseRef(%q) = %+v, %v", a.Ref, p, err)
 		}
 	}
 }

@@ -672,6 +672,33 @@ func TestCrossRecord(t *testing.T) {
 			},
 		},
 		{
+			// The second id of protocols.csv:3's list is unknown: the
+			// protocol is rejected, and so is the animal under it.
+			name: "protocol personnel unknown",
+			over: map[string]string{
+				protocolsFile: "protocol_id,title,approved_on,expires_on,personnel\n" +
+					"P1,Winter housing,2025-06-01,2028-06-01,K1;V1\n" +
+					"P2,Coat study,2025-06-01,2028-06-01,K1;ZZ9\n" +
+					"P3,Nest use,2025-06-01,2028-06-01,\n",
+				animalsFile: "animal_id,species,arrived_on,protocol_id\nA1,vulpes_vulpes,2025-01-01,P1\nA2,vulpes_vulpes,2025-01-01,P2\n",
+			},
+			want: []string{
+				`animals.csv:3: protocol_id: "P2" is not in protocols.csv (its row protocols.csv:3 was rejected): fix that row first`,
+				`protocols.csv:3: personnel: "ZZ9" is not in staff.csv: add a row for it to staff.csv, or correct the id`,
+			},
+		},
+		{
+			name: "staff.csv missing while a protocol names personnel",
+			over: map[string]string{
+				staffFile:     "-",
+				protocolsFile: "protocol_id,title,approved_on,expires_on,personnel\nP1,Winter housing,2025-06-01,2028-06-01,K1\n",
+			},
+			want: []string{
+				`staff.csv: required file is missing: 1 row names a staff_id`,
+				`protocols.csv:2: personnel: "K1" is not in staff.csv (staff.csv is missing): add staff.csv with a row for it`,
+			},
+		},
+		{
 			name: "staff.csv missing while rows name staff",
 			over: map[string]string{
 				staffFile: "-",

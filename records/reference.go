@@ -41,7 +41,7 @@ var kindDocs = []kindDoc{
 	}},
 	{staffFile, reflect.TypeFor[Staff](), "required when any record names a staff_id", "one row per person", nil},
 	{protocolsFile, reflect.TypeFor[Protocol](), "optional", "approved animal-use protocols", []string{
-		"expires_on is after approved_on.",
+		"expires_on is after approved_on; every id in personnel must be in staff.csv.",
 	}},
 	{careFile, reflect.TypeFor[CareRound](), "optional", "one row per care round", []string{
 		"Give checked_at, or date, or both (date must then be the day of checked_at).",

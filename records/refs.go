@@ -203,6 +203,17 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 		return ld.enclosures.refs(ref{"BuildingID", e.BuildingID, buildings})
 	})
 	enclosures := newIndex(ld.enclosures)
+	ld.staffRequired()
+	staff := newIndex(ld.staff)
+	// A protocol's personnel are staff ids; a protocol row naming someone
+	// not in staff.csv is rejected before the rows that name the protocol.
+	ld.protocols.keep(func(p *Protocol) *cellError {
+		rs := make([]ref, len(p.Personnel))
+		for i, id := range p.Personnel {
+			rs[i] = ref{"Personnel", id, staff}
+		}
+		return ld.protocols.refs(rs...)
+	})
 	protocols := newIndex(ld.protocols)
 	if !ld.protocols.present {
 		// protocols.csv is optional: without it, protocol ids cannot be checked.
@@ -214,9 +225,6 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 		}
 		return ref{goName, id, protocols}
 	}
-
-	ld.staffRequired()
-	staff := newIndex(ld.staff)
 
 	ld.animals.keep(func(a *Animal) *cellError {
 		return ld.animals.refs(ref{"EnclosureID", a.EnclosureID, enclosures}, protoRef("ProtocolID", a.ProtocolID))
@@ -290,6 +298,11 @@ func (ld *loadedSet) staffRequired() {
 	n := 0
 	for _, p := range ld.ppe.rows {
 		if p.AssignedTo != "" {
+			n++
+		}
+	}
+	for _, p := range ld.protocols.rows {
+		if len(p.Personnel) > 0 {
 			n++
 		}
 	}

@@ -12,9 +12,9 @@ import (
 // pain and distress categories B-E).
 func TestVetColumns(t *testing.T) {
 	fsys := folder(map[string]string{
-		staffFile: "staff_id,name,role,rabies_risk_category\nK1,Ilse Marrow,keeper,3\nV1,Tomas Fell,veterinarian,6\n",
+		staffFile: "staff_id,name,role,rabies_risk_category\nK1,Ilse Marrow,keeper,3\nV1,Tomas Fell,veterinarian,6\nV2,Aino Brisk,veterinarian,2\n",
 		protocolsFile: "protocol_id,title,approved_on,expires_on,personnel,last_reviewed_on,pain_category\n" +
-			"P1,Winter coat,2025-01-08,2028-01-07,K1;V1,2025-12-01,C\nP2,Nest use,2025-01-08,2028-01-07,,,F\n",
+			"P1,Winter coat,2025-01-08,2028-01-07,K1;V2,2025-12-01,C\nP2,Nest use,2025-01-08,2028-01-07,,,F\n",
 		cullsFile: "culled_at,animal_id,staff_id,reason,method,sedated,anaesthetised\n2026-01-20T11:00,A1,K1,health,potassium_chloride,yes,yes\n",
 	})
 	s := mustLoad(t, fsys)
@@ -25,10 +25,10 @@ func TestVetColumns(t *testing.T) {
 	if diff := cmp.Diff(want, problemLines(s)); diff != "" {
 		t.Errorf("problems (-want +got):\n%s", diff)
 	}
-	if len(s.Staff) != 1 || s.Staff[0].RabiesRiskCategory == nil || *s.Staff[0].RabiesRiskCategory != 3 {
+	if len(s.Staff) != 2 || s.Staff[0].RabiesRiskCategory == nil || *s.Staff[0].RabiesRiskCategory != 3 {
 		t.Errorf("staff K1 rabies_risk_category = %+v", s.Staff)
 	}
-	if len(s.Protocols) != 1 || !cmp.Equal(s.Protocols[0].Personnel, []string{"K1", "V1"}) ||
+	if len(s.Protocols) != 1 || !cmp.Equal(s.Protocols[0].Personnel, []string{"K1", "V2"}) ||
 		s.Protocols[0].LastReviewedOn.String() != "2025-12-01" || s.Protocols[0].PainCategory != "C" {
 		t.Errorf("protocol P1 = %+v", s.Protocols)
 	}

@@ -107,6 +107,18 @@ func TestWorkbookRecords(t *testing.T) {
 	if len(s.Animals) != 2 || s.Animals[0].ArrivedOn != MakeDay(2024, 4, 20) || *s.Animals[0].MassKg != 6.2 || s.Animals[0].Ref != "records.xlsx:animals!2" {
 		t.Errorf("animals = %+v", s.Animals)
 	}
+	// The rows' refs and the problem's cell parse into their sheet's place.
+	for _, a := range s.Animals {
+		if p, err := ParseRef(string(a.Ref)); err != nil || p.File != "records.xlsx" || p.Sheet != "animals" || p.Column != "" || p.Ref() != a.Ref {
+			t.Errorf("ParseRef(%q) = %+v, %v", a.Ref, p, err)
+		}
+	}
+	for _, pr := range s.Problems {
+		cell := pr.File + ":" + pr.At
+		if p, err := ParseRef(cell); err != nil || p != (RefPlace{File: "records.xlsx", Sheet: "animals", Column: "E", Line: 4}) {
+			t.Errorf("ParseRef(%q) = %+v, %v", cell, p, err)
+		}
+	}
 	wantCount := []FileCount{{File: "records.xlsx:animals", Read: 3, Accepted: 2, Rejected: 1}, {File: "records.xlsx:enclosures", Read: 2, Accepted: 2}, {File: "staff.csv", Read: 2, Accepted: 2}}
 	if d := cmp.Diff(wantCount, s.Accounting); d != "" {
 		t.Errorf("accounting (-want +got):\n%s", d)

@@ -36,6 +36,9 @@ type JSONReport struct {
 	// Health is present when the records folder had deaths.csv,
 	// observations.csv, treatments.csv or litters.csv.
 	Health *JSONHealth `json:"health,omitempty"`
+	// Warm is the warm-season, inside-building and cleaning figures;
+	// present when the run covered the heat, environment or care domain.
+	Warm *JSONWarm `json:"warm,omitempty"`
 	// FollowUp is present when the run had a previous review or corrective actions.
 	FollowUp *JSONFollowUp `json:"follow_up,omitempty"`
 }
@@ -153,6 +156,9 @@ type JSONCheck struct {
 	Subjects    []string `json:"subjects,omitempty"`
 	// Escalation: when a finding's severity departs from the default.
 	Escalation string `json:"escalation,omitempty"`
+	// Period: "review" for a check judged over a review period, not day
+	// by day (custom.period); absent for a daily check.
+	Period string `json:"period,omitempty"`
 	// Local: defined by a rule file not shipped with welfare.
 	Local bool `json:"local,omitempty"`
 }
@@ -218,6 +224,79 @@ type JSONHealth struct {
 	WeightLossDays int                 `json:"weight_loss_days"`
 	// EarlyWeaning: the litters with a litter.weaning.early finding.
 	EarlyWeaning []JSONWeanedLitter `json:"early_weaning"`
+}
+
+// JSONWarm is the warm-season, inside-building and cleaning figures the
+// PDF's section draws: the measurements beside the findings (the heat,
+// environment and care.cleaning findings judge them). Temperatures are °C.
+type JSONWarm struct {
+	// HotDayC is heat.hot_day_c in the limits in force.
+	HotDayC float64 `json:"hot_day_c"`
+	// Sites are the weather sites with a day in the period whose maximum
+	// air temperature or heat index reached hot_day_c, each with every day
+	// it has readings of; [] in a cold period.
+	Sites []JSONSiteHeat `json:"sites"`
+	// EnvironmentRecorded: environment.csv was in the records folder.
+	EnvironmentRecorded bool `json:"environment_recorded"`
+	// Buildings are the indoor and sheltered buildings with readings on
+	// days they housed animals, against each housed species' indoor_temp_c.
+	Buildings []JSONBuildingClimate `json:"buildings"`
+	// CleaningRecorded: daily_care.csv was in the records folder;
+	// CleanEveryDays is care.clean_every_days in the limits in force.
+	CleaningRecorded bool `json:"cleaning_recorded"`
+	CleanEveryDays   int  `json:"clean_every_days"`
+	// Cleaning are the longest gaps between cleanings (checker.MaxCleaningGaps, six, longest
+	// first) and every gap with a care.cleaning.overdue finding (overdue).
+	Cleaning []JSONCleaningGap `json:"cleaning"`
+}
+
+// JSONSiteHeat is one weather site's days.
+type JSONSiteHeat struct {
+	Site string        `json:"site"`
+	Days []JSONDayHeat `json:"days"`
+}
+
+// JSONDayHeat is one day at a site: the highest air temperature and the
+// highest NWS heat index of its readings.
+type JSONDayHeat struct {
+	On            string  `json:"on"`
+	MaxAirC       float64 `json:"max_air_c"`
+	MaxHeatIndexC float64 `json:"max_heat_index_c"`
+	Readings      int     `json:"readings"`
+}
+
+// JSONBuildingClimate is one building's indoor air per day; exposure is
+// indoor or sheltered.
+type JSONBuildingClimate struct {
+	Building string             `json:"building"`
+	Exposure string             `json:"exposure"`
+	Ranges   []JSONSpeciesRange `json:"ranges"`
+	Days     []JSONDayRange     `json:"days"`
+}
+
+// JSONSpeciesRange is a species' indoor_temp_c range from the limits.
+type JSONSpeciesRange struct {
+	Species string  `json:"species"`
+	MinC    float64 `json:"min_c"`
+	MaxC    float64 `json:"max_c"`
+}
+
+// JSONDayRange is the lowest and highest reading of one day.
+type JSONDayRange struct {
+	On       string  `json:"on"`
+	MinC     float64 `json:"min_c"`
+	MaxC     float64 `json:"max_c"`
+	Readings int     `json:"readings"`
+}
+
+// JSONCleaningGap is one enclosure's days between cleanings, from one
+// cleaning (or the start) until the next (or the period's end).
+type JSONCleaningGap struct {
+	Enclosure string `json:"enclosure"`
+	From      string `json:"from"`
+	Until     string `json:"until"`
+	Days      int    `json:"days"`
+	Overdue   bool   `json:"overdue"`
 }
 
 // JSONDeath is one death; cause is "unknown" when none was recorded.
@@ -338,6 +417,37 @@ func newJSONHealth(h *checker.Health) *JSONHealth {
 	return out
 }
 
+func newJSONWarm(w *checker.Warm) *JSONWarm {
+	if w == nil {
+		return nil
+	}
+	out := &JSONWarm{HotDayC: w.HotDayC, Sites: []JSONSiteHeat{}, EnvironmentRecorded: w.EnvironmentRecorded,
+		Buildings: []JSONBuildingClimate{}, CleaningRecorded: w.CleaningRecorded, CleanEveryDays: w.CleanEveryDays,
+		Cleaning: []JSONCleaningGap{}}
+	for _, s := range w.Sites {
+		js := JSONSiteHeat{Site: s.Site, Days: []JSONDayHeat{}}
+		for _, d := range s.Days {
+			js.Days = append(js.Days, JSONDayHeat{On: d.Day.String(), MaxAirC: d.MaxAirC, MaxHeatIndexC: d.MaxHeatIndexC, Readings: d.Readings})
+		}
+		out.Sites = append(out.Sites, js)
+	}
+	for _, b := range w.Buildings {
+		jb := JSONBuildingClimate{Building: b.Building, Exposure: b.Exposure, Ranges: []JSONSpeciesRange{}, Days: []JSONDayRange{}}
+		for _, r := range b.Ranges {
+			jb.Ranges = append(jb.Ranges, JSONSpeciesRange{Species: r.Species, MinC: r.MinC, MaxC: r.MaxC})
+		}
+		for _, d := range b.Days {
+			jb.Days = append(jb.Days, JSONDayRange{On: d.Day.String(), MinC: d.MinC, MaxC: d.MaxC, Readings: d.Readings})
+		}
+		out.Buildings = append(out.Buildings, jb)
+	}
+	for _, g := range w.Cleaning {
+		out.Cleaning = append(out.Cleaning, JSONCleaningGap{Enclosure: g.Enclosure, From: g.From.String(), Until: g.Until.String(),
+			Days: g.Days, Overdue: g.Overdue})
+	}
+	return out
+}
+
 // NewJSONReport converts r to the published format. Lists are [] rather
 // than null when empty, so a reader never has to tell the two apart.
 func NewJSONReport(r *checker.Result) JSONReport {
@@ -354,6 +464,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 		Warnings:        make([]JSONWarning, len(r.Warnings)),
 		CareCoverage:    JSONCareCoverage{OccupiedDays: r.Care.OccupiedDays, CompleteDays: r.Care.CompleteDays},
 		Health:          newJSONHealth(r.Health),
+		Warm:            newJSONWarm(r.Warm),
 	}
 	for i, c := range r.Accounting {
 		doc.Accounting[i] = JSONFileCount{File: c.File, Read: c.Read, Accepted: c.Accepted, Rejected: c.Rejected, Failed: c.Failed}
@@ -393,7 +504,7 @@ func NewJSONReport(r *checker.Result) JSONReport {
 	for i, c := range r.Checks {
 		doc.Checks[i] = JSONCheck{ID: c.ID, Domain: c.Domain, Title: c.Title, Description: c.Description,
 			Severity: string(c.Severity), Source: c.Source, Package: c.Package, File: c.File,
-			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects, Escalation: c.Escalation, Local: c.Local}
+			Needs: c.Needs, Runs: c.Runs, Subjects: c.Subjects, Escalation: c.Escalation, Period: c.Period, Local: c.Local}
 	}
 	for i, s := range r.NotEvaluated {
 		doc.NotEvaluated[i] = JSONNotEvaluated{Check: s.Check, Reason: s.Reason}

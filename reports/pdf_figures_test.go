@@ -1,8 +1,10 @@
 package reports_test
 
 import (
+	"encoding/json"
 	"flag"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -141,6 +143,80 @@ func TestJSONHealth(t *testing.T) {
 	}
 	if reports.NewJSONReport(sampleResult(3)).Health != nil {
 		t.Errorf("a result without health figures has a health object")
+	}
+}
+
+// The warm-season figures the PDF draws are in findings.json too, day by
+// day: the mast's hottest day, 2026-01-20, is 20 + 12 = 32 °C air and
+// 20 + 12 × 1.4 = 36.8 °C heat index, and the dog room's range is
+// 7.2–29.5 °C (the sample's own numbers, carried over unchanged).
+func TestJSONWarm(t *testing.T) {
+	b, err := json.Marshal(reports.NewJSONReport(figuresResult()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Warm *struct {
+			HotDayC float64 `json:"hot_day_c"`
+			Sites   []struct {
+				Site string
+				Days []struct {
+					On            string
+					MaxAirC       float64 `json:"max_air_c"`
+					MaxHeatIndexC float64 `json:"max_heat_index_c"`
+					Readings      int
+				}
+			}
+			EnvironmentRecorded bool `json:"environment_recorded"`
+			Buildings           []struct {
+				Building, Exposure string
+				Ranges             []struct {
+					Species string
+					Min     float64 `json:"min_c"`
+					Max     float64 `json:"max_c"`
+				}
+				Days []struct {
+					On       string
+					Max      float64 `json:"max_c"`
+					Readings int
+				}
+			}
+			CleaningRecorded bool `json:"cleaning_recorded"`
+			CleanEveryDays   int  `json:"clean_every_days"`
+			Cleaning         []struct {
+				Enclosure, From, Until string
+				Days                   int
+				Overdue                bool
+			}
+		}
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	w := doc.Warm
+	if w == nil {
+		t.Fatalf("no warm object in %s", b)
+	}
+	if w.HotDayC != 25 || !w.EnvironmentRecorded || !w.CleaningRecorded || w.CleanEveryDays != 14 {
+		t.Errorf("warm = hot_day_c %v, environment %v, cleaning %v every %d days", w.HotDayC, w.EnvironmentRecorded, w.CleaningRecorded, w.CleanEveryDays)
+	}
+	if len(w.Sites) != 1 || w.Sites[0].Site != "north-yard" || len(w.Sites[0].Days) != 31 {
+		t.Fatalf("sites = %+v, want north-yard with 31 days", w.Sites)
+	}
+	if d := w.Sites[0].Days[19]; d.On != "2026-01-20" || d.MaxAirC != 32 || math.Abs(d.MaxHeatIndexC-36.8) > 1e-9 || d.Readings != 8 {
+		t.Errorf("north-yard 2026-01-20 = %+v, want 32 °C air, 36.8 °C heat index, 8 readings", d)
+	}
+	if len(w.Buildings) != 1 || w.Buildings[0].Building != "KB" || w.Buildings[0].Exposure != "indoor" ||
+		len(w.Buildings[0].Ranges) != 1 || w.Buildings[0].Ranges[0].Min != 7.2 || w.Buildings[0].Ranges[0].Max != 29.5 ||
+		len(w.Buildings[0].Days) != 31 || w.Buildings[0].Days[0].On != "2026-01-01" || w.Buildings[0].Days[0].Readings != 24 {
+		t.Errorf("buildings = %+v", w.Buildings)
+	}
+	if len(w.Cleaning) != 2 || w.Cleaning[0].Enclosure != "N-03" || w.Cleaning[0].From != "2026-01-01" ||
+		w.Cleaning[0].Until != "2026-01-20" || w.Cleaning[0].Days != 19 || !w.Cleaning[0].Overdue || w.Cleaning[1].Overdue {
+		t.Errorf("cleaning = %+v", w.Cleaning)
+	}
+	if reports.NewJSONReport(sampleResult(3)).Warm != nil {
+		t.Errorf("a result without warm-season figures has a warm object")
 	}
 }
 

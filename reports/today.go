@@ -215,11 +215,18 @@ func WriteToday(w io.Writer, r *checker.Result, o TodayOptions) (TodayVerdict, e
 	for _, it := range earlier {
 		earlierLines = append(earlierLines, "  "+it.line(o.Day))
 	}
-	// The follow-up of a review's corrective plans is judged over a review
-	// period, not a keeper's day: its checks do not hold back an all-clear.
+	// A check judged over a review period (custom.period: review, as the
+	// follow-up of corrective plans), not a keeper's day, does not hold
+	// back an all-clear.
+	review := map[string]bool{}
+	for _, c := range r.Checks {
+		if c.ReviewPeriod() {
+			review[c.ID] = true
+		}
+	}
 	var notRunToday []checker.Skipped
 	for _, sk := range r.NotEvaluated {
-		if !strings.HasPrefix(sk.Check, "correction.") {
+		if !review[sk.Check] {
 			notRunToday = append(notRunToday, sk)
 		}
 	}
@@ -421,8 +428,9 @@ func weatherLines(set *records.Set, o TodayOptions) (lines []string, hot bool, m
 		}
 		last := rows[len(rows)-1]
 		if math.IsInf(minWC, 1) && minAir <= 0 {
-			lines = append(lines, fmt.Sprintf("  %s: no reading with wind yet today (air down to %s °C): record the wind; the wind-chill checks wait for it",
-				site, morningNum(minAir)))
+			// Two lines: on one, the screen's width cut off what to do.
+			lines = append(lines, fmt.Sprintf("  %s: no reading with wind yet today (air down to %s °C)", site, morningNum(minAir)),
+				"    record the wind: the wind-chill checks wait for it")
 			missing = append(missing, "no weather reading with wind today at "+site)
 			continue
 		}

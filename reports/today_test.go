@@ -2,9 +2,12 @@ package reports_test
 
 import (
 	"bytes"
+	"context"
 	"fmt"
+	"slices"
 	"strings"
 	"testing"
+	"testing/fstest"
 	"time"
 	"unicode/utf8"
 
@@ -134,6 +137,60 @@ func TestWriteTodayWeather(t *testing.T) {
 	}
 }
 
+// A freezing day whose readings have no wind: the view says the wind-chill
+// checks wait for it and gives no all-clear; once one reading has wind the
+// line gives way to the coldest wind chill.
+func TestWriteTodayNoWindYet(t *testing.T) {
+	const noWind = "  YARD: no reading with wind yet today (air down to -40 °C)"
+	wind := func(v float64) *float64 { return &v }
+	tests := []struct {
+		name     string
+		winds    [2]*float64 // of the 03:00 (−40 °C) and 06:00 (−36.5 °C) readings
+		want     string      // the site's first weather line
+		missing  bool        // "no weather reading with wind today at YARD" among the reasons
+		notWants string
+	}{
+		{"no reading has wind", [2]*float64{nil, nil}, noWind, true, ""},
+		// Environment Canada wind chill formula, −36.5 °C air, 5 km/h:
+		// 13.12 + 0.6215·T − 11.37·V^0.16 + 0.3965·T·V^0.16 = −43.0.
+		{"one reading has wind", [2]*float64{nil, wind(5)},
+			"  YARD: coldest wind chill -43 °C at 06:00 (air -36.5 °C, wind 5 km/h)", false, noWind},
+		{"calm is a wind of 0 km/h, not a missing one", [2]*float64{wind(0), nil},
+			"  YARD: coldest wind chill -40 °C at 03:00 (air -40 °C, wind 0 km/h)", false, noWind},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			set, _, day := todayFixture()
+			set.Weather[0].WindKmh, set.Weather[1].WindKmh = tc.winds[0], tc.winds[1]
+			r := &checker.Result{Facility: "Birchfall Fur Research Station"}
+			var b bytes.Buffer
+			v, err := reports.WriteToday(&b, r, reports.TodayOptions{Day: day, At: 6 * 60, Records: set, Plain: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			lines := strings.Split(b.String(), "\n")
+			if len(lines) < 3 || lines[1] != "Weather so far:" || lines[2] != tc.want {
+				t.Errorf("weather lines, want %q after the heading:\n%s", tc.want, b.String())
+			}
+			if tc.missing && (len(lines) < 4 || lines[3] != "    record the wind: the wind-chill checks wait for it") {
+				t.Errorf("no line saying what to do after %q:\n%s", tc.want, b.String())
+			}
+			if strings.Contains(b.String(), "…") {
+				t.Errorf("a line is cut at the screen's edge:\n%s", b.String())
+			}
+			if tc.notWants != "" && strings.Contains(b.String(), tc.notWants) {
+				t.Errorf("view says %q:\n%s", tc.notWants, b.String())
+			}
+			if got := slices.Contains(v.Missing, "no weather reading with wind today at YARD"); got != tc.missing {
+				t.Errorf("missing = %q; want the wind reason %v", v.Missing, tc.missing)
+			}
+			if tc.missing && v.AllClear() {
+				t.Error("an all-clear without a reading with wind")
+			}
+		})
+	}
+}
+
 // No reading yet and checks that could not run: no all-clear, saying why.
 func TestWriteTodayNoAllClear(t *testing.T) {
 	set, _, day := todayFixture()
@@ -151,6 +208,70 @@ func TestWriteTodayNoAllClear(t *testing.T) {
 	}
 	if !strings.Contains(b.String(), "No all-clear can be given: ") {
 		t.Errorf("view does not say why there is no all-clear:\n%s", b.String())
+	}
+}
+
+// A check whose METADATA says it is judged over a review period
+// (custom.period: review) does not hold back a keeper's all-clear when it
+// cannot run: the shipped follow-up checks (correction.*) and a committee's
+// own rule with the flag alike. A committee rule without the flag still does.
+func TestWriteTodayLeavesOutReviewPeriodChecks(t *testing.T) {
+	ctx := context.Background()
+	lim, err := rules.ParseLimits("limits.yaml (built in)", rules.DefaultLimits())
+	if err != nil {
+		t.Fatal(err)
+	}
+	rule := func(id, extra string) string {
+		return "# METADATA\n# title: " + id + "\n# description: A committee check under test.\n# custom:\n" +
+			"#   id: " + id + "\n#   severity: minor\n#   source: facility choice\n" + extra +
+			"findings contains f if {\n\tinput.id == \"never\"\n\tf := {\"check\": \"" + id +
+			"\", \"subject\": input.id, \"on\": \"2026-01-13\", \"message\": \"m\", \"evidence\": []}\n}\n\n"
+	}
+	local := fstest.MapFS{"audit.rego": {Data: []byte("# METADATA\n# title: Committee audit\n# description: Test rules.\n" +
+		"# scope: package\n# custom:\n#   subjects: [enclosure]\npackage welfare.audit\n\n" +
+		rule("audit.logbook.unsigned", "#   needs: [logbook.csv]\n#   period: review\n") +
+		rule("audit.gate.unlocked", "#   needs: [gates.csv]\n"))}}
+	policy, err := checker.Compile(ctx, lim, []checker.Source{{Name: "rules", FS: rules.FS()},
+		{Name: "ours", FS: local, Local: true}}, checker.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	periods := map[string]string{}
+	for _, c := range policy.Checks() {
+		periods[c.ID] = c.Period
+	}
+	for _, id := range []string{"correction.overdue", "correction.recurred", "correction.plan.missing", "audit.logbook.unsigned"} {
+		if periods[id] != checker.PeriodReview {
+			t.Errorf("check %s: period %q, want %q", id, periods[id], checker.PeriodReview)
+		}
+	}
+	if p := periods["audit.gate.unlocked"]; p != "" {
+		t.Errorf("check audit.gate.unlocked: period %q, want none", p)
+	}
+
+	set, _, day := todayFixture()
+	r := &checker.Result{Facility: "Birchfall Fur Research Station", Checks: policy.Checks(),
+		NotEvaluated: []checker.Skipped{
+			{Check: "correction.overdue", Reason: "no corrective_actions.csv in the records folder"},
+			{Check: "audit.logbook.unsigned", Reason: "no logbook.csv in the records folder"},
+		}}
+	view := func() reports.TodayVerdict {
+		t.Helper()
+		var b bytes.Buffer
+		v, err := reports.WriteToday(&b, r, reports.TodayOptions{Day: day, At: 6 * 60, Records: set})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	for _, m := range view().Missing {
+		if strings.Contains(m, "could not run") {
+			t.Errorf("a review-period check holds back the all-clear: %q", m)
+		}
+	}
+	r.NotEvaluated = append(r.NotEvaluated, checker.Skipped{Check: "audit.gate.unlocked", Reason: "no gates.csv in the records folder"})
+	if got := view().Missing; !slices.Contains(got, "1 check could not run without gates.csv") {
+		t.Errorf("missing = %q, want the day check without gates.csv named", got)
 	}
 }
 

@@ -33,6 +33,7 @@ else := "minor"
 #   severity: minor
 #   source: "9 CFR §2.31(c)(3): a significant deficiency not corrected by the date in its plan is reported within 15 business days; PHS Policy IV.B.3: a reasonable and specific plan and schedule for correction"
 #   needs: [corrective_actions.csv]
+#   period: review
 findings contains f if {
 	some a in input.actions
 	a.open_at_end
@@ -69,6 +70,7 @@ findings contains f if {
 #   severity: minor
 #   source: common practice
 #   needs: [corrective_actions.csv]
+#   period: review
 findings contains f if {
 	some a in input.actions
 	a.closed_on != null
@@ -95,6 +97,7 @@ findings contains f if {
 #   severity: minor
 #   source: "PHS Policy IV.B.3: a reasonable and specific plan and schedule for correction of each deficiency"
 #   needs: ["--previous"]
+#   period: review
 findings contains f if {
 	some p in input.previous
 	p.severity == "significant"
