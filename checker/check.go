@@ -34,7 +34,15 @@ type config struct {
 	// every evidence ref must name one of them. Nil when the rows did not
 	// come from files (hand-made sets in tests): refs are then not checked.
 	Lines map[string]int
+	// DropRecords lets the check release the event rows only the facts
+	// read (dropEvents) once the facts are built: for a caller that keeps
+	// nothing of Records but the result.
+	DropRecords bool
 }
+
+// evalChunk is how many subjects of a kind are evaluated at once: each
+// chunk's documents are let go before the next is evaluated.
+const evalChunk = 256
 
 // check computes the facts of every subject, evaluates the rules on them
 // and returns the findings with everything a report needs but the
@@ -73,6 +81,8 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		d.facts(f)
 	}
 	f.addExtra()
+	// The builders' shared indexes are not read again.
+	f.care, f.handling = nil, nil
 
 	res := &Result{
 		Facility:   set.Facility.Name,
@@ -118,6 +128,19 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		}
 	}
 
+	if cfg.DropRecords {
+		dropEvents(cfg.Records)
+		dropEvents(set)
+	}
+	// What the report needs of the documents once the findings are known
+	// is taken now: each kind's documents go as soon as they are evaluated.
+	inForce := map[string]bool{}
+	for _, c := range res.Checks {
+		inForce[c.ID] = !skipped[c.ID] && (len(only) == 0 || only[c.Domain]) && !cfg.Engine.off(c.ID)
+	}
+	res.Partial = f.partials(func(id string) bool { return inForce[id] })
+	gaps := cleaningGaps(f.docs["enclosure"])
+
 	progress("rules", 0)
 	// The whole evaluation runs under its own budget; the packages' time
 	// and the files read go to Evaluate with the context.
@@ -131,12 +154,25 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		if len(inputs) == 0 {
 			continue
 		}
-		found, err := cfg.Engine.Evaluate(rctx, kind, inputs)
-		if err != nil {
-			return nil, err
+		f.keepFigureSections(kind)
+		// Chunks in subject order: the error of the first failing subject
+		// is still the one returned, and the findings are those of one
+		// Evaluate over all the subjects (runs collapsed, sorted).
+		var found []Finding
+		for len(inputs) > 0 {
+			n := min(len(inputs), evalChunk)
+			part, err := cfg.Engine.Evaluate(rctx, kind, inputs[:n])
+			if err != nil {
+				return nil, err
+			}
+			clear(inputs[:n])
+			inputs = inputs[n:]
+			found = append(found, part...)
+			evaluated += n
+			progress("rules", evaluated)
 		}
-		evaluated += len(inputs)
-		progress("rules", evaluated)
+		found = collapseRuns(found, cfg.Engine.checks)
+		slices.SortStableFunc(found, compareFindings)
 		for _, fd := range found {
 			switch {
 			case fd.Check == MalformedCheck:
@@ -165,12 +201,7 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 	}
 	addRejected(res, cfg.Engine.checks, p)
 	SortFindings(res.Findings)
-	inForce := map[string]bool{}
-	for _, c := range res.Checks {
-		inForce[c.ID] = !skipped[c.ID] && (len(only) == 0 || only[c.Domain]) && !cfg.Engine.off(c.ID)
-	}
-	res.Partial = f.partials(func(id string) bool { return inForce[id] })
-	f.addFigures(res, cfg.Only)
+	f.addFigures(res, cfg.Only, gaps)
 	if err := correctionPass(ctx, cfg, set, res, firstPass, skipped, only); err != nil {
 		return nil, err
 	}
@@ -315,4 +346,44 @@ func addCheck(checks []CheckInfo, c CheckInfo) []CheckInfo {
 		return checks
 	}
 	return slices.Insert(checks, i, c)
+}
+
+// dropEvents lets go of the rows that only the fact builders read: once the
+// facts are built, the rules, the report figures (deaths, treatments,
+// litters, environment readings), the follow-up (corrective actions) and
+// the reports read none of these.
+func dropEvents(set *records.Set) {
+	set.Care, set.Handling, set.PPEChecks, set.Weather, set.Work = nil, nil, nil, nil, nil
+	set.Culls, set.Housing, set.Observations, set.Extra = nil, nil, nil, nil
+}
+
+// figureSections are the sections of a kind's documents that the report
+// figures read after the findings are known (addFigures); the cleaning
+// gaps are taken as CleaningGap before evaluation (cleaningGaps).
+var figureSections = map[string][]string{
+	"facility": {"mortality"},
+	"animal":   {"weights"},
+	"site":     {"heat"},
+}
+
+// keepFigureSections replaces the documents of kind by what figureSections
+// keeps of them (nothing for most kinds), so the rest can go once the kind
+// is evaluated.
+func (f *facts) keepFigureSections(kind string) {
+	keep := figureSections[kind]
+	if len(keep) == 0 {
+		delete(f.docs, kind)
+		return
+	}
+	slim := make(map[string]map[string]any, len(f.docs[kind]))
+	for id, d := range f.docs[kind] {
+		s := map[string]any{}
+		for _, k := range keep {
+			if v, ok := d[k]; ok {
+				s[k] = v
+			}
+		}
+		slim[id] = s
+	}
+	f.docs[kind] = slim
 }

@@ -56,8 +56,14 @@ func (f *facts) cleaningFacts() {
 			})
 		}
 	}
+	// A year of gaps names the same days, the same period start and the
+	// same enclosure row again and again: each is one document value,
+	// shared by every gap that names it.
+	day := newDayValues(f.period)
+	periodFrom := day.of(f.period.From)
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
+		var encRef any = string(e.Ref)
 		var first records.Day
 		var days []records.Day
 		own, shared := enc[e.ID], bld[e.BuildingID]
@@ -112,10 +118,14 @@ func (f *facts) cleaningFacts() {
 					until = next - 1
 				}
 				if until > from && until >= f.period.From {
+					evidence := []any{encRef}
+					if fromRef != "" {
+						evidence = append(evidence, string(fromRef))
+					}
 					gaps = append(gaps, map[string]any{
-						"from": from.String(), "until": until.String(), "days": int(until - from),
-						"since": kind, "period_from": f.period.From.String(),
-						"evidence": refs(e.Ref, fromRef),
+						"from": day.of(from), "until": day.of(until), "days": int(until - from),
+						"since": kind, "period_from": periodFrom,
+						"evidence": evidence,
 					})
 				}
 				if next == 0 {
@@ -132,6 +142,29 @@ func (f *facts) cleaningFacts() {
 			"gaps":            gaps,
 		}
 	}
+}
+
+// dayValues gives days as document values ("YYYY-MM-DD" as an any), made
+// once per day of the period and shared by every document entry that names
+// the day; a day outside the period gets a value of its own.
+type dayValues struct {
+	from records.Day
+	vals []any
+}
+
+func newDayValues(p Period) *dayValues {
+	v := &dayValues{from: p.From, vals: make([]any, max(int(p.To-p.From)+1, 0))}
+	for i := range v.vals {
+		v.vals[i] = (p.From + records.Day(i)).String()
+	}
+	return v
+}
+
+func (v *dayValues) of(d records.Day) any {
+	if i := int(d - v.from); i >= 0 && i < len(v.vals) {
+		return v.vals[i]
+	}
+	return d.String()
 }
 
 // stretches are the enclosure's runs of consecutive occupied days, as

@@ -1,6 +1,7 @@
 package checker
 
 import (
+	"slices"
 	"sort"
 
 	"welfare/checker/cold"
@@ -50,6 +51,9 @@ type siteWeather struct {
 	// temperature, as evidence.
 	coldestWC  []*records.Weather
 	coldestAir []*records.Weather
+	// minAir is each day's lowest air temperature as a document value,
+	// made once and shared by the water days of every enclosure at the site.
+	minAir []any
 }
 
 // day returns the site's figures for day d and whether it had readings
@@ -120,6 +124,7 @@ func (f *facts) weatherSites() []*siteWeather {
 		s.days = make([]DayCold, n)
 		s.coldestWC = make([]*records.Weather, n)
 		s.coldestAir = make([]*records.Weather, n)
+		s.minAir = make([]any, n)
 		for i := range s.days {
 			s.days[i].Day = f.period.From + records.Day(i)
 		}
@@ -141,6 +146,9 @@ func (f *facts) weatherSites() []*siteWeather {
 				dc.MinAirC, s.coldestAir[i] = w.AirTempC, w
 			}
 			dc.Readings++
+		}
+		for i := range s.days {
+			s.minAir[i] = s.days[i].MinAirC
 		}
 		out = append(out, s)
 	}
@@ -320,7 +328,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				// wind; the water check needs the air temperature alone.
 				_, _, windOK := s.windDay(f.period, d)
 				if checks := int(c.on(e.ID, e.BuildingID, d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
-					water.add(checks, int(d-f.period.From), dc.MinAirC, s.coldestAir[d-f.period.From].Ref)
+					water.add(checks, int(d-f.period.From), s.minAir[d-f.period.From], s.coldestAir[d-f.period.From].Ref)
 				}
 				last := bed.last(e.ID, e.BuildingID, d)
 				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
@@ -379,8 +387,9 @@ func newWaterGroups(maxChecks int, days []string) *waterGroups {
 	return &waterGroups{days: days, groups: make([]waterGroup, max(maxChecks+1, 0))}
 }
 
-// add lists day i of the period, with checks water checks.
-func (w *waterGroups) add(checks, i int, minAirC float64, air records.Ref) {
+// add lists day i of the period, with checks water checks (minAirC: the
+// day's lowest air temperature, a float64).
+func (w *waterGroups) add(checks, i int, minAirC any, air records.Ref) {
 	g := &w.groups[checks]
 	g.on = append(g.on, w.days[i])
 	g.minAirC = append(g.minAirC, minAirC)
@@ -392,7 +401,10 @@ func (w *waterGroups) doc() []any {
 	out := []any{}
 	for checks, g := range w.groups {
 		if len(g.on) > 0 {
-			out = append(out, map[string]any{"checks": checks, "on": g.on, "min_air_c": g.minAirC, "air_refs": g.airRefs})
+			// Copies the size of their days: appending left up to half of
+			// each array unused.
+			out = append(out, map[string]any{"checks": checks, "on": slices.Clone(g.on), "min_air_c": slices.Clone(g.minAirC),
+				"air_refs": slices.Clone(g.airRefs)})
 		}
 	}
 	return out

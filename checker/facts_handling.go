@@ -1,6 +1,8 @@
 package checker
 
 import (
+	"strings"
+
 	"welfare/records"
 )
 
@@ -10,6 +12,28 @@ import (
 // handling limits (gloves, PPE, duration, bite reporting), so a committee
 // that edits the limits edits the checks.
 func (f *facts) handlingFacts() {
+	// A year of rows names the same days, people, purposes and PPE lists
+	// again and again: each is one document value shared by every entry.
+	days := newDayValues(f.period)
+	texts := map[string]any{}
+	text := func(s string) any {
+		v, ok := texts[s]
+		if !ok {
+			v = s
+			texts[s] = v
+		}
+		return v
+	}
+	ppes := map[string][]any{}
+	ppe := func(list []string) []any {
+		k := strings.Join(list, "\x00")
+		v, ok := ppes[k]
+		if !ok {
+			v = strs(list)
+			ppes[k] = v
+		}
+		return v
+	}
 	for i := range f.set.Handling {
 		h := &f.set.Handling[i]
 		day := records.DayOf(h.At)
@@ -24,15 +48,15 @@ func (f *facts) handlingFacts() {
 			reported = h.ExposureReportedAt.Sub(h.At).Hours()
 		}
 		ev := map[string]any{
-			"on":                   day.String(),
+			"on":                   days.of(day),
 			"at":                   h.At.Format("2006-01-02 15:04"),
 			"ref":                  string(h.Ref),
-			"staff":                h.StaffID,
-			"purpose":              h.Purpose,
-			"restraint":            nilIfEmpty(h.Restraint),
-			"glove":                nilIfEmpty(h.Glove),
+			"staff":                text(h.StaffID),
+			"purpose":              text(h.Purpose),
+			"restraint":            orNull(text(h.Restraint), h.Restraint),
+			"glove":                orNull(text(h.Glove), h.Glove),
 			"glove_thickness_mm":   num(h.GloveThicknessMm),
-			"ppe":                  strs(h.PPE),
+			"ppe":                  ppe(h.PPE),
 			"duration_min":         num(h.DurationMin),
 			"bite":                 h.Bite.IsYes(),
 			"scratch":              h.Scratch.IsYes(),
@@ -43,4 +67,12 @@ func (f *facts) handlingFacts() {
 		list, _ := d["handling"].([]any)
 		d["handling"] = append(list, ev)
 	}
+}
+
+// orNull is v, or null when the text s it stands for is empty.
+func orNull(v any, s string) any {
+	if s == "" {
+		return nil
+	}
+	return v
 }

@@ -123,7 +123,7 @@ func (f *facts) staffFacts() {
 				culled = append(culled, f.operatorDay(s, sd))
 			}
 			if len(sd.outside) > 0 {
-				out = append(out, map[string]any{"on": sd.day.String(), "refs": refs(sd.outside...)})
+				out = append(out, map[string]any{"on": sd.day.String(), "rows": len(sd.outside), "refs": refs(firstRefs(sd.outside)...)})
 			}
 		}
 		d := f.doc("staff", id)
@@ -137,6 +137,16 @@ func (f *facts) staffFacts() {
 		}
 	}
 }
+
+// maxRefs is how many rows an entry lists as evidence when its rows can
+// number hundreds a day (a keeper's care rounds of enclosures a rabies-risk
+// species occupies; the rows naming a person outside their employment): the
+// entry counts them all (work, rows), and its refs are the first maxRefs,
+// the deciding rows first.
+const maxRefs = 10
+
+// firstRefs is the first maxRefs of rs.
+func firstRefs(rs []records.Ref) []records.Ref { return rs[:min(len(rs), maxRefs)] }
 
 // trainedAt is a training record as seen on day d: a training dated after
 // d did not exist yet. valid_until is the last day the training covers: the
@@ -248,8 +258,9 @@ func (f *facts) rabiesRiskRounds() func(r *records.CareRound) bool {
 // handled one, culled one, or did a care round of an enclosure one
 // occupied — with s's pre-exposure record that day and s's own ACIP 2022
 // risk category (the limits' category when staff.csv gives none), for the
-// rules to judge; nil on
-// a day without such work.
+// rules to judge; nil on a day without such work. work counts every row of
+// that work; refs are the first maxRefs of them (handlings, culls, then
+// care rounds).
 func (f *facts) rabiesDay(s *records.Staff, sd *staffDay) map[string]any {
 	n := len(sd.rabiesHandled) + len(sd.rabiesCulls) + len(sd.rabiesRounds)
 	if n == 0 {
@@ -259,7 +270,8 @@ func (f *facts) rabiesDay(s *records.Staff, sd *staffDay) map[string]any {
 	if s.RabiesRiskCategory != nil {
 		category = *s.RabiesRiskCategory
 	}
-	r := rabiesRecord(s, sd.day, slices.Concat(sd.rabiesHandled, sd.rabiesCulls, sd.rabiesRounds))
+	work := slices.Concat(firstRefs(sd.rabiesHandled), firstRefs(sd.rabiesCulls), firstRefs(sd.rabiesRounds))
+	r := rabiesRecord(s, sd.day, firstRefs(work))
 	r["on"] = sd.day.String()
 	r["category"] = category
 	r["work"] = map[string]any{

@@ -3,6 +3,7 @@ package checker
 import (
 	"bytes"
 	"context"
+	"fmt"
 	"strings"
 	"testing"
 	"time"
@@ -203,8 +204,8 @@ func TestStaffFacts(t *testing.T) {
 		},
 		"culled": []any{},
 		"outside_active": []any{
-			map[string]any{"on": "2026-01-06", "refs": []any{"daily_care.csv:2"}},
-			map[string]any{"on": "2026-01-12", "refs": []any{"handling.csv:4", "handling.csv:8"}},
+			map[string]any{"on": "2026-01-06", "rows": 1, "refs": []any{"daily_care.csv:2"}},
+			map[string]any{"on": "2026-01-12", "rows": 2, "refs": []any{"handling.csv:4", "handling.csv:8"}},
 		},
 	}
 	if diff := cmp.Diff(want, s2); diff != "" {
@@ -227,6 +228,46 @@ func TestStaffFacts(t *testing.T) {
 	wantResp := map[string]any{"refs": []any{"handling.csv:2"}, "fit_on": "2025-01-10", "fit_after_event": false, "valid_until": "2026-01-10"}
 	if diff := cmp.Diff(wantResp, gotResp); diff != "" {
 		t.Errorf("S1 respirator (-want +got):\n%s", diff)
+	}
+}
+
+// TestStaffDayRefsCapped: a keeper's day of hundreds of rows (care rounds of
+// an enclosure foxes occupy, after the keeper's last day) counts them all
+// and lists the first maxRefs as evidence, the handling before the rounds.
+func TestStaffDayRefsCapped(t *testing.T) {
+	set := peopleSet(t)
+	const rounds = 300
+	base := set.Care[0] // S2 on E1, 2026-01-06: foxes live there, S2 left on 2026-01-05
+	set.Care = nil
+	for i := range rounds {
+		r := base
+		r.Ref = records.Ref(fmt.Sprintf("daily_care.csv:%d", i+2))
+		set.Care = append(set.Care, r)
+	}
+	h := set.Handling[2]                                         // S2 handles fox F1 ...
+	h.Ref, h.At = "handling.csv:9", ptime(t, "2026-01-06 10:00") // ... on the same day
+	set.Handling = append(set.Handling, h)
+	f := newFacts(set, peopleLimits(t), peoplePeriod)
+	f.staffFacts()
+	s2 := f.docs["staff"]["S2"]["staff"].(map[string]any)
+
+	wantRefs := []any{"handling.csv:9"}
+	for i := range maxRefs - 1 {
+		wantRefs = append(wantRefs, fmt.Sprintf("daily_care.csv:%d", i+2))
+	}
+	rab := s2["rabies"].([]any)[0].(map[string]any)
+	if rab["on"] != "2026-01-06" {
+		t.Fatalf("first rabies day = %v, want 2026-01-06", rab["on"])
+	}
+	if diff := cmp.Diff(map[string]any{"handlings": 1, "culls": 0, "care_rounds": rounds}, rab["work"]); diff != "" {
+		t.Errorf("rabies work (-want +got):\n%s", diff)
+	}
+	if diff := cmp.Diff(wantRefs, rab["refs"]); diff != "" {
+		t.Errorf("rabies refs (-want +got):\n%s", diff)
+	}
+	out := s2["outside_active"].([]any)[0].(map[string]any)
+	if out["on"] != "2026-01-06" || out["rows"] != rounds+1 || len(out["refs"].([]any)) != maxRefs {
+		t.Errorf("outside_active = on %v, %v rows, %d refs; want 2026-01-06, %d rows, %d refs", out["on"], out["rows"], len(out["refs"].([]any)), rounds+1, maxRefs)
 	}
 }
 

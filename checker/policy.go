@@ -73,7 +73,7 @@ func (p *Policy) Domains() []string {
 // findings of these domains (all when empty). The result's fingerprint
 // covers exactly the bytes read: records, rule files and limits.
 func (p *Policy) Check(ctx context.Context, recordsFS fs.FS, period Period, only []string) (*Result, error) {
-	res, _, err := p.CheckWith(ctx, recordsFS, CheckOptions{Period: period, Only: only})
+	res, _, err := p.CheckWith(ctx, recordsFS, CheckOptions{Period: period, Only: only, DropRecords: true})
 	return res, err
 }
 
@@ -89,6 +89,10 @@ type CheckOptions struct {
 	// Scope, when set, chooses the rows and the period once the records
 	// are loaded (it replaces Period).
 	Scope Scope
+	// DropRecords releases the event rows (care rounds, handlings, weather,
+	// outdoor work, ...) as soon as the facts are built, for a caller that
+	// needs only the result: CheckWith then returns no rows.
+	DropRecords bool
 }
 
 // Scope chooses, once the records are loaded, what a check judges: the
@@ -97,8 +101,8 @@ type CheckOptions struct {
 // time zone from the set.
 type Scope func(set *records.Set) (*records.Set, Period, error)
 
-// CheckWith is Check with every option; it also returns the rows judged.
-// The fingerprint covers every byte read.
+// CheckWith is Check with every option; it also returns the rows judged
+// (nil with DropRecords). The fingerprint covers every byte read.
 func (p *Policy) CheckWith(ctx context.Context, recordsFS fs.FS, opt CheckOptions) (*Result, *records.Set, error) {
 	domains := p.Domains()
 	for _, d := range opt.Only {
@@ -133,11 +137,14 @@ func (p *Policy) CheckWith(ctx context.Context, recordsFS fs.FS, opt CheckOption
 		}
 	}
 	res, err := check(ctx, config{Records: judged, Limits: p.limits, Engine: p.engine, Period: period, Only: opt.Only,
-		Progress: progress, Previous: opt.Previous, Lines: lines, Rejected: set.Problems})
+		Progress: progress, Previous: opt.Previous, Lines: lines, Rejected: set.Problems, DropRecords: opt.DropRecords})
 	if err != nil {
 		return nil, nil, err
 	}
 	res.Fingerprint = fingerprint(capture.read(), p.engine.files, p.limits.Source(), opt.Only)
+	if opt.DropRecords {
+		return res, nil, nil
+	}
 	return res, judged, nil
 }
 

@@ -107,7 +107,7 @@ type WeanedLitter struct {
 // addFigures fills the result's report figures from the facts, after the
 // findings are known. A run limited to other domains (--only) gets none:
 // the figures are marked by findings it did not keep.
-func (f *facts) addFigures(res *Result, only []string) {
+func (f *facts) addFigures(res *Result, only []string, gaps []CleaningGap) {
 	in := func(domains ...string) bool {
 		if len(only) == 0 {
 			return true
@@ -123,7 +123,7 @@ func (f *facts) addFigures(res *Result, only []string) {
 		res.Health = f.healthFigures(res.Findings)
 	}
 	if in("heat", "environment", "care") {
-		res.Warm = f.warmFigures(res.Findings)
+		res.Warm = f.warmFigures(res.Findings, gaps)
 	}
 }
 

@@ -83,7 +83,7 @@ type CleaningGap struct {
 	Overdue   bool        `json:"overdue"`
 }
 
-func (f *facts) warmFigures(fs []Finding) *Warm {
+func (f *facts) warmFigures(fs []Finding, gaps []CleaningGap) *Warm {
 	w := &Warm{HotDayC: f.lim.Heat.HotDayC, Sites: []SiteHeat{}, Buildings: []BuildingClimate{}, Cleaning: []CleaningGap{},
 		EnvironmentRecorded: f.set.Present["environment.csv"], CleaningRecorded: f.set.Present["daily_care.csv"],
 		CleanEveryDays: f.lim.Care.CleanEveryDays}
@@ -155,19 +155,11 @@ func (f *facts) warmFigures(fs []Finding) *Warm {
 	}
 
 	overdue := findingDays(fs, "care.cleaning.overdue")
-	var gaps []CleaningGap
-	for _, id := range sortedIDs(f.docs["enclosure"]) {
-		cs, _ := f.docs["enclosure"][id]["cleaning"].(map[string]any)
-		list, _ := cs["gaps"].([]any)
-		for _, x := range list {
-			m := x.(map[string]any)
-			from, _ := records.ParseDay(m["from"].(string))
-			until, _ := records.ParseDay(m["until"].(string))
-			g := CleaningGap{Enclosure: id, From: from, Until: until, Days: m["days"].(int)}
-			for _, d := range overdue[id] {
-				g.Overdue = g.Overdue || (d > from && d <= until)
-			}
-			gaps = append(gaps, g)
+	gaps = slices.Clone(gaps)
+	for i := range gaps {
+		g := &gaps[i]
+		for _, d := range overdue[g.Enclosure] {
+			g.Overdue = g.Overdue || (d > g.From && d <= g.Until)
 		}
 	}
 	sort.SliceStable(gaps, func(i, j int) bool { return gaps[i].Days > gaps[j].Days })
@@ -177,6 +169,24 @@ func (f *facts) warmFigures(fs []Finding) *Warm {
 		}
 	}
 	return w
+}
+
+// cleaningGaps lists the gaps of the enclosures' cleaning sections, by
+// enclosure id (Overdue is left for warmFigures): taken before the
+// documents are evaluated and let go.
+func cleaningGaps(enclosures map[string]map[string]any) []CleaningGap {
+	var gaps []CleaningGap
+	for _, id := range sortedIDs(enclosures) {
+		cs, _ := enclosures[id]["cleaning"].(map[string]any)
+		list, _ := cs["gaps"].([]any)
+		for _, x := range list {
+			m := x.(map[string]any)
+			from, _ := records.ParseDay(m["from"].(string))
+			until, _ := records.ParseDay(m["until"].(string))
+			gaps = append(gaps, CleaningGap{Enclosure: id, From: from, Until: until, Days: m["days"].(int)})
+		}
+	}
+	return gaps
 }
 
 func sortedIDs(byID map[string]map[string]any) []string {

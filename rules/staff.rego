@@ -9,10 +9,11 @@
 #     handled: [{on, refs, training: {trained_on, trained_after_event, valid_until},
 #                respirator: null | {refs, fit_on, fit_after_event, valid_until}}],
 #     culled: [{on, refs, methods, untrained_methods, trained_on, trained_after_event, valid_until}],
-#     outside_active: [{on, refs}],
+#     outside_active: [{on, rows, refs}],
 #     rabies: [{on, refs, work: {handlings, culls, care_rounds}, category,
 #               primary_on, titer_on, titer_iu_ml, booster_on}]}}
-#   One entry per person per day. valid_until is the last day a training or fit test covers (the
+#   One entry per person per day. Where a day's rows can number hundreds (outside_active, rabies),
+#   rows and work count them all and refs lists the first 10 as evidence. valid_until is the last day a training or fit test covers (the
 #   same date N months later); null when there was none on or before the day. rabies has an entry
 #   for each day the person worked with a rabies-risk species, with the pre-exposure series, the
 #   latest titer and the latest booster recorded on or before the day (null: none) and the person's
@@ -268,7 +269,7 @@ findings contains f if {
 		"check": "staff.inactive",
 		"subject": input.id,
 		"on": e.on,
-		"message": sprintf("%s is named on %s on %s, outside their employment %s", [input.name, count_of(count(e.refs), "row", "rows"), e.on, window]),
+		"message": sprintf("%s is named on %s on %s, outside their employment %s", [input.name, count_of(e.rows, "row", "rows"), e.on, window]),
 		"evidence": evidence(e),
 	}
 }

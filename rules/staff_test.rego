@@ -128,8 +128,17 @@ test_operator_without_training_date_fires if {
 }
 
 test_row_outside_employment_fires if {
-	some f in staff.findings with input as keeper({"active_to": "2025-12-31", "outside_active": [{"on": "2026-01-03", "refs": ["daily_care.csv:7", "daily_care.csv:8"]}]})
+	some f in staff.findings with input as keeper({"active_to": "2025-12-31", "outside_active": [{"on": "2026-01-03", "rows": 2, "refs": ["daily_care.csv:7", "daily_care.csv:8"]}]})
 	f.check == "staff.inactive"
 	f.on == "2026-01-03"
 	contains(f.message, "2024-01-01 to 2025-12-31")
+}
+
+# A day of many rows lists the first 10 as evidence: the message counts them all.
+test_row_outside_employment_counts_every_row if {
+	first := [sprintf("daily_care.csv:%d", [n]) | some n in numbers.range(7, 16)]
+	some f in staff.findings with input as keeper({"active_to": "2025-12-31", "outside_active": [{"on": "2026-01-03", "rows": 240, "refs": first}]})
+	f.check == "staff.inactive"
+	contains(f.message, "named on 240 rows on 2026-01-03")
+	f.evidence == array.concat(["staff.csv:2"], first)
 }
