@@ -164,7 +164,8 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 		if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
 			_, _ = br.Discard(3)
 		}
-		rr = &csvRows{r: newCSVReader(br), base: src.file + ":"}
+		rr = newCSVRows(f, br, src.file)
+		defer stopRows(rr)
 	} else {
 		sh := src.sheet
 		if sh == nil {

@@ -19,6 +19,44 @@ type rowReader interface {
 	refBase() string // what a row's Ref starts with: "daily_care.csv:"
 }
 
+// newCSVRows reads the rows of the CSV file f through br (f with its byte
+// order mark skipped). A file of prefetchMinBytes or more is tokenized on a
+// goroutine of its own while the loader decodes (prefetchRows); a smaller
+// one directly. Either way call stopRows when done with the reader.
+func newCSVRows(f any, br io.Reader, file string) rowReader {
+	r := newCSVReader(br)
+	if csvSize(f) >= prefetchMinBytes {
+		return newPrefetchRows(r, file+":", batchRows, batchBytes)
+	}
+	return &csvRows{r: r, base: file + ":"}
+}
+
+// csvSize is the size of an opened record file, or -1 when unknown.
+func csvSize(f any) int64 {
+	var st fs.FileInfo
+	var err error
+	switch f := f.(type) {
+	case *capped:
+		st, err = f.f.Stat()
+	case interface{ Stat() (fs.FileInfo, error) }:
+		st, err = f.Stat()
+	default:
+		return -1
+	}
+	if err != nil {
+		return -1
+	}
+	return st.Size()
+}
+
+// stopRows ends a reader's work: a prefetching reader's goroutine ends even
+// when the file was not read to its end.
+func stopRows(r rowReader) {
+	if p, ok := r.(*prefetchRows); ok {
+		p.stop()
+	}
+}
+
 // csvRows reads a CSV file's rows with the bounded csvReader.
 type csvRows struct {
 	r    *csvReader
