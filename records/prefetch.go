@@ -15,25 +15,29 @@ import (
 // being filled, one waiting, one being decoded), each capped in rows and in
 // bytes, so a large file is never read far ahead of the decoding.
 type prefetchRows struct {
-	base  string
-	ch    <-chan *rowBatch
-	free  chan<- *rowBatch
-	done  chan struct{}
-	once  sync.Once
-	cur   *rowBatch
-	i     int // the next row of cur
-	row   *fetchedRow
-	final error // io.EOF or the error that stopped the file, once reached
+	base    string
+	ch      <-chan *rowBatch
+	free    chan<- *rowBatch
+	done    chan struct{}
+	once    sync.Once
+	stopped bool
+	cur     *rowBatch
+	i       int // the next row of cur
+	row     *fetchedRow
+	final   error // io.EOF or the error that stopped the file, once reached
 }
 
 // The batch caps. A batch is sent when it has batchRows rows or its cells
 // hold batchBytes bytes, whichever comes first; a single row can take it
-// past batchBytes by at most one line's cap.
-const (
-	batchRows     = 2048
-	batchBytes    = 256 << 10
-	prefetchDepth = 3
+// past batchBytes by at most one line's cap. (Variables so that tests can
+// put batch boundaries anywhere.)
+var (
+	batchRows  = 2048
+	batchBytes = 256 << 10
 )
+
+// prefetchDepth is the most batches one reader has at once.
+const prefetchDepth = 3
 
 // prefetchMinBytes is the smallest CSV file read by a prefetching reader:
 // below it, starting a goroutine and handing rows over costs more than it
@@ -79,7 +83,7 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 			select {
 			case b = <-free:
 			default:
-				b = &rowBatch{rows: make([]fetchedRow, 0, maxRows), cells: make([]string, 0, maxRows*8)}
+				b = &rowBatch{rows: make([]fetchedRow, 0, min(maxRows, 4096)), cells: make([]string, 0, min(maxRows, 4096)*8)}
 				made++
 			}
 		} else {
@@ -139,6 +143,9 @@ func stopsFile(err error) bool {
 }
 
 func (p *prefetchRows) next() ([]string, int, error) {
+	if p.stopped {
+		return nil, 0, p.final
+	}
 	for p.cur == nil || p.i == len(p.cur.rows) {
 		if p.final != nil {
 			return nil, 0, p.final
@@ -184,6 +191,7 @@ func (p *prefetchRows) span() (int, int) {
 func (p *prefetchRows) stop() {
 	p.once.Do(func() {
 		close(p.done)
+		p.stopped = true
 		if p.final == nil {
 			p.final = errRowsStopped
 		}
