@@ -32,8 +32,8 @@ type prefetchRows struct {
 // past batchBytes by at most one line's cap. (Variables so that tests can
 // put batch boundaries anywhere.)
 var (
-	batchRows  = 2048
-	batchBytes = 256 << 10
+	batchRows  = 1024
+	batchBytes = 128 << 10
 )
 
 // prefetchDepth is the most batches one reader has at once.
@@ -83,7 +83,7 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 			select {
 			case b = <-free:
 			default:
-				b = &rowBatch{rows: make([]fetchedRow, 0, min(maxRows, 4096)), cells: make([]string, 0, min(maxRows, 4096)*8)}
+				b = &rowBatch{rows: make([]fetchedRow, 0, min(maxRows, 256)), cells: make([]string, 0, min(maxRows, 256)*8)}
 				made++
 			}
 		} else {
