@@ -368,7 +368,8 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		l.rows = append(l.rows, zero)
 		row := &l.rows[len(l.rows)-1]
 		var text *cellError
-		if len(rec) == len(p.cols) {
+		checked := textChecked(r) // every cell found to be text by the reader's goroutine
+		if len(rec) == len(p.cols) && !checked {
 			text = textCheck(rec, p)
 		}
 		switch {
@@ -379,7 +380,7 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 					ce.reason += fmt.Sprintf(" (the row runs from line %d to line %d: is a quote left open?)", start, end)
 				}
 			}
-		case !validUTF8(rec):
+		case !checked && !validUTF8(rec):
 			// Before the per-cell check: an export in another encoding gets
 			// the keeper's fix (save as UTF-8), grouped over its rows.
 			ce = notUTF8(p, rec)

@@ -57,6 +57,10 @@ type fetchedRow struct {
 	lo, hi     int // the row's cells in the batch's cells
 	start, end int // the lines it took
 	err        error
+	// text is true when every cell passed textIssue: the loader need not
+	// check them again (a row that fails is checked again by the loader,
+	// which words the message).
+	text bool
 }
 
 // newPrefetchRows starts reading r on a goroutine of its own, in batches of
@@ -109,8 +113,12 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 				fr.lo = len(b.cells)
 				b.cells = append(b.cells, rec...)
 				fr.hi = len(b.cells)
+				fr.text = true
 				for _, c := range rec {
 					size += len(c)
+					if fr.text && textIssue(c) != "" {
+						fr.text = false
+					}
 				}
 				size += len(rec) // the separators, so that empty cells count too
 			}
@@ -186,6 +194,10 @@ func (p *prefetchRows) span() (int, int) {
 	}
 	return p.row.start, p.row.end
 }
+
+// textChecked reports whether every cell of the row just read is text
+// within the cell cap, as textIssue checks it.
+func (p *prefetchRows) textChecked() bool { return p.row != nil && p.row.err == nil && p.row.text }
 
 // stop ends the producer; the reader gives no more rows after it.
 func (p *prefetchRows) stop() {

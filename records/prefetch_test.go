@@ -24,6 +24,7 @@ type readStep struct {
 	line       int
 	start, end int
 	err        string
+	text       bool // every cell is text (textIssue), as the reader says or as checked here
 }
 
 // readSteps reads r to its end or the error that stops it, and twice more:
@@ -45,6 +46,14 @@ func readSteps(t *testing.T, r rowReader) []readStep {
 			st.err = err.Error()
 			if stopsFile(err) {
 				after++
+			}
+		}
+		if _, ok := r.(*prefetchRows); ok {
+			st.text = textChecked(r)
+		} else if err == nil {
+			st.text = true
+			for _, c := range rec {
+				st.text = st.text && textIssue(c) == ""
 			}
 		}
 		out = append(out, st)
@@ -86,6 +95,7 @@ func hostileCSV() [][]byte {
 	inputs := []string{
 		"", "\n\n", "a,b,c\n1,2,3\n", "a,\"b\nc\",d\r\n\n\ne,f\r", "\"a\"\"b\",c\n", "a,\"b\n", "a,b\"c\n", "\"a\"b,c\n",
 		",\n,,\n", "\"\"\n\"\n\"\n", "x\r\ny\rz\n", "a,\"\r\n\"\r\n", "\ufeffa,b\n1,2",
+		"a,b\ncaf\xe9,1\nok,\x00\n\xe2\x82,\xac\nfine,\u20ac\n", "a,b\n1," + strings.Repeat("y", MaxFieldBytes+1) + "\n2,3\n",
 		hostileCareHead + "2026-01-15T07:00,E1,K1,yes,\"gate\nleft\"\n2026-01-15T09:00,E1,K1,yes,\"open\n2026-01-15T10:00,E1,K1,yes,ok\n",
 	}
 	var mixed strings.Builder

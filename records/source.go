@@ -188,6 +188,15 @@ func kindOrder(p *Problem) int {
 	return fileOrder(p.File)
 }
 
+// textChecked reports whether the reader has already found every cell of
+// the row just read to be text within the cell cap (textIssue), so the
+// loader need not look again: only a prefetching reader checks, on its own
+// goroutine.
+func textChecked(r rowReader) bool {
+	p, ok := r.(*prefetchRows)
+	return ok && p.textChecked()
+}
+
 func validUTF8(rec []string) bool {
 	for _, c := range rec {
 		if !utf8.ValidString(c) {
