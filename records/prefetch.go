@@ -65,8 +65,8 @@ type fetchedRow struct {
 
 // newPrefetchRows starts reading r on a goroutine of its own, in batches of
 // at most rows rows and bytes bytes of cells. Call stop when done with it
-// (early or not): the goroutine then ends even if the file was not read to
-// its end.
+// (early or not): the goroutine has ended when stop returns, even if the
+// file was not read to its end.
 func newPrefetchRows(r *csvReader, base string, rows, bytes int) *prefetchRows {
 	ch := make(chan *rowBatch, prefetchDepth-2)
 	free := make(chan *rowBatch, prefetchDepth)
@@ -199,10 +199,14 @@ func (p *prefetchRows) span() (int, int) {
 // within the cell cap, as textIssue checks it.
 func (p *prefetchRows) textChecked() bool { return p.row != nil && p.row.err == nil && p.row.text }
 
-// stop ends the producer; the reader gives no more rows after it.
+// stop ends the producer and waits for it to end, so that nothing reads
+// the file once the loader closes it; the reader gives no more rows after
+// it. The producer looks for the stop between rows, every 64 rows.
 func (p *prefetchRows) stop() {
 	p.once.Do(func() {
 		close(p.done)
+		for range p.ch { // batches it had sent, until it ends and closes ch
+		}
 		p.stopped = true
 		if p.final == nil {
 			p.final = errRowsStopped

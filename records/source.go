@@ -49,8 +49,8 @@ func csvSize(f any) int64 {
 	return st.Size()
 }
 
-// stopRows ends a reader's work: a prefetching reader's goroutine ends even
-// when the file was not read to its end.
+// stopRows ends a reader's work: a prefetching reader's goroutine has ended
+// when it returns, even when the file was not read to its end.
 func stopRows(r rowReader) {
 	if p, ok := r.(*prefetchRows); ok {
 		p.stop()
