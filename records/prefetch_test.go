@@ -383,3 +383,28 @@ func TestPrefetchChosenBySize(t *testing.T) {
 		f.Close()
 	}
 }
+
+// TestPrefetchCellsKept: the cells of a row stay as they were after the
+// reader has gone on and reused its batches (the loader keeps cells, not
+// the row's slice).
+func TestPrefetchCellsKept(t *testing.T) {
+	var data strings.Builder
+	for i := range 5000 {
+		fmt.Fprintf(&data, "r%d,\"c,%d\",x%d\n", i, i*7, i%13)
+	}
+	p := newPrefetchRows(newCSVReader(strings.NewReader(data.String())), "f.csv:", 16, 1<<20)
+	defer p.stop()
+	var kept []string
+	for {
+		rec, _, err := p.next()
+		if err != nil {
+			break
+		}
+		kept = append(kept, rec...)
+	}
+	for i := range 5000 {
+		if got, want := strings.Join(kept[3*i:3*i+3], "|"), fmt.Sprintf("r%d|c,%d|x%d", i, i*7, i%13); got != want {
+			t.Fatalf("row %d kept as %q, want %q", i+1, got, want)
+		}
+	}
+}
