@@ -116,14 +116,8 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 				fr.lo = len(b.cells)
 				b.cells = append(b.cells, rec...)
 				fr.hi = len(b.cells)
-				fr.text = true
-				for _, c := range rec {
-					size += len(c)
-					if fr.text && textIssue(c) != "" {
-						fr.text = false
-					}
-				}
-				size += len(rec) // the separators, so that empty cells count too
+				fr.text = r.rowText()
+				size += len(r.recBuf) + len(rec) // and the separators, so that empty cells count too
 			}
 			b.rows = append(b.rows, fr)
 			if err != nil && stopsFile(err) {

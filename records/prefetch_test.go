@@ -408,3 +408,30 @@ func TestPrefetchCellsKept(t *testing.T) {
 		}
 	}
 }
+
+// FuzzRowText: csvReader.rowText, the one-pass check of a record, agrees
+// with textIssue on each of its cells for any input.
+func FuzzRowText(f *testing.F) {
+	for _, s := range []string{"a,b\n", "\xe2\x82,\xac\n", "caf\xe9,1\n", "ok,\x00\n", "\u20ac,\"\xe2\x82\"\"\xac\"\n", "a," + strings.Repeat("y", MaxFieldBytes+1) + "\n"} {
+		f.Add([]byte(s))
+	}
+	f.Fuzz(func(t *testing.T, data []byte) {
+		r := newCSVReader(bytes.NewReader(data))
+		for {
+			rec, err := r.Read()
+			if err != nil {
+				if stopsFile(err) {
+					return
+				}
+				continue
+			}
+			want := true
+			for _, c := range rec {
+				want = want && textIssue(c) == ""
+			}
+			if got := r.rowText(); got != want {
+				t.Fatalf("record %q: rowText %v, cell by cell %v", rec, got, want)
+			}
+		}
+	})
+}
