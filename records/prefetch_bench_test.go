@@ -64,9 +64,9 @@ func BenchmarkPrefetchRead(b *testing.B) {
 			for b.Loop() {
 				var rr rowReader
 				if c == "direct" {
-					rr = &csvRows{r: newCSVReader(bytesReader(data)), base: careFile + ":"}
+					rr = &csvRows{r: newCSVReader(bytes.NewReader(data)), base: careFile + ":"}
 				} else {
-					rr = newPrefetchRows(newCSVReader(bytesReader(data)), careFile+":", batchRows, batchBytes)
+					rr = newPrefetchRows(newCSVReader(bytes.NewReader(data)), careFile+":", batchRows, batchBytes)
 				}
 				cells := 0
 				for {
@@ -95,5 +95,3 @@ func setPrefetchMin(n int64) func() {
 	prefetchMinBytes = n
 	return func() { prefetchMinBytes = old }
 }
-
-func bytesReader(b []byte) *bytes.Reader { return bytes.NewReader(b) }
