@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"unicode/utf8"
 )
 
 // csvReader reads comma-separated records as encoding/csv does (RFC 4180:
@@ -253,4 +254,25 @@ func (r *csvReader) record() ([]string, error) {
 	}
 	r.held = r.held[:0]
 	return r.rec, nil
+}
+
+// rowText reports whether every cell of the record just read is text as
+// textIssue checks it (no NUL byte, UTF-8, within MaxFieldBytes), in one
+// pass over the record's bytes rather than one per cell. The cells are
+// consecutive pieces of those bytes: the whole being UTF-8 with each cell
+// starting on a character makes each cell UTF-8, and a cell that is UTF-8
+// starts on a character, so the answer is the same as cell by cell.
+func (r *csvReader) rowText() bool {
+	b := r.recBuf
+	if bytes.IndexByte(b, 0) >= 0 || !utf8.Valid(b) {
+		return false
+	}
+	prev := 0
+	for _, e := range r.ends {
+		if e-prev > MaxFieldBytes || (e > prev && !utf8.RuneStart(b[prev])) {
+			return false
+		}
+		prev = e
+	}
+	return true
 }

@@ -164,7 +164,8 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 		if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
 			_, _ = br.Discard(3)
 		}
-		rr = &csvRows{r: newCSVReader(br), base: src.file + ":"}
+		rr = newCSVRows(f, br, src.file)
+		defer stopRows(rr)
 	} else {
 		sh := src.sheet
 		if sh == nil {
@@ -367,7 +368,8 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		l.rows = append(l.rows, zero)
 		row := &l.rows[len(l.rows)-1]
 		var text *cellError
-		if len(rec) == len(p.cols) {
+		checked := textChecked(r) // every cell found to be text by the reader's goroutine
+		if len(rec) == len(p.cols) && !checked {
 			text = textCheck(rec, p)
 		}
 		switch {
@@ -378,7 +380,7 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 					ce.reason += fmt.Sprintf(" (the row runs from line %d to line %d: is a quote left open?)", start, end)
 				}
 			}
-		case !validUTF8(rec):
+		case !checked && !validUTF8(rec):
 			// Before the per-cell check: an export in another encoding gets
 			// the keeper's fix (save as UTF-8), grouped over its rows.
 			ce = notUTF8(p, rec)

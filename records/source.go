@@ -19,6 +19,44 @@ type rowReader interface {
 	refBase() string // what a row's Ref starts with: "daily_care.csv:"
 }
 
+// newCSVRows reads the rows of the CSV file f through br (f with its byte
+// order mark skipped). A file of prefetchMinBytes or more is tokenized on a
+// goroutine of its own while the loader decodes (prefetchRows); a smaller
+// one directly. Either way call stopRows when done with the reader.
+func newCSVRows(f any, br io.Reader, file string) rowReader {
+	r := newCSVReader(br)
+	if csvSize(f) >= prefetchMinBytes {
+		return newPrefetchRows(r, file+":", batchRows, batchBytes)
+	}
+	return &csvRows{r: r, base: file + ":"}
+}
+
+// csvSize is the size of an opened record file, or -1 when unknown.
+func csvSize(f any) int64 {
+	var st fs.FileInfo
+	var err error
+	switch f := f.(type) {
+	case *capped:
+		st, err = f.f.Stat()
+	case interface{ Stat() (fs.FileInfo, error) }:
+		st, err = f.Stat()
+	default:
+		return -1
+	}
+	if err != nil {
+		return -1
+	}
+	return st.Size()
+}
+
+// stopRows ends a reader's work: a prefetching reader's goroutine has ended
+// when it returns, even when the file was not read to its end.
+func stopRows(r rowReader) {
+	if p, ok := r.(*prefetchRows); ok {
+		p.stop()
+	}
+}
+
 // csvRows reads a CSV file's rows with the bounded csvReader.
 type csvRows struct {
 	r    *csvReader
@@ -148,6 +186,15 @@ func kindOrder(p *Problem) int {
 		return fileOrder(kind + ".csv")
 	}
 	return fileOrder(p.File)
+}
+
+// textChecked reports whether the reader has already found every cell of
+// the row just read to be text within the cell cap (textIssue), so the
+// loader need not look again: only a prefetching reader checks, on its own
+// goroutine.
+func textChecked(r rowReader) bool {
+	p, ok := r.(*prefetchRows)
+	return ok && p.textChecked()
 }
 
 func validUTF8(rec []string) bool {
