@@ -89,7 +89,7 @@ func BenchmarkGenerated(b *testing.B) {
 }
 
 // generatedSet generates and loads a folder of n animals over a year.
-func generatedSet(b *testing.B, n int, lim *rules.Limits) (*records.Set, int) {
+func generatedSet(b testing.TB, n int, lim *rules.Limits) (*records.Set, int) {
 	b.Helper()
 	dir := b.TempDir()
 	planted, err := synth.Generate(dir, synth.Options{Animals: n, Days: 365, Seed: 7})
