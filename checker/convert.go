@@ -10,17 +10,20 @@ import (
 )
 
 // converter turns subject documents (the facts' map[string]any, []any,
-// string, float64, int, bool and nil) into the OPA values the rules are
-// evaluated on. It gives the same values as ast.InterfaceToValue, with
-// less work on the documents the facts build:
+// []string, string, float64, int, bool and nil; anything else goes to
+// ast.InterfaceToValue) into the OPA values the rules are evaluated on.
+// It gives the same values as ast.InterfaceToValue, with less work on the
+// documents the facts build:
 //
-//   - a map or slice given in several places of a document (a heat run
-//     shared by the days of the run) is converted once and its term
-//     reused, and so is one given to several subjects one after the other
-//     (a site's run shared by the enclosures of that site): it remembers
-//     the containers of the subject it converts and of the one before;
-//   - strings (object keys, days, bands, refs) and non-integral numbers
-//     are converted once per converter and their terms reused.
+//   - a map (or a list of 4 or more) given in several places of a
+//     document (a heat run shared by the days of the run) is converted
+//     once and its term reused, and so is one given to several subjects
+//     one after the other (a site's run shared by the enclosures of that
+//     site): it remembers the containers of the subject it converts and
+//     of the one before;
+//   - object keys, short strings (days, times, bands, kinds) and
+//     numbers are converted once per converter and their terms reused;
+//     every empty list is one term.
 //
 // OPA values are immutable once built, so sharing a term among documents
 // and among the objects of one document is safe. A converter is used by
@@ -33,6 +36,9 @@ type converter struct {
 	// Containers by identity: cur holds those of the subject being
 	// converted, prev those of the subject before.
 	cur, prev containerMemo
+	// pairs is a stack of the key-value pairs of the objects being
+	// built (ast.NewObject copies them out).
+	pairs [][2]*ast.Term
 }
 
 type containerMemo struct {
@@ -58,7 +64,13 @@ const (
 	// bytes used once or twice, while the days (10 bytes), times, bands
 	// and kinds repeat hundreds of times.
 	maxInternedLen = 18
+	// Shorter slices (the evidence refs of one day: most slices) are not
+	// remembered: looking them up costs about what converting them does.
+	minSharedSlice = 4
 )
+
+// emptyArray is the term of every empty list.
+var emptyArray = ast.NewTerm(ast.InternedEmptyArrayValue)
 
 func newConverter() *converter {
 	return &converter{
@@ -88,15 +100,16 @@ func (c *converter) document(doc map[string]any) (ast.Value, error) {
 }
 
 func (c *converter) object(m map[string]any) (ast.Value, error) {
-	kvs := make([][2]*ast.Term, 0, len(m))
+	start := len(c.pairs)
+	defer func() { c.pairs = c.pairs[:start] }()
 	for k, v := range m {
 		t, err := c.term(v)
 		if err != nil {
 			return nil, err
 		}
-		kvs = append(kvs, [2]*ast.Term{c.key(k), t})
+		c.pairs = append(c.pairs, [2]*ast.Term{c.key(k), t})
 	}
-	return ast.NewObject(kvs...), nil
+	return ast.NewObject(c.pairs[start:]...), nil
 }
 
 func (c *converter) array(s []any) (ast.Value, error) {
@@ -137,6 +150,16 @@ func (c *converter) term(v any) (*ast.Term, error) {
 		c.cur.maps[id] = t
 		return t, nil
 	case []any:
+		if len(v) == 0 {
+			return emptyArray, nil
+		}
+		if len(v) < minSharedSlice {
+			val, err := c.array(v)
+			if err != nil {
+				return nil, err
+			}
+			return ast.NewTerm(val), nil
+		}
 		id := sliceID{unsafe.Pointer(unsafe.SliceData(v)), len(v)}
 		if t := c.memoSlice(id); t != nil {
 			return t, nil
@@ -148,6 +171,12 @@ func (c *converter) term(v any) (*ast.Term, error) {
 		t := ast.NewTerm(val)
 		c.cur.slices[id] = t
 		return t, nil
+	case []string:
+		elems := make([]*ast.Term, len(v))
+		for i, s := range v {
+			elems[i] = c.str(s)
+		}
+		return ast.NewTerm(ast.NewArray(elems...)), nil
 	case *ast.Term:
 		return v, nil
 	}

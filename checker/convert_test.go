@@ -3,9 +3,7 @@ package checker
 import (
 	"encoding/json"
 	"math"
-	"syscall"
 	"testing"
-	"time"
 
 	"github.com/open-policy-agent/opa/v1/ast"
 
@@ -165,23 +163,4 @@ func BenchmarkConvertGenerated(b *testing.B) {
 			}
 		}
 	})
-}
-
-// reportCPU reports the CPU time (user and system, every thread, the
-// garbage collector's included) the benchmark took per op: on a shared
-// machine it varies less than the wall time does. Call as
-// defer reportCPU(b)().
-func reportCPU(b *testing.B) func() {
-	start := cpuTime()
-	return func() {
-		b.ReportMetric(float64(cpuTime()-start)/float64(b.N), "cpu-ns/op")
-	}
-}
-
-func cpuTime() time.Duration {
-	var ru syscall.Rusage
-	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
-		return 0
-	}
-	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
 }
