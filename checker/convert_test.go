@@ -7,6 +7,7 @@ import (
 
 	"github.com/open-policy-agent/opa/v1/ast"
 
+	"welfare/records"
 	"welfare/rules"
 )
 
@@ -56,6 +57,23 @@ func TestConverterMatchesOPAOnFacts(t *testing.T) {
 	}
 	if n < 500 {
 		t.Fatalf("only %d documents compared", n)
+	}
+	// The correction documents, built from findings in the second pass.
+	d := func(s string) records.Day { return followDay(t, s) }
+	set = &records.Set{CorrectiveActions: []records.CorrectiveAction{
+		{Ref: "corrective_actions.csv:2", Check: "care.water.unavailable", Subject: "S2-11", FoundOn: d("2025-12-09"),
+			Plan: "heated drinker", DueOn: d("2025-12-19"), ClosedOn: d("2026-01-05")},
+	}}
+	prev := &Previous{Findings: []Finding{{Check: "care.water.unavailable", Subject: "S2-11", On: d("2025-12-09"), Severity: Significant, Message: "frozen"}}}
+	found := []Finding{{Check: "care.water.unavailable", Subject: "S2-11", On: d("2026-01-03"), Until: d("2026-01-07"),
+		Severity: Significant, Evidence: []records.Ref{"daily_care.csv:9"}}}
+	docs := correctionFacts(set, prev, Period{From: d("2026-01-01"), To: d("2026-01-31")}, found)
+	if len(docs) == 0 {
+		t.Fatal("no correction documents")
+	}
+	c := newConverter()
+	for _, doc := range docs {
+		sameAsOPA(t, c, doc)
 	}
 }
 
