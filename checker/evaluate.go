@@ -12,7 +12,6 @@ import (
 	"time"
 	"unicode/utf8"
 
-	"github.com/open-policy-agent/opa/v1/ast"
 	"github.com/open-policy-agent/opa/v1/rego"
 	"github.com/open-policy-agent/opa/v1/topdown"
 
@@ -51,8 +50,9 @@ func (e *engine) Evaluate(ctx context.Context, kind string, inputs []map[string]
 	var wg sync.WaitGroup
 	for range min(e.opt.Workers, len(inputs)) {
 		wg.Go(func() {
+			conv := newConverter()
 			for i := range next {
-				results[i], errs[i] = e.evaluateOne(ctx, queries, inputs[i])
+				results[i], errs[i] = e.evaluateOne(ctx, queries, conv, inputs[i])
 				if errs[i] != nil {
 					failed.Store(true)
 				}
@@ -152,9 +152,9 @@ func inputSubject(input map[string]any) string {
 	return "(no id)"
 }
 
-func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, input map[string]any) ([]Finding, error) {
+func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, conv *converter, input map[string]any) ([]Finding, error) {
 	subject := inputSubject(input)
-	val, err := ast.InterfaceToValue(input)
+	val, err := conv.document(input)
 	if err != nil {
 		return nil, fmt.Errorf("subject %s: facts cannot be given to the rules: %w", subject, err)
 	}

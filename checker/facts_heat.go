@@ -78,11 +78,14 @@ func (f *facts) heatDays() map[string][]heatDay {
 
 func (f *facts) heatFacts() {
 	byDay := f.heatDays()
-	f.siteHeatFacts(byDay)
-	f.enclosureHeatFacts(byDay)
+	docs := f.heatDayDocs(byDay)
+	f.siteHeatFacts(byDay, docs)
+	f.enclosureHeatFacts(byDay, docs)
 }
 
-// heatDayDoc is the document of one site-day.
+// heatDayDoc is the figures of one site-day, as the site's days and the
+// enclosures' hot days both give them (each adds its own evidence, and
+// its run).
 func heatDayDoc(d records.Day, hd heatDay) map[string]any {
 	b := heat.BandC(hd.maxHIC)
 	m := map[string]any{
@@ -100,13 +103,40 @@ func heatDayDoc(d records.Day, hd heatDay) map[string]any {
 		// humidity; when false the air temperature stands for the heat index.
 		"humidity_recorded":         hd.peak.HumidityPct != nil,
 		"readings_without_humidity": hd.noHumid,
-		"evidence":                  refs(hd.peak.Ref),
+	}
+	return m
+}
+
+// heatDayDocs builds the figures of every site-day with readings once
+// (heatDayDoc), by site and day of the period; the site's document and
+// those of the enclosures the site reads for copy them.
+func (f *facts) heatDayDocs(byDay map[string][]heatDay) map[string][]map[string]any {
+	out := map[string][]map[string]any{}
+	for id, days := range byDay {
+		docs := make([]map[string]any, len(days))
+		for i, hd := range days {
+			if hd.readings > 0 {
+				docs[i] = heatDayDoc(f.period.From+records.Day(i), hd)
+			}
+		}
+		out[id] = docs
+	}
+	return out
+}
+
+// withFields is a copy of the site-day figures base with the fields a
+// subject adds (shallow: the values are shared, documents are not changed
+// once built).
+func withFields(base map[string]any, extra int) map[string]any {
+	m := make(map[string]any, len(base)+extra)
+	for k, v := range base {
+		m[k] = v
 	}
 	return m
 }
 
 // siteHeatFacts adds every site's days with readings.
-func (f *facts) siteHeatFacts(byDay map[string][]heatDay) {
+func (f *facts) siteHeatFacts(byDay map[string][]heatDay, docs map[string][]map[string]any) {
 	ids := map[string]bool{}
 	for _, id := range f.set.Facility.WeatherSites {
 		ids[id] = true
@@ -121,12 +151,19 @@ func (f *facts) siteHeatFacts(byDay map[string][]heatDay) {
 	}
 	for id := range ids {
 		days := []any{}
+		var on []records.Day
 		for i, hd := range byDay[id] {
 			if hd.readings > 0 {
-				days = append(days, heatDayDoc(f.period.From+records.Day(i), hd))
+				m := withFields(docs[id][i], 2)
+				m["evidence"] = refs(hd.peak.Ref)
+				m["run"] = nil
+				days = append(days, m)
+				on = append(on, f.period.From+records.Day(i))
 			}
 		}
-		annotateHeatRuns(days, f.lim.Heat.DangerHeatIndexC)
+		for _, r := range heatRuns(days, on, f.lim.Heat.DangerHeatIndexC) {
+			setRun(days, r, heatRunDoc(days[r.first:r.last+1]))
+		}
 		f.doc("site", id)["heat"] = map[string]any{
 			"readings_recorded": f.set.Present["weather.csv"],
 			"days":              days,
@@ -135,10 +172,14 @@ func (f *facts) siteHeatFacts(byDay map[string][]heatDay) {
 }
 
 // enclosureHeatFacts adds the heat section of every enclosure in an outdoor
-// or sheltered building.
-func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay) {
+// or sheltered building. An enclosure's hot days copy its site's figures
+// (heatDayDocs); a run of hot days the enclosure was occupied for from
+// start to end is the site's run, one document shared by every enclosure
+// of the site.
+func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay, docs map[string][]map[string]any) {
 	c := f.careIndex()
 	hot := f.lim.Heat.HotDayC
+	siteRuns := map[string]map[records.Day]siteRun{}
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		b := f.buildings[e.BuildingID]
@@ -147,22 +188,39 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay) {
 		}
 		site := byDay[b.WeatherSite]
 		days := []any{}
+		var on []records.Day
 		for _, seg := range f.segments[e.ID] {
 			for d := seg.From; d <= seg.To; d++ {
 				if site == nil {
 					break
 				}
 				hd := site[d-f.period.From]
-				if hd.readings == 0 || (hd.maxAirC < hot && hd.maxHIC < hot) {
+				if !hotDay(hd, hot) {
 					continue
 				}
-				m := heatDayDoc(d, hd)
+				m := withFields(docs[b.WeatherSite][d-f.period.From], 3)
 				m["water_checks"] = int(c.on(e.ID, e.BuildingID, d).waterChecks)
 				m["evidence"] = refs(e.Ref, hd.airRef, hd.peak.Ref)
+				m["run"] = nil
 				days = append(days, m)
+				on = append(on, d)
 			}
 		}
-		annotateHeatRuns(days, hot)
+		var runs map[records.Day]siteRun
+		if len(days) > 0 {
+			runs = siteRuns[b.WeatherSite]
+			if runs == nil {
+				runs = f.siteHotRuns(site, docs[b.WeatherSite], hot)
+				siteRuns[b.WeatherSite] = runs
+			}
+		}
+		for _, r := range heatRuns(days, on, hot) {
+			if sr, ok := runs[on[r.first]]; ok && sr.until == on[r.last] {
+				setRun(days, r, sr.doc)
+			} else {
+				setRun(days, r, heatRunDoc(days[r.first:r.last+1]))
+			}
+		}
 		f.doc("enclosure", e.ID)["heat"] = map[string]any{
 			"exposure":       b.Exposure,
 			"weather_site":   nilIfEmpty(b.WeatherSite),
@@ -173,48 +231,90 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay) {
 	}
 }
 
-// annotateHeatRuns gives every day whose maximum heat index reaches limit
-// the figures of its run of consecutive such days ("run"; null on other
-// days): the run's hottest day and the days in it without humidity. A run
-// finding keeps its first day's message, so the message must speak for the
-// whole run.
-func annotateHeatRuns(days []any, limit float64) {
-	in := func(i int) bool { return days[i].(map[string]any)["max_heat_index_c"].(float64) >= limit }
-	day := func(i int) records.Day {
-		d, _ := records.ParseDay(days[i].(map[string]any)["on"].(string))
-		return d
+// hotDay reports whether a site-day is a hot day for the enclosures it
+// reads for: its maximum air temperature or heat index reaches limit.
+func hotDay(hd heatDay, limit float64) bool {
+	return hd.readings > 0 && (hd.maxAirC >= limit || hd.maxHIC >= limit)
+}
+
+// siteRun is a run of a site's hot days as an enclosure occupied for all
+// of it has it: its last day and its document.
+type siteRun struct {
+	until records.Day
+	doc   map[string]any
+}
+
+// siteHotRuns gives, by first day, the runs of a site's hot days (the days
+// an enclosure occupied for the whole period would list).
+func (f *facts) siteHotRuns(site []heatDay, docs []map[string]any, hot float64) map[records.Day]siteRun {
+	var days []any
+	var on []records.Day
+	for i, hd := range site {
+		if hotDay(hd, hot) {
+			days = append(days, docs[i])
+			on = append(on, f.period.From+records.Day(i))
+		}
 	}
+	out := map[records.Day]siteRun{}
+	for _, r := range heatRuns(days, on, hot) {
+		out[on[r.first]] = siteRun{until: on[r.last], doc: heatRunDoc(days[r.first : r.last+1])}
+	}
+	return out
+}
+
+// dayRange is a run of days as indexes into a list of days, inclusive.
+type dayRange struct{ first, last int }
+
+// heatRuns finds, in days (site-day documents of the days on, in order),
+// the runs of consecutive days whose maximum heat index reaches limit. A
+// run finding keeps its first day's message, so the message must speak
+// for the whole run: each day of a run gets the run's document (setRun).
+func heatRuns(days []any, on []records.Day, limit float64) []dayRange {
+	in := func(i int) bool { return days[i].(map[string]any)["max_heat_index_c"].(float64) >= limit }
+	var out []dayRange
 	for i := 0; i < len(days); i++ {
 		if !in(i) {
-			days[i].(map[string]any)["run"] = nil
 			continue
 		}
 		j := i
-		for j+1 < len(days) && in(j+1) && day(j+1) == day(j)+1 {
+		for j+1 < len(days) && in(j+1) && on[j+1] == on[j]+1 {
 			j++
 		}
-		hottest := days[i].(map[string]any)
-		noHumidity := []any{}
-		for k := i; k <= j; k++ {
-			m := days[k].(map[string]any)
-			if m["max_heat_index_c"].(float64) > hottest["max_heat_index_c"].(float64) {
-				hottest = m
-			}
-			if !m["humidity_recorded"].(bool) {
-				noHumidity = append(noHumidity, m["on"])
-			}
-		}
-		run := map[string]any{
-			"from": days[i].(map[string]any)["on"], "until": days[j].(map[string]any)["on"], "days": j - i + 1,
-			"hottest_on": hottest["on"], "max_heat_index_c": hottest["max_heat_index_c"],
-			"max_heat_index_f": hottest["max_heat_index_f"], "band_wording": hottest["band_wording"],
-			"peak_at": hottest["peak_at"], "peak_air_c": hottest["peak_air_c"],
-			"peak_humidity_pct": hottest["peak_humidity_pct"], "humidity_recorded": hottest["humidity_recorded"],
-			"days_without_humidity": noHumidity,
-		}
-		for k := i; k <= j; k++ {
-			days[k].(map[string]any)["run"] = run
-		}
+		out = append(out, dayRange{i, j})
 		i = j
+	}
+	return out
+}
+
+// setRun gives the days of r the run document run (the other days have a
+// null run).
+func setRun(days []any, r dayRange, run map[string]any) {
+	for k := r.first; k <= r.last; k++ {
+		days[k].(map[string]any)["run"] = run
+	}
+}
+
+// heatRunDoc is the document of a run of days: its hottest day and the
+// days in it without humidity.
+func heatRunDoc(days []any) map[string]any {
+	first, last := days[0].(map[string]any), days[len(days)-1].(map[string]any)
+	hottest := first
+	noHumidity := []any{}
+	for _, d := range days {
+		m := d.(map[string]any)
+		if m["max_heat_index_c"].(float64) > hottest["max_heat_index_c"].(float64) {
+			hottest = m
+		}
+		if !m["humidity_recorded"].(bool) {
+			noHumidity = append(noHumidity, m["on"])
+		}
+	}
+	return map[string]any{
+		"from": first["on"], "until": last["on"], "days": len(days),
+		"hottest_on": hottest["on"], "max_heat_index_c": hottest["max_heat_index_c"],
+		"max_heat_index_f": hottest["max_heat_index_f"], "band_wording": hottest["band_wording"],
+		"peak_at": hottest["peak_at"], "peak_air_c": hottest["peak_air_c"],
+		"peak_humidity_pct": hottest["peak_humidity_pct"], "humidity_recorded": hottest["humidity_recorded"],
+		"days_without_humidity": noHumidity,
 	}
 }

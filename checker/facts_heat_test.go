@@ -333,3 +333,48 @@ func TestEnclosureHotDays(t *testing.T) {
 		t.Error("an indoor enclosure has hot-day facts")
 	}
 }
+
+// TestEnclosureHotRunsShared: a run of hot days an enclosure was occupied
+// for throughout is one document, shared by the enclosures of the site;
+// an enclosure occupied for part of it gets a run of its own days.
+func TestEnclosureHotRunsShared(t *testing.T) {
+	set := summerSet(true)
+	set.Animals[1].LeftOn = coldDay("2026-07-14") // S-02 is empty from 07-15
+	f := newFacts(set, coldLimits(t), summerPeriod)
+	f.heatFacts()
+	runs := func(id string) []map[string]any {
+		var out []map[string]any
+		for _, d := range f.docs["enclosure"][id]["heat"].(map[string]any)["hot_days"].([]any) {
+			out = append(out, d.(map[string]any)["run"].(map[string]any))
+		}
+		return out
+	}
+	s1, s2 := runs("S-01"), runs("S-02")
+	if len(s1) != 2 || len(s2) != 1 {
+		t.Fatalf("S-01 has %d hot days, S-02 %d; want 2 and 1", len(s1), len(s2))
+	}
+	same := func(a, b map[string]any) bool { return fmt.Sprintf("%p", a) == fmt.Sprintf("%p", b) }
+	if !same(s1[0], s1[1]) {
+		t.Error("S-01's two days of one run have two run documents")
+	}
+	// Another enclosure of the site occupied for the whole run shares it.
+	set = summerSet(true)
+	g := newFacts(set, coldLimits(t), summerPeriod)
+	g.heatFacts()
+	a := g.docs["enclosure"]["S-01"]["heat"].(map[string]any)["hot_days"].([]any)[0].(map[string]any)["run"].(map[string]any)
+	b := g.docs["enclosure"]["S-02"]["heat"].(map[string]any)["hot_days"].([]any)[1].(map[string]any)["run"].(map[string]any)
+	if !same(a, b) {
+		t.Error("S-01 and S-02, occupied for the whole run, have two run documents")
+	}
+	// S-02's run is its own one day, 07-14 (the site's goes on to 07-15).
+	want := map[string]any{"from": "2026-07-14", "until": "2026-07-14", "days": 1, "hottest_on": "2026-07-14",
+		"humidity_recorded": true, "days_without_humidity": []any{}}
+	for k, v := range want {
+		if diff := cmp.Diff(v, s2[0][k]); diff != "" {
+			t.Errorf("S-02 run %s (-want +got):\n%s", k, diff)
+		}
+	}
+	if s1[0]["from"] != "2026-07-14" || s1[0]["days"] != 2 {
+		t.Errorf("S-01 run = %v", s1[0])
+	}
+}
