@@ -214,8 +214,9 @@ func recordSpan(set *records.Set) (from, to records.Day) {
 			to = d
 		}
 	}
-	for i := range set.Care {
-		see(set.Care[i].Day)
+	rounds := set.CareRounds()
+	for i := range rounds.Len() {
+		see(rounds.Day(i))
 	}
 	for i := range set.Handling {
 		see(records.DayOf(set.Handling[i].At))

@@ -106,6 +106,18 @@ type fileSpec[T any] struct {
 	day    func(r *T) Day                     // the row's date, to place a rejected row in time
 	id     func(r *T) string                  // the row's unique id, for files keyed by one
 	idName string                             // the Go field of that id
+	// store, when set, makes the file's compact store: accepted rows go
+	// there as they are read instead of into rows (see CareRounds).
+	store func(loc *time.Location) rowStore[T]
+}
+
+// rowStore keeps a file's accepted rows in a form of its own. Each row is
+// decoded into one reused value and handed to add with its ref, as the
+// prefix and the line, so nothing of the row outlives the call.
+type rowStore[T any] interface {
+	addAt(row *T, prefix string, line int)
+	Len() int
+	reset()
 }
 
 // loaded is one file after reading: its accepted rows and its account.
@@ -113,6 +125,7 @@ type loaded[T any] struct {
 	spec     *fileSpec[T]
 	present  bool
 	rows     []T
+	store    rowStore[T] // the accepted rows instead of rows, when spec.store is set
 	count    FileCount
 	problems []Problem
 	warnings []Warning
@@ -147,6 +160,9 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 	}
 	l.present = true
 	l.file, l.count.File = src.file, src.display
+	if spec.store != nil {
+		l.store = spec.store(e.loc)
+	}
 	rt, err := rowTypeOf(reflect.TypeFor[T]())
 	if err != nil {
 		l.fail("", err.Error())
@@ -175,7 +191,9 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 		}
 		sr := newSheetReader(sh)
 		l.at, l.sheet = sr.at, sh.name
-		l.rows = make([]T, 0, len(sh.rows))
+		if l.store == nil {
+			l.rows = make([]T, 0, len(sh.rows))
+		}
 		rr = sr
 	}
 
@@ -311,6 +329,9 @@ func (l *loaded[T]) stop(err error) {
 	l.count.Rejected += l.count.Accepted
 	l.count.Accepted = 0
 	l.rows, l.chunks = nil, nil
+	if l.store != nil {
+		l.store.reset()
+	}
 	l.rejected = nil
 	l.fail("", "cannot be read: "+err.Error())
 }
@@ -330,7 +351,10 @@ func csvReason(err error) string {
 func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 	spec, p := l.spec, d.p
 	check := rowCheck{p: p, env: e}
-	var zero T
+	var zero, scratch T
+	if l.store != nil {
+		d.scratch = make([]float64, p.rt.typ.NumField())
+	}
 	defer l.flatten()
 	firstAt := map[string]int{}
 	if spec.id != nil {
@@ -361,11 +385,16 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		}
 		l.count.Read++
 		var ce *cellError
-		if len(l.rows) == cap(l.rows) {
-			l.grow()
+		row := &scratch
+		if l.store != nil {
+			scratch = zero
+		} else {
+			if len(l.rows) == cap(l.rows) {
+				l.grow()
+			}
+			l.rows = append(l.rows, zero)
+			row = &l.rows[len(l.rows)-1]
 		}
-		l.rows = append(l.rows, zero)
-		row := &l.rows[len(l.rows)-1]
 		var text *cellError
 		if len(rec) == len(p.cols) {
 			text = textCheck(rec, p)
@@ -415,7 +444,17 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 			}
 			l.problems = append(l.problems, pr)
 			l.count.Rejected++
-			l.rows = l.rows[:len(l.rows)-1]
+			if l.store == nil {
+				l.rows = l.rows[:len(l.rows)-1]
+			}
+			continue
+		}
+		l.count.Accepted++
+		if l.store != nil {
+			if len(l.local) > 0 {
+				l.keepLocal(d.ref(line), rec)
+			}
+			l.store.addAt(row, d.refBase, line)
 			continue
 		}
 		ref := d.ref(line)
@@ -423,7 +462,6 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		if len(l.local) > 0 {
 			l.keepLocal(ref, rec)
 		}
-		l.count.Accepted++
 	}
 }
 
@@ -587,6 +625,7 @@ var (
 			}
 			return r.Day
 		},
+		store: func(loc *time.Location) rowStore[CareRound] { return newCareRounds(loc) },
 	}
 	handlingSpec = &fileSpec[Handling]{
 		name: handlingFile,
@@ -745,7 +784,11 @@ func LoadContext(ctx context.Context, fsys fs.FS, opt Options) (*Set, error) {
 	s.CorrectiveActions = ld.corrective.rows
 	s.Environment = ld.environment.rows
 	s.Animals, s.Enclosures, s.Housing = ld.animals.rows, ld.enclosures.rows, ld.housing.rows
-	s.Staff, s.Protocols, s.Care, s.Handling = ld.staff.rows, ld.protocols.rows, ld.care.rows, ld.handling.rows
+	s.Staff, s.Protocols, s.Handling = ld.staff.rows, ld.protocols.rows, ld.handling.rows
+	s.care = newCareRounds(loc)
+	if st, ok := ld.care.store.(*CareRounds); ok {
+		s.care = st
+	}
 	s.PPEChecks, s.Weather, s.Work, s.Culls = ld.ppe.rows, ld.weather.rows, ld.work.rows, ld.culls.rows
 	s.Deaths, s.Observations, s.Treatments, s.Litters = ld.deaths.rows, ld.observations.rows, ld.treatments.rows, ld.litters.rows
 	s.Problems = append(s.Problems, ld.extra...)
