@@ -13,8 +13,8 @@ import (
 // (facts_care.go, facts_enclosure.go, ...) each add their own section to the
 // documents of the subjects they describe.
 type facts struct {
-	set    *records.Set
-	lim    *rules.Limits
+	set *records.Set
+	lim *rules.Limits
 	// rounds are the set's care rounds (built once for a set made by hand).
 	rounds *records.CareRounds
 	period Period
