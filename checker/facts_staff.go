@@ -90,11 +90,12 @@ func (f *facts) staffFacts() {
 		outside(s, d, c.Ref)
 	}
 	risky := f.rabiesRiskRounds()
+	var r records.CareView // one for every round: risky takes its address
 	for i := range f.rounds.Len() {
 		if !f.inPeriod(f.rounds.Day(i)) {
 			continue
 		}
-		r := f.rounds.View(i)
+		r = f.rounds.View(i)
 		if s := f.staff[r.StaffID]; s != nil {
 			// The ref is formatted only for a round the facts cite.
 			if away(s, r.Day) {

@@ -131,8 +131,9 @@ func keepRounds(l *loaded[CareRound], check func(r *CareView) *cellError) {
 	if l.plan == nil || !ok {
 		return
 	}
+	var v CareView // one for every row: a pointer to it escapes to check
 	st.retain(func(i int) bool {
-		v := st.View(i)
+		v = st.View(i)
 		ce := check(&v)
 		if ce == nil {
 			return true

@@ -29,7 +29,7 @@ func (s *Set) Until(t time.Time) *Set {
 		c.care = st.Filter(func(i int) bool {
 			v := st.View(i)
 			if v.DateOnly {
-				return true
+				return v.Day <= today
 			}
 			return !v.At.After(t)
 		})
