@@ -107,7 +107,7 @@ func TestCareRoundsRoundTrip(t *testing.T) {
 	add(CareRound{EnclosureID: "E1", Observed: Bool(7), FeedG: feed(5)})
 	odd := len(rows) - 1
 	add(CareRound{EnclosureID: "E1", Water: "slushy"})
-	add(CareRound{EnclosureID: "E1", Observed: Yes}) // compact again after the whole ones
+	add(CareRound{EnclosureID: "E1", Observed: Yes})                              // compact again after the whole ones
 	add(CareRound{EnclosureID: "E1", At: time.Time{}, Day: MakeDay(2026, 1, 12)}) // no time: compact
 
 	c := NewCareRounds(rows, loc)
