@@ -154,6 +154,9 @@ func (c *CareRounds) intern(s string) uint32 {
 
 // source is the index of a ref prefix, or false when the table is full.
 func (c *CareRounds) source(prefix string) (uint32, bool) {
+	if n := len(c.srcs); n > 0 && c.srcs[n-1] == prefix {
+		return uint32(n - 1), true // the loader's one prefix
+	}
 	if i, ok := c.srcIdx[prefix]; ok {
 		return i, true
 	}

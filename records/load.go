@@ -395,9 +395,12 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 			l.rows = append(l.rows, zero)
 			row = &l.rows[len(l.rows)-1]
 		}
+		// A row that is not UTF-8 gets the keeper's fix (below); in one
+		// that is, only the cell cap and NUL bytes are left to find.
+		valid := validUTF8(rec)
 		var text *cellError
-		if len(rec) == len(p.cols) {
-			text = textCheck(rec, p)
+		if valid && len(rec) == len(p.cols) {
+			text = boundsCheck(rec, p)
 		}
 		switch {
 		case len(rec) != len(p.cols):
@@ -407,7 +410,7 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 					ce.reason += fmt.Sprintf(" (the row runs from line %d to line %d: is a quote left open?)", start, end)
 				}
 			}
-		case !validUTF8(rec):
+		case !valid:
 			// Before the per-cell check: an export in another encoding gets
 			// the keeper's fix (save as UTF-8), grouped over its rows.
 			ce = notUTF8(p, rec)
@@ -465,23 +468,31 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 	}
 }
 
-// textCheck rejects a row with a cell that is not text (invalid UTF-8, a
-// NUL byte) or is over the cell cap, positioned at the cell's column.
-func textCheck(rec []string, p *plan) *cellError {
+// boundsCheck rejects a row of UTF-8 text with a cell that holds a NUL
+// byte or is over the cell cap, positioned at the cell's column.
+func boundsCheck(rec []string, p *plan) *cellError {
 	for ci, cell := range rec {
+		if len(cell) <= MaxFieldBytes && strings.IndexByte(cell, 0) < 0 {
+			continue
+		}
 		if why := textIssue(cell); why != "" {
-			col := fmt.Sprintf("column %d", ci+1)
-			if ci < len(p.cols) && p.cols[ci].header != "" {
-				col = p.cols[ci].header
-			}
-			field := -1
-			if ci < len(p.cols) {
-				field = p.cols[ci].field
-			}
-			return &cellError{field: field, column: col, value: cell, reason: why}
+			return textError(rec, ci, p, why)
 		}
 	}
 	return nil
+}
+
+// textError positions a text problem of cell ci at its column.
+func textError(rec []string, ci int, p *plan, why string) *cellError {
+	col := fmt.Sprintf("column %d", ci+1)
+	if ci < len(p.cols) && p.cols[ci].header != "" {
+		col = p.cols[ci].header
+	}
+	field := -1
+	if ci < len(p.cols) {
+		field = p.cols[ci].field
+	}
+	return &cellError{field: field, column: col, value: rec[ci], reason: why}
 }
 
 // maxChunk is the most rows in one block while reading.
