@@ -422,7 +422,11 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 		}
 		fv := rv.Field(f.index)
 		var reason string
-		if v, ok := d.verdicts[ci][cell]; ok && f.kind == kString {
+		v, ok := verdict{}, false
+		if f.kind == kString && d.verdicts[ci] != nil {
+			v, ok = d.verdicts[ci][cell]
+		}
+		if ok {
 			// A repeated id or code: its shared copy and its verdict in one lookup.
 			fv.SetString(v.val)
 			reason = v.reason
