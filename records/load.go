@@ -261,6 +261,11 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 			l.warnings = append(l.warnings, Warning{File: l.count.File, Column: u, Message: "unknown column, not read"})
 		}
 	}
+	if c, ok := rr.(*csvRows); ok {
+		pf := prefetch(c)
+		defer pf.close()
+		rr = pf
+	}
 	d := newDecoder(p, e, src.file)
 	d.refBase = rr.refBase()
 	l.read(rr, d, e)
