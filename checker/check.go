@@ -82,7 +82,7 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 	}
 	f.addExtra()
 	// The builders' shared indexes are not read again.
-	f.care, f.handling = nil, nil
+	f.care, f.handling, f.rounds = nil, nil, nil
 
 	res := &Result{
 		Facility:   set.Facility.Name,
@@ -245,8 +245,9 @@ func recordSpan(set *records.Set) (from, to records.Day) {
 			to = d
 		}
 	}
-	for i := range set.Care {
-		see(set.Care[i].Day)
+	rounds := set.CareRounds()
+	for i := range rounds.Len() {
+		see(rounds.Day(i))
 	}
 	for i := range set.Handling {
 		see(records.DayOf(set.Handling[i].At))
@@ -353,7 +354,8 @@ func addCheck(checks []CheckInfo, c CheckInfo) []CheckInfo {
 // litters, environment readings), the follow-up (corrective actions) and
 // the reports read none of these.
 func dropEvents(set *records.Set) {
-	set.Care, set.Handling, set.PPEChecks, set.Weather, set.Work = nil, nil, nil, nil, nil
+	set.DropCare()
+	set.Handling, set.PPEChecks, set.Weather, set.Work = nil, nil, nil, nil
 	set.Culls, set.Housing, set.Observations, set.Extra = nil, nil, nil, nil
 }
 

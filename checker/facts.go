@@ -13,8 +13,10 @@ import (
 // (facts_care.go, facts_enclosure.go, ...) each add their own section to the
 // documents of the subjects they describe.
 type facts struct {
-	set    *records.Set
-	lim    *rules.Limits
+	set *records.Set
+	lim *rules.Limits
+	// rounds are the set's care rounds (built once for a set made by hand).
+	rounds *records.CareRounds
 	period Period
 
 	animals    map[string]*records.Animal
@@ -59,7 +61,7 @@ type stay struct {
 
 func newFacts(set *records.Set, lim *rules.Limits, p Period) *facts {
 	f := &facts{
-		set: set, lim: lim, period: p,
+		set: set, lim: lim, period: p, rounds: set.CareRounds(),
 		animals:    make(map[string]*records.Animal, len(set.Animals)),
 		enclosures: make(map[string]*records.Enclosure, len(set.Enclosures)),
 		buildings:  make(map[string]records.Building, len(set.Facility.Buildings)),

@@ -39,11 +39,11 @@ func (f *facts) careIndex() *careDays {
 	}
 	c := &careDays{from: f.period.From, n: int(f.period.To-f.period.From) + 1,
 		enc: map[string][]dayCare{}, bld: map[string][]dayCare{}}
-	for i := range f.set.Care {
-		r := &f.set.Care[i]
-		if !f.inPeriod(r.Day) {
+	for i := range f.rounds.Len() {
+		if !f.inPeriod(f.rounds.Day(i)) {
 			continue
 		}
+		r := f.rounds.View(i)
 		m, id := c.enc, r.EnclosureID
 		if id == "" {
 			m, id = c.bld, r.BuildingID
@@ -55,7 +55,7 @@ func (f *facts) careIndex() *careDays {
 		}
 		dc := &days[r.Day-c.from]
 		dc.observed = dc.observed || r.Observed.IsYes()
-		dc.fed = dc.fed || r.Fed.IsYes() || (r.FeedG != nil && *r.FeedG > 0)
+		dc.fed = dc.fed || r.Fed.IsYes() || (r.HasFeed && r.FeedG > 0)
 		dc.bedding = dc.bedding || r.BeddingAdded.IsYes()
 		if r.Water != "" && r.Water != "not_checked" && dc.waterChecks < 255 {
 			dc.waterChecks++
@@ -150,14 +150,15 @@ func unfedRun(from, to records.Day, every int) map[string]any {
 // and not restored, and health concerns.
 func (f *facts) roundEvents() {
 	byAnimal := f.handlingByAnimal()
-	for i := range f.set.Care {
-		r := &f.set.Care[i]
-		if !f.inPeriod(r.Day) {
+	var targets []string // reused across rounds
+	for i := range f.rounds.Len() {
+		if !f.inPeriod(f.rounds.Day(i)) {
 			continue
 		}
+		r := f.rounds.View(i)
 		// A building round speaks for every enclosure of the building that
 		// had animals that day; an enclosure round for its enclosure.
-		targets := []string{r.EnclosureID}
+		targets = append(targets[:0], r.EnclosureID)
 		if r.EnclosureID == "" {
 			targets = targets[:0]
 			for _, id := range f.byBuilding[r.BuildingID] {
@@ -169,7 +170,7 @@ func (f *facts) roundEvents() {
 		if r.Water == "empty" || r.Water == "frozen" {
 			for _, id := range targets {
 				appendTo(f.doc("enclosure", id)["care"], "water_unavailable", map[string]any{
-					"on": r.Day.String(), "state": r.Water, "restored": r.WaterRestored.IsYes(), "ref": string(r.Ref),
+					"on": r.Day.String(), "state": r.Water, "restored": r.WaterRestored.IsYes(), "ref": string(f.rounds.Ref(i)),
 				})
 			}
 		}
@@ -210,7 +211,7 @@ func (f *facts) roundEvents() {
 			}
 		}
 		c := map[string]any{
-			"on": r.Day.String(), "ref": string(r.Ref), "animal": nilIfEmpty(r.ConcernAnimalID),
+			"on": r.Day.String(), "ref": string(f.rounds.Ref(i)), "animal": nilIfEmpty(r.ConcernAnimalID),
 			"answered_ref": nil, "answered_after_hours": nil,
 		}
 		if best != nil {

@@ -24,14 +24,15 @@ import (
 func (f *facts) cleaningFacts() {
 	type index struct {
 		first   records.Day
-		cleaned []*records.CareRound // sorted by day, then ref
+		cleaned []int // indexes of f.rounds, sorted by day, then ref
 	}
+	rounds := f.rounds
 	enc, bld := map[string]*index{}, map[string]*index{}
-	for i := range f.set.Care {
-		r := &f.set.Care[i]
-		if r.Day > f.period.To {
+	for i := range rounds.Len() {
+		if rounds.Day(i) > f.period.To {
 			continue
 		}
+		r := rounds.View(i)
 		m, id := enc, r.EnclosureID
 		if id == "" {
 			m, id = bld, r.BuildingID
@@ -45,14 +46,15 @@ func (f *facts) cleaningFacts() {
 			ix.first = r.Day
 		}
 		if r.Cleaned.IsYes() {
-			ix.cleaned = append(ix.cleaned, r)
+			ix.cleaned = append(ix.cleaned, i)
 		}
 	}
 	for _, m := range []map[string]*index{enc, bld} {
 		for _, ix := range m {
 			sort.Slice(ix.cleaned, func(i, j int) bool {
 				a, b := ix.cleaned[i], ix.cleaned[j]
-				return a.Day < b.Day || (a.Day == b.Day && a.Ref < b.Ref)
+				da, db := rounds.Day(a), rounds.Day(b)
+				return da < db || (da == db && rounds.CompareRefs(a, b) < 0)
 			})
 		}
 	}
@@ -75,7 +77,7 @@ func (f *facts) cleaningFacts() {
 				first = ix.first
 			}
 			for _, r := range ix.cleaned {
-				days = append(days, r.Day)
+				days = append(days, rounds.Day(r))
 			}
 		}
 		// refOf is the first round (by ref) that cleaned the enclosure on d.
@@ -85,9 +87,11 @@ func (f *facts) cleaningFacts() {
 				if ix == nil {
 					continue
 				}
-				k := sort.Search(len(ix.cleaned), func(k int) bool { return ix.cleaned[k].Day >= d })
-				if k < len(ix.cleaned) && ix.cleaned[k].Day == d && (best == "" || ix.cleaned[k].Ref < best) {
-					best = ix.cleaned[k].Ref
+				k := sort.Search(len(ix.cleaned), func(k int) bool { return rounds.Day(ix.cleaned[k]) >= d })
+				if k < len(ix.cleaned) && rounds.Day(ix.cleaned[k]) == d {
+					if ref := rounds.Ref(ix.cleaned[k]); best == "" || ref < best {
+						best = ref
+					}
 				}
 			}
 			return best

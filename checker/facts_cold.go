@@ -238,8 +238,8 @@ type beddingIndex struct {
 
 func (f *facts) beddingDays() beddingIndex {
 	ix := beddingIndex{enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
-	for i := range f.set.Care {
-		r := &f.set.Care[i]
+	for i := range f.rounds.Len() {
+		r := f.rounds.View(i)
 		if !r.BeddingAdded.IsYes() || r.Day > f.period.To {
 			continue
 		}

@@ -38,10 +38,9 @@ func (f *facts) recordsFacts() {
 		o := &f.set.Observations[i]
 		events = append(events, event{o.AnimalID, "observation", records.DayOf(o.At), o.Ref})
 	}
-	for i := range f.set.Care {
-		r := &f.set.Care[i]
-		if r.ConcernAnimalID != "" {
-			events = append(events, event{r.ConcernAnimalID, "health concern", r.Day, r.Ref})
+	for i := range f.rounds.Len() {
+		if r := f.rounds.View(i); r.ConcernAnimalID != "" {
+			events = append(events, event{r.ConcernAnimalID, "health concern", r.Day, f.rounds.Ref(i)})
 		}
 	}
 	for _, e := range events {

@@ -42,9 +42,13 @@ func (f *facts) staffFacts() {
 		}
 		return sd
 	}
+	// away is whether d is outside s's employment.
+	away := func(s *records.Staff, d records.Day) bool {
+		return (!s.ActiveFrom.IsZero() && d < s.ActiveFrom) || (!s.ActiveTo.IsZero() && d > s.ActiveTo)
+	}
 	// outside notes a row naming s on d when d is outside s's employment.
 	outside := func(s *records.Staff, d records.Day, ref records.Ref) {
-		if (!s.ActiveFrom.IsZero() && d < s.ActiveFrom) || (!s.ActiveTo.IsZero() && d > s.ActiveTo) {
+		if away(s, d) {
 			sd := at(s, d)
 			sd.outside = append(sd.outside, ref)
 		}
@@ -86,13 +90,20 @@ func (f *facts) staffFacts() {
 		outside(s, d, c.Ref)
 	}
 	risky := f.rabiesRiskRounds()
-	for i := range f.set.Care {
-		r := &f.set.Care[i]
-		if s := f.staff[r.StaffID]; s != nil && f.inPeriod(r.Day) {
-			outside(s, r.Day, r.Ref)
-			if risky(r) {
+	var r records.CareView // one for every round: risky takes its address
+	for i := range f.rounds.Len() {
+		if !f.inPeriod(f.rounds.Day(i)) {
+			continue
+		}
+		r = f.rounds.View(i)
+		if s := f.staff[r.StaffID]; s != nil {
+			// The ref is formatted only for a round the facts cite.
+			if away(s, r.Day) {
+				outside(s, r.Day, f.rounds.Ref(i))
+			}
+			if risky(&r) {
 				sd := at(s, r.Day)
-				sd.rabiesRounds = append(sd.rabiesRounds, r.Ref)
+				sd.rabiesRounds = append(sd.rabiesRounds, f.rounds.Ref(i))
 			}
 		}
 	}
@@ -223,7 +234,7 @@ func rabiesRecord(s *records.Staff, d records.Day, work []records.Ref) map[strin
 // building and day, since a year of them names the same few hundred of
 // each; an enclosure's round is looked up directly (its occupancy is one
 // search in a short list, cheaper than a memo of a million enclosure days).
-func (f *facts) rabiesRiskRounds() func(r *records.CareRound) bool {
+func (f *facts) rabiesRiskRounds() func(r *records.CareView) bool {
 	byBuilding := map[string][]string{}
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
@@ -240,7 +251,7 @@ func (f *facts) rabiesRiskRounds() func(r *records.CareRound) bool {
 		day      records.Day
 	}
 	memo := map[key]bool{}
-	return func(r *records.CareRound) bool {
+	return func(r *records.CareView) bool {
 		if r.EnclosureID != "" {
 			return risky(r.EnclosureID, r.Day)
 		}

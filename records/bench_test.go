@@ -52,10 +52,10 @@ func BenchmarkLoadDailyCare1M(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		if len(s.Care) != 1_000_000 || len(s.Problems) != 0 {
-			b.Fatalf("care rows = %d, problems = %d (first %v)", len(s.Care), len(s.Problems), s.Problems)
+		if s.CareRounds().Len() != 1_000_000 || len(s.Problems) != 0 {
+			b.Fatalf("care rows = %d, problems = %d (first %v)", s.CareRounds().Len(), len(s.Problems), s.Problems)
 		}
-		rows += len(s.Care)
+		rows += s.CareRounds().Len()
 	}
 	b.ReportMetric(float64(rows)/b.Elapsed().Seconds(), "rows/s")
 	// CPU time (all threads, GC included) per row does not depend on what

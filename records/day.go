@@ -14,9 +14,15 @@ const epochOffset = 1 // so that 1970-01-01 is day 1 and the zero Day is "none"
 
 // DayOf returns the calendar day of t in t's own location.
 func DayOf(t time.Time) Day {
-	y, m, d := t.Date()
-	u := time.Date(y, m, d, 0, 0, 0, 0, time.UTC)
-	return Day(u.Unix()/86400) + epochOffset
+	// The local clock's seconds since 1970-01-01T00:00 (t.Date counts
+	// from the same sum), floored to whole days.
+	_, off := t.Zone()
+	s := t.Unix() + int64(off)
+	d := s / 86400
+	if s%86400 < 0 {
+		d--
+	}
+	return Day(d) + epochOffset
 }
 
 // MakeDay returns the Day of a calendar date.

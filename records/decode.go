@@ -334,12 +334,16 @@ type cellError struct {
 
 // decoder reads rows of one file into T values, reusing its scratch space.
 type decoder struct {
-	p       *plan
-	loc     *time.Location
-	win     window // the plausible window of dates
-	strs    map[string]string
-	floats  []float64 // slab for *float64 fields: one allocation per thousand rows, not per cell
-	failed  []bool    // per field: the cell did not decode, so validator errors on it are noise
+	p      *plan
+	loc    *time.Location
+	win    window // the plausible window of dates
+	strs   map[string]string
+	floats []float64 // slab for *float64 fields: one allocation per thousand rows, not per cell
+	// scratch, when set, holds the *float64 fields of a row decoded into
+	// one reused value (a file kept in a compact store): one per field,
+	// overwritten by the next row.
+	scratch []float64
+	failed  []bool // per field: the cell did not decode, so validator errors on it are noise
 	refBase string
 	// verdicts memoises, per column, the validation reason of each distinct
 	// cell ("" = valid): validation is a pure function of the cell, and a
@@ -418,7 +422,11 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 		}
 		fv := rv.Field(f.index)
 		var reason string
-		if v, ok := d.verdicts[ci][cell]; ok && f.kind == kString {
+		v, ok := verdict{}, false
+		if f.kind == kString && d.verdicts[ci] != nil {
+			v, ok = d.verdicts[ci][cell]
+		}
+		if ok {
 			// A repeated id or code: its shared copy and its verdict in one lookup.
 			fv.SetString(v.val)
 			reason = v.reason
@@ -481,9 +489,13 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		if col.alt != nil {
 			v = col.alt.toSI(v)
 		}
-		if f.kind == kFloat {
+		switch {
+		case f.kind == kFloat:
 			fv.SetFloat(v)
-		} else {
+		case d.scratch != nil:
+			d.scratch[f.index] = v
+			fv.Set(reflect.ValueOf(&d.scratch[f.index]))
+		default:
 			fv.Set(reflect.ValueOf(d.newFloat(v)))
 		}
 	case kInt, kIntPtr:

@@ -17,6 +17,13 @@
 // enclosures.csv, or a facility.yaml that does not parse, has an unknown key
 // or names an unknown time zone.
 //
+// Care rounds, the one kind with millions of rows a year, are kept in a
+// compact store rather than as a slice: Load fills it while daily_care is
+// read, and Set.CareRounds returns it (CareRounds.View reads a round
+// without allocating, CareRounds.Ref formats its ref when asked). Set.Care
+// holds the rounds of a set made by hand; Load leaves it empty, and
+// CareRounds serves both.
+//
 // Unknown files and columns are Warnings: nothing was lost, but something
 // was not read. Judgements about the records (an animal culled without a
 // matching departure, an event after an animal left, life stage defaults)

@@ -63,7 +63,7 @@ func checkSet(t *testing.T, s *Set, maxLine int) {
 	t.Helper()
 	lens := map[string]int{
 		animalsFile: len(s.Animals), enclosuresFile: len(s.Enclosures), housingFile: len(s.Housing),
-		staffFile: len(s.Staff), protocolsFile: len(s.Protocols), careFile: len(s.Care),
+		staffFile: len(s.Staff), protocolsFile: len(s.Protocols), careFile: s.CareRounds().Len(),
 		handlingFile: len(s.Handling), ppeFile: len(s.PPEChecks), weatherFile: len(s.Weather),
 		workFile: len(s.Work), cullsFile: len(s.Culls),
 	}

@@ -149,8 +149,8 @@ func TestLineCap(t *testing.T) {
 	if d := cmp.Diff(want, c); d != "" {
 		t.Errorf("count (-want +got):\n%s", d)
 	}
-	if len(s.Care) != 0 {
-		t.Errorf("%d rows of a file read in part were used", len(s.Care))
+	if s.CareRounds().Len() != 0 {
+		t.Errorf("%d rows of a file read in part were used", s.CareRounds().Len())
 	}
 }
 
@@ -167,8 +167,8 @@ func TestFieldCap(t *testing.T) {
 	if v := s.Problems[0].Value; len(v) > 100 || !strings.HasSuffix(v, "…") {
 		t.Errorf("value not shortened: %d bytes", len(v))
 	}
-	if len(s.Care) != 1 {
-		t.Errorf("%d rows accepted, want 1", len(s.Care))
+	if s.CareRounds().Len() != 1 {
+		t.Errorf("%d rows accepted, want 1", s.CareRounds().Len())
 	}
 }
 
@@ -241,8 +241,8 @@ func TestFileSize(t *testing.T) {
 	runtime.ReadMemStats(&before)
 	s = mustLoad(t, lying)
 	runtime.ReadMemStats(&after)
-	if len(s.Care) != 1 {
-		t.Fatalf("care rows = %d", len(s.Care))
+	if s.CareRounds().Len() != 1 {
+		t.Fatalf("care rows = %d", s.CareRounds().Len())
 	}
 	if grew := after.TotalAlloc - before.TotalAlloc; grew > 32<<20 {
 		t.Errorf("loading a 100-byte file that claims %d bytes allocated %d MB", lying.size, grew>>20)

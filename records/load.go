@@ -106,6 +106,18 @@ type fileSpec[T any] struct {
 	day    func(r *T) Day                     // the row's date, to place a rejected row in time
 	id     func(r *T) string                  // the row's unique id, for files keyed by one
 	idName string                             // the Go field of that id
+	// store, when set, makes the file's compact store: accepted rows go
+	// there as they are read instead of into rows (see CareRounds).
+	store func(loc *time.Location) rowStore[T]
+}
+
+// rowStore keeps a file's accepted rows in a form of its own. Each row is
+// decoded into one reused value and handed to add with its ref, as the
+// prefix and the line, so nothing of the row outlives the call.
+type rowStore[T any] interface {
+	addAt(row *T, prefix string, line int)
+	Len() int
+	reset()
 }
 
 // loaded is one file after reading: its accepted rows and its account.
@@ -113,6 +125,7 @@ type loaded[T any] struct {
 	spec     *fileSpec[T]
 	present  bool
 	rows     []T
+	store    rowStore[T] // the accepted rows instead of rows, when spec.store is set
 	count    FileCount
 	problems []Problem
 	warnings []Warning
@@ -147,6 +160,9 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 	}
 	l.present = true
 	l.file, l.count.File = src.file, src.display
+	if spec.store != nil {
+		l.store = spec.store(e.loc)
+	}
 	rt, err := rowTypeOf(reflect.TypeFor[T]())
 	if err != nil {
 		l.fail("", err.Error())
@@ -176,7 +192,9 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 		}
 		sr := newSheetReader(sh)
 		l.at, l.sheet = sr.at, sh.name
-		l.rows = make([]T, 0, len(sh.rows))
+		if l.store == nil {
+			l.rows = make([]T, 0, len(sh.rows))
+		}
 		rr = sr
 	}
 
@@ -312,6 +330,9 @@ func (l *loaded[T]) stop(err error) {
 	l.count.Rejected += l.count.Accepted
 	l.count.Accepted = 0
 	l.rows, l.chunks = nil, nil
+	if l.store != nil {
+		l.store.reset()
+	}
 	l.rejected = nil
 	l.fail("", "cannot be read: "+err.Error())
 }
@@ -331,7 +352,10 @@ func csvReason(err error) string {
 func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 	spec, p := l.spec, d.p
 	check := rowCheck{p: p, env: e}
-	var zero T
+	var zero, scratch T
+	if l.store != nil {
+		d.scratch = make([]float64, p.rt.typ.NumField())
+	}
 	defer l.flatten()
 	firstAt := map[string]int{}
 	if spec.id != nil {
@@ -362,15 +386,23 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		}
 		l.count.Read++
 		var ce *cellError
-		if len(l.rows) == cap(l.rows) {
-			l.grow()
+		row := &scratch
+		if l.store != nil {
+			scratch = zero
+		} else {
+			if len(l.rows) == cap(l.rows) {
+				l.grow()
+			}
+			l.rows = append(l.rows, zero)
+			row = &l.rows[len(l.rows)-1]
 		}
-		l.rows = append(l.rows, zero)
-		row := &l.rows[len(l.rows)-1]
-		var text *cellError
+		// A row that is not UTF-8 gets the keeper's fix (below); in one
+		// that is, only the cell cap and NUL bytes are left to find.
 		checked := textChecked(r) // every cell found to be text by the reader's goroutine
-		if len(rec) == len(p.cols) && !checked {
-			text = textCheck(rec, p)
+		valid := checked || validUTF8(rec)
+		var text *cellError
+		if !checked && valid && len(rec) == len(p.cols) {
+			text = boundsCheck(rec, p)
 		}
 		switch {
 		case len(rec) != len(p.cols):
@@ -380,7 +412,7 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 					ce.reason += fmt.Sprintf(" (the row runs from line %d to line %d: is a quote left open?)", start, end)
 				}
 			}
-		case !checked && !validUTF8(rec):
+		case !valid:
 			// Before the per-cell check: an export in another encoding gets
 			// the keeper's fix (save as UTF-8), grouped over its rows.
 			ce = notUTF8(p, rec)
@@ -417,7 +449,17 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 			}
 			l.problems = append(l.problems, pr)
 			l.count.Rejected++
-			l.rows = l.rows[:len(l.rows)-1]
+			if l.store == nil {
+				l.rows = l.rows[:len(l.rows)-1]
+			}
+			continue
+		}
+		l.count.Accepted++
+		if l.store != nil {
+			if len(l.local) > 0 {
+				l.keepLocal(d.ref(line), rec)
+			}
+			l.store.addAt(row, d.refBase, line)
 			continue
 		}
 		ref := d.ref(line)
@@ -425,27 +467,34 @@ func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 		if len(l.local) > 0 {
 			l.keepLocal(ref, rec)
 		}
-		l.count.Accepted++
 	}
 }
 
-// textCheck rejects a row with a cell that is not text (invalid UTF-8, a
-// NUL byte) or is over the cell cap, positioned at the cell's column.
-func textCheck(rec []string, p *plan) *cellError {
+// boundsCheck rejects a row of UTF-8 text with a cell that holds a NUL
+// byte or is over the cell cap, positioned at the cell's column.
+func boundsCheck(rec []string, p *plan) *cellError {
 	for ci, cell := range rec {
+		if len(cell) <= MaxFieldBytes && strings.IndexByte(cell, 0) < 0 {
+			continue
+		}
 		if why := textIssue(cell); why != "" {
-			col := fmt.Sprintf("column %d", ci+1)
-			if ci < len(p.cols) && p.cols[ci].header != "" {
-				col = p.cols[ci].header
-			}
-			field := -1
-			if ci < len(p.cols) {
-				field = p.cols[ci].field
-			}
-			return &cellError{field: field, column: col, value: cell, reason: why}
+			return textError(rec, ci, p, why)
 		}
 	}
 	return nil
+}
+
+// textError positions a text problem of cell ci at its column.
+func textError(rec []string, ci int, p *plan, why string) *cellError {
+	col := fmt.Sprintf("column %d", ci+1)
+	if ci < len(p.cols) && p.cols[ci].header != "" {
+		col = p.cols[ci].header
+	}
+	field := -1
+	if ci < len(p.cols) {
+		field = p.cols[ci].field
+	}
+	return &cellError{field: field, column: col, value: rec[ci], reason: why}
 }
 
 // maxChunk is the most rows in one block while reading.
@@ -589,6 +638,7 @@ var (
 			}
 			return r.Day
 		},
+		store: func(loc *time.Location) rowStore[CareRound] { return newCareRounds(loc) },
 	}
 	handlingSpec = &fileSpec[Handling]{
 		name: handlingFile,
@@ -747,7 +797,11 @@ func LoadContext(ctx context.Context, fsys fs.FS, opt Options) (*Set, error) {
 	s.CorrectiveActions = ld.corrective.rows
 	s.Environment = ld.environment.rows
 	s.Animals, s.Enclosures, s.Housing = ld.animals.rows, ld.enclosures.rows, ld.housing.rows
-	s.Staff, s.Protocols, s.Care, s.Handling = ld.staff.rows, ld.protocols.rows, ld.care.rows, ld.handling.rows
+	s.Staff, s.Protocols, s.Handling = ld.staff.rows, ld.protocols.rows, ld.handling.rows
+	s.care = newCareRounds(loc)
+	if st, ok := ld.care.store.(*CareRounds); ok {
+		s.care = st
+	}
 	s.PPEChecks, s.Weather, s.Work, s.Culls = ld.ppe.rows, ld.weather.rows, ld.work.rows, ld.culls.rows
 	s.Deaths, s.Observations, s.Treatments, s.Litters = ld.deaths.rows, ld.observations.rows, ld.treatments.rows, ld.litters.rows
 	s.Problems = append(s.Problems, ld.extra...)

@@ -67,7 +67,7 @@ func mustLoad(t *testing.T, fsys fs.FS) *Set {
 	}
 	lens := map[string]int{
 		animalsFile: len(s.Animals), enclosuresFile: len(s.Enclosures), housingFile: len(s.Housing),
-		staffFile: len(s.Staff), protocolsFile: len(s.Protocols), careFile: len(s.Care),
+		staffFile: len(s.Staff), protocolsFile: len(s.Protocols), careFile: s.CareRounds().Len(),
 		handlingFile: len(s.Handling), ppeFile: len(s.PPEChecks), weatherFile: len(s.Weather),
 		workFile: len(s.Work), cullsFile: len(s.Culls),
 		deathsFile: len(s.Deaths), observationsFile: len(s.Observations), treatmentsFile: len(s.Treatments),
@@ -373,7 +373,7 @@ func TestUnitColumns(t *testing.T) {
 	near("floor m²", *s.Enclosures[0].FloorAreaM2, 0.9290304)
 	near("height cm", s.Enclosures[0].HeightCm, 91.44)
 	near("duration min", *s.Handling[0].DurationMin, 12.5)
-	near("feed g", *s.Care[0].FeedG, 250)
+	near("feed g", *s.CareRounds().Round(0).FeedG, 250)
 
 	s = mustLoad(t, folder(map[string]string{"weather.csv": "observed_at,site_id,air_temp_c,wind_ms\n2026-01-15T07:00,MAST,-20,10\n"}))
 	near("wind km/h from m/s", *s.Weather[0].WindKmh, 36) // 10 m/s × 3.6 = 36 km/h (SP 811 B.8)
@@ -437,9 +437,10 @@ func TestCSVForms(t *testing.T) {
 	s := mustLoad(t, folder(map[string]string{careFile: "checked_at,enclosure_id,staff_id,observed,notes\n" +
 		"2026-01-15T07:00,E1,K1,yes,\"ice in bowl, broken\nand refilled\"\n" +
 		"2026-01-15T16:00,E1,K1,yes,\"said \"\"fine\"\"\"\n"}))
-	if len(s.Care) != 2 || s.Care[0].Notes != "ice in bowl, broken\nand refilled" || s.Care[0].Ref != "daily_care.csv:2" ||
-		s.Care[1].Ref != "daily_care.csv:4" || s.Care[1].Notes != `said "fine"` {
-		t.Errorf("care = %+v, problems %v", s.Care, s.Problems)
+	care := s.CareRounds().Rounds()
+	if len(care) != 2 || care[0].Notes != "ice in bowl, broken\nand refilled" || care[0].Ref != "daily_care.csv:2" ||
+		care[1].Ref != "daily_care.csv:4" || care[1].Notes != `said "fine"` {
+		t.Errorf("care = %+v, problems %v", care, s.Problems)
 	}
 }
 
@@ -731,8 +732,9 @@ func TestCareRoundTimes(t *testing.T) {
 		"2026-01-15T07:30,,E1,K1,yes\n" +
 		",2026-01-16,E1,K1,no\n" +
 		"2026-01-17T03:00:00Z,,E1,K1,yes\n"})) // 21:00 on Jan 16 in Winnipeg (UTC−6)
-	if len(s.Care) != 3 {
-		t.Fatalf("care = %+v, problems %v", s.Care, s.Problems)
+	care := s.CareRounds().Rounds()
+	if len(care) != 3 {
+		t.Fatalf("care = %+v, problems %v", care, s.Problems)
 	}
 	loc := s.Location
 	tests := []struct {
@@ -741,9 +743,9 @@ func TestCareRoundTimes(t *testing.T) {
 		day      Day
 		dateOnly bool
 	}{
-		{s.Care[0], time.Date(2026, 1, 15, 7, 30, 0, 0, loc), MakeDay(2026, 1, 15), false},
-		{s.Care[1], time.Date(2026, 1, 16, 0, 0, 0, 0, loc), MakeDay(2026, 1, 16), true},
-		{s.Care[2], time.Date(2026, 1, 16, 21, 0, 0, 0, loc), MakeDay(2026, 1, 16), false},
+		{care[0], time.Date(2026, 1, 15, 7, 30, 0, 0, loc), MakeDay(2026, 1, 15), false},
+		{care[1], time.Date(2026, 1, 16, 0, 0, 0, 0, loc), MakeDay(2026, 1, 16), true},
+		{care[2], time.Date(2026, 1, 16, 21, 0, 0, 0, loc), MakeDay(2026, 1, 16), false},
 	}
 	for _, tt := range tests {
 		t.Run(string(tt.got.Ref), func(t *testing.T) {
@@ -755,8 +757,8 @@ func TestCareRoundTimes(t *testing.T) {
 			}
 		})
 	}
-	if s.Care[1].Observed != No {
-		t.Errorf("observed = %v, want no", s.Care[1].Observed)
+	if care[1].Observed != No {
+		t.Errorf("observed = %v, want no", care[1].Observed)
 	}
 }
 

@@ -35,8 +35,8 @@ func TestLoadReportsProgress(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(s.Care) != rounds || len(s.Care) != len(quiet.Care) || len(s.Problems) != 0 {
-		t.Fatalf("care rows %d (without progress %d), %d problems", len(s.Care), len(quiet.Care), len(s.Problems))
+	if s.CareRounds().Len() != rounds || s.CareRounds().Len() != quiet.CareRounds().Len() || len(s.Problems) != 0 {
+		t.Fatalf("care rows %d (without progress %d), %d problems", s.CareRounds().Len(), quiet.CareRounds().Len(), len(s.Problems))
 	}
 	// Three full steps of the care file; the small files never reach one.
 	if got, want := reported.Load(), int64(3*progressEvery); got != want || calls.Load() != 3 {

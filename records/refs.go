@@ -115,6 +115,38 @@ func (l *loaded[T]) keep(check func(r *T) *cellError) {
 	l.rows = l.rows[:n]
 }
 
+// len is the number of rows accepted so far.
+func (l *loaded[T]) len() int {
+	if l.store != nil {
+		return l.store.Len()
+	}
+	return len(l.rows)
+}
+
+// keepRounds is keep for the care rounds, which are kept in their store:
+// a round failing check becomes a problem, positioned and dated as keep
+// does.
+func keepRounds(l *loaded[CareRound], check func(r *CareView) *cellError) {
+	st, ok := l.store.(*CareRounds)
+	if l.plan == nil || !ok {
+		return
+	}
+	var v CareView // one for every row: a pointer to it escapes to check
+	st.retain(func(i int) bool {
+		v = st.View(i)
+		ce := check(&v)
+		if ce == nil {
+			return true
+		}
+		pr := l.problem(st.line(i), ce)
+		pr.Day = v.Day // the row rule set it to the day of checked_at
+		l.problems = append(l.problems, pr)
+		l.count.Accepted--
+		l.count.Rejected++
+		return false
+	})
+}
+
 // refs checks a row's references in order and reports the first that fails.
 func (l *loaded[T]) refs(rs ...ref) *cellError {
 	for _, r := range rs {
@@ -261,7 +293,7 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 		}
 	}
 
-	ld.care.keep(func(r *CareRound) *cellError {
+	keepRounds(ld.care, func(r *CareView) *cellError {
 		return ld.care.refs(
 			ref{"EnclosureID", r.EnclosureID, enclosures},
 			ref{"BuildingID", r.BuildingID, buildings},
@@ -306,7 +338,7 @@ func (ld *loadedSet) staffRequired() {
 			n++
 		}
 	}
-	n += len(ld.care.rows) + len(ld.handling.rows) + len(ld.work.rows) + len(ld.culls.rows)
+	n += ld.care.len() + len(ld.handling.rows) + len(ld.work.rows) + len(ld.culls.rows)
 	n += len(ld.deaths.rows) + len(ld.observations.rows) + len(ld.treatments.rows)
 	if n > 0 {
 		rows := "rows name"

@@ -35,13 +35,16 @@ func (b Bool) String() string {
 // Set is one facility's records after loading: every accepted row, every
 // rejected row's problem, and the per-file accounting.
 type Set struct {
-	Facility     Facility
-	Location     *time.Location // the facility's time zone
-	Animals      []Animal
-	Enclosures   []Enclosure
-	Housing      []Housing
-	Staff        []Staff
-	Protocols    []Protocol
+	Facility   Facility
+	Location   *time.Location // the facility's time zone
+	Animals    []Animal
+	Enclosures []Enclosure
+	Housing    []Housing
+	Staff      []Staff
+	Protocols  []Protocol
+	// Care are care rounds of a set made by hand. Load leaves it empty and
+	// keeps the rounds of daily_care compactly instead: read rounds
+	// through CareRounds, which serves both.
 	Care         []CareRound
 	Handling     []Handling
 	PPEChecks    []PPECheck
@@ -74,7 +77,29 @@ type Set struct {
 	// to the rules as the extra object of the subject or event the row
 	// belongs to. Nil when no file has such a column.
 	Extra map[Ref]map[string]string
+
+	// care is the store Load fills with the accepted rounds of daily_care.
+	care *CareRounds
 }
+
+// CareRounds returns the care rounds of the set: the store Load filled
+// (the rows of Care after it, if any were added by hand), or, for a set
+// made by hand, a store built from Care on each call, so build it once and
+// keep it where it is read more than once.
+func (s *Set) CareRounds() *CareRounds {
+	switch {
+	case s.care == nil:
+		return NewCareRounds(s.Care, s.Location)
+	case len(s.Care) > 0:
+		return NewCareRounds(append(s.care.Rounds(), s.Care...), s.care.loc)
+	}
+	return s.care
+}
+
+// DropCare lets go of the care rounds, the hand-made ones and the loader's
+// store, for a caller that has read all it needs of them (the checker, once
+// its facts are built): they are most of a loaded set's memory.
+func (s *Set) DropCare() { s.Care, s.care = nil, nil }
 
 // FileCount is the row accounting of one file: Read == Accepted + Rejected.
 type FileCount struct {

@@ -24,6 +24,16 @@ func (s *Set) Until(t time.Time) *Set {
 		}
 		return !r.At.After(t)
 	})
+	if s.care != nil {
+		st := s.care
+		c.care = st.Filter(func(i int) bool {
+			v := st.View(i)
+			if v.DateOnly {
+				return v.Day <= today
+			}
+			return !v.At.After(t)
+		})
+	}
 	c.Weather = keep(s.Weather, func(r *Weather) bool { return !r.At.After(t) })
 	c.Work = keep(s.Work, func(r *OutdoorWork) bool { return !r.StartedAt.After(t) })
 	c.Environment = keep(s.Environment, func(r *EnvironmentReading) bool { return !r.At.After(t) })

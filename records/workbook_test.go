@@ -228,8 +228,8 @@ func BenchmarkLoadCareWorkbook36k(b *testing.B) {
 	b.ResetTimer()
 	for b.Loop() {
 		s, err := Load(fsys, testSpecies)
-		if err != nil || len(s.Care) != days*pens {
-			b.Fatalf("%v: %d rounds, problems %v", err, len(s.Care), s.Problems[:min(3, len(s.Problems))])
+		if err != nil || s.CareRounds().Len() != days*pens {
+			b.Fatalf("%v: %d rounds, problems %v", err, s.CareRounds().Len(), s.Problems[:min(3, len(s.Problems))])
 		}
 	}
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*days*pens), "ns/row")

@@ -515,11 +515,13 @@ func workLimits(s *cold.Schedule, wr records.Weather) []string {
 // up to date, or the wrong folder.
 func nothingRecorded(set *records.Set, day records.Day) string {
 	var latest records.Day
-	for _, c := range set.Care {
-		if c.Day == day {
+	rounds := set.CareRounds()
+	for i := range rounds.Len() {
+		d := rounds.Day(i)
+		if d == day {
 			return ""
 		}
-		latest = max(latest, c.Day)
+		latest = max(latest, d)
 	}
 	loc := set.Location
 	if loc == nil {
@@ -541,8 +543,13 @@ func nothingRecorded(set *records.Set, day records.Day) string {
 func waterCounts(set *records.Set, day records.Day) map[string]int {
 	byBuilding := map[string]int{}
 	out := map[string]int{}
-	for _, c := range set.Care {
-		if c.Day != day || c.Water == "" || c.Water == "not_checked" {
+	rounds := set.CareRounds()
+	for i := range rounds.Len() {
+		if rounds.Day(i) != day {
+			continue
+		}
+		c := rounds.View(i)
+		if c.Water == "" || c.Water == "not_checked" {
 			continue
 		}
 		if c.EnclosureID != "" {
