@@ -1,0 +1,166 @@
+package checker
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"flag"
+	"os"
+	"path/filepath"
+	"slices"
+	"testing"
+
+	"welfare/rules"
+)
+
+var updateDocs = flag.Bool("update", false, "rewrite testdata/documents.golden.json from the facts as they are built now")
+
+// goldenSections are the sections whose documents testdata/documents.golden.json
+// holds (as hashes of their JSON), taken from the facts as built before the
+// sections became lazy: resolving a lazy section must give exactly the
+// document the eager builder gave. A section made lazy later must be added
+// here, and the golden rewritten (-update) before the change.
+var goldenSections = []string{"enclosure.heat", "enclosure.cleaning"}
+
+const documentsGolden = "testdata/documents.golden.json"
+
+// documentSets are the facts of both demo seasons and of a generated year.
+func documentSets(t *testing.T) map[string]*facts {
+	t.Helper()
+	all := demoFacts(t)
+	out := map[string]*facts{"demo-1": all[0], "demo-2": all[1]}
+	lim, err := rules.Default()
+	if err != nil {
+		t.Fatal(err)
+	}
+	set, _ := generatedSet(t, 150, lim)
+	from, to := recordSpan(set)
+	g := newFacts(set, lim, Period{From: from, To: to})
+	for _, d := range domains {
+		d.facts(g)
+	}
+	out["generated-150"] = g
+	return out
+}
+
+// sectionDigest is the JSON of one section of every document of a kind that
+// has it, in subject order, as a SHA-256 with its byte count.
+type sectionDigest struct {
+	Docs  int    `json:"docs"`
+	Bytes int    `json:"bytes"`
+	SHA   string `json:"sha256"`
+}
+
+func hasLazy(v any) bool {
+	switch x := v.(type) {
+	case *lazy:
+		return true
+	case map[string]any:
+		for _, e := range x {
+			if hasLazy(e) {
+				return true
+			}
+		}
+	case []any:
+		for _, e := range x {
+			if hasLazy(e) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// TestResolvedDocumentsAsBefore walks every document of both demo seasons
+// and a generated year: resolving gives plain values only, the same each
+// time, and for the golden sections exactly the JSON the eager builder gave.
+func TestResolvedDocumentsAsBefore(t *testing.T) {
+	got := map[string]map[string]sectionDigest{}
+	lazySeen := map[string]bool{}
+	for name, f := range documentSets(t) {
+		got[name] = map[string]sectionDigest{}
+		for _, kind := range SubjectKinds {
+			docs := f.inputs(kind)
+			sections := map[string][][]byte{}
+			counted := map[string]int{}
+			for _, d := range docs {
+				r := resolveDoc(d)
+				if hasLazy(r) {
+					t.Fatalf("%s %s %v: a lazy value is left after resolving", name, kind, d["id"])
+				}
+				again, _ := json.Marshal(resolveDoc(d))
+				once, err := json.Marshal(r)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if string(once) != string(again) {
+					t.Fatalf("%s %s %v: resolving twice gives two documents", name, kind, d["id"])
+				}
+				for k, v := range d {
+					key := kind + "." + k
+					if _, ok := v.(*lazy); ok {
+						lazySeen[key] = true
+					}
+					b, _ := json.Marshal([]any{d["id"], r[k]})
+					sections[key] = append(sections[key], b)
+					counted[key]++
+				}
+			}
+			for key, parts := range sections {
+				// Subject order: f.inputs sorts by id.
+				h := sha256.New()
+				n := 0
+				for _, p := range parts {
+					h.Write(p)
+					h.Write([]byte{'\n'})
+					n += len(p) + 1
+				}
+				got[name][key] = sectionDigest{Docs: counted[key], Bytes: n, SHA: hex.EncodeToString(h.Sum(nil))}
+			}
+		}
+	}
+	for key := range lazySeen {
+		if !slices.Contains(goldenSections, key) {
+			t.Errorf("section %s is lazy but has no golden: add it to goldenSections and -update before making it lazy", key)
+		}
+	}
+	want := map[string]map[string]sectionDigest{}
+	for name, byKey := range got {
+		want[name] = map[string]sectionDigest{}
+		for _, key := range goldenSections {
+			if d, ok := byKey[key]; ok {
+				want[name][key] = d
+			}
+		}
+	}
+	if *updateDocs {
+		b, err := json.MarshalIndent(want, "", "  ")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.FromSlash(documentsGolden), append(b, '\n'), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	b, err := os.ReadFile(filepath.FromSlash(documentsGolden))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var golden map[string]map[string]sectionDigest
+	if err := json.Unmarshal(b, &golden); err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for name, byKey := range golden {
+		for key, w := range byKey {
+			n++
+			if g := got[name][key]; g != w {
+				t.Errorf("%s %s: documents %+v, golden %+v", name, key, g, w)
+			}
+		}
+	}
+	if n < 2*len(goldenSections) {
+		t.Fatalf("the golden compares only %d sections", n)
+	}
+}
