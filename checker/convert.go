@@ -10,8 +10,9 @@ import (
 )
 
 // converter turns subject documents (the facts' map[string]any, []any,
-// []string, string, float64, int, bool and nil; anything else goes to
-// ast.InterfaceToValue) into the OPA values the rules are evaluated on.
+// []string, string, float64, int, bool and nil, and lazy sections, made
+// here; anything else goes to ast.InterfaceToValue) into the OPA values the
+// rules are evaluated on.
 // It gives the same values as ast.InterfaceToValue, with less work on the
 // documents the facts build:
 //
@@ -179,6 +180,9 @@ func (c *converter) term(v any) (*ast.Term, error) {
 		return ast.NewTerm(ast.NewArray(elems...)), nil
 	case *ast.Term:
 		return v, nil
+	case *lazy:
+		// Made for this conversion and let go after it (lazy.go).
+		return c.term(v.make())
 	}
 	val, err := ast.InterfaceToValue(v)
 	if err != nil {

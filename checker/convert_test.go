@@ -15,7 +15,7 @@ import (
 // ast.InterfaceToValue gives it: Equal, Compare 0 and the same text.
 func sameAsOPA(t *testing.T, c *converter, doc map[string]any) {
 	t.Helper()
-	want, err := ast.InterfaceToValue(doc)
+	want, err := ast.InterfaceToValue(resolveDoc(doc))
 	if err != nil {
 		t.Fatal(err)
 	}

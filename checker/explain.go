@@ -129,7 +129,7 @@ func (x *Explainer) Explain(ctx context.Context, key string) (*Explanation, erro
 			}
 			for _, g := range found {
 				if ExplainKey(g) == key {
-					ex.Kind, ex.Input = kind, d
+					ex.Kind, ex.Input = kind, resolveDoc(d)
 					break
 				}
 			}

@@ -60,12 +60,14 @@ func (f *facts) cleaningFacts() {
 	}
 	// A year of gaps names the same days, the same period start and the
 	// same enclosure row again and again: each is one document value,
-	// shared by every gap that names it.
+	// shared by every gap that names it. The section is lazy (lazy.go):
+	// the facts keep each gap's days, its kind and the ref of the round
+	// it starts from (cleanGap), and the gaps' maps are made when the
+	// enclosure is evaluated.
 	day := newDayValues(f.period)
-	periodFrom := day.of(f.period.From)
+	recorded := f.set.Present["daily_care.csv"]
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
-		var encRef any = string(e.Ref)
 		var first records.Day
 		var days []records.Day
 		own, shared := enc[e.ID], bld[e.BuildingID]
@@ -97,7 +99,7 @@ func (f *facts) cleaningFacts() {
 			return best
 		}
 		sort.Slice(days, func(i, j int) bool { return days[i] < days[j] })
-		gaps := []any{}
+		ec := &encCleaning{day: day, ref: e.Ref, recorded: recorded}
 		for _, st := range f.stretches(e.ID) {
 			if first == 0 {
 				break // no round at all: nothing to count from
@@ -105,9 +107,9 @@ func (f *facts) cleaningFacts() {
 			// The anchor: the later of the stretch's start and the first
 			// round. A stretch that starts on the period's first day may
 			// have begun before it, so its first round alone anchors it.
-			from, kind := first, "first_round"
+			from, kind := first, sinceFirstRound
 			if st[0] != f.period.From && st[0] > first {
-				from, kind = st[0], "occupancy"
+				from, kind = st[0], sinceOccupancy
 			}
 			if from > st[1] {
 				continue
@@ -122,29 +124,66 @@ func (f *facts) cleaningFacts() {
 					until = next - 1
 				}
 				if until > from && until >= f.period.From {
-					evidence := []any{encRef}
-					if fromRef != "" {
-						evidence = append(evidence, string(fromRef))
-					}
-					gaps = append(gaps, map[string]any{
-						"from": day.of(from), "until": day.of(until), "days": int(until - from),
-						"since": kind, "period_from": periodFrom,
-						"evidence": evidence,
-					})
+					ec.gaps = append(ec.gaps, cleanGap{from: from, until: until, since: kind, ref: fromRef})
 				}
 				if next == 0 {
 					break
 				}
-				from, fromRef, kind = next, refOf(next), "cleaned"
+				from, fromRef, kind = next, refOf(next), sinceCleaned
 				for k < len(days) && days[k] == from {
 					k++
 				}
 			}
 		}
-		f.doc("enclosure", e.ID)["cleaning"] = map[string]any{
-			"rounds_recorded": f.set.Present["daily_care.csv"],
-			"gaps":            gaps,
+		f.doc("enclosure", e.ID)["cleaning"] = lazySection(ec.section)
+	}
+}
+
+// What a cleaning gap is counted from.
+const (
+	sinceFirstRound uint8 = iota
+	sinceOccupancy
+	sinceCleaned
+)
+
+var sinceNames = [...]string{sinceFirstRound: "first_round", sinceOccupancy: "occupancy", sinceCleaned: "cleaned"}
+
+// encCleaning is an enclosure's cleaning section as the facts keep it.
+type encCleaning struct {
+	day      *dayValues
+	ref      records.Ref // the enclosure's row
+	recorded bool        // daily_care.csv was in the records
+	gaps     []cleanGap
+}
+
+// cleanGap is one gap between qualifying events: its first and last day,
+// what it is counted from and the round it starts from ("" when it starts
+// from the anchor).
+type cleanGap struct {
+	from, until records.Day
+	since       uint8
+	ref         records.Ref
+}
+
+// section makes the enclosure's cleaning section.
+func (ec *encCleaning) section() any {
+	var encRef any = string(ec.ref)
+	periodFrom := ec.day.of(ec.day.from)
+	gaps := make([]any, len(ec.gaps))
+	for i, g := range ec.gaps {
+		evidence := []any{encRef}
+		if g.ref != "" {
+			evidence = append(evidence, string(g.ref))
 		}
+		gaps[i] = map[string]any{
+			"from": ec.day.of(g.from), "until": ec.day.of(g.until), "days": int(g.until - g.from),
+			"since": sinceNames[g.since], "period_from": periodFrom,
+			"evidence": evidence,
+		}
+	}
+	return map[string]any{
+		"rounds_recorded": ec.recorded,
+		"gaps":            gaps,
 	}
 }
 

@@ -72,7 +72,7 @@ func TestCleaningGaps(t *testing.T) {
 			f := newFacts(set, coldLimits(t), period)
 			f.cleaningFacts()
 			var got []gap
-			for _, g := range f.docs["enclosure"]["C-01"]["cleaning"].(map[string]any)["gaps"].([]any) {
+			for _, g := range section(f.docs["enclosure"]["C-01"], "cleaning").(map[string]any)["gaps"].([]any) {
 				m := g.(map[string]any)
 				got = append(got, gap{m["from"].(string), m["until"].(string), m["since"].(string)})
 			}

@@ -38,6 +38,14 @@ func (f *facts) addExtra() {
 			for _, e := range x {
 				walk(e)
 			}
+		case *lazy:
+			// The section gets its extras each time it is made.
+			mk := x.make
+			x.make = func() any {
+				v := mk()
+				walk(v)
+				return v
+			}
 		}
 	}
 	for _, byID := range f.docs {

@@ -115,7 +115,7 @@ func TestLocalColumns(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		for _, d := range f.inputs(kind) {
+		for _, d := range resolveDocs(f.inputs(kind)) {
 			walk(d)
 			for _, p := range s.Validate(d) {
 				t.Errorf("%s %v: %s", kind, d["id"], p)

@@ -176,10 +176,15 @@ func (f *facts) siteHeatFacts(byDay map[string][]heatDay, docs map[string][]map[
 // (heatDayDocs); a run of hot days the enclosure was occupied for from
 // start to end is the site's run, one document shared by every enclosure
 // of the site.
+//
+// The section is lazy (lazy.go): a year has about 50 hot days per
+// enclosure, each a map of 16 values, so the facts keep only each hot
+// day's index and water checks (encHeat) and the site's figures, shared,
+// and the section is made when the enclosure is evaluated.
 func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay, docs map[string][]map[string]any) {
 	c := f.careIndex()
 	hot := f.lim.Heat.HotDayC
-	siteRuns := map[string]map[records.Day]siteRun{}
+	sites := map[string]*siteHeat{}
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		b := f.buildings[e.BuildingID]
@@ -187,47 +192,104 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay, docs map[string][
 			continue
 		}
 		site := byDay[b.WeatherSite]
-		days := []any{}
-		var on []records.Day
+		eh := &encHeat{
+			exposure: b.Exposure, site: nilIfEmpty(b.WeatherSite), ref: e.Ref,
+			shade: e.Shade.IsYes(), shadeRecorded: e.Shade != records.NotRecorded,
+		}
 		for _, seg := range f.segments[e.ID] {
 			for d := seg.From; d <= seg.To; d++ {
 				if site == nil {
 					break
 				}
-				hd := site[d-f.period.From]
-				if !hotDay(hd, hot) {
+				k := d - f.period.From
+				if !hotDay(site[k], hot) {
 					continue
 				}
-				m := withFields(docs[b.WeatherSite][d-f.period.From], 3)
-				m["water_checks"] = int(c.on(e.ID, e.BuildingID, d).waterChecks)
-				m["evidence"] = refs(e.Ref, hd.airRef, hd.peak.Ref)
-				m["run"] = nil
-				days = append(days, m)
-				on = append(on, d)
+				eh.days = append(eh.days, hotDayOf{day: int32(k), water: uint16(c.on(e.ID, e.BuildingID, d).waterChecks)})
 			}
 		}
-		var runs map[records.Day]siteRun
-		if len(days) > 0 {
-			runs = siteRuns[b.WeatherSite]
-			if runs == nil {
-				runs = f.siteHotRuns(site, docs[b.WeatherSite], hot)
-				siteRuns[b.WeatherSite] = runs
+		if len(eh.days) > 0 {
+			sh := sites[b.WeatherSite]
+			if sh == nil {
+				sh = f.siteHeatOf(site, docs[b.WeatherSite], hot)
+				sites[b.WeatherSite] = sh
 			}
+			eh.on = sh
 		}
-		for _, r := range heatRuns(days, on, hot) {
-			if sr, ok := runs[on[r.first]]; ok && sr.until == on[r.last] {
+		f.doc("enclosure", e.ID)["heat"] = lazySection(eh.section)
+	}
+}
+
+// siteHeat is what the enclosures of one weather site share: the figures
+// of each day of the period (nil without readings), the evidence of each
+// day (the readings with the maximum air temperature and heat index) and
+// the site's runs of hot days.
+type siteHeat struct {
+	from     records.Day
+	docs     []map[string]any
+	evidence [][2]records.Ref
+	runs     map[records.Day]siteRun
+	hot      float64
+}
+
+func (f *facts) siteHeatOf(site []heatDay, docs []map[string]any, hot float64) *siteHeat {
+	sh := &siteHeat{from: f.period.From, docs: docs, evidence: make([][2]records.Ref, len(site)), hot: hot}
+	for i, hd := range site {
+		if hd.readings > 0 {
+			sh.evidence[i] = [2]records.Ref{hd.airRef, hd.peak.Ref}
+		}
+	}
+	sh.runs = f.siteHotRuns(site, docs, hot)
+	return sh
+}
+
+// encHeat is an enclosure's heat section as the facts keep it.
+type encHeat struct {
+	exposure      string
+	site          any
+	ref           records.Ref
+	shade         bool
+	shadeRecorded bool
+	days          []hotDayOf
+	on            *siteHeat // nil when the enclosure has no hot day
+}
+
+// hotDayOf is one of an enclosure's hot days: its index in the period and
+// the rounds that recorded a water state that day.
+type hotDayOf struct {
+	day   int32
+	water uint16
+}
+
+// section makes the enclosure's heat section.
+func (eh *encHeat) section() any {
+	days := make([]any, 0, len(eh.days))
+	on := make([]records.Day, 0, len(eh.days))
+	sh := eh.on
+	for _, hd := range eh.days {
+		m := withFields(sh.docs[hd.day], 3)
+		m["water_checks"] = int(hd.water)
+		ev := sh.evidence[hd.day]
+		m["evidence"] = refs(eh.ref, ev[0], ev[1])
+		m["run"] = nil
+		days = append(days, m)
+		on = append(on, sh.from+records.Day(hd.day))
+	}
+	if len(days) > 0 {
+		for _, r := range heatRuns(days, on, sh.hot) {
+			if sr, ok := sh.runs[on[r.first]]; ok && sr.until == on[r.last] {
 				setRun(days, r, sr.doc)
 			} else {
 				setRun(days, r, heatRunDoc(days[r.first:r.last+1]))
 			}
 		}
-		f.doc("enclosure", e.ID)["heat"] = map[string]any{
-			"exposure":       b.Exposure,
-			"weather_site":   nilIfEmpty(b.WeatherSite),
-			"shade":          e.Shade.IsYes(),
-			"shade_recorded": e.Shade != records.NotRecorded,
-			"hot_days":       days,
-		}
+	}
+	return map[string]any{
+		"exposure":       eh.exposure,
+		"weather_site":   eh.site,
+		"shade":          eh.shade,
+		"shade_recorded": eh.shadeRecorded,
+		"hot_days":       days,
 	}
 }
 

@@ -129,7 +129,7 @@ func summerSet(withCleanedColumn bool) *records.Set {
 func TestHeatSiteDays(t *testing.T) {
 	f := newFacts(summerSet(true), coldLimits(t), summerPeriod)
 	f.heatFacts()
-	days := f.docs["site"]["YARD"]["heat"].(map[string]any)["days"].([]any)
+	days := section(f.docs["site"]["YARD"], "heat").(map[string]any)["days"].([]any)
 	type row struct {
 		On       string
 		MaxAirC  float64
@@ -313,7 +313,7 @@ func TestEnclosureHotDays(t *testing.T) {
 	}
 	got := map[string][]row{}
 	for _, id := range []string{"S-01", "S-02"} {
-		sec := f.docs["enclosure"][id]["heat"].(map[string]any)
+		sec := section(f.docs["enclosure"][id], "heat").(map[string]any)
 		for _, d := range sec["hot_days"].([]any) {
 			m := d.(map[string]any)
 			got[id] = append(got[id], row{m["on"].(string), m["water_checks"].(int), m["run"].(map[string]any)["days"].(int)})
@@ -344,7 +344,7 @@ func TestEnclosureHotRunsShared(t *testing.T) {
 	f.heatFacts()
 	runs := func(id string) []map[string]any {
 		var out []map[string]any
-		for _, d := range f.docs["enclosure"][id]["heat"].(map[string]any)["hot_days"].([]any) {
+		for _, d := range section(f.docs["enclosure"][id], "heat").(map[string]any)["hot_days"].([]any) {
 			out = append(out, d.(map[string]any)["run"].(map[string]any))
 		}
 		return out
@@ -361,8 +361,8 @@ func TestEnclosureHotRunsShared(t *testing.T) {
 	set = summerSet(true)
 	g := newFacts(set, coldLimits(t), summerPeriod)
 	g.heatFacts()
-	a := g.docs["enclosure"]["S-01"]["heat"].(map[string]any)["hot_days"].([]any)[0].(map[string]any)["run"].(map[string]any)
-	b := g.docs["enclosure"]["S-02"]["heat"].(map[string]any)["hot_days"].([]any)[1].(map[string]any)["run"].(map[string]any)
+	a := section(g.docs["enclosure"]["S-01"], "heat").(map[string]any)["hot_days"].([]any)[0].(map[string]any)["run"].(map[string]any)
+	b := section(g.docs["enclosure"]["S-02"], "heat").(map[string]any)["hot_days"].([]any)[1].(map[string]any)["run"].(map[string]any)
 	if !same(a, b) {
 		t.Error("S-01 and S-02, occupied for the whole run, have two run documents")
 	}

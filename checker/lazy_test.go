@@ -164,3 +164,15 @@ func TestResolvedDocumentsAsBefore(t *testing.T) {
 		t.Fatalf("the golden compares only %d sections", n)
 	}
 }
+
+// plainDocs is every document of f, resolved (resolveDoc), by kind and id.
+func plainDocs(f *facts) map[string]map[string]map[string]any {
+	out := map[string]map[string]map[string]any{}
+	for kind, byID := range f.docs {
+		out[kind] = map[string]map[string]any{}
+		for id, d := range byID {
+			out[kind][id] = resolveDoc(d)
+		}
+	}
+	return out
+}

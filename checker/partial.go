@@ -86,7 +86,7 @@ func (f *facts) partials(inForce func(check string) bool) []Partial {
 	// Floor space: occupied enclosure-days whose occupants' area is unknown.
 	var space tally
 	for _, d := range f.inputs("enclosure") {
-		occ, _ := d["occupancy"].([]any)
+		occ, _ := section(d, "occupancy").([]any)
 		for _, o := range occ {
 			s := o.(map[string]any)
 			judged, what := true, ""
@@ -161,7 +161,7 @@ func (f *facts) partials(inForce func(check string) bool) []Partial {
 	var stints tally
 	within := f.lim.Cold.ReadingWithinHours
 	for _, d := range f.inputs("staff") {
-		c, _ := d["cold"].(map[string]any)
+		c, _ := section(d, "cold").(map[string]any)
 		if c == nil {
 			continue
 		}

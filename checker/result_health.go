@@ -176,7 +176,7 @@ func (f *facts) healthFigures(fs []Finding) *Health {
 	})
 
 	high := findingDays(fs, "health.mortality.high")
-	ms, _ := f.doc("facility", f.set.Facility.Name)["mortality"].([]any)
+	ms, _ := section(f.doc("facility", f.set.Facility.Name), "mortality").([]any)
 	for _, x := range ms {
 		m := x.(map[string]any)
 		month, _ := records.ParseDay(m["on"].(string))
@@ -217,7 +217,7 @@ func (f *facts) healthFigures(fs []Finding) *Health {
 			continue
 		}
 		aw := AnimalWeights{Animal: id, Species: a.Species, Weighings: []Weighing{}, Findings: lost[id]}
-		ws, _ := f.animalDoc(a)["weights"].([]any)
+		ws, _ := section(f.animalDoc(a), "weights").([]any)
 		for _, x := range ws {
 			w := x.(map[string]any)
 			if d := records.Day(w["day"].(int)); d >= since {

@@ -89,7 +89,7 @@ func (f *facts) warmFigures(fs []Finding, gaps []CleaningGap) *Warm {
 		CleanEveryDays: f.lim.Care.CleanEveryDays}
 
 	for _, id := range sortedIDs(f.docs["site"]) {
-		hs, _ := f.docs["site"][id]["heat"].(map[string]any)
+		hs, _ := section(f.docs["site"][id], "heat").(map[string]any)
 		days, _ := hs["days"].([]any)
 		s := SiteHeat{Site: id, Days: []DayHeat{}}
 		warm := false
@@ -177,7 +177,7 @@ func (f *facts) warmFigures(fs []Finding, gaps []CleaningGap) *Warm {
 func cleaningGaps(enclosures map[string]map[string]any) []CleaningGap {
 	var gaps []CleaningGap
 	for _, id := range sortedIDs(enclosures) {
-		cs, _ := enclosures[id]["cleaning"].(map[string]any)
+		cs, _ := section(enclosures[id], "cleaning").(map[string]any)
 		list, _ := cs["gaps"].([]any)
 		for _, x := range list {
 			m := x.(map[string]any)

@@ -51,7 +51,7 @@ func TestFactsMatchInputSchemas(t *testing.T) {
 			}
 			var docs []map[string]any
 			for _, f := range all {
-				docs = append(docs, f.inputs(kind)...)
+				docs = append(docs, resolveDocs(f.inputs(kind))...)
 			}
 			if len(docs) == 0 {
 				t.Fatalf("the demo has no %s documents to check", kind)
