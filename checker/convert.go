@@ -182,6 +182,9 @@ func (c *converter) term(v any) (*ast.Term, error) {
 		return v, nil
 	case *lazy:
 		// Made for this conversion and let go after it (lazy.go).
+		if v.term != nil {
+			return v.term(c)
+		}
 		return c.term(v.make())
 	}
 	val, err := ast.InterfaceToValue(v)

@@ -39,8 +39,10 @@ func (f *facts) addExtra() {
 				walk(e)
 			}
 		case *lazy:
-			// The section gets its extras each time it is made.
+			// The section gets its extras each time it is made (from
+			// the plain value: the direct term has none).
 			mk := x.make
+			x.term = nil
 			x.make = func() any {
 				v := mk()
 				walk(v)

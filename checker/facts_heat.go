@@ -3,6 +3,8 @@ package checker
 import (
 	"time"
 
+	"github.com/open-policy-agent/opa/v1/ast"
+
 	"welfare/checker/heat"
 	"welfare/records"
 )
@@ -216,7 +218,7 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay, docs map[string][
 			}
 			eh.on = sh
 		}
-		f.doc("enclosure", e.ID)["heat"] = lazySection(eh.section)
+		f.doc("enclosure", e.ID)["heat"] = &lazy{make: eh.section, term: eh.sectionTerm}
 	}
 }
 
@@ -224,12 +226,20 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay, docs map[string][
 // of each day of the period (nil without readings), the evidence of each
 // day (the readings with the maximum air temperature and heat index) and
 // the site's runs of hot days.
+//
+// For the rules' values (encHeat.sectionTerm) it keeps the same as OPA
+// values, converted once: each day's figures as key-value pairs, its
+// evidence refs, and each site run.
 type siteHeat struct {
 	from     records.Day
 	docs     []map[string]any
 	evidence [][2]records.Ref
 	runs     map[records.Day]siteRun
 	hot      float64
+
+	pairs    [][][2]*ast.Term
+	evTerms  [][2]*ast.Term
+	runTerms map[records.Day]*ast.Term
 }
 
 func (f *facts) siteHeatOf(site []heatDay, docs []map[string]any, hot float64) *siteHeat {
@@ -240,6 +250,35 @@ func (f *facts) siteHeatOf(site []heatDay, docs []map[string]any, hot float64) *
 		}
 	}
 	sh.runs = f.siteHotRuns(site, docs, hot)
+	c := newConverter()
+	sh.pairs = make([][][2]*ast.Term, len(site))
+	sh.evTerms = make([][2]*ast.Term, len(site))
+	for i, d := range docs {
+		if d == nil || !hotDay(site[i], hot) {
+			continue
+		}
+		t, err := c.term(d)
+		if err != nil {
+			panic(err) // a site-day's figures are numbers, strings and bools
+		}
+		obj := t.Value.(ast.Object)
+		pairs := make([][2]*ast.Term, 0, obj.Len()+3)
+		obj.Foreach(func(k, v *ast.Term) { pairs = append(pairs, [2]*ast.Term{k, v}) })
+		sh.pairs[i] = pairs
+		for k, r := range sh.evidence[i] {
+			if r != "" {
+				sh.evTerms[i][k] = ast.StringTerm(string(r))
+			}
+		}
+	}
+	sh.runTerms = make(map[records.Day]*ast.Term, len(sh.runs))
+	for d, r := range sh.runs {
+		t, err := c.term(r.doc)
+		if err != nil {
+			panic(err)
+		}
+		sh.runTerms[d] = t
+	}
 	return sh
 }
 
@@ -259,6 +298,79 @@ type encHeat struct {
 type hotDayOf struct {
 	day   int32
 	water uint16
+}
+
+// Keys of the hot days' fields an enclosure adds to its site's figures.
+var (
+	waterChecksKey = ast.InternedTerm("water_checks")
+	evidenceKey    = ast.InternedTerm("evidence")
+	heatRunKey     = ast.InternedTerm("run")
+)
+
+// sectionTerm makes the enclosure's heat section as the OPA value
+// converting section's gives: each hot day an object of its site-day's
+// converted figures and the enclosure's three fields, a site run's
+// converted once for every enclosure of the site.
+func (eh *encHeat) sectionTerm(c *converter) (*ast.Term, error) {
+	days := emptyArray
+	if len(eh.days) > 0 {
+		sh := eh.on
+		encRef := ast.StringTerm(string(eh.ref))
+		base := make([]map[string]any, len(eh.days))
+		on := make([]records.Day, len(eh.days))
+		anyDays := make([]any, len(eh.days))
+		for k, hd := range eh.days {
+			base[k] = sh.docs[hd.day]
+			anyDays[k] = base[k]
+			on[k] = sh.from + records.Day(hd.day)
+		}
+		runs := make([]*ast.Term, len(eh.days))
+		for _, r := range heatRuns(anyDays, on, sh.hot) {
+			t, ok := sh.runTerms[on[r.first]]
+			if !ok || sh.runs[on[r.first]].until != on[r.last] {
+				var err error
+				if t, err = c.term(heatRunDoc(anyDays[r.first : r.last+1])); err != nil {
+					return nil, err
+				}
+			}
+			for k := r.first; k <= r.last; k++ {
+				runs[k] = t
+			}
+		}
+		elems := make([]*ast.Term, len(eh.days))
+		for k, hd := range eh.days {
+			ev := make([]*ast.Term, 0, 3)
+			if eh.ref != "" {
+				ev = append(ev, encRef)
+			}
+			for _, t := range sh.evTerms[hd.day] {
+				if t != nil {
+					ev = append(ev, t)
+				}
+			}
+			run := runs[k]
+			if run == nil {
+				run = ast.InternedNullTerm
+			}
+			pairs := append(sh.pairs[hd.day][:len(sh.pairs[hd.day]):len(sh.pairs[hd.day])],
+				[2]*ast.Term{waterChecksKey, ast.InternedTerm(int(hd.water))},
+				[2]*ast.Term{evidenceKey, ast.NewTerm(ast.NewArray(ev...))},
+				[2]*ast.Term{heatRunKey, run})
+			elems[k] = ast.NewTerm(ast.NewObject(pairs...))
+		}
+		days = ast.NewTerm(ast.NewArray(elems...))
+	}
+	var site *ast.Term = ast.InternedNullTerm
+	if s, ok := eh.site.(string); ok {
+		site = c.str(s)
+	}
+	return ast.NewTerm(ast.NewObject(
+		[2]*ast.Term{c.key("exposure"), c.str(eh.exposure)},
+		[2]*ast.Term{c.key("weather_site"), site},
+		[2]*ast.Term{c.key("shade"), ast.InternedTerm(eh.shade)},
+		[2]*ast.Term{c.key("shade_recorded"), ast.InternedTerm(eh.shadeRecorded)},
+		[2]*ast.Term{c.key("hot_days"), days},
+	)), nil
 }
 
 // section makes the enclosure's heat section.

@@ -1,5 +1,7 @@
 package checker
 
+import "github.com/open-policy-agent/opa/v1/ast"
+
 // A section of a subject's document may be given as a lazy value: compact
 // Go data the fact builder keeps, and a function that makes the section's
 // document value (map[string]any, []any, ... as any other section) from
@@ -19,6 +21,10 @@ package checker
 // resolve: section for one section, resolveDoc for a whole document.
 type lazy struct {
 	make func() any
+	// term, when set, gives the section's OPA value directly, the value
+	// converting make's gives (convert_test holds them to it), with less
+	// work: the converter uses it, every other reader make.
+	term func(c *converter) (*ast.Term, error)
 }
 
 // lazySection gives a section made by mk when it is read.
