@@ -4,6 +4,8 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/open-policy-agent/opa/v1/ast"
+
 	"welfare/records"
 )
 
@@ -135,7 +137,7 @@ func (f *facts) cleaningFacts() {
 				}
 			}
 		}
-		f.doc("enclosure", e.ID)["cleaning"] = lazySection(ec.section)
+		f.doc("enclosure", e.ID)["cleaning"] = &lazy{make: ec.section, term: ec.sectionTerm}
 	}
 }
 
@@ -163,6 +165,36 @@ type cleanGap struct {
 	from, until records.Day
 	since       uint8
 	ref         records.Ref
+}
+
+// sectionTerm makes the enclosure's cleaning section as the OPA value
+// converting section's gives, without the maps between.
+func (ec *encCleaning) sectionTerm(c *converter) (*ast.Term, error) {
+	gaps := emptyArray
+	if len(ec.gaps) > 0 {
+		encRef := c.str(string(ec.ref))
+		periodFrom := c.str(ec.day.of(ec.day.from).(string))
+		elems := make([]*ast.Term, len(ec.gaps))
+		for i, g := range ec.gaps {
+			ev := []*ast.Term{encRef}
+			if g.ref != "" {
+				ev = append(ev, c.str(string(g.ref)))
+			}
+			elems[i] = ast.NewTerm(ast.NewObject(
+				[2]*ast.Term{c.key("from"), c.str(ec.day.of(g.from).(string))},
+				[2]*ast.Term{c.key("until"), c.str(ec.day.of(g.until).(string))},
+				[2]*ast.Term{c.key("days"), ast.InternedTerm(int(g.until - g.from))},
+				[2]*ast.Term{c.key("since"), c.str(sinceNames[g.since])},
+				[2]*ast.Term{c.key("period_from"), periodFrom},
+				[2]*ast.Term{c.key("evidence"), ast.NewTerm(ast.NewArray(ev...))},
+			))
+		}
+		gaps = ast.NewTerm(ast.NewArray(elems...))
+	}
+	return ast.NewTerm(ast.NewObject(
+		[2]*ast.Term{c.key("rounds_recorded"), ast.InternedTerm(ec.recorded)},
+		[2]*ast.Term{c.key("gaps"), gaps},
+	)), nil
 }
 
 // section makes the enclosure's cleaning section.
