@@ -10,8 +10,9 @@ import "github.com/open-policy-agent/opa/v1/ast"
 // only while the subject's chunk is evaluated (check.go), not for every
 // subject of every kind from the facts phase on.
 //
-// A lazy value is always a whole section: a value of the document itself,
-// never deeper. Its function is called again each time the section is
+// A builder gives &lazy{make: ...} as the section's value. A lazy value
+// is always a whole section: a value of the document itself, never
+// deeper. Its function is called again each time the section is
 // read (nothing is remembered), must give the same value each time, and
 // may share values the builder made once (a site's figures) among the
 // sections it makes, as eager documents do.
@@ -26,9 +27,6 @@ type lazy struct {
 	// work: the converter uses it, every other reader make.
 	term func(c *converter) (*ast.Term, error)
 }
-
-// lazySection gives a section made by mk when it is read.
-func lazySection(mk func() any) *lazy { return &lazy{make: mk} }
 
 // resolve gives the plain value of a document's section: a lazy section
 // made, any other value as it is.
