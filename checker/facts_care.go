@@ -48,7 +48,7 @@ func (f *facts) careIndex() *careDays {
 		if !f.inPeriod(f.rounds.Day(i)) {
 			continue
 		}
-		r := f.rounds.View(i)
+		r := f.rounds.Answers(i)
 		k := f.rounds.Keys(i)
 		by, key := encDays, k.Enclosure
 		if key == 0 {
@@ -59,7 +59,7 @@ func (f *facts) careIndex() *careDays {
 			days = make([]dayCare, c.n)
 			by[key] = days
 		}
-		dc := &days[r.Day-c.from]
+		dc := &days[f.rounds.Day(i)-c.from]
 		dc.observed = dc.observed || r.Observed.IsYes()
 		dc.fed = dc.fed || r.Fed.IsYes() || (r.HasFeed && r.FeedG > 0)
 		dc.bedding = dc.bedding || r.BeddingAdded.IsYes()
@@ -186,6 +186,10 @@ func (f *facts) roundEvents() {
 	var targets []string // reused across rounds
 	for i := range f.rounds.Len() {
 		if !f.inPeriod(f.rounds.Day(i)) {
+			continue
+		}
+		// Most rounds are neither: the full round is read only for those.
+		if a := f.rounds.Answers(i); a.Water != "empty" && a.Water != "frozen" && !a.HealthConcern.IsYes() {
 			continue
 		}
 		r := f.rounds.View(i)

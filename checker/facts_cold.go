@@ -244,7 +244,7 @@ func (f *facts) beddingDays() beddingIndex {
 	bldDays := make([][]records.Day, len(strs))
 	for i := range f.rounds.Len() {
 		d := f.rounds.Day(i)
-		if d > f.period.To || !f.rounds.View(i).BeddingAdded.IsYes() {
+		if d > f.period.To || !f.rounds.Answers(i).BeddingAdded.IsYes() {
 			continue
 		}
 		if k := f.rounds.Keys(i); k.Enclosure != 0 {

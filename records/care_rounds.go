@@ -319,6 +319,32 @@ func (c *CareRounds) Keys(i int) CareKeys {
 	return CareKeys{Enclosure: r.enc, Building: r.bld, Staff: r.staff, ConcernAnimal: r.anim}
 }
 
+// CareAnswers are a round's recorded answers: its yes/no fields, water
+// state and feed, read without the time and ids View also gives.
+type CareAnswers struct {
+	Observed, Fed, WaterRestored, BeddingAdded, Cleaned, HealthConcern Bool
+	Water                                                              string
+	FeedG                                                              float64 // grams, when HasFeed
+	HasFeed                                                            bool
+}
+
+// Answers returns round i's answers.
+func (c *CareRounds) Answers(i int) CareAnswers {
+	r := c.row(i)
+	if r.flags&careWide != 0 {
+		w := &c.wide[r.line]
+		a := CareAnswers{Observed: w.Observed, Fed: w.Fed, WaterRestored: w.WaterRestored, BeddingAdded: w.BeddingAdded,
+			Cleaned: w.Cleaned, HealthConcern: w.HealthConcern, Water: w.Water}
+		if w.FeedG != nil {
+			a.FeedG, a.HasFeed = *w.FeedG, true
+		}
+		return a
+	}
+	return CareAnswers{Observed: r.boolAt(0), Fed: r.boolAt(1), WaterRestored: r.boolAt(2), BeddingAdded: r.boolAt(3),
+		Cleaned: r.boolAt(4), HealthConcern: r.boolAt(5), Water: waterStates[r.flags>>waterShift&waterMask],
+		FeedG: r.feed, HasFeed: r.flags&careFeedSet != 0}
+}
+
 // Strings is the store's table of ids and notes, by key (read-only: it is
 // the store's own).
 func (c *CareRounds) Strings() []string {
