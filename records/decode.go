@@ -529,7 +529,7 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		if err != nil {
 			return d.dateReason(cell, err)
 		}
-		if why := d.win.check(DayOf(t), f.later, cell); why != "" {
+		if why := d.win.check(d.zone.dayOf(t), f.later, cell); why != "" {
 			return why
 		}
 		*fv.Addr().Interface().(*time.Time) = t

@@ -20,20 +20,47 @@ func parseBool(s string) (Bool, bool) {
 			return No, true
 		}
 	case 2, 3, 4, 5:
-		switch strings.ToLower(s) {
-		case "yes", "true":
+		// Only ASCII letters lower-case to these words (strings.ToLower
+		// would give the same answer), so the cell is compared byte by
+		// byte without making a lower-case copy.
+		switch {
+		case foldsTo(s, "yes"), foldsTo(s, "true"):
 			return Yes, true
-		case "no", "false":
+		case foldsTo(s, "no"), foldsTo(s, "false"):
 			return No, true
 		}
 	}
 	return NotRecorded, false
 }
 
+// foldsTo reports whether s is lower with ASCII letters in any case.
+func foldsTo(s, lower string) bool {
+	if len(s) != len(lower) {
+		return false
+	}
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		if 'A' <= c && c <= 'Z' {
+			c += 'a' - 'A'
+		}
+		if c != lower[i] {
+			return false
+		}
+	}
+	return true
+}
+
 // parseNumber reads a decimal number with a point. NaN and infinities are
 // not measurements, and "12,5" (a decimal comma) is refused rather than
 // guessed at.
 func parseNumber(s string) (float64, bool) {
+	// Whole grams and counts are most cells: up to 15 digits a float64
+	// holds them exactly, as ParseFloat reads them.
+	if len(s) > 0 && len(s) <= 15 {
+		if n, ok := digits(s, 0, len(s)); ok {
+			return float64(n), true
+		}
+	}
 	f, err := strconv.ParseFloat(s, 64)
 	if err != nil || f != f || f > 1e300 || f < -1e300 {
 		return 0, false
@@ -217,6 +244,24 @@ func (z *zoneCache) date(y, mo, d, h, mi, sec int, loc *time.Location) time.Time
 		return time.Date(y, time.Month(mo), d, h, mi, sec, 0, loc)
 	}
 	return time.Unix(utc, 0).In(loc)
+}
+
+// dayOf is DayOf(t), without looking t's zone up when t is in the cached
+// zone's location and bounds (its offset is then the cached one).
+func (z *zoneCache) dayOf(t time.Time) Day {
+	if z.loc == nil || t.Location() != z.loc {
+		return DayOf(t)
+	}
+	u := t.Unix()
+	if u < z.start || u >= z.end {
+		return DayOf(t)
+	}
+	s := u + z.offset
+	d := s / 86400
+	if s%86400 < 0 {
+		d--
+	}
+	return Day(d) + epochOffset
 }
 
 // unitKind names a measured quantity whose column carries its unit as a suffix.

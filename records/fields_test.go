@@ -2,6 +2,8 @@ package records
 
 import (
 	"math"
+	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -17,7 +19,7 @@ func TestParseBool(t *testing.T) {
 		{"yes", Yes, true}, {"YES", Yes, true}, {"Yes", Yes, true}, {"y", Yes, true}, {"Y", Yes, true},
 		{"true", Yes, true}, {"TRUE", Yes, true}, {"1", Yes, true},
 		{"no", No, true}, {"No", No, true}, {"n", No, true}, {"false", No, true}, {"False", No, true}, {"0", No, true},
-		{"maybe", NotRecorded, false}, {"2", NotRecorded, false}, {"yess", NotRecorded, false}, {"t", NotRecorded, false},
+		{"maybe", NotRecorded, false}, {"2", NotRecorded, false}, {"yess", NotRecorded, false}, {"t", NotRecorded, false}, {"yeſ", NotRecorded, false}, {"\u212Aes", NotRecorded, false},
 	}
 	for _, tt := range tests {
 		t.Run(tt.in, func(t *testing.T) {
@@ -255,6 +257,9 @@ func TestZoneCacheMatchesTimeDate(t *testing.T) {
 			if got != want {
 				t.Fatalf("%s %04d-%02d-%02d %02d:%02d: %v, time.Date gives %v", name, y, mo, d, h, mi, got, want)
 			}
+			if z.dayOf(want) != DayOf(want) {
+				t.Fatalf("%s %v: day %v, DayOf gives %v", name, want, z.dayOf(want), DayOf(want))
+			}
 		}
 		days := 0
 		for day := time.Date(2025, 1, 1, 0, 0, 0, 0, time.UTC); day.Year() < 2027; day = day.AddDate(0, 0, 1) {
@@ -306,6 +311,19 @@ func TestNumRangeMatchesValidator(t *testing.T) {
 	for _, tag := range []string{"", "required,gte=0", "gte=0,dive", "oneof=1 2", "gte=x"} {
 		if _, ok := rangeOf(tag); ok {
 			t.Errorf("%q read as a range", tag)
+		}
+	}
+}
+
+// Whole numbers are read without ParseFloat; they must come out as
+// ParseFloat reads them (a sign, a point or an exponent takes the long way).
+func TestParseNumberWholeMatchesParseFloat(t *testing.T) {
+	for _, s := range []string{"0", "00", "007", "250", "10000", "999999999999999", "9007199254740993", "-0", "-5", "+5", "1e3", "2.5", "1_000", "0x10", ""} {
+		got, ok := parseNumber(s)
+		want, err := strconv.ParseFloat(s, 64)
+		wantOK := err == nil && !strings.ContainsAny(s, "_xX")
+		if ok != wantOK || (ok && math.Float64bits(got) != math.Float64bits(want)) {
+			t.Errorf("parseNumber(%q) = %v, %v; ParseFloat gives %v (%v)", s, got, ok, want, err)
 		}
 	}
 }
