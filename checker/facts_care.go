@@ -39,26 +39,40 @@ func (f *facts) careIndex() *careDays {
 	}
 	c := &careDays{from: f.period.From, n: int(f.period.To-f.period.From) + 1,
 		enc: map[string][]dayCare{}, bld: map[string][]dayCare{}}
+	// Each round's days are found by the key of its enclosure (or
+	// building) in the rounds' table, then named once per key.
+	strs := f.rounds.Strings()
+	encDays := make([][]dayCare, len(strs))
+	bldDays := make([][]dayCare, len(strs))
 	for i := range f.rounds.Len() {
 		if !f.inPeriod(f.rounds.Day(i)) {
 			continue
 		}
-		r := f.rounds.View(i)
-		m, id := c.enc, r.EnclosureID
-		if id == "" {
-			m, id = c.bld, r.BuildingID
+		r := f.rounds.Answers(i)
+		k := f.rounds.Keys(i)
+		by, key := encDays, k.Enclosure
+		if key == 0 {
+			by, key = bldDays, k.Building
 		}
-		days := m[id]
+		days := by[key]
 		if days == nil {
 			days = make([]dayCare, c.n)
-			m[id] = days
+			by[key] = days
 		}
-		dc := &days[r.Day-c.from]
+		dc := &days[f.rounds.Day(i)-c.from]
 		dc.observed = dc.observed || r.Observed.IsYes()
 		dc.fed = dc.fed || r.Fed.IsYes() || (r.HasFeed && r.FeedG > 0)
 		dc.bedding = dc.bedding || r.BeddingAdded.IsYes()
 		if r.Water != "" && r.Water != "not_checked" && dc.waterChecks < 255 {
 			dc.waterChecks++
+		}
+	}
+	for k, id := range strs {
+		if encDays[k] != nil {
+			c.enc[id] = encDays[k]
+		}
+		if bldDays[k] != nil {
+			c.bld[id] = bldDays[k]
 		}
 	}
 	f.care = c
@@ -68,16 +82,34 @@ func (f *facts) careIndex() *careDays {
 // on is what the rounds of day d recorded for the enclosure, counting its
 // building's rounds.
 func (c *careDays) on(encID, buildingID string, d records.Day) dayCare {
-	i := int(d - c.from)
-	if i < 0 || i >= c.n {
+	return c.of(encID, buildingID).on(d)
+}
+
+// enclosureCare is one enclosure's days of care and its building's, looked
+// up once for a loop over its days.
+type enclosureCare struct {
+	from     records.Day
+	n        int
+	enc, bld []dayCare
+}
+
+func (c *careDays) of(encID, buildingID string) enclosureCare {
+	return enclosureCare{from: c.from, n: c.n, enc: c.enc[encID], bld: c.bld[buildingID]}
+}
+
+// on is what the rounds of day d recorded for the enclosure, counting its
+// building's rounds.
+func (ec enclosureCare) on(d records.Day) dayCare {
+	i := int(d - ec.from)
+	if i < 0 || i >= ec.n {
 		return dayCare{}
 	}
 	var out dayCare
-	if days := c.enc[encID]; days != nil {
-		out = days[i]
+	if ec.enc != nil {
+		out = ec.enc[i]
 	}
-	if days := c.bld[buildingID]; days != nil {
-		out = out.or(days[i])
+	if ec.bld != nil {
+		out = out.or(ec.bld[i])
 	}
 	return out
 }
@@ -92,6 +124,7 @@ func (f *facts) careFacts() {
 		unobserved, unfed := []any{}, []any{}
 		var obsRun, fedRun dayRun
 		fedEvery := 0 // the smallest "fed every N days" over the current unfed run
+		care := c.of(e.ID, e.BuildingID)
 		for _, s := range f.segments[e.ID] {
 			every := 0
 			for _, o := range s.Occupants {
@@ -100,7 +133,7 @@ func (f *facts) careFacts() {
 				}
 			}
 			for d := s.From; d <= s.To; d++ {
-				dc := c.on(e.ID, e.BuildingID, d)
+				dc := care.on(d)
 				f.coverage.OccupiedDays++
 				if dc.observed && dc.fed {
 					f.coverage.CompleteDays++
@@ -153,6 +186,10 @@ func (f *facts) roundEvents() {
 	var targets []string // reused across rounds
 	for i := range f.rounds.Len() {
 		if !f.inPeriod(f.rounds.Day(i)) {
+			continue
+		}
+		// Most rounds are neither: the full round is read only for those.
+		if a := f.rounds.Answers(i); a.Water != "empty" && a.Water != "frozen" && !a.HealthConcern.IsYes() {
 			continue
 		}
 		r := f.rounds.View(i)

@@ -238,20 +238,32 @@ type beddingIndex struct {
 
 func (f *facts) beddingDays() beddingIndex {
 	ix := beddingIndex{enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
+	// Gathered by the keys of the rounds' table, named once per key.
+	strs := f.rounds.Strings()
+	encDays := make([][]records.Day, len(strs))
+	bldDays := make([][]records.Day, len(strs))
 	for i := range f.rounds.Len() {
-		r := f.rounds.View(i)
-		if !r.BeddingAdded.IsYes() || r.Day > f.period.To {
+		d := f.rounds.Day(i)
+		if d > f.period.To || !f.rounds.Answers(i).BeddingAdded.IsYes() {
 			continue
 		}
-		if r.EnclosureID != "" {
-			ix.enc[r.EnclosureID] = append(ix.enc[r.EnclosureID], r.Day)
+		if k := f.rounds.Keys(i); k.Enclosure != 0 {
+			encDays[k.Enclosure] = append(encDays[k.Enclosure], d)
 		} else {
-			ix.bld[r.BuildingID] = append(ix.bld[r.BuildingID], r.Day)
+			bldDays[k.Building] = append(bldDays[k.Building], d)
 		}
 	}
-	for _, m := range []map[string][]records.Day{ix.enc, ix.bld} {
-		for _, ds := range m {
-			sort.Slice(ds, func(i, j int) bool { return ds[i] < ds[j] })
+	for k, id := range strs {
+		for _, m := range []struct {
+			days [][]records.Day
+			ix   map[string][]records.Day
+		}{{encDays, ix.enc}, {bldDays, ix.bld}} {
+			if ds := m.days[k]; ds != nil {
+				if !slices.IsSorted(ds) {
+					slices.Sort(ds)
+				}
+				m.ix[id] = ds
+			}
 		}
 	}
 	return ix
@@ -260,8 +272,20 @@ func (f *facts) beddingDays() beddingIndex {
 // last is the latest day on or before d bedding was added to the enclosure
 // (by its own rounds or its building's), or 0.
 func (ix beddingIndex) last(encID, buildingID string, d records.Day) records.Day {
+	return ix.of(encID, buildingID).last(d)
+}
+
+// enclosureBedding is one enclosure's bedding days and its building's,
+// looked up once for a loop over its days.
+type enclosureBedding struct{ enc, bld []records.Day }
+
+func (ix beddingIndex) of(encID, buildingID string) enclosureBedding {
+	return enclosureBedding{ix.enc[encID], ix.bld[buildingID]}
+}
+
+func (eb enclosureBedding) last(d records.Day) records.Day {
 	var best records.Day
-	for _, ds := range [][]records.Day{ix.enc[encID], ix.bld[buildingID]} {
+	for _, ds := range [2][]records.Day{eb.enc, eb.bld} {
 		i := sort.Search(len(ds), func(i int) bool { return ds[i] > d })
 		if i > 0 && ds[i-1] > best {
 			best = ds[i-1]
@@ -287,6 +311,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 	for i := range days {
 		days[i] = (f.period.From + records.Day(i)).String()
 	}
+	water := newWaterGroups(lc.WaterChecksMin, days)
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		b := f.buildings[e.BuildingID]
@@ -295,7 +320,8 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 		}
 		s := sites[b.WeatherSite]
 		bedding, shelter, unknown := []any{}, []any{}, []any{}
-		water := newWaterGroups(lc.WaterChecksMin, days)
+		water.reset()
+		care, bedded := c.of(e.ID, e.BuildingID), bed.of(e.ID, e.BuildingID)
 		var unknownRun dayRun
 		// 9 CFR §3.4: in an outdoor building a species with an outdoor
 		// shelter requirement (dogs) is sheltered by a nest box; a sheltered
@@ -327,10 +353,10 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				// The wind-chill checks judge only days with a reading with
 				// wind; the water check needs the air temperature alone.
 				_, _, windOK := s.windDay(f.period, d)
-				if checks := int(c.on(e.ID, e.BuildingID, d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
+				if checks := int(care.on(d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
 					water.add(checks, int(d-f.period.From), s.minAir[d-f.period.From], s.coldestAir[d-f.period.From].Ref)
 				}
-				last := bed.last(e.ID, e.BuildingID, d)
+				last := bedded.last(d)
 				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
 				if windOK && cold && (last == 0 || int(d-last) >= lc.BeddingDays) {
 					day, w, _ := f.coldDayDoc(s, d)
@@ -372,39 +398,62 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 // the number of water checks recorded (0 to cold.water_checks_min): one
 // group per count, its days in day order as parallel arrays (the day, its
 // lowest air temperature and the reading that gave it). The texts are
-// []string, which OPA takes without boxing each one.
+// []string, which OPA takes without boxing each one. The days are listed
+// first and each group's arrays made at their size when the enclosure is
+// done; one waterGroups serves every enclosure in turn (reset).
 type waterGroups struct {
-	days   []string // the period's days as text, by day of the period
-	groups []waterGroup
+	days    []string // the period's days as text, by day of the period
+	groups  int
+	entries []waterDay
+	counts  []int
 }
 
-type waterGroup struct {
-	on, airRefs []string
-	minAirC     []any
+type waterDay struct {
+	checks, i int
+	minAirC   any
+	air       records.Ref
 }
 
 func newWaterGroups(maxChecks int, days []string) *waterGroups {
-	return &waterGroups{days: days, groups: make([]waterGroup, max(maxChecks+1, 0))}
+	n := max(maxChecks+1, 0)
+	return &waterGroups{days: days, groups: n, counts: make([]int, n)}
+}
+
+// reset empties the groups for the next enclosure.
+func (w *waterGroups) reset() {
+	w.entries = w.entries[:0]
+	clear(w.counts)
 }
 
 // add lists day i of the period, with checks water checks (minAirC: the
 // day's lowest air temperature, a float64).
 func (w *waterGroups) add(checks, i int, minAirC any, air records.Ref) {
-	g := &w.groups[checks]
-	g.on = append(g.on, w.days[i])
-	g.minAirC = append(g.minAirC, minAirC)
-	g.airRefs = append(g.airRefs, string(air))
+	w.counts[checks]++
+	w.entries = append(w.entries, waterDay{checks, i, minAirC, air})
 }
 
 // doc gives the groups that have days, fewest checks first.
 func (w *waterGroups) doc() []any {
 	out := []any{}
-	for checks, g := range w.groups {
+	type group struct {
+		on, airRefs []string
+		minAirC     []any
+	}
+	groups := make([]group, w.groups)
+	for checks, n := range w.counts {
+		if n > 0 {
+			groups[checks] = group{make([]string, 0, n), make([]string, 0, n), make([]any, 0, n)}
+		}
+	}
+	for _, e := range w.entries {
+		g := &groups[e.checks]
+		g.on = append(g.on, w.days[e.i])
+		g.minAirC = append(g.minAirC, e.minAirC)
+		g.airRefs = append(g.airRefs, string(e.air))
+	}
+	for checks, g := range groups {
 		if len(g.on) > 0 {
-			// Copies the size of their days: appending left up to half of
-			// each array unused.
-			out = append(out, map[string]any{"checks": checks, "on": slices.Clone(g.on), "min_air_c": slices.Clone(g.minAirC),
-				"air_refs": slices.Clone(g.airRefs)})
+			out = append(out, map[string]any{"checks": checks, "on": g.on, "min_air_c": g.minAirC, "air_refs": g.airRefs})
 		}
 	}
 	return out

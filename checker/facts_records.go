@@ -20,39 +20,48 @@ func (f *facts) recordsFacts() {
 	fd["rejected"] = rejected
 	fd["period"] = map[string]any{"from": f.period.From.String(), "until": f.period.To.String()}
 
-	type event struct {
-		animal, what string
-		day          records.Day
-		ref          records.Ref
+	// An event dated outside its animal's stay: each row is judged where it
+	// is read, and its text and ref are made only for the few that are.
+	outside := func(a *records.Animal, day records.Day) bool {
+		return a != nil && f.inPeriod(day) && (day < a.ArrivedOn || (!a.LeftOn.IsZero() && day > a.LeftOn))
 	}
-	var events []event
+	note := func(a *records.Animal, day records.Day, what string, ref records.Ref) {
+		d := f.animalDoc(a)
+		d["outside_stay"] = append(d["outside_stay"].([]any), map[string]any{
+			"on": day.String(), "what": what, "ref": string(ref),
+		})
+	}
 	for i := range f.set.Handling {
 		h := &f.set.Handling[i]
-		events = append(events, event{h.AnimalID, "handling (" + h.Purpose + ")", records.DayOf(h.At), h.Ref})
+		if a, day := f.animals[h.AnimalID], records.DayOf(h.At); outside(a, day) {
+			note(a, day, "handling ("+h.Purpose+")", h.Ref)
+		}
 	}
 	for i := range f.set.Culls {
 		c := &f.set.Culls[i]
-		events = append(events, event{c.AnimalID, "cull", records.DayOf(c.At), c.Ref})
+		if a, day := f.animals[c.AnimalID], records.DayOf(c.At); outside(a, day) {
+			note(a, day, "cull", c.Ref)
+		}
 	}
 	for i := range f.set.Observations {
 		o := &f.set.Observations[i]
-		events = append(events, event{o.AnimalID, "observation", records.DayOf(o.At), o.Ref})
+		if a, day := f.animals[o.AnimalID], records.DayOf(o.At); outside(a, day) {
+			note(a, day, "observation", o.Ref)
+		}
+	}
+	// The rounds' concern animals, resolved once per key of their table.
+	strs := f.rounds.Strings()
+	animalOf := make([]*records.Animal, len(strs))
+	for k, id := range strs {
+		if id != "" {
+			animalOf[k] = f.animals[id]
+		}
 	}
 	for i := range f.rounds.Len() {
-		if r := f.rounds.View(i); r.ConcernAnimalID != "" {
-			events = append(events, event{r.ConcernAnimalID, "health concern", r.Day, f.rounds.Ref(i)})
-		}
-	}
-	for _, e := range events {
-		a := f.animals[e.animal]
-		if a == nil || !f.inPeriod(e.day) {
-			continue
-		}
-		if e.day < a.ArrivedOn || (!a.LeftOn.IsZero() && e.day > a.LeftOn) {
-			d := f.animalDoc(a)
-			d["outside_stay"] = append(d["outside_stay"].([]any), map[string]any{
-				"on": e.day.String(), "what": e.what, "ref": string(e.ref),
-			})
+		if k := f.rounds.Keys(i); k.ConcernAnimal != 0 {
+			if a, day := animalOf[k.ConcernAnimal], f.rounds.Day(i); outside(a, day) {
+				note(a, day, "health concern", f.rounds.Ref(i))
+			}
 		}
 	}
 

@@ -15,12 +15,36 @@ type staffDay struct {
 	day     records.Day
 	handled []records.Ref
 	// Work with a rabies-risk species: handlings, culls, and care rounds of
-	// enclosures that species occupies that day.
-	rabiesHandled, rabiesCulls, rabiesRounds []records.Ref
-	respirator                               []records.Ref // handlings with a respirator worn
-	culls                                    []records.Ref
-	methods                                  []string // cull methods used, first-seen order
-	outside                                  []records.Ref
+	// enclosures that species occupies that day. The rounds and the rows
+	// outside employment can number hundreds a day: the facts count them
+	// and cite only the first maxRefs, so only those are kept.
+	rabiesHandled, rabiesCulls []records.Ref
+	rabiesRounds               refList
+	respirator                 []records.Ref // handlings with a respirator worn
+	culls                      []records.Ref
+	methods                    []string // cull methods used, first-seen order
+	outside                    refList
+}
+
+// refList counts rows and keeps the refs of the first maxRefs of them.
+type refList struct {
+	n     int
+	first []records.Ref
+}
+
+// count counts one more row and reports whether its ref is to be kept
+// (add it with keep): a caller formats a ref only when it is.
+func (l *refList) count() bool {
+	l.n++
+	return len(l.first) < maxRefs
+}
+
+func (l *refList) keep(r records.Ref) { l.first = append(l.first, r) }
+
+func (l *refList) add(r records.Ref) {
+	if l.count() {
+		l.keep(r)
+	}
 }
 
 // staffFacts adds each person's "staff" section: per day, the handling
@@ -49,8 +73,7 @@ func (f *facts) staffFacts() {
 	// outside notes a row naming s on d when d is outside s's employment.
 	outside := func(s *records.Staff, d records.Day, ref records.Ref) {
 		if away(s, d) {
-			sd := at(s, d)
-			sd.outside = append(sd.outside, ref)
+			at(s, d).outside.add(ref)
 		}
 	}
 
@@ -90,20 +113,29 @@ func (f *facts) staffFacts() {
 		outside(s, d, c.Ref)
 	}
 	risky := f.rabiesRiskRounds()
-	var r records.CareView // one for every round: risky takes its address
+	// The rounds' staff, resolved once per key of the rounds' table.
+	strs := f.rounds.Strings()
+	staffOf := make([]*records.Staff, len(strs))
+	for k, id := range strs {
+		staffOf[k] = f.staff[id]
+	}
 	for i := range f.rounds.Len() {
-		if !f.inPeriod(f.rounds.Day(i)) {
+		d := f.rounds.Day(i)
+		if !f.inPeriod(d) {
 			continue
 		}
-		r = f.rounds.View(i)
-		if s := f.staff[r.StaffID]; s != nil {
+		k := f.rounds.Keys(i)
+		if s := staffOf[k.Staff]; s != nil {
 			// The ref is formatted only for a round the facts cite.
-			if away(s, r.Day) {
-				outside(s, r.Day, f.rounds.Ref(i))
+			if away(s, d) {
+				if sd := at(s, d); sd.outside.count() {
+					sd.outside.keep(f.rounds.Ref(i))
+				}
 			}
-			if risky(&r) {
-				sd := at(s, r.Day)
-				sd.rabiesRounds = append(sd.rabiesRounds, f.rounds.Ref(i))
+			if risky(k, d) {
+				if sd := at(s, d); sd.rabiesRounds.count() {
+					sd.rabiesRounds.keep(f.rounds.Ref(i))
+				}
 			}
 		}
 	}
@@ -133,8 +165,8 @@ func (f *facts) staffFacts() {
 			if len(sd.culls) > 0 {
 				culled = append(culled, f.operatorDay(s, sd))
 			}
-			if len(sd.outside) > 0 {
-				out = append(out, map[string]any{"on": sd.day.String(), "rows": len(sd.outside), "refs": refs(firstRefs(sd.outside)...)})
+			if sd.outside.n > 0 {
+				out = append(out, map[string]any{"on": sd.day.String(), "rows": sd.outside.n, "refs": refs(sd.outside.first...)})
 			}
 		}
 		d := f.doc("staff", id)
@@ -234,33 +266,53 @@ func rabiesRecord(s *records.Staff, d records.Day, work []records.Ref) map[strin
 // building and day, since a year of them names the same few hundred of
 // each; an enclosure's round is looked up directly (its occupancy is one
 // search in a short list, cheaper than a memo of a million enclosure days).
-func (f *facts) rabiesRiskRounds() func(r *records.CareView) bool {
+func (f *facts) rabiesRiskRounds() func(k records.CareKeys, d records.Day) bool {
 	byBuilding := map[string][]string{}
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		byBuilding[e.BuildingID] = append(byBuilding[e.BuildingID], e.ID)
 	}
-	risky := func(encID string, d records.Day) bool {
-		seg := f.segmentOn(encID, d)
-		return seg != nil && slices.ContainsFunc(seg.Occupants, func(o occupant) bool {
-			return f.lim.Species[o.Animal.Species].RabiesRisk
-		})
+	// Whether each occupancy segment holds a rabies-risk species, worked
+	// out once per segment rather than once per round.
+	type occ struct {
+		segs  []segment
+		risky []bool
+	}
+	byEnc := make(map[string]occ, len(f.segments))
+	for id, segs := range f.segments {
+		risky := make([]bool, len(segs))
+		for i := range segs {
+			risky[i] = slices.ContainsFunc(segs[i].Occupants, func(o occupant) bool {
+				return f.lim.Species[o.Animal.Species].RabiesRisk
+			})
+		}
+		byEnc[id] = occ{segs, risky}
+	}
+	riskyOn := func(o occ, d records.Day) bool {
+		i := sort.Search(len(o.segs), func(i int) bool { return o.segs[i].To >= d })
+		return i < len(o.segs) && o.segs[i].From <= d && o.risky[i]
+	}
+	// The rounds' enclosures, resolved once per key of the rounds' table.
+	strs := f.rounds.Strings()
+	encOf := make([]occ, len(strs))
+	for k, id := range strs {
+		encOf[k] = byEnc[id]
 	}
 	type key struct {
-		building string
+		building uint32
 		day      records.Day
 	}
 	memo := map[key]bool{}
-	return func(r *records.CareView) bool {
-		if r.EnclosureID != "" {
-			return risky(r.EnclosureID, r.Day)
+	return func(k records.CareKeys, d records.Day) bool {
+		if k.Enclosure != 0 {
+			return riskyOn(encOf[k.Enclosure], d)
 		}
-		k := key{r.BuildingID, r.Day}
-		if v, ok := memo[k]; ok {
+		mk := key{k.Building, d}
+		if v, ok := memo[mk]; ok {
 			return v
 		}
-		v := slices.ContainsFunc(byBuilding[k.building], func(e string) bool { return risky(e, r.Day) })
-		memo[k] = v
+		v := slices.ContainsFunc(byBuilding[strs[k.Building]], func(e string) bool { return riskyOn(byEnc[e], d) })
+		memo[mk] = v
 		return v
 	}
 }
@@ -273,7 +325,7 @@ func (f *facts) rabiesRiskRounds() func(r *records.CareView) bool {
 // that work; refs are the first maxRefs of them (handlings, culls, then
 // care rounds).
 func (f *facts) rabiesDay(s *records.Staff, sd *staffDay) map[string]any {
-	n := len(sd.rabiesHandled) + len(sd.rabiesCulls) + len(sd.rabiesRounds)
+	n := len(sd.rabiesHandled) + len(sd.rabiesCulls) + sd.rabiesRounds.n
 	if n == 0 {
 		return nil
 	}
@@ -281,14 +333,14 @@ func (f *facts) rabiesDay(s *records.Staff, sd *staffDay) map[string]any {
 	if s.RabiesRiskCategory != nil {
 		category = *s.RabiesRiskCategory
 	}
-	work := slices.Concat(firstRefs(sd.rabiesHandled), firstRefs(sd.rabiesCulls), firstRefs(sd.rabiesRounds))
+	work := slices.Concat(firstRefs(sd.rabiesHandled), firstRefs(sd.rabiesCulls), sd.rabiesRounds.first)
 	r := rabiesRecord(s, sd.day, firstRefs(work))
 	r["on"] = sd.day.String()
 	r["category"] = category
 	r["work"] = map[string]any{
 		"handlings":   len(sd.rabiesHandled),
 		"culls":       len(sd.rabiesCulls),
-		"care_rounds": len(sd.rabiesRounds),
+		"care_rounds": sd.rabiesRounds.n,
 	}
 	return r
 }

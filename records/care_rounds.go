@@ -212,7 +212,10 @@ func (c *CareRounds) addWide(r *CareRound, prefix string, line int) {
 		cp.FeedG = &v
 	}
 	w := c.push()
-	*w = careRow{day: r.Day, line: uint32(len(c.wide)), flags: careWide}
+	// The ids are in the table too, so Keys serves wide rows as well.
+	*w = careRow{day: r.Day, line: uint32(len(c.wide)), flags: careWide,
+		enc: c.intern(r.EnclosureID), bld: c.intern(r.BuildingID), staff: c.intern(r.StaffID),
+		anim: c.intern(r.ConcernAnimalID)}
 	c.wide = append(c.wide, cp)
 }
 
@@ -300,6 +303,55 @@ func (c *CareRounds) View(i int) CareView {
 		v.At = time.Unix(r.at, 0).In(c.loc)
 	}
 	return v
+}
+
+// CareKeys are a round's ids as keys of the store's table of strings
+// (Strings()[k] is the id; 0 is ""): a loop over millions of rounds can
+// resolve each id once per key, in a slice indexed by key, instead of once
+// per round in a map.
+type CareKeys struct {
+	Enclosure, Building, Staff, ConcernAnimal uint32
+}
+
+// Keys returns round i's ids as keys of Strings.
+func (c *CareRounds) Keys(i int) CareKeys {
+	r := c.row(i)
+	return CareKeys{Enclosure: r.enc, Building: r.bld, Staff: r.staff, ConcernAnimal: r.anim}
+}
+
+// CareAnswers are a round's recorded answers: its yes/no fields, water
+// state and feed, read without the time and ids View also gives.
+type CareAnswers struct {
+	Observed, Fed, WaterRestored, BeddingAdded, Cleaned, HealthConcern Bool
+	Water                                                              string
+	FeedG                                                              float64 // grams, when HasFeed
+	HasFeed                                                            bool
+}
+
+// Answers returns round i's answers.
+func (c *CareRounds) Answers(i int) CareAnswers {
+	r := c.row(i)
+	if r.flags&careWide != 0 {
+		w := &c.wide[r.line]
+		a := CareAnswers{Observed: w.Observed, Fed: w.Fed, WaterRestored: w.WaterRestored, BeddingAdded: w.BeddingAdded,
+			Cleaned: w.Cleaned, HealthConcern: w.HealthConcern, Water: w.Water}
+		if w.FeedG != nil {
+			a.FeedG, a.HasFeed = *w.FeedG, true
+		}
+		return a
+	}
+	return CareAnswers{Observed: r.boolAt(0), Fed: r.boolAt(1), WaterRestored: r.boolAt(2), BeddingAdded: r.boolAt(3),
+		Cleaned: r.boolAt(4), HealthConcern: r.boolAt(5), Water: waterStates[r.flags>>waterShift&waterMask],
+		FeedG: r.feed, HasFeed: r.flags&careFeedSet != 0}
+}
+
+// Strings is the store's table of ids and notes, by key (read-only: it is
+// the store's own).
+func (c *CareRounds) Strings() []string {
+	if c == nil {
+		return []string{""}
+	}
+	return c.strs
 }
 
 // Day is the day of round i, the field most loops filter on first.

@@ -40,6 +40,16 @@ func sameRounds(t *testing.T, c *CareRounds, want []CareRound) {
 		if d := cmp.Diff(wantView, v); d != "" {
 			t.Errorf("row %d: view (-want +got):\n%s", i, d)
 		}
+		wantAnswers := CareAnswers{Observed: w.Observed, Fed: w.Fed, WaterRestored: w.WaterRestored,
+			BeddingAdded: w.BeddingAdded, Cleaned: w.Cleaned, HealthConcern: w.HealthConcern, Water: w.Water,
+			FeedG: g, HasFeed: hasFeed}
+		if d := cmp.Diff(wantAnswers, c.Answers(i)); d != "" {
+			t.Errorf("row %d: answers (-want +got):\n%s", i, d)
+		}
+		k, strs := c.Keys(i), c.Strings()
+		if got := [4]string{strs[k.Enclosure], strs[k.Building], strs[k.Staff], strs[k.ConcernAnimal]}; got != [4]string{w.EnclosureID, w.BuildingID, w.StaffID, w.ConcernAnimalID} {
+			t.Errorf("row %d: keys name %q, want %q", i, got, [4]string{w.EnclosureID, w.BuildingID, w.StaffID, w.ConcernAnimalID})
+		}
 	}
 }
 

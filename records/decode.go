@@ -33,10 +33,57 @@ type field struct {
 	required bool     // the column must exist and its cells must not be empty
 	kind     fieldKind
 	intern   bool   // ids and codes repeat across rows: share one string
+	later    bool   // a date that may lie years ahead (laterColumns)
 	vtag     string // the validate tag, run on each distinct cell value
 	// The plausible range from the validate tag, for keeper-readable reasons.
 	lo, hi         string
 	loOpen, hasRng bool
+	// bounds, for a number whose validate tag is a range and nothing else:
+	// a value inside it is valid without asking the validator (one outside
+	// is asked, for its reason).
+	bounds *numRange
+}
+
+// numRange is a validate tag of gt/gte/lt/lte rules alone, compared as the
+// validator compares a float field with them.
+type numRange struct {
+	lo, hi         float64
+	hasLo, hasHi   bool
+	loOpen, hiOpen bool
+}
+
+func (r *numRange) holds(v float64) bool {
+	switch {
+	case r.hasLo && r.loOpen && !(v > r.lo), r.hasLo && !r.loOpen && !(v >= r.lo):
+		return false
+	case r.hasHi && r.hiOpen && !(v < r.hi), r.hasHi && !r.hiOpen && !(v <= r.hi):
+		return false
+	}
+	return true
+}
+
+// rangeOf reads a validate tag made of gt, gte, lt and lte rules alone.
+func rangeOf(vtag string) (*numRange, bool) {
+	if vtag == "" {
+		return nil, false
+	}
+	r := &numRange{}
+	for rule := range strings.SplitSeq(vtag, ",") {
+		name, param, _ := strings.Cut(rule, "=")
+		v, err := strconv.ParseFloat(param, 64)
+		if err != nil {
+			return nil, false
+		}
+		switch name {
+		case "gt", "gte":
+			r.lo, r.hasLo, r.loOpen = v, true, name == "gt"
+		case "lt", "lte":
+			r.hi, r.hasHi, r.hiOpen = v, true, name == "lt"
+		default:
+			return nil, false
+		}
+	}
+	return r, true
 }
 
 // rowType is the decoding description of one record type, built from its
@@ -66,7 +113,7 @@ func rowTypeOf(t reflect.Type) (*rowType, error) {
 			continue
 		}
 		parts := strings.Split(tag, ",")
-		f := field{index: i, goName: sf.Name, name: parts[0]}
+		f := field{index: i, goName: sf.Name, name: parts[0], later: laterColumns[parts[0]]}
 		for _, opt := range parts[1:] {
 			switch {
 			case opt == "required":
@@ -117,6 +164,11 @@ func rowTypeOf(t reflect.Type) (*rowType, error) {
 				f.lo, f.loOpen, f.hasRng = param, name == "gt", true
 			case "lt", "lte":
 				f.hi, f.hasRng = param, true
+			}
+		}
+		if f.kind == kFloat || f.kind == kFloatPtr {
+			if r, ok := rangeOf(f.vtag); ok {
+				f.bounds = r
 			}
 		}
 		rt.byGo[sf.Name] = len(rt.fields)
@@ -351,6 +403,10 @@ type decoder struct {
 	verdicts []map[string]verdict
 	// kind is the Problem.Kind of the reason set last returned, if any.
 	kind string
+	// zone is the time zone of the last date a local time was read on.
+	zone zoneCache
+	// number is the value of the number cell set last, in its SI unit.
+	number float64
 }
 
 // verdict is a validated cell: the reason it is invalid ("" when valid) and,
@@ -432,7 +488,9 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 			reason = v.reason
 		} else {
 			reason = d.set(fv, f, col, cell)
-			if reason == "" && d.verdicts[ci] != nil {
+			// A number inside its range is valid, as the validator would say.
+			inRange := reason == "" && f.bounds != nil && f.bounds.holds(d.number)
+			if reason == "" && !inRange && d.verdicts[ci] != nil {
 				reason = d.verdict(ci, fv, f, cell)
 			}
 		}
@@ -462,16 +520,16 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		if err != nil {
 			return d.dateReason(cell, err)
 		}
-		if why := d.win.check(day, laterColumns[f.name], cell); why != "" {
+		if why := d.win.check(day, f.later, cell); why != "" {
 			return why
 		}
 		fv.SetInt(int64(day))
 	case kTime:
-		t, err := parseDateTime(cell, d.loc)
+		t, err := d.zone.parseDateTime(cell, d.loc)
 		if err != nil {
 			return d.dateReason(cell, err)
 		}
-		if why := d.win.check(DayOf(t), laterColumns[f.name], cell); why != "" {
+		if why := d.win.check(d.zone.dayOf(t), f.later, cell); why != "" {
 			return why
 		}
 		*fv.Addr().Interface().(*time.Time) = t
@@ -489,6 +547,7 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		if col.alt != nil {
 			v = col.alt.toSI(v)
 		}
+		d.number = v
 		switch {
 		case f.kind == kFloat:
 			fv.SetFloat(v)

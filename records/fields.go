@@ -2,6 +2,7 @@ package records
 
 import (
 	"fmt"
+	"math"
 	"strconv"
 	"strings"
 	"time"
@@ -19,20 +20,47 @@ func parseBool(s string) (Bool, bool) {
 			return No, true
 		}
 	case 2, 3, 4, 5:
-		switch strings.ToLower(s) {
-		case "yes", "true":
+		// Only ASCII letters lower-case to these words (strings.ToLower
+		// would give the same answer), so the cell is compared byte by
+		// byte without making a lower-case copy.
+		switch {
+		case foldsTo(s, "yes"), foldsTo(s, "true"):
 			return Yes, true
-		case "no", "false":
+		case foldsTo(s, "no"), foldsTo(s, "false"):
 			return No, true
 		}
 	}
 	return NotRecorded, false
 }
 
+// foldsTo reports whether s is lower with ASCII letters in any case.
+func foldsTo(s, lower string) bool {
+	if len(s) != len(lower) {
+		return false
+	}
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		if 'A' <= c && c <= 'Z' {
+			c += 'a' - 'A'
+		}
+		if c != lower[i] {
+			return false
+		}
+	}
+	return true
+}
+
 // parseNumber reads a decimal number with a point. NaN and infinities are
 // not measurements, and "12,5" (a decimal comma) is refused rather than
 // guessed at.
 func parseNumber(s string) (float64, bool) {
+	// Whole grams and counts are most cells: up to 15 digits a float64
+	// holds them exactly, as ParseFloat reads them.
+	if len(s) > 0 && len(s) <= 15 {
+		if n, ok := digits(s, 0, len(s)); ok {
+			return float64(n), true
+		}
+	}
 	f, err := strconv.ParseFloat(s, 64)
 	if err != nil || f != f || f > 1e300 || f < -1e300 {
 		return 0, false
@@ -132,8 +160,14 @@ func parseDate(s string) (Day, error) {
 // stand for the T) in loc, or RFC 3339 with an offset. The result is always
 // in loc, so that its calendar day is the facility's day.
 func parseDateTime(s string, loc *time.Location) (time.Time, error) {
+	return (*zoneCache)(nil).parseDateTime(s, loc)
+}
+
+// parseDateTime is parseDateTime with the zone of the last local date kept
+// in z (nil: none kept).
+func (z *zoneCache) parseDateTime(s string, loc *time.Location) (time.Time, error) {
 	if len(s) == 16 || len(s) == 19 {
-		if t, ok := localDateTime(s, loc); ok {
+		if t, ok := z.localDateTime(s, loc); ok {
 			return t, nil
 		}
 	}
@@ -151,7 +185,7 @@ func parseDateTime(s string, loc *time.Location) (time.Time, error) {
 	return time.Time{}, fmt.Errorf("%q is not a date-time (YYYY-MM-DDTHH:MM, with optional :SS, or RFC 3339 with an offset)", s)
 }
 
-func localDateTime(s string, loc *time.Location) (time.Time, bool) {
+func (z *zoneCache) localDateTime(s string, loc *time.Location) (time.Time, bool) {
 	y, mo, d, ok := ymd(s)
 	if !ok || (s[10] != 'T' && s[10] != ' ') || s[13] != ':' {
 		return time.Time{}, false
@@ -168,7 +202,66 @@ func localDateTime(s string, loc *time.Location) (time.Time, bool) {
 	if !ok1 || !ok2 || !ok3 || h > 23 || mi > 59 || sec > 59 {
 		return time.Time{}, false
 	}
-	return time.Date(y, time.Month(mo), d, h, mi, sec, 0, loc), true
+	return z.date(y, mo, d, h, mi, sec, loc), true
+}
+
+// zoneCache keeps the zone in force at the local midnight of the last date
+// a local date-time was read on: a file's million times fall on a few
+// hundred dates, and time.Date looks the zone up for every one of them.
+type zoneCache struct {
+	loc        *time.Location
+	y, m, d    int
+	midnight   int64 // the date's midnight as if local time were UTC, in seconds
+	offset     int64 // the zone's offset east of UTC, in seconds
+	start, end int64 // the zone's bounds (unix seconds, end excluded)
+}
+
+// date is time.Date(y, mo, d, h, mi, sec, 0, loc), exactly: time.Date
+// takes the zone in force at the local clock reading read as UTC, and keeps
+// it when the instant it gives lies in that zone too. When both lie within
+// the cached zone the result is the same instant in the same location; any
+// other time (near a change of offset) is left to time.Date.
+func (z *zoneCache) date(y, mo, d, h, mi, sec int, loc *time.Location) time.Time {
+	if z == nil {
+		return time.Date(y, time.Month(mo), d, h, mi, sec, 0, loc)
+	}
+	if z.loc != loc || z.y != y || z.m != mo || z.d != d {
+		t0 := time.Date(y, time.Month(mo), d, 0, 0, 0, 0, loc)
+		_, off := t0.Zone()
+		from, to := t0.ZoneBounds()
+		*z = zoneCache{loc: loc, y: y, m: mo, d: d, offset: int64(off),
+			midnight: int64(civilDay(y, mo, d)-epochOffset) * 86400, start: math.MinInt64, end: math.MaxInt64}
+		if !from.IsZero() {
+			z.start = from.Unix()
+		}
+		if !to.IsZero() {
+			z.end = to.Unix()
+		}
+	}
+	local := z.midnight + int64(h*3600+mi*60+sec)
+	utc := local - z.offset
+	if local < z.start || local >= z.end || utc < z.start || utc >= z.end {
+		return time.Date(y, time.Month(mo), d, h, mi, sec, 0, loc)
+	}
+	return time.Unix(utc, 0).In(loc)
+}
+
+// dayOf is DayOf(t), without looking t's zone up when t is in the cached
+// zone's location and bounds (its offset is then the cached one).
+func (z *zoneCache) dayOf(t time.Time) Day {
+	if z.loc == nil || t.Location() != z.loc {
+		return DayOf(t)
+	}
+	u := t.Unix()
+	if u < z.start || u >= z.end {
+		return DayOf(t)
+	}
+	s := u + z.offset
+	d := s / 86400
+	if s%86400 < 0 {
+		d--
+	}
+	return Day(d) + epochOffset
 }
 
 // unitKind names a measured quantity whose column carries its unit as a suffix.

@@ -2,6 +2,8 @@ package records
 
 import (
 	"math"
+	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -17,7 +19,7 @@ func TestParseBool(t *testing.T) {
 		{"yes", Yes, true}, {"YES", Yes, true}, {"Yes", Yes, true}, {"y", Yes, true}, {"Y", Yes, true},
 		{"true", Yes, true}, {"TRUE", Yes, true}, {"1", Yes, true},
 		{"no", No, true}, {"No", No, true}, {"n", No, true}, {"false", No, true}, {"False", No, true}, {"0", No, true},
-		{"maybe", NotRecorded, false}, {"2", NotRecorded, false}, {"yess", NotRecorded, false}, {"t", NotRecorded, false},
+		{"maybe", NotRecorded, false}, {"2", NotRecorded, false}, {"yess", NotRecorded, false}, {"t", NotRecorded, false}, {"yeſ", NotRecorded, false}, {"\u212Aes", NotRecorded, false},
 	}
 	for _, tt := range tests {
 		t.Run(tt.in, func(t *testing.T) {
@@ -232,5 +234,96 @@ func TestUnitConversions(t *testing.T) {
 				t.Errorf("%v%s = %v, want %v", tt.in, tt.suffix, got, tt.want)
 			}
 		})
+	}
+}
+
+// The zone kept for a file's dates gives exactly what time.Date gives (the
+// same instant, in the same location, by ==), for every quarter hour of the
+// days around each change of offset in zones that shift by an hour (at
+// 02:00 or at midnight), by half an hour, or never, read in file order
+// (one date after another) and jumping between dates. Offsets and change
+// times from the IANA tz database the Go runtime reads.
+func TestZoneCacheMatchesTimeDate(t *testing.T) {
+	for _, name := range []string{"America/Winnipeg", "America/Havana", "America/Santiago", "Europe/London",
+		"Australia/Lord_Howe", "Asia/Kathmandu", "UTC"} {
+		loc, err := time.LoadLocation(name)
+		if err != nil {
+			t.Fatalf("zone %s: %v", name, err)
+		}
+		var z zoneCache
+		check := func(y, mo, d, h, mi int) {
+			t.Helper()
+			got, want := z.date(y, mo, d, h, mi, 0, loc), time.Date(y, time.Month(mo), d, h, mi, 0, 0, loc)
+			if got != want {
+				t.Fatalf("%s %04d-%02d-%02d %02d:%02d: %v, time.Date gives %v", name, y, mo, d, h, mi, got, want)
+			}
+			if z.dayOf(want) != DayOf(want) {
+				t.Fatalf("%s %v: day %v, DayOf gives %v", name, want, z.dayOf(want), DayOf(want))
+			}
+		}
+		days := 0
+		for day := time.Date(2025, 1, 1, 0, 0, 0, 0, time.UTC); day.Year() < 2027; day = day.AddDate(0, 0, 1) {
+			// Days whose local midnight and next midnight differ in offset, and their neighbours.
+			_, o1 := time.Date(day.Year(), day.Month(), day.Day(), 0, 0, 0, 0, loc).Zone()
+			_, o2 := time.Date(day.Year(), day.Month(), day.Day()+1, 0, 0, 0, 0, loc).Zone()
+			if o1 == o2 && day.Day() != 15 {
+				continue
+			}
+			days++
+			for _, dd := range []int{-1, 0, 1} {
+				c := day.AddDate(0, 0, dd)
+				for m := 0; m < 24*60; m += 15 {
+					check(c.Year(), int(c.Month()), c.Day(), m/60, m%60)
+					// A jump to another date and back.
+					check(2026, 7, 1, 12, 0)
+				}
+			}
+		}
+		if days == 0 {
+			t.Fatalf("%s: no days checked", name)
+		}
+	}
+}
+
+// A number within its validate range skips the validator; the range must
+// say what the validator says, at each bound, just inside and outside it,
+// for every range tag the record types carry (and a tag that is more than a
+// range is not taken as one).
+func TestNumRangeMatchesValidator(t *testing.T) {
+	for _, tag := range []string{"gt=0,lte=5000", "gte=-80,lte=60", "gte=0,lte=100", "gt=0,lte=100", "gte=0",
+		"gte=1,lte=5", "gt=0,lt=60", "lt=-1"} {
+		r, ok := rangeOf(tag)
+		if !ok {
+			t.Fatalf("%s: not read as a range", tag)
+		}
+		for _, v := range []float64{-1e300, -81, -80, -79.999, -1, -0.5, 0, 5e-324, 0.5, 1, 4.999, 5, 5.001, 59.99, 60, 60.01,
+			99.9, 100, 100.0001, 4999, 5000, 5000.5, 1e300} {
+			valid := validate().Var(v, tag) == nil
+			if got := r.holds(v); got != valid {
+				t.Errorf("%s, %v: range says %v, validator says %v", tag, v, got, valid)
+			}
+			p := v
+			if validP := validate().Var(&p, tag) == nil; validP != valid {
+				t.Errorf("%s, %v: the validator differs on a pointer", tag, v)
+			}
+		}
+	}
+	for _, tag := range []string{"", "required,gte=0", "gte=0,dive", "oneof=1 2", "gte=x"} {
+		if _, ok := rangeOf(tag); ok {
+			t.Errorf("%q read as a range", tag)
+		}
+	}
+}
+
+// Whole numbers are read without ParseFloat; they must come out as
+// ParseFloat reads them (a sign, a point or an exponent takes the long way).
+func TestParseNumberWholeMatchesParseFloat(t *testing.T) {
+	for _, s := range []string{"0", "00", "007", "250", "10000", "999999999999999", "9007199254740993", "-0", "-5", "+5", "1e3", "2.5", "1_000", "0x10", ""} {
+		got, ok := parseNumber(s)
+		want, err := strconv.ParseFloat(s, 64)
+		wantOK := err == nil && !strings.ContainsAny(s, "_xX")
+		if ok != wantOK || (ok && math.Float64bits(got) != math.Float64bits(want)) {
+			t.Errorf("parseNumber(%q) = %v, %v; ParseFloat gives %v (%v)", s, got, ok, want, err)
+		}
 	}
 }
