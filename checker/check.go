@@ -77,9 +77,14 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 	}
 	progress("facts", 0)
 	f := newFacts(set, cfg.Limits, p)
-	for _, d := range domains {
-		d.facts(f)
+	var release func()
+	if cfg.DropRecords {
+		release = func() {
+			cfg.Records.DropCare()
+			set.DropCare()
+		}
 	}
+	buildFacts(f, release)
 	f.addExtra()
 	// The builders' shared indexes are not read again.
 	f.care, f.handling, f.rounds = nil, nil, nil

@@ -31,6 +31,33 @@ var domains = []domain{
 	{"environment", (*facts).environmentFacts},
 }
 
+// readsRounds names the domains whose fact builders read the care rounds
+// themselves (f.rounds; the care index made from them is kept): they run
+// first, so a check that keeps only its result can let the rounds — most
+// of a large set's memory — go before the other builders add theirs.
+var readsRounds = map[string]bool{"records": true, "care": true, "staff": true, "cold": true}
+
+// buildFacts runs every domain's fact builder, the ones reading the care
+// rounds first; release, when not nil, is called once those are done.
+// Each builder writes only its own sections, so the order does not change
+// the facts.
+func buildFacts(f *facts, release func()) {
+	for _, d := range domains {
+		if readsRounds[d.name] {
+			d.facts(f)
+		}
+	}
+	f.rounds = nil
+	if release != nil {
+		release()
+	}
+	for _, d := range domains {
+		if !readsRounds[d.name] {
+			d.facts(f)
+		}
+	}
+}
+
 // Domains lists the shipped domains in report order.
 func Domains() []string {
 	out := make([]string, len(domains))

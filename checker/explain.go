@@ -74,9 +74,7 @@ func (p *Policy) Explainer(ctx context.Context, recordsFS fs.FS, opt CheckOption
 		return nil, err
 	}
 	f := newFacts(set, p.limits, res.Period)
-	for _, d := range domains {
-		d.facts(f)
-	}
+	buildFacts(f, nil)
 	f.addExtra()
 	x := &Explainer{policy: p, records: recordsFS, result: res, facts: f, findings: map[string]Finding{}}
 	var firstPass []Finding
