@@ -16,7 +16,7 @@ import (
 // kind, on a generated folder (welfare generate --days 365 --seed 7): one op
 // is one package's prepared query evaluated on every subject of the kind, in
 // one goroutine, on documents converted beforehand, so the time is the
-// rules' own. The conversion of each kind's documents is timed apart
+// rules' own (cpu-ns/op is the CPU time, steadier on a shared machine). The conversion of each kind's documents is timed apart
 // (convert). It names where the rules' time goes, e.g.
 //
 //	go test ./checker -run '^$' -bench 'Packages/animals=1000/' -benchtime 3x -count 3
@@ -49,6 +49,7 @@ func BenchmarkPackages(b *testing.B) {
 				}
 				b.Run(kind+"/convert", func(b *testing.B) {
 					b.ReportAllocs()
+					defer reportCPU(b)()
 					for b.Loop() {
 						conv := newConverter()
 						for _, doc := range docs {
@@ -68,6 +69,7 @@ func BenchmarkPackages(b *testing.B) {
 				for _, q := range engine.kinds[kind] {
 					b.Run(kind+"/"+q.name, func(b *testing.B) {
 						b.ReportAllocs()
+						defer reportCPU(b)()
 						var found int
 						for b.Loop() {
 							found = 0
