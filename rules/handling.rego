@@ -26,10 +26,9 @@ unconscious := {r | some r in lim.unconscious_restraint}
 
 accepted := {g | some g in lim.accepted_gloves}
 
-conscious_bite_risk(e) if {
-	bite_risk
-	not unconscious[e.restraint]
-}
+# The handlings in which the animal could bite, found once for both glove
+# checks; none when its species is not a bite risk.
+conscious_bite_risk := [e | some e in input.handling; not unconscious[e.restraint]] if bite_risk
 
 shown(x) := "none recorded" if x == null
 
@@ -44,8 +43,7 @@ else := x
 #   source: "common practice: bite-resistant gloves for conscious carnivores; minimum thickness: facility choice"
 #   needs: [handling.csv]
 findings contains f if {
-	some e in input.handling
-	conscious_bite_risk(e)
+	some e in conscious_bite_risk
 	not accepted[e.glove]
 	f := {
 		"check": "handling.glove.inadequate",
@@ -57,10 +55,9 @@ findings contains f if {
 }
 
 findings contains f if {
-	some e in input.handling
-	conscious_bite_risk(e)
-	accepted[e.glove]
+	some e in conscious_bite_risk
 	e.glove_thickness_mm != null
+	accepted[e.glove]
 	e.glove_thickness_mm < lim.min_glove_thickness_mm
 	f := {
 		"check": "handling.glove.inadequate",

@@ -104,16 +104,50 @@ findings contains f if {
 }
 
 # Each weighing in the period at least weight_loss_pct below the highest
-# weighing of the preceding weight_loss_days.
+# weighing of the preceding weight_loss_days (the weighings before it, by n,
+# at most weight_loss_days earlier); the peak is the earliest weighing at
+# that highest mass. A loss needs a heavier weighing before it (masses are
+# above 0 kg and weight_loss_pct above 0 %), so a weighing at the animal's
+# heaviest mass is passed over before the look-back.
 losses contains x if {
 	some w in input.weights
 	w.in_period
-	prior := [p | some p in input.weights; p.n < w.n; w.day - p.day <= lim.weight_loss_days]
+	w.kg < heaviest
+	b := loss_block(w.day)
+	since := w.day - lim.weight_loss_days # the first day of the look-back
+	prior := [p |
+		some c in [b - 1, b]
+		some p in weighings_in_block[c]
+		p.n < w.n
+		p.day >= since
+	]
 	count(prior) > 0
 	top := max([p.kg | some p in prior])
 	(top - w.kg) * 100 >= lim.weight_loss_pct * top
-	peak := [p | some p in prior; p.kg == top][0]
+	peak := sort([[p.n, p] | some p in prior; p.kg == top])[0][1]
 	x := {"on": w.on, "pct": ((top - w.kg) * 100) / top, "w": w, "peak": peak}
+}
+
+# The look-back reads two blocks of weighings, not all of them. Days are cut
+# into blocks of weight_loss_days + 1 days; a weighing's day and the
+# weight_loss_days before it span at most its own block and the one before.
+# This relies on the weighings' order: the facts (checker/facts_health.go)
+# number an animal's weighings in time order, so one with a smaller n lies
+# on the same day or earlier, never in a later block. Only Go guarantees it;
+# the input schema does not order the list, and the rules do not need the
+# list itself in order.
+loss_block(day) := floor(day / (lim.weight_loss_days + 1))
+
+# The animal's heaviest weighing of all, found once per animal.
+heaviest := max([w.kg | some w in input.weights])
+
+# The animal's weighings per block, found once per animal.
+weighings_in_block := blocks if {
+	blocks := {b: ws |
+		some w in input.weights
+		b := loss_block(w.day)
+		ws := [p | some p in input.weights; loss_block(p.day) == b]
+	}
 }
 
 # METADATA
@@ -156,9 +190,9 @@ loss_severity(x) := "significant" if {
 #   source: common practice
 #   needs: [observations.csv]
 findings contains f if {
-	some on in {c.on | some c in input.conditions}
+	# the days with a poor score; the day's lowest score is then poor too
+	some on in {c.on | some c in input.conditions; c.score <= lim.condition_poor_max}
 	lowest := min([c.score | some c in input.conditions; c.on == on])
-	lowest <= lim.condition_poor_max
 	f := {
 		"check": "health.condition.poor",
 		"subject": input.id,

@@ -104,6 +104,93 @@ test_weighing_before_the_period_is_a_peak_not_a_finding if {
 	count(fs) == 0
 }
 
+# The look-back reads the weighing's block of 31 days (weight_loss_days + 1)
+# and the block before; blocks start on days divisible by 31: day 20460
+# (2026-01-07), 20491 (2026-02-07). weighed(n, day, kg) is at an absolute day.
+weighed(n, day, kg) := {
+	"n": n, "on": on_day(day), "day": day, "at": sprintf("%s 09:00", [on_day(day)]),
+	"kg": kg, "ref": sprintf("observations.csv:%d", [n + 2]), "in_period": true,
+}
+
+on_day(day) := time.format([(day * 86400) * 1000000000, "UTC", "2006-01-02"])
+
+loss_checks(ws) := [[f.on, f.evidence] | some f in health.findings with input as animal({"weights": ws}); f.check == "health.weight.loss"]
+
+test_window_of_exactly_30_days_at_block_edges if {
+	# peak on a block's first day, loss on its last (same block)
+	loss_checks([weighed(0, 20460, 10), weighed(1, 20490, 9)]) == [["2026-02-06", ["observations.csv:2", "observations.csv:3"]]]
+
+	# peak on a block's last day, loss 30 days later in the next block
+	loss_checks([weighed(0, 20459, 10), weighed(1, 20489, 9)]) == [["2026-02-05", ["observations.csv:2", "observations.csv:3"]]]
+	loss_checks([weighed(0, 20490, 10), weighed(1, 20520, 9)]) == [["2026-03-08", ["observations.csv:2", "observations.csv:3"]]]
+}
+
+test_window_of_31_days_is_out_at_block_edges if {
+	loss_checks([weighed(0, 20460, 10), weighed(1, 20491, 9)]) == []
+	loss_checks([weighed(0, 20459, 10), weighed(1, 20490, 9)]) == []
+
+	# two blocks back
+	loss_checks([weighed(0, 20429, 10), weighed(1, 20491, 9)]) == []
+}
+
+test_two_weighings_on_one_day if {
+	# the later weighing of the day is measured against the earlier one
+	loss_checks([weighed(0, 20470, 10), weighed(1, 20470, 9)]) == [["2026-01-17", ["observations.csv:2", "observations.csv:3"]]]
+
+	# not the other way round: the earlier has no weighing before it
+	loss_checks([weighed(0, 20470, 9), weighed(1, 20470, 10)]) == []
+}
+
+test_the_earliest_of_two_peaks_is_the_evidence if {
+	loss_checks([weighed(0, 20465, 10), weighed(1, 20475, 10), weighed(2, 20485, 9)]) == [["2026-02-01", ["observations.csv:2", "observations.csv:4"]]]
+}
+
+test_list_order_does_not_matter if {
+	# n orders the weighings, not their place in the list
+	ws := [weighed(0, 20459, 9.5), weighed(1, 20465, 10), weighed(2, 20475, 10), weighed(3, 20485, 9), weighed(4, 20500, 8.5)]
+	want := loss_checks(ws)
+	count(want) == 2
+	loss_checks([ws[3], ws[0], ws[4], ws[2], ws[1]]) == want
+	loss_checks([ws[4], ws[3], ws[2], ws[1], ws[0]]) == want
+}
+
+# The look-back as first written, scanning every weighing of the animal for
+# each: the reference the two-block look-back must agree with.
+reference_losses(ws) := {x |
+	some w in ws
+	w.in_period
+	prior := [p | some p in ws; p.n < w.n; w.day - p.day <= data.limits.health.weight_loss_days]
+	count(prior) > 0
+	top := max([p.kg | some p in prior])
+	(top - w.kg) * 100 >= data.limits.health.weight_loss_pct * top
+	peak := [p | some p in prior; p.kg == top][0]
+	x := {"on": w.on, "pct": ((top - w.kg) * 100) / top, "w": w, "peak": peak}
+}
+
+# Series of weighings in time order, numbered n = 0, 1, ...: gaps of 0 to 62
+# days (the same day, the window's edge, beyond it) and masses that fall and
+# rise, shifted per series so that they meet the block edges differently.
+gaps := [0, 1, 29, 30, 31, 32, 7, 0, 62, 15, 30, 1, 3]
+
+masses := [10, 9, 9.5, 10.2, 8.9, 9.18, 10, 8, 9.9, 8.91, 7.5, 9, 9]
+
+series(s) := [weighed(k, day, kg) |
+	some k in numbers.range(0, count(gaps) - 1)
+	day := (20440 + s) + sum([gaps[(i + s) % count(gaps)] | some i in numbers.range(0, k)])
+	kg := masses[((k + 2) * s) % count(masses)]
+]
+
+test_two_block_lookback_agrees_with_scanning_every_weighing if {
+	found := [count(reference_losses(series(s))) | some s in numbers.range(0, 40)]
+	sum(found) > 40 # the series do have losses to agree on
+	every s in numbers.range(0, 40) {
+		health.losses == reference_losses(series(s)) with input as animal({"weights": series(s)})
+	}
+	every s in numbers.range(0, 40) {
+		health.losses == reference_losses(series(s)) with input as animal({"weights": series(s)}) with data.limits.health.weight_loss_days as 7
+	}
+}
+
 # ---- body condition: poor at 2 or below, significant at 1 [C]
 
 test_condition_scores if {

@@ -60,8 +60,8 @@ else := sprintf("; no humidity recorded on %s: the air temperature stands for th
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
 	some d in input.heat.hot_days
-	d.max_air_c >= lim.hot_day_c
 	d.water_checks < lim.water_checks_min
+	d.max_air_c >= lim.hot_day_c
 	f := {
 		"check": "heat.water.checks_insufficient",
 		"subject": input.id,
