@@ -162,7 +162,7 @@ type animalHandling struct {
 // 1970-01-01, as empty).
 func stampDay(d records.Day) string {
 	if d == 0 {
-		return d.Time().Format("2006-01-02")
+		return "1970-01-01"
 	}
 	return d.String()
 }
