@@ -4,6 +4,8 @@ import (
 	"slices"
 	"sort"
 
+	"github.com/open-policy-agent/opa/v1/ast"
+
 	"welfare/checker/cold"
 	"welfare/records"
 )
@@ -301,17 +303,20 @@ func exposed(b records.Building) bool {
 
 // enclosureColdFacts adds the cold section of every enclosure in an outdoor
 // or sheltered building.
+//
+// The section is lazy (lazy.go): in a cold year nearly every occupied day
+// of an enclosure is listed, so the facts keep each listed day as its
+// index in the period with the enclosure's own figures (encCold), and the
+// site's figures of each day once for every enclosure of the site
+// (siteCold); the days' maps are made when the enclosure is evaluated. The
+// water checks and bedding days come from the care rounds, read here: the
+// section does not read them again.
 func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 	c := f.careIndex()
 	bed := f.beddingDays()
 	lc := f.lim.Cold
-	// The period's days as text, made once: the water groups of every
-	// enclosure share them.
-	days := make([]string, max(int(f.period.To-f.period.From)+1, 0))
-	for i := range days {
-		days[i] = (f.period.From + records.Day(i)).String()
-	}
-	water := newWaterGroups(lc.WaterChecksMin, days)
+	pd := newPeriodDays(f.period)
+	colds := map[*siteWeather]*siteCold{}
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		b := f.buildings[e.BuildingID]
@@ -319,14 +324,24 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			continue
 		}
 		s := sites[b.WeatherSite]
-		bedding, shelter, unknown := []any{}, []any{}, []any{}
-		water.reset()
 		care, bedded := c.of(e.ID, e.BuildingID), bed.of(e.ID, e.BuildingID)
 		var unknownRun dayRun
 		// 9 CFR §3.4: in an outdoor building a species with an outdoor
 		// shelter requirement (dogs) is sheltered by a nest box; a sheltered
 		// building is itself the shelter.
 		sheltered := e.NestBox.IsYes() || b.Exposure == "sheltered"
+		ec := &encCold{
+			exposure: b.Exposure, site: nilIfEmpty(b.WeatherSite), ref: e.Ref,
+			nestBox: e.NestBox.IsYes(), sheltered: sheltered, days: pd,
+		}
+		if s != nil {
+			sc := colds[s]
+			if sc == nil {
+				sc = f.siteColdOf(s, pd)
+				colds[s] = sc
+			}
+			ec.sc = sc
+		}
 		for _, seg := range f.segments[e.ID] {
 			needsNest, needsShelter := false, false
 			// The occupants' outdoor bedding limits (dogs, 9 CFR §3.4(b)(4)):
@@ -345,116 +360,327 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			for d := seg.From; d <= seg.To; d++ {
 				dc, ok := s.day(f.period, d)
 				if from, to, done := unknownRun.step(d, !ok); done {
-					unknown = append(unknown, spanRun(from, to))
+					ec.unknown = append(ec.unknown, [2]records.Day{from, to})
 				}
 				if !ok {
 					continue
 				}
+				k := int32(d - f.period.From)
 				// The wind-chill checks judge only days with a reading with
 				// wind; the water check needs the air temperature alone.
 				_, _, windOK := s.windDay(f.period, d)
 				if checks := int(care.on(d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
-					water.add(checks, int(d-f.period.From), s.minAir[d-f.period.From], s.coldestAir[d-f.period.From].Ref)
+					ec.water = append(ec.water, waterDay{day: k, checks: uint16(checks)})
 				}
 				last := bedded.last(d)
 				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
 				if windOK && cold && (last == 0 || int(d-last) >= lc.BeddingDays) {
-					day, w, _ := f.coldDayDoc(s, d)
-					day["min_air_c"] = dc.MinAirC
-					day["bedding_below_c"], day["more_bedding_at_or_below_c"] = num(bedBelow), num(moreBelow)
-					day["last_bedding"], day["days_since_bedding"] = nil, nil
-					if last != 0 {
-						day["last_bedding"], day["days_since_bedding"] = last.String(), int(d-last)
-					}
-					day["evidence"] = refs(e.Ref, w.Ref)
-					bedding = append(bedding, day)
+					ec.bedding = append(ec.bedding, beddingDay{day: k, last: last, below: bedBelow, more: moreBelow})
 				}
 				if windOK && dc.MinWindChillC <= lc.ShelterWindChill && !e.NestBox.IsYes() {
-					day, w, _ := f.coldDayDoc(s, d)
-					day["needs_nest_box"] = needsNest
-					day["needs_shelter"] = needsShelter
-					day["evidence"] = refs(e.Ref, w.Ref)
-					shelter = append(shelter, day)
+					ec.shelter = append(ec.shelter, shelterDay{day: k, needsNest: needsNest, needsShelter: needsShelter})
 				}
 			}
 		}
 		if from, to, done := unknownRun.flush(); done {
-			unknown = append(unknown, spanRun(from, to))
+			ec.unknown = append(ec.unknown, [2]records.Day{from, to})
 		}
-		f.doc("enclosure", e.ID)["cold"] = map[string]any{
-			"exposure":     b.Exposure,
-			"weather_site": nilIfEmpty(b.WeatherSite),
-			"nest_box":     e.NestBox.IsYes(),
-			"sheltered":    sheltered,
-			"days_at_or_below_water_limits_by_checks":         water.doc(),
-			"days_at_or_past_bedding_limits":                  bedding,
-			"days_at_or_below_shelter_limit_without_nest_box": shelter,
-			"days_without_weather":                            unknown,
-		}
+		ec.water, ec.bedding, ec.shelter, ec.unknown = slices.Clip(ec.water), slices.Clip(ec.bedding), slices.Clip(ec.shelter), slices.Clip(ec.unknown)
+		f.doc("enclosure", e.ID)["cold"] = &lazy{make: ec.section, term: ec.sectionTerm}
 	}
 }
 
-// waterGroups gathers an enclosure's days at or below the water limits by
-// the number of water checks recorded (0 to cold.water_checks_min): one
-// group per count, its days in day order as parallel arrays (the day, its
-// lowest air temperature and the reading that gave it). The texts are
-// []string, which OPA takes without boxing each one. The days are listed
-// first and each group's arrays made at their size when the enclosure is
-// done; one waterGroups serves every enclosure in turn (reset).
-type waterGroups struct {
-	days    []string // the period's days as text, by day of the period
-	groups  int
-	entries []waterDay
-	counts  []int
+// periodDays is the period's days as text and as OPA values, made once for
+// every enclosure.
+type periodDays struct {
+	from  records.Day
+	text  []string
+	terms []*ast.Term
 }
 
+func newPeriodDays(p Period) *periodDays {
+	n := max(int(p.To-p.From)+1, 0)
+	pd := &periodDays{from: p.From, text: make([]string, n), terms: make([]*ast.Term, n)}
+	for i := range pd.text {
+		pd.text[i] = (p.From + records.Day(i)).String()
+		pd.terms[i] = ast.StringTerm(pd.text[i])
+	}
+	return pd
+}
+
+// siteCold is what the cold sections of the enclosures of one weather site
+// share, by day of the period: the day's figures, the lowest air
+// temperature (a document value) and the reading that gave it, the
+// wind-chill figures of a day with wind (coldDayDoc, nil on other days),
+// and the same as OPA values, converted once.
+type siteCold struct {
+	days    []DayCold
+	minAir  []any
+	airRefs []string
+	docs    []map[string]any
+
+	minAirTerms []*ast.Term
+	airRefTerms []*ast.Term
+	refTerms    []*ast.Term // the ref of each day's wind-chill reading
+	pairs       [][][2]*ast.Term
+}
+
+func (f *facts) siteColdOf(s *siteWeather, pd *periodDays) *siteCold {
+	n := len(s.days)
+	sc := &siteCold{days: s.days, minAir: s.minAir, airRefs: make([]string, n), docs: make([]map[string]any, n),
+		minAirTerms: make([]*ast.Term, n), airRefTerms: make([]*ast.Term, n), refTerms: make([]*ast.Term, n),
+		pairs: make([][][2]*ast.Term, n)}
+	c := newConverter()
+	for i := range s.days {
+		if s.days[i].Readings == 0 {
+			continue
+		}
+		sc.airRefs[i] = string(s.coldestAir[i].Ref)
+		sc.airRefTerms[i] = ast.StringTerm(sc.airRefs[i])
+		sc.minAirTerms[i] = c.num(s.days[i].MinAirC)
+		doc, _, ok := f.coldDayDoc(s, pd.from+records.Day(i))
+		if !ok {
+			continue
+		}
+		sc.docs[i] = doc
+		if r := doc["ref"].(string); r != "" {
+			sc.refTerms[i] = ast.StringTerm(r)
+		}
+		t, err := c.term(doc)
+		if err != nil {
+			panic(err) // a day's figures are numbers and strings
+		}
+		obj := t.Value.(ast.Object)
+		pairs := make([][2]*ast.Term, 0, obj.Len())
+		obj.Foreach(func(k, v *ast.Term) { pairs = append(pairs, [2]*ast.Term{k, v}) })
+		sc.pairs[i] = pairs
+	}
+	return sc
+}
+
+// encCold is an enclosure's cold section as the facts keep it: its own
+// fields, and its listed days as indexes into the period.
+type encCold struct {
+	exposure  string
+	site      any // the weather site's id, or nil
+	ref       records.Ref
+	nestBox   bool
+	sheltered bool
+	days      *periodDays
+	sc        *siteCold // nil without a weather site
+	water     []waterDay
+	bedding   []beddingDay
+	shelter   []shelterDay
+	unknown   [][2]records.Day
+}
+
+// waterDay is a day at or below the water limits and its water checks.
 type waterDay struct {
-	checks, i int
-	minAirC   any
-	air       records.Ref
+	day    int32
+	checks uint16
 }
 
-func newWaterGroups(maxChecks int, days []string) *waterGroups {
-	n := max(maxChecks+1, 0)
-	return &waterGroups{days: days, groups: n, counts: make([]int, n)}
+// beddingDay is a day at or past the bedding limits: the last day bedding
+// was added (0: never) and the occupants' bedding thresholds.
+type beddingDay struct {
+	day         int32
+	last        records.Day
+	below, more *float64
 }
 
-// reset empties the groups for the next enclosure.
-func (w *waterGroups) reset() {
-	w.entries = w.entries[:0]
-	clear(w.counts)
+// shelterDay is a day at or below the shelter limit without a nest box.
+type shelterDay struct {
+	day                     int32
+	needsNest, needsShelter bool
 }
 
-// add lists day i of the period, with checks water checks (minAirC: the
-// day's lowest air temperature, a float64).
-func (w *waterGroups) add(checks, i int, minAirC any, air records.Ref) {
-	w.counts[checks]++
-	w.entries = append(w.entries, waterDay{checks, i, minAirC, air})
-}
-
-// doc gives the groups that have days, fewest checks first.
-func (w *waterGroups) doc() []any {
-	out := []any{}
-	type group struct {
-		on, airRefs []string
-		minAirC     []any
-	}
-	groups := make([]group, w.groups)
-	for checks, n := range w.counts {
-		if n > 0 {
-			groups[checks] = group{make([]string, 0, n), make([]string, 0, n), make([]any, 0, n)}
+// waterGroups gives the water days' groups by checks, fewest first, each
+// its days in day order (as parallel arrays in the section).
+func (ec *encCold) waterGroups() [][]int32 {
+	var groups [][]int32
+	for _, w := range ec.water {
+		for int(w.checks) >= len(groups) {
+			groups = append(groups, nil)
 		}
+		groups[w.checks] = append(groups[w.checks], w.day)
 	}
-	for _, e := range w.entries {
-		g := &groups[e.checks]
-		g.on = append(g.on, w.days[e.i])
-		g.minAirC = append(g.minAirC, e.minAirC)
-		g.airRefs = append(g.airRefs, string(e.air))
-	}
-	for checks, g := range groups {
-		if len(g.on) > 0 {
-			out = append(out, map[string]any{"checks": checks, "on": g.on, "min_air_c": g.minAirC, "air_refs": g.airRefs})
+	return groups
+}
+
+// section makes the enclosure's cold section.
+func (ec *encCold) section() any {
+	sc := ec.sc
+	water := []any{}
+	for checks, g := range ec.waterGroups() {
+		if len(g) == 0 {
+			continue
 		}
+		on, minAir, airRefs := make([]string, len(g)), make([]any, len(g)), make([]string, len(g))
+		for k, i := range g {
+			on[k], minAir[k], airRefs[k] = ec.days.text[i], sc.minAir[i], sc.airRefs[i]
+		}
+		water = append(water, map[string]any{"checks": checks, "on": on, "min_air_c": minAir, "air_refs": airRefs})
 	}
-	return out
+	bedding := make([]any, len(ec.bedding))
+	for k, bd := range ec.bedding {
+		base := sc.docs[bd.day]
+		day := withFields(base, 6)
+		day["min_air_c"] = sc.days[bd.day].MinAirC
+		day["bedding_below_c"], day["more_bedding_at_or_below_c"] = num(bd.below), num(bd.more)
+		day["last_bedding"], day["days_since_bedding"] = nil, nil
+		if bd.last != 0 {
+			d := ec.days.from + records.Day(bd.day)
+			day["last_bedding"], day["days_since_bedding"] = bd.last.String(), int(d-bd.last)
+		}
+		day["evidence"] = refs(ec.ref, records.Ref(base["ref"].(string)))
+		bedding[k] = day
+	}
+	shelter := make([]any, len(ec.shelter))
+	for k, sd := range ec.shelter {
+		base := sc.docs[sd.day]
+		day := withFields(base, 3)
+		day["needs_nest_box"] = sd.needsNest
+		day["needs_shelter"] = sd.needsShelter
+		day["evidence"] = refs(ec.ref, records.Ref(base["ref"].(string)))
+		shelter[k] = day
+	}
+	unknown := make([]any, len(ec.unknown))
+	for k, r := range ec.unknown {
+		unknown[k] = spanRun(r[0], r[1])
+	}
+	return map[string]any{
+		"exposure":     ec.exposure,
+		"weather_site": ec.site,
+		"nest_box":     ec.nestBox,
+		"sheltered":    ec.sheltered,
+		"days_at_or_below_water_limits_by_checks":         water,
+		"days_at_or_past_bedding_limits":                  bedding,
+		"days_at_or_below_shelter_limit_without_nest_box": shelter,
+		"days_without_weather":                            unknown,
+	}
+}
+
+// Keys of the cold section.
+var (
+	keyChecks          = ast.InternedTerm("checks")
+	keyMinAirC         = ast.InternedTerm("min_air_c")
+	keyAirRefs         = ast.InternedTerm("air_refs")
+	keyBeddingBelow    = ast.InternedTerm("bedding_below_c")
+	keyMoreBedding     = ast.InternedTerm("more_bedding_at_or_below_c")
+	keyLastBedding     = ast.InternedTerm("last_bedding")
+	keyDaysSince       = ast.InternedTerm("days_since_bedding")
+	keyEvidence        = ast.InternedTerm("evidence")
+	keyNeedsNestBox    = ast.InternedTerm("needs_nest_box")
+	keyNeedsShelter    = ast.InternedTerm("needs_shelter")
+	keyFrom            = ast.InternedTerm("from")
+	keyUntil           = ast.InternedTerm("until")
+	keyDays            = ast.InternedTerm("days")
+	keyExposure        = ast.InternedTerm("exposure")
+	keyWeatherSite     = ast.InternedTerm("weather_site")
+	keyNestBox         = ast.InternedTerm("nest_box")
+	keySheltered       = ast.InternedTerm("sheltered")
+	keyWaterDays       = ast.InternedTerm("days_at_or_below_water_limits_by_checks")
+	keyBeddingDays     = ast.InternedTerm("days_at_or_past_bedding_limits")
+	keyShelterDays     = ast.InternedTerm("days_at_or_below_shelter_limit_without_nest_box")
+	keyDaysWithoutWthr = ast.InternedTerm("days_without_weather")
+)
+
+// ptrTerm is num's value as an OPA value.
+func ptrTerm(c *converter, p *float64) *ast.Term {
+	if p == nil {
+		return ast.InternedNullTerm
+	}
+	return c.num(*p)
+}
+
+// arrayOf is an array term of elems, the one empty array when there are none.
+func arrayOf(elems []*ast.Term) *ast.Term {
+	if len(elems) == 0 {
+		return emptyArray
+	}
+	return ast.NewTerm(ast.NewArray(elems...))
+}
+
+// sectionTerm makes the enclosure's cold section as the OPA value
+// converting section's gives: each listed day an object of its site-day's
+// converted figures and the enclosure's fields.
+func (ec *encCold) sectionTerm(c *converter) (*ast.Term, error) {
+	sc := ec.sc
+	var encRef *ast.Term
+	if ec.ref != "" {
+		encRef = c.str(string(ec.ref))
+	}
+	evidence := func(i int32) *ast.Term {
+		ev := make([]*ast.Term, 0, 2)
+		for _, t := range [2]*ast.Term{encRef, sc.refTerms[i]} {
+			if t != nil {
+				ev = append(ev, t)
+			}
+		}
+		return ast.NewTerm(ast.NewArray(ev...))
+	}
+	var water []*ast.Term
+	for checks, g := range ec.waterGroups() {
+		if len(g) == 0 {
+			continue
+		}
+		on, minAir, airRefs := make([]*ast.Term, len(g)), make([]*ast.Term, len(g)), make([]*ast.Term, len(g))
+		for k, i := range g {
+			on[k], minAir[k], airRefs[k] = ec.days.terms[i], sc.minAirTerms[i], sc.airRefTerms[i]
+		}
+		water = append(water, ast.NewTerm(ast.NewObject(
+			[2]*ast.Term{keyChecks, ast.InternedTerm(checks)},
+			[2]*ast.Term{keyOn, ast.NewTerm(ast.NewArray(on...))},
+			[2]*ast.Term{keyMinAirC, ast.NewTerm(ast.NewArray(minAir...))},
+			[2]*ast.Term{keyAirRefs, ast.NewTerm(ast.NewArray(airRefs...))},
+		)))
+	}
+	bedding := make([]*ast.Term, len(ec.bedding))
+	for k, bd := range ec.bedding {
+		base := sc.pairs[bd.day]
+		last, since := ast.InternedNullTerm, ast.InternedNullTerm
+		if bd.last != 0 {
+			d := ec.days.from + records.Day(bd.day)
+			last, since = c.str(bd.last.String()), ast.InternedTerm(int(d-bd.last))
+		}
+		pairs := append(base[:len(base):len(base)],
+			[2]*ast.Term{keyMinAirC, sc.minAirTerms[bd.day]},
+			[2]*ast.Term{keyBeddingBelow, ptrTerm(c, bd.below)},
+			[2]*ast.Term{keyMoreBedding, ptrTerm(c, bd.more)},
+			[2]*ast.Term{keyLastBedding, last},
+			[2]*ast.Term{keyDaysSince, since},
+			[2]*ast.Term{keyEvidence, evidence(bd.day)})
+		bedding[k] = ast.NewTerm(ast.NewObject(pairs...))
+	}
+	shelter := make([]*ast.Term, len(ec.shelter))
+	for k, sd := range ec.shelter {
+		base := sc.pairs[sd.day]
+		pairs := append(base[:len(base):len(base)],
+			[2]*ast.Term{keyNeedsNestBox, ast.InternedTerm(sd.needsNest)},
+			[2]*ast.Term{keyNeedsShelter, ast.InternedTerm(sd.needsShelter)},
+			[2]*ast.Term{keyEvidence, evidence(sd.day)})
+		shelter[k] = ast.NewTerm(ast.NewObject(pairs...))
+	}
+	unknown := make([]*ast.Term, len(ec.unknown))
+	for k, r := range ec.unknown {
+		unknown[k] = ast.NewTerm(ast.NewObject(
+			[2]*ast.Term{keyFrom, c.str(r[0].String())},
+			[2]*ast.Term{keyUntil, c.str(r[1].String())},
+			[2]*ast.Term{keyDays, ast.InternedTerm(int(r[1]-r[0]) + 1)},
+		))
+	}
+	site := ast.InternedNullTerm
+	if s, ok := ec.site.(string); ok {
+		site = c.str(s)
+	}
+	return ast.NewTerm(ast.NewObject(
+		[2]*ast.Term{keyExposure, c.str(ec.exposure)},
+		[2]*ast.Term{keyWeatherSite, site},
+		[2]*ast.Term{keyNestBox, ast.InternedTerm(ec.nestBox)},
+		[2]*ast.Term{keySheltered, ast.InternedTerm(ec.sheltered)},
+		[2]*ast.Term{keyWaterDays, arrayOf(water)},
+		[2]*ast.Term{keyBeddingDays, arrayOf(bedding)},
+		[2]*ast.Term{keyShelterDays, arrayOf(shelter)},
+		[2]*ast.Term{keyDaysWithoutWthr, arrayOf(unknown)},
+	)), nil
 }

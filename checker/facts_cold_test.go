@@ -287,7 +287,7 @@ func TestColdSiteAndEnclosureFacts(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.kind+"/"+tc.id, func(t *testing.T) {
-			got := f.docs[tc.kind][tc.id]["cold"]
+			got := section(f.docs[tc.kind][tc.id], "cold")
 			if diff := cmp.Diff(tc.want, got); diff != "" {
 				t.Errorf("cold section (-want +got):\n%s", diff)
 			}
@@ -406,7 +406,7 @@ func TestColdBeddingLooksBeforePeriod(t *testing.T) {
 			}
 			f := coldFactsOf(t, set, Period{From: coldDay("2026-01-11"), To: coldDay("2026-01-11")})
 			got := []any{}
-			for _, d := range f.docs["enclosure"]["N-02"]["cold"].(map[string]any)["days_at_or_past_bedding_limits"].([]any) {
+			for _, d := range section(f.docs["enclosure"]["N-02"], "cold").(map[string]any)["days_at_or_past_bedding_limits"].([]any) {
 				got = append(got, d.(map[string]any)["days_since_bedding"])
 			}
 			if diff := cmp.Diff(tc.wantSince, got); diff != "" {
@@ -460,7 +460,7 @@ func TestColdWindlessReadings(t *testing.T) {
 	if diff := cmp.Diff([]any{"2026-01-13"}, frost); diff != "" {
 		t.Errorf("frostbite days (-want +got):\n%s", diff)
 	}
-	enc := f.docs["enclosure"]["N-02"]["cold"].(map[string]any)
+	enc := section(f.docs["enclosure"]["N-02"], "cold").(map[string]any)
 	var water, bedding []any
 	for _, g := range enc["days_at_or_below_water_limits_by_checks"].([]any) {
 		for _, on := range g.(map[string]any)["on"].([]string) {

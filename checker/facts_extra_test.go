@@ -130,7 +130,7 @@ func TestLocalColumns(t *testing.T) {
 	// its document, a weighing (observations.csv) on its weights entry.
 	rf416 := f.docs["animal"]["RF-416"]
 	got := map[string]any{"animal": rf416["extra"]}
-	for _, w := range rf416["weights"].([]any) {
+	for _, w := range section(rf416, "weights").([]any) {
 		got["weight "+w.(map[string]any)["ref"].(string)] = w.(map[string]any)["extra"]
 	}
 	want := map[string]any{

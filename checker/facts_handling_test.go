@@ -196,7 +196,7 @@ func TestHandlingFacts(t *testing.T) {
 	set := peopleSet(t)
 	f := newFacts(set, peopleLimits(t), peoplePeriod)
 	f.handlingFacts()
-	got := f.docs["animal"]["F1"]["handling"].([]any)
+	got := section(f.docs["animal"]["F1"], "handling").([]any)
 	if len(got) != 4 {
 		t.Fatalf("F1 has %d handling entries, want 4", len(got))
 	}

@@ -1,8 +1,11 @@
 package checker
 
 import (
+	"slices"
 	"sort"
 	"time"
+
+	"github.com/open-policy-agent/opa/v1/ast"
 
 	"welfare/records"
 )
@@ -106,23 +109,34 @@ func (f *facts) observationFacts() {
 		}
 	}
 	sort.SliceStable(obs, func(i, j int) bool { return obs[i].At.Before(obs[j].At) })
-	seq := map[string]int{} // per animal: the weighing's place in its series
+	// The weights and conditions sections are lazy (lazy.go): the facts
+	// keep each weighing and score compactly (obsTable) and the entries are
+	// made when the animal is evaluated; the report's weight charts make
+	// them again after (result_health.go).
+	ot := &obsTable{days: newDayValues(f.period), refs: newRowRefs()}
+	weights := map[*records.Animal]*animalWeights{}
+	conds := map[*records.Animal]*animalConditions{}
 	for _, o := range obs {
 		a := f.animals[o.AnimalID]
 		day := records.DayOf(o.At)
 		in := f.inPeriod(day)
 		if o.MassKg != nil {
-			d := f.healthDoc(a)
-			appendHealth(d, "weights", map[string]any{
-				"n": seq[a.ID], "on": day.String(), "day": int(day), "at": minuteStamp(o.At),
-				"kg": *o.MassKg, "ref": string(o.Ref), "in_period": in,
-			})
-			seq[a.ID]++
+			aw := weights[a]
+			if aw == nil {
+				aw = &animalWeights{t: ot}
+				weights[a] = aw
+				f.healthDoc(a)["weights"] = &lazy{make: aw.section, term: aw.sectionTerm}
+			}
+			aw.rows = append(aw.rows, weighing{day: day, minute: minuteOfDay(o.At), in: in, kg: *o.MassKg, ref: ot.refs.code(o.Ref)})
 		}
 		if o.BodyCondition != nil && in {
-			appendHealth(f.healthDoc(a), "conditions", map[string]any{
-				"on": day.String(), "score": *o.BodyCondition, "ref": string(o.Ref),
-			})
+			ac := conds[a]
+			if ac == nil {
+				ac = &animalConditions{t: ot}
+				conds[a] = ac
+				f.healthDoc(a)["conditions"] = &lazy{make: ac.section, term: ac.sectionTerm}
+			}
+			ac.rows = append(ac.rows, condition{day: day, score: int32(*o.BodyCondition), ref: ot.refs.code(o.Ref)})
 		}
 		if len(o.Signs) == 0 {
 			continue
@@ -154,6 +168,120 @@ func (f *facts) observationFacts() {
 			"answers": answers, "case": firstCase,
 		})
 	}
+	for _, aw := range weights {
+		aw.rows = slices.Clip(aw.rows)
+	}
+	for _, ac := range conds {
+		ac.rows = slices.Clip(ac.rows)
+	}
+	ot.finish()
+}
+
+// obsTable is what the weights and conditions sections of every animal
+// share: the period's days (as document and OPA values) and the rows' refs.
+type obsTable struct {
+	days     *dayValues
+	dayTerms []*ast.Term
+	refs     *rowRefs
+}
+
+func (t *obsTable) finish() {
+	t.dayTerms = make([]*ast.Term, len(t.days.vals))
+	for i, v := range t.days.vals {
+		t.dayTerms[i] = ast.StringTerm(v.(string))
+	}
+}
+
+// weighing is one weighing as the facts keep it: its day and minute, the
+// mass, the row and whether it is in the period. Its place in the animal's
+// series (n) is its index.
+type weighing struct {
+	day    records.Day
+	minute uint16
+	in     bool
+	kg     float64
+	ref    rowRef
+}
+
+// animalWeights is an animal's weighings up to the period's end, in time
+// order.
+type animalWeights struct {
+	t    *obsTable
+	rows []weighing
+}
+
+func (aw *animalWeights) section() any {
+	out := make([]any, len(aw.rows))
+	for i, w := range aw.rows {
+		out[i] = map[string]any{
+			"n": i, "on": aw.t.days.of(w.day), "day": int(w.day), "at": minuteStampOf(stampDay(w.day), w.minute),
+			"kg": w.kg, "ref": aw.t.refs.ref(w.ref), "in_period": w.in,
+		}
+	}
+	return out
+}
+
+// Keys of a weighing and a condition score.
+var (
+	keyN        = ast.InternedTerm("n")
+	keyDay      = ast.InternedTerm("day")
+	keyKg       = ast.InternedTerm("kg")
+	keyInPeriod = ast.InternedTerm("in_period")
+	keyScore    = ast.InternedTerm("score")
+)
+
+// sectionTerm makes the weights section as the OPA value converting
+// section's gives.
+func (aw *animalWeights) sectionTerm(c *converter) (*ast.Term, error) {
+	t := aw.t
+	elems := make([]*ast.Term, len(aw.rows))
+	for i, w := range aw.rows {
+		elems[i] = ast.NewTerm(ast.NewObject(
+			[2]*ast.Term{keyN, ast.InternedTerm(i)},
+			[2]*ast.Term{keyOn, dayTerm(c, t.days, t.dayTerms, w.day)},
+			[2]*ast.Term{keyDay, ast.InternedTerm(int(w.day))},
+			[2]*ast.Term{keyAt, ast.StringTerm(minuteStampOf(stampDay(w.day), w.minute))},
+			[2]*ast.Term{keyKg, c.num(w.kg)},
+			[2]*ast.Term{keyRef, ast.StringTerm(t.refs.ref(w.ref))},
+			[2]*ast.Term{keyInPeriod, ast.InternedTerm(w.in)},
+		))
+	}
+	return ast.NewTerm(ast.NewArray(elems...)), nil
+}
+
+// condition is one body condition score in the period.
+type condition struct {
+	day   records.Day
+	score int32
+	ref   rowRef
+}
+
+// animalConditions is an animal's condition scores in the period, in time
+// order.
+type animalConditions struct {
+	t    *obsTable
+	rows []condition
+}
+
+func (ac *animalConditions) section() any {
+	out := make([]any, len(ac.rows))
+	for i, r := range ac.rows {
+		out[i] = map[string]any{"on": ac.t.days.of(r.day), "score": int(r.score), "ref": ac.t.refs.ref(r.ref)}
+	}
+	return out
+}
+
+func (ac *animalConditions) sectionTerm(c *converter) (*ast.Term, error) {
+	t := ac.t
+	elems := make([]*ast.Term, len(ac.rows))
+	for i, r := range ac.rows {
+		elems[i] = ast.NewTerm(ast.NewObject(
+			[2]*ast.Term{keyOn, dayTerm(c, t.days, t.dayTerms, r.day)},
+			[2]*ast.Term{keyScore, ast.InternedTerm(int(r.score))},
+			[2]*ast.Term{keyRef, ast.StringTerm(t.refs.ref(r.ref))},
+		))
+	}
+	return ast.NewTerm(ast.NewArray(elems...)), nil
 }
 
 // caseFacts: each veterinary case open at some time in the period, with its

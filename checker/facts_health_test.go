@@ -94,7 +94,7 @@ func TestHealthFacts(t *testing.T) {
 		map[string]any{"n": 1, "on": "2026-01-05", "day": int(records.MakeDay(2026, 1, 5)), "at": "2026-01-05 09:00", "kg": 6.5, "ref": "observations.csv:3", "in_period": true},
 		map[string]any{"n": 2, "on": "2026-01-19", "day": int(records.MakeDay(2026, 1, 19)), "at": "2026-01-19 09:00", "kg": 6.2, "ref": "observations.csv:4", "in_period": true},
 	}
-	if diff := cmp.Diff(wantWeights, a1["weights"]); diff != "" {
+	if diff := cmp.Diff(wantWeights, section(a1, "weights")); diff != "" {
 		t.Errorf("weights (-want +got):\n%s", diff)
 	}
 	// The lameness at 09:00 Jan 5: the vet_exam at 08:00 came before it and does not

@@ -1,6 +1,14 @@
 package checker
 
-import "github.com/open-policy-agent/opa/v1/ast"
+import (
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/open-policy-agent/opa/v1/ast"
+
+	"welfare/records"
+)
 
 // A section of a subject's document may be given as a lazy value: compact
 // Go data the fact builder keeps, and a function that makes the section's
@@ -71,4 +79,72 @@ func resolveDocs(docs []map[string]any) []map[string]any {
 		out[i] = resolveDoc(d)
 	}
 	return out
+}
+
+// rowRefs keeps the row refs a lazy section names compactly: each as its
+// file part (kept once per table) and its line, 8 bytes instead of a string
+// of about 20 bytes and its header. A ref is made again, the same text, when
+// the section is made. A table is filled while the facts are built and only
+// read after, so sections made at the same time may share it.
+type rowRefs struct {
+	parts []string
+	index map[string]uint32
+}
+
+// rowRef is a ref kept by a rowRefs: line 0 when the part is the whole ref
+// (a ref not ending in a line number without leading zero).
+type rowRef struct {
+	part, line uint32
+}
+
+func newRowRefs() *rowRefs { return &rowRefs{index: map[string]uint32{}} }
+
+func (t *rowRefs) code(r records.Ref) rowRef {
+	s := string(r)
+	k := len(s)
+	for k > 0 && s[k-1] >= '0' && s[k-1] <= '9' {
+		k--
+	}
+	var line uint32
+	if n := len(s) - k; n > 0 && n <= 9 && s[k] != '0' {
+		v, _ := strconv.Atoi(s[k:])
+		line = uint32(v)
+		s = s[:k]
+	}
+	p, ok := t.index[s]
+	if !ok {
+		p = uint32(len(t.parts))
+		t.parts = append(t.parts, strings.Clone(s))
+		t.index[s] = p
+	}
+	return rowRef{part: p, line: line}
+}
+
+// ref is the text of a kept ref.
+func (t *rowRefs) ref(r rowRef) string {
+	if r.line == 0 {
+		return t.parts[r.part]
+	}
+	return t.parts[r.part] + strconv.FormatUint(uint64(r.line), 10)
+}
+
+// minuteStampOf is "YYYY-MM-DD HH:MM" of a local minute: its day as text
+// (Day.String) and the minute of that day, what minuteStamp gives the time.
+func minuteStampOf(day string, minute uint16) string {
+	var b [5]byte
+	h, m := minute/60, minute%60
+	b[0], b[1], b[2], b[3], b[4] = byte('0'+h/10), byte('0'+h%10), ':', byte('0'+m/10), byte('0'+m%10)
+	return day + " " + string(b[:])
+}
+
+// minuteOfDay is the local clock's minute of the day of t (what
+// records.DayOf counts days by).
+func minuteOfDay(t time.Time) uint16 {
+	_, off := t.Zone()
+	s := t.Unix() + int64(off)
+	s %= 86400
+	if s < 0 {
+		s += 86400
+	}
+	return uint16(s / 60)
 }
