@@ -127,6 +127,9 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		Progress: func(phase string, done int) {
 			if done == 0 {
 				ph.enter(phase, map[string]string{"load": "rows", "rules": "subjects"}[phase])
+				if phase == "facts" {
+					paceMemory()
+				}
 			}
 			ph.set(done)
 		}})

@@ -1,0 +1,44 @@
+package main
+
+import (
+	"math"
+	"runtime"
+	"runtime/debug"
+	"testing"
+)
+
+// TestPaceMemory: the soft limit is set only when the user left GOGC and
+// GOMEMLIMIT unset, and then to 1.4 times the live heap, never below the
+// floor.
+func TestPaceMemory(t *testing.T) {
+	before := debug.SetMemoryLimit(-1)
+	defer debug.SetMemoryLimit(before)
+	defer func(v bool) { gcAuto = v }(gcAuto)
+
+	debug.SetMemoryLimit(math.MaxInt64)
+	gcAuto = false
+	paceMemory()
+	if got := debug.SetMemoryLimit(-1); got != math.MaxInt64 {
+		t.Fatalf("GOGC or GOMEMLIMIT set by the user: the limit changed to %d", got)
+	}
+
+	gcAuto = true
+	paceMemory()
+	got := debug.SetMemoryLimit(-1)
+	if got < minMemoryLimit {
+		t.Fatalf("limit %d is below the floor %d", got, minMemoryLimit)
+	}
+	// With a live heap over the floor, the limit follows it.
+	keep := make([][]byte, 0, 40)
+	for range 40 {
+		keep = append(keep, make([]byte, 8<<20)) // 320 MiB in all
+	}
+	paceMemory()
+	var ms runtime.MemStats
+	runtime.ReadMemStats(&ms)
+	got = debug.SetMemoryLimit(-1)
+	if low := int64(320<<20) * 14 / 10; got < low {
+		t.Fatalf("limit %d MiB with over 320 MiB live, want at least %d MiB", got>>20, low>>20)
+	}
+	runtime.KeepAlive(keep)
+}
