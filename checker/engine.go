@@ -67,6 +67,11 @@ type engine struct {
 	// packageRules every findings rule of a package.
 	ruleAt       map[string][]ruleSite
 	packageRules map[string][]ruleSite
+	// store holds data.limits; each worker of Evaluate reads it through
+	// one read transaction of its own for all its evaluations.
+	store storage.Store
+	// packages is the number of rule packages (packageQuery.index).
+	packages int
 }
 
 // ruleFile is one rule file as read: its source, its path in the source,
@@ -79,6 +84,7 @@ type ruleFile struct {
 // packageQuery is the prepared `findings` query of one rule package.
 type packageQuery struct {
 	name  string // welfare.care
+	index int    // in the run's time spent per package (evalRun.spent)
 	query rego.PreparedEvalQuery
 }
 
@@ -138,6 +144,8 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 
 		ruleAt:       ruleAt,
 		packageRules: packageRules,
+		store:        store,
+		packages:     len(pkgs),
 	}
 	local := localFiles(sources, files)
 	for id, c := range checks {
@@ -147,7 +155,7 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 	}
 	sort.Slice(e.sorted, func(i, j int) bool { return e.sorted[i].ID < e.sorted[j].ID })
 
-	for _, p := range pkgs {
+	for i, p := range pkgs {
 		r := rego.New(
 			rego.Compiler(compiler),
 			rego.Store(store),
@@ -159,7 +167,7 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 		if err != nil {
 			return nil, fmt.Errorf("%s: preparing the findings query: %w", p.name, err)
 		}
-		q := &packageQuery{name: p.name, query: pq}
+		q := &packageQuery{name: p.name, index: i, query: pq}
 		for _, k := range p.subjects {
 			e.kinds[k] = append(e.kinds[k], q)
 		}

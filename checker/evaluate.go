@@ -12,7 +12,9 @@ import (
 	"time"
 	"unicode/utf8"
 
+	"github.com/open-policy-agent/opa/v1/metrics"
 	"github.com/open-policy-agent/opa/v1/rego"
+	"github.com/open-policy-agent/opa/v1/storage"
 	"github.com/open-policy-agent/opa/v1/topdown"
 
 	"welfare/records"
@@ -35,7 +37,7 @@ func (e *engine) Evaluate(ctx context.Context, kind string, inputs []map[string]
 		return nil, nil
 	}
 	if runOf(ctx) == nil {
-		ctx = withRun(ctx, nil)
+		ctx = e.withRun(ctx, nil)
 	}
 
 	// On the first failure no new subjects start, but the ones already
@@ -50,9 +52,19 @@ func (e *engine) Evaluate(ctx context.Context, kind string, inputs []map[string]
 	var wg sync.WaitGroup
 	for range min(e.opt.Workers, len(inputs)) {
 		wg.Go(func() {
-			conv := newConverter()
+			w, err := e.newWorker(ctx)
+			if err != nil {
+				// No subject is taken, so the first one's error is
+				// this one.
+				for i := range next {
+					errs[i] = err
+					failed.Store(true)
+				}
+				return
+			}
+			defer w.close()
 			for i := range next {
-				results[i], errs[i] = e.evaluateOne(ctx, queries, conv, inputs[i])
+				results[i], errs[i] = e.evaluateOne(ctx, queries, w, inputs[i])
 				if errs[i] != nil {
 					failed.Store(true)
 				}
@@ -93,8 +105,9 @@ var errTotalBudget = errors.New("the whole evaluation's time budget ran out")
 // calls (through the context): the time each package has spent, and the
 // record files read with their line counts, for evidence refs.
 type evalRun struct {
-	mu    sync.Mutex
-	spent map[string]time.Duration
+	// spent is the evaluation time of each package (by
+	// packageQuery.index), in nanoseconds.
+	spent []atomic.Int64
 	// lines has, per record file read, its number of lines; nil when the
 	// rows did not come from files (hand-made sets in tests), and evidence
 	// refs are then not compared with files.
@@ -107,11 +120,11 @@ type runKey struct{}
 // evaluation's budget, and the run state its Evaluate calls share.
 func (e *engine) startRun(ctx context.Context, lines map[string]int) (context.Context, context.CancelFunc) {
 	ctx, cancel := context.WithTimeoutCause(ctx, e.opt.TotalBudget, errTotalBudget)
-	return withRun(ctx, lines), cancel
+	return e.withRun(ctx, lines), cancel
 }
 
-func withRun(ctx context.Context, lines map[string]int) context.Context {
-	return context.WithValue(ctx, runKey{}, &evalRun{spent: map[string]time.Duration{}, lines: lines})
+func (e *engine) withRun(ctx context.Context, lines map[string]int) context.Context {
+	return context.WithValue(ctx, runKey{}, &evalRun{spent: make([]atomic.Int64, e.packages), lines: lines})
 }
 
 func runOf(ctx context.Context) *evalRun {
@@ -119,17 +132,88 @@ func runOf(ctx context.Context) *evalRun {
 	return r
 }
 
-func (r *evalRun) spentOn(pkg string) time.Duration {
-	r.mu.Lock()
-	defer r.mu.Unlock()
-	return r.spent[pkg]
+func (r *evalRun) spentOn(q *packageQuery) time.Duration {
+	return time.Duration(r.spent[q.index].Load())
 }
 
-func (r *evalRun) add(pkg string, d time.Duration) {
-	r.mu.Lock()
-	defer r.mu.Unlock()
-	r.spent[pkg] += d
+func (r *evalRun) add(q *packageQuery, d time.Duration) {
+	r.spent[q.index].Add(int64(d))
 }
+
+// evalWorker is what one worker of Evaluate keeps across its subjects:
+// its converter, one read transaction on the limits' store for all its
+// evaluations (the store is never written while rules run), and the
+// cancellation of the evaluation it is running.
+//
+// Each evaluation gets a topdown.Cancel of its own, cancelled by a timer
+// when its time budget runs out, or when the check's context ends (a
+// single context.AfterFunc per worker, instead of a context with a timeout
+// and a goroutine watching it per evaluation).
+type evalWorker struct {
+	conv    *converter
+	txn     storage.Transaction
+	store   storage.Store
+	ctx     context.Context
+	stop    func() bool
+	current atomic.Pointer[evalCall]
+}
+
+// evalCall is one running evaluation: its cancel, and whether its timer
+// cancelled it.
+type evalCall struct {
+	cancel   topdown.Cancel
+	timedOut atomic.Bool
+	timer    *time.Timer
+}
+
+func (e *engine) newWorker(ctx context.Context) (*evalWorker, error) {
+	txn, err := e.store.NewTransaction(ctx)
+	if err != nil {
+		return nil, fmt.Errorf("reading the limits: %w", err)
+	}
+	w := &evalWorker{conv: newConverter(), txn: txn, store: e.store, ctx: ctx}
+	w.stop = context.AfterFunc(ctx, func() {
+		if c := w.current.Load(); c != nil {
+			c.cancel.Cancel()
+		}
+	})
+	return w, nil
+}
+
+func (w *evalWorker) close() {
+	w.stop()
+	w.store.Abort(w.ctx, w.txn)
+}
+
+// start makes the cancellation of an evaluation limited to limit.
+func (w *evalWorker) start(limit time.Duration) *evalCall {
+	c := &evalCall{cancel: topdown.NewCancel()}
+	w.current.Store(c)
+	// The context may have ended before c was current, its AfterFunc
+	// finding the previous evaluation (or none).
+	if w.ctx.Err() != nil {
+		c.cancel.Cancel()
+	}
+	c.timer = time.AfterFunc(limit, func() {
+		c.timedOut.Store(true)
+		c.cancel.Cancel()
+	})
+	return c
+}
+
+// finish ends an evaluation's cancellation; it reports whether the
+// evaluation's time budget ran out.
+func (w *evalWorker) finish(c *evalCall) bool {
+	c.timer.Stop()
+	w.current.Store(nil)
+	return c.timedOut.Load()
+}
+
+// noMetrics: the rules' evaluations are not measured by OPA (it would
+// otherwise make a set of metrics, and read the clock, per evaluation).
+var noMetrics = rego.EvalMetrics(metrics.NoOp())
+
+var evalAtPinnedTime = rego.EvalTime(pinnedTime)
 
 // stopped is the error of an evaluation whose context ended while running
 // what (a package) on subject: the whole evaluation's budget, named with
@@ -152,9 +236,9 @@ func inputSubject(input map[string]any) string {
 	return "(no id)"
 }
 
-func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, conv *converter, input map[string]any) ([]Finding, error) {
+func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, w *evalWorker, input map[string]any) ([]Finding, error) {
 	subject := inputSubject(input)
-	val, err := conv.document(input)
+	val, err := w.conv.document(input)
 	if err != nil {
 		return nil, fmt.Errorf("subject %s: facts cannot be given to the rules: %w", subject, err)
 	}
@@ -164,18 +248,18 @@ func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, conv 
 		// A subject has the smaller of its own budget and what is left
 		// of its package's.
 		limit, packageLimited := e.opt.Timeout, false
-		if left := e.opt.PackageBudget - run.spentOn(q.name); left < limit {
+		if left := e.opt.PackageBudget - run.spentOn(q); left < limit {
 			limit, packageLimited = left, true
 		}
 		if limit <= 0 {
 			return nil, e.packageBudgetErr(q.name, subject)
 		}
-		evalCtx, cancel := context.WithTimeout(ctx, limit)
+		call := w.start(limit)
 		started := time.Now()
-		rs, err := q.query.Eval(evalCtx, rego.EvalParsedInput(val), rego.EvalTime(pinnedTime))
-		run.add(q.name, time.Since(started))
-		timedOut := errors.Is(evalCtx.Err(), context.DeadlineExceeded)
-		cancel()
+		rs, err := q.query.Eval(ctx, rego.EvalParsedInput(val), evalAtPinnedTime, noMetrics,
+			rego.EvalTransaction(w.txn), rego.EvalExternalCancel(call.cancel))
+		run.add(q, time.Since(started))
+		timedOut := w.finish(call)
 		if err != nil {
 			switch {
 			case ctx.Err() != nil:

@@ -174,20 +174,32 @@ func (ec *encCleaning) sectionTerm(c *converter) (*ast.Term, error) {
 	if len(ec.gaps) > 0 {
 		encRef := c.str(string(ec.ref))
 		periodFrom := c.str(ec.day.of(ec.day.from).(string))
+		// The gaps' terms and evidence lists in one block each.
+		fromKey, untilKey, daysKey := c.key("from"), c.key("until"), c.key("days")
+		sinceKey, periodFromKey, evidenceKey := c.key("since"), c.key("period_from"), c.key("evidence")
 		elems := make([]*ast.Term, len(ec.gaps))
+		terms := make([]ast.Term, 3*len(ec.gaps))
+		evs := make([]*ast.Term, 0, 2*len(ec.gaps))
 		for i, g := range ec.gaps {
-			ev := []*ast.Term{encRef}
+			at := len(evs)
+			evs = append(evs, encRef)
 			if g.ref != "" {
-				ev = append(ev, c.str(string(g.ref)))
+				ref := &terms[3*i+2]
+				ref.Value = ast.String(g.ref)
+				evs = append(evs, ref)
 			}
-			elems[i] = ast.NewTerm(ast.NewObject(
-				[2]*ast.Term{c.key("from"), c.str(ec.day.of(g.from).(string))},
-				[2]*ast.Term{c.key("until"), c.str(ec.day.of(g.until).(string))},
-				[2]*ast.Term{c.key("days"), ast.InternedTerm(int(g.until - g.from))},
-				[2]*ast.Term{c.key("since"), c.str(sinceNames[g.since])},
-				[2]*ast.Term{c.key("period_from"), periodFrom},
-				[2]*ast.Term{c.key("evidence"), ast.NewTerm(ast.NewArray(ev...))},
-			))
+			ev := &terms[3*i]
+			ev.Value = ast.NewArray(evs[at:len(evs):len(evs)]...)
+			gap := &terms[3*i+1]
+			gap.Value = ast.NewObject(
+				[2]*ast.Term{fromKey, c.str(ec.day.of(g.from).(string))},
+				[2]*ast.Term{untilKey, c.str(ec.day.of(g.until).(string))},
+				[2]*ast.Term{daysKey, ast.InternedTerm(int(g.until - g.from))},
+				[2]*ast.Term{sinceKey, c.str(sinceNames[g.since])},
+				[2]*ast.Term{periodFromKey, periodFrom},
+				[2]*ast.Term{evidenceKey, ev},
+			)
+			elems[i] = gap
 		}
 		gaps = ast.NewTerm(ast.NewArray(elems...))
 	}

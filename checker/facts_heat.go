@@ -337,26 +337,37 @@ func (eh *encHeat) sectionTerm(c *converter) (*ast.Term, error) {
 				runs[k] = t
 			}
 		}
+		// The days' terms and evidence lists in one block each; the
+		// key-value pairs of each day on the converter's stack (NewObject
+		// copies them out).
 		elems := make([]*ast.Term, len(eh.days))
+		terms := make([]ast.Term, 2*len(eh.days))
+		evs := make([]*ast.Term, 0, 3*len(eh.days))
+		start := len(c.pairs)
+		defer func() { c.pairs = c.pairs[:start] }()
 		for k, hd := range eh.days {
-			ev := make([]*ast.Term, 0, 3)
+			at := len(evs)
 			if eh.ref != "" {
-				ev = append(ev, encRef)
+				evs = append(evs, encRef)
 			}
 			for _, t := range sh.evTerms[hd.day] {
 				if t != nil {
-					ev = append(ev, t)
+					evs = append(evs, t)
 				}
 			}
+			ev := &terms[2*k]
+			ev.Value = ast.NewArray(evs[at:len(evs):len(evs)]...)
 			run := runs[k]
 			if run == nil {
 				run = ast.InternedNullTerm
 			}
-			pairs := append(sh.pairs[hd.day][:len(sh.pairs[hd.day]):len(sh.pairs[hd.day])],
+			c.pairs = append(append(c.pairs[:start], sh.pairs[hd.day]...),
 				[2]*ast.Term{waterChecksKey, ast.InternedTerm(int(hd.water))},
-				[2]*ast.Term{evidenceKey, ast.NewTerm(ast.NewArray(ev...))},
+				[2]*ast.Term{evidenceKey, ev},
 				[2]*ast.Term{heatRunKey, run})
-			elems[k] = ast.NewTerm(ast.NewObject(pairs...))
+			day := &terms[2*k+1]
+			day.Value = ast.NewObject(c.pairs[start:]...)
+			elems[k] = day
 		}
 		days = ast.NewTerm(ast.NewArray(elems...))
 	}
