@@ -8,7 +8,7 @@ import (
 )
 
 // TestPaceMemory: the soft limit is set only when the user left GOGC and
-// GOMEMLIMIT unset, and then to 1.4 times the live heap, never below the
+// GOMEMLIMIT unset, and then to 1.6 times the live heap, never below the
 // floor.
 func TestPaceMemory(t *testing.T) {
 	before := debug.SetMemoryLimit(-1)
@@ -37,7 +37,7 @@ func TestPaceMemory(t *testing.T) {
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
 	got = debug.SetMemoryLimit(-1)
-	if low := int64(320<<20) * 14 / 10; got < low {
+	if low := int64(320<<20) * 16 / 10; got < low {
 		t.Fatalf("limit %d MiB with over 320 MiB live, want at least %d MiB", got>>20, low>>20)
 	}
 	runtime.KeepAlive(keep)
