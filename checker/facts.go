@@ -305,3 +305,13 @@ func (r *dayRun) flush() (from, to records.Day, done bool) {
 func spanRun(from, to records.Day) map[string]any {
 	return map[string]any{"from": from.String(), "until": to.String(), "days": int(to-from) + 1}
 }
+
+// exactCopy copies a builder's scratch buffer out at its exact size, nil
+// when it is empty (as a slice never appended to is), so the buffer can be
+// reused for the next subject.
+func exactCopy[T any](s []T) []T {
+	if len(s) == 0 {
+		return nil
+	}
+	return append(make([]T, 0, len(s)), s...)
+}

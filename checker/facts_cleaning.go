@@ -1,6 +1,8 @@
 package checker
 
 import (
+	"cmp"
+	"slices"
 	"sort"
 	"strings"
 
@@ -24,40 +26,82 @@ import (
 // before it.
 
 func (f *facts) cleaningFacts() {
+	// Each enclosure's (or building's) first round and its cleaning rounds,
+	// gathered by the keys of the rounds' table in two passes: the first
+	// counts, the second fills one block of round indexes cut by key, so a
+	// year of rounds costs one allocation, not a growing slice per key.
 	type index struct {
 		first   records.Day
-		cleaned []int // indexes of f.rounds, sorted by day, then ref
+		cleaned []int32 // indexes of f.rounds, sorted by day, then ref
 	}
 	rounds := f.rounds
-	enc, bld := map[string]*index{}, map[string]*index{}
+	strs := rounds.Strings()
+	encIx := make([]index, len(strs))
+	bldIx := make([]index, len(strs))
+	seen := make([]uint8, len(strs)) // 1: an enclosure's key, 2: a building's
+	counts := make([]int32, 2*len(strs))
+	total := 0
 	for i := range rounds.Len() {
-		if rounds.Day(i) > f.period.To {
+		d := rounds.Day(i)
+		if d > f.period.To {
 			continue
 		}
-		r := rounds.View(i)
-		m, id := enc, r.EnclosureID
-		if id == "" {
-			m, id = bld, r.BuildingID
+		k := rounds.Keys(i)
+		ixs, key, c, bit := encIx, k.Enclosure, 0, uint8(1)
+		if key == 0 {
+			ixs, key, c, bit = bldIx, k.Building, len(strs), 2
 		}
-		ix := m[id]
-		if ix == nil {
-			ix = &index{}
-			m[id] = ix
+		ix := &ixs[key]
+		seen[key] |= bit
+		if ix.first == 0 || d < ix.first {
+			ix.first = d
 		}
-		if ix.first == 0 || r.Day < ix.first {
-			ix.first = r.Day
-		}
-		if r.Cleaned.IsYes() {
-			ix.cleaned = append(ix.cleaned, i)
+		if rounds.Answers(i).Cleaned.IsYes() {
+			counts[c+int(key)]++
+			total++
 		}
 	}
-	for _, m := range []map[string]*index{enc, bld} {
-		for _, ix := range m {
-			sort.Slice(ix.cleaned, func(i, j int) bool {
-				a, b := ix.cleaned[i], ix.cleaned[j]
-				da, db := rounds.Day(a), rounds.Day(b)
-				return da < db || (da == db && rounds.CompareRefs(a, b) < 0)
-			})
+	block := make([]int32, 0, total)
+	for key := range strs {
+		for c, ixs := range [2][]index{encIx, bldIx} {
+			if n := int(counts[c*len(strs)+key]); n > 0 {
+				ixs[key].cleaned = block[len(block) : len(block) : len(block)+n]
+				block = block[:len(block)+n]
+			}
+		}
+	}
+	for i := range rounds.Len() {
+		if rounds.Day(i) > f.period.To || !rounds.Answers(i).Cleaned.IsYes() {
+			continue
+		}
+		k := rounds.Keys(i)
+		ix := &encIx[k.Enclosure]
+		if k.Enclosure == 0 {
+			ix = &bldIx[k.Building]
+		}
+		ix.cleaned = append(ix.cleaned, int32(i))
+	}
+	enc := make(map[string]*index, len(f.set.Enclosures))
+	bld := make(map[string]*index, len(f.set.Facility.Buildings))
+	for key, id := range strs {
+		if seen[key]&1 != 0 {
+			enc[id] = &encIx[key]
+		}
+		if seen[key]&2 != 0 {
+			bld[id] = &bldIx[key]
+		}
+	}
+	byDayRef := func(a, b int32) int {
+		if da, db := rounds.Day(int(a)), rounds.Day(int(b)); da != db {
+			return cmp.Compare(da, db)
+		}
+		return rounds.CompareRefs(int(a), int(b))
+	}
+	for _, ixs := range [2][]index{encIx, bldIx} {
+		for k := range ixs {
+			if c := ixs[k].cleaned; len(c) > 1 && !slices.IsSortedFunc(c, byDayRef) {
+				slices.SortFunc(c, byDayRef)
+			}
 		}
 	}
 	// A year of gaps names the same days, the same period start and the
@@ -65,13 +109,18 @@ func (f *facts) cleaningFacts() {
 	// shared by every gap that names it. The section is lazy (lazy.go):
 	// the facts keep each gap's days, its kind and the ref of the round
 	// it starts from (cleanGap), and the gaps' maps are made when the
-	// enclosure is evaluated.
+	// enclosure is evaluated. Each enclosure's days, stretches and gaps
+	// are worked out in buffers reused from one enclosure to the next; the
+	// gaps kept are copied out at their exact size.
 	day := newDayValues(f.period)
 	recorded := f.set.Present["daily_care.csv"]
+	var days []records.Day
+	var gaps []cleanGap
+	var stretches [][2]records.Day
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		var first records.Day
-		var days []records.Day
+		days = days[:0]
 		own, shared := enc[e.ID], bld[e.BuildingID]
 		for _, ix := range []*index{own, shared} {
 			if ix == nil {
@@ -81,28 +130,35 @@ func (f *facts) cleaningFacts() {
 				first = ix.first
 			}
 			for _, r := range ix.cleaned {
-				days = append(days, rounds.Day(r))
+				days = append(days, rounds.Day(int(r)))
 			}
 		}
 		// refOf is the first round (by ref) that cleaned the enclosure on d.
 		refOf := func(d records.Day) records.Ref {
-			var best records.Ref
+			best := int32(-1)
 			for _, ix := range []*index{own, shared} {
 				if ix == nil {
 					continue
 				}
-				k := sort.Search(len(ix.cleaned), func(k int) bool { return rounds.Day(ix.cleaned[k]) >= d })
-				if k < len(ix.cleaned) && rounds.Day(ix.cleaned[k]) == d {
-					if ref := rounds.Ref(ix.cleaned[k]); best == "" || ref < best {
-						best = ref
+				k := sort.Search(len(ix.cleaned), func(k int) bool { return rounds.Day(int(ix.cleaned[k])) >= d })
+				if k < len(ix.cleaned) && rounds.Day(int(ix.cleaned[k])) == d {
+					if r := ix.cleaned[k]; best < 0 || rounds.CompareRefs(int(r), int(best)) < 0 {
+						best = r
 					}
 				}
 			}
-			return best
+			if best < 0 {
+				return ""
+			}
+			return rounds.Ref(int(best))
 		}
-		sort.Slice(days, func(i, j int) bool { return days[i] < days[j] })
+		if !slices.IsSorted(days) {
+			slices.Sort(days)
+		}
 		ec := &encCleaning{day: day, ref: e.Ref, recorded: recorded}
-		for _, st := range f.stretches(e.ID) {
+		gaps = gaps[:0]
+		stretches = f.appendStretches(stretches[:0], e.ID)
+		for _, st := range stretches {
 			if first == 0 {
 				break // no round at all: nothing to count from
 			}
@@ -126,16 +182,30 @@ func (f *facts) cleaningFacts() {
 					until = next - 1
 				}
 				if until > from && until >= f.period.From {
-					ec.gaps = append(ec.gaps, cleanGap{from: from, until: until, since: kind, ref: fromRef})
+					gaps = append(gaps, cleanGap{from: from, until: until, since: kind, ref: fromRef})
 				}
 				if next == 0 {
 					break
 				}
-				from, fromRef, kind = next, refOf(next), sinceCleaned
+				from, kind = next, sinceCleaned
+				// The ref is formatted only when the next day opens a gap
+				// that is kept: a cleaning the day before the next one (or
+				// at the stretch's end) starts none.
+				fromRef = ""
 				for k < len(days) && days[k] == from {
 					k++
 				}
+				nextEnd := st[1]
+				if k < len(days) && days[k] <= st[1] {
+					nextEnd = days[k] - 1
+				}
+				if nextEnd > from && nextEnd >= f.period.From {
+					fromRef = refOf(from)
+				}
 			}
+		}
+		if len(gaps) > 0 {
+			ec.gaps = slices.Clone(gaps)
 		}
 		f.doc("enclosure", e.ID)["cleaning"] = &lazy{make: ec.section, term: ec.sectionTerm}
 	}
@@ -254,10 +324,9 @@ func (v *dayValues) of(d records.Day) any {
 	return d.String()
 }
 
-// stretches are the enclosure's runs of consecutive occupied days, as
-// [first, last] pairs.
-func (f *facts) stretches(encID string) [][2]records.Day {
-	var out [][2]records.Day
+// appendStretches appends the enclosure's runs of consecutive occupied
+// days to out, as [first, last] pairs.
+func (f *facts) appendStretches(out [][2]records.Day, encID string) [][2]records.Day {
 	for _, s := range f.segments[encID] {
 		if n := len(out); n > 0 && out[n-1][1]+1 == s.From {
 			out[n-1][1] = s.To

@@ -240,15 +240,42 @@ type beddingIndex struct {
 
 func (f *facts) beddingDays() beddingIndex {
 	ix := beddingIndex{enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
-	// Gathered by the keys of the rounds' table, named once per key.
+	// Gathered by the keys of the rounds' table, named once per key, in two
+	// passes: the first counts each key's days, the second fills one block
+	// cut by key, instead of a growing slice per key.
 	strs := f.rounds.Strings()
 	encDays := make([][]records.Day, len(strs))
 	bldDays := make([][]records.Day, len(strs))
+	counts := make([]int32, 2*len(strs))
+	total := 0
+	added := func(i int) bool {
+		return f.rounds.Day(i) <= f.period.To && f.rounds.Answers(i).BeddingAdded.IsYes()
+	}
 	for i := range f.rounds.Len() {
-		d := f.rounds.Day(i)
-		if d > f.period.To || !f.rounds.Answers(i).BeddingAdded.IsYes() {
+		if !added(i) {
 			continue
 		}
+		if k := f.rounds.Keys(i); k.Enclosure != 0 {
+			counts[k.Enclosure]++
+		} else {
+			counts[len(strs)+int(k.Building)]++
+		}
+		total++
+	}
+	block := make([]records.Day, 0, total)
+	for k := range strs {
+		for c, days := range [2][][]records.Day{encDays, bldDays} {
+			if n := int(counts[c*len(strs)+k]); n > 0 {
+				days[k] = block[len(block) : len(block) : len(block)+n]
+				block = block[:len(block)+n]
+			}
+		}
+	}
+	for i := range f.rounds.Len() {
+		if !added(i) {
+			continue
+		}
+		d := f.rounds.Day(i)
 		if k := f.rounds.Keys(i); k.Enclosure != 0 {
 			encDays[k.Enclosure] = append(encDays[k.Enclosure], d)
 		} else {
@@ -317,6 +344,12 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 	lc := f.lim.Cold
 	pd := newPeriodDays(f.period)
 	colds := map[*siteWeather]*siteCold{}
+	// Each enclosure's listed days go to buffers reused from one enclosure
+	// to the next and are copied out at their exact size.
+	var water []waterDay
+	var bedding []beddingDay
+	var shelter []shelterDay
+	var unknown [][2]records.Day
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		b := f.buildings[e.BuildingID]
@@ -342,6 +375,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			}
 			ec.sc = sc
 		}
+		water, bedding, shelter, unknown = water[:0], bedding[:0], shelter[:0], unknown[:0]
 		for _, seg := range f.segments[e.ID] {
 			needsNest, needsShelter := false, false
 			// The occupants' outdoor bedding limits (dogs, 9 CFR §3.4(b)(4)):
@@ -360,7 +394,7 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 			for d := seg.From; d <= seg.To; d++ {
 				dc, ok := s.day(f.period, d)
 				if from, to, done := unknownRun.step(d, !ok); done {
-					ec.unknown = append(ec.unknown, [2]records.Day{from, to})
+					unknown = append(unknown, [2]records.Day{from, to})
 				}
 				if !ok {
 					continue
@@ -370,22 +404,22 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				// wind; the water check needs the air temperature alone.
 				_, _, windOK := s.windDay(f.period, d)
 				if checks := int(care.on(d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
-					ec.water = append(ec.water, waterDay{day: k, checks: uint16(checks)})
+					water = append(water, waterDay{day: k, checks: uint16(checks)})
 				}
 				last := bedded.last(d)
 				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
 				if windOK && cold && (last == 0 || int(d-last) >= lc.BeddingDays) {
-					ec.bedding = append(ec.bedding, beddingDay{day: k, last: last, below: bedBelow, more: moreBelow})
+					bedding = append(bedding, beddingDay{day: k, last: last, below: bedBelow, more: moreBelow})
 				}
 				if windOK && dc.MinWindChillC <= lc.ShelterWindChill && !e.NestBox.IsYes() {
-					ec.shelter = append(ec.shelter, shelterDay{day: k, needsNest: needsNest, needsShelter: needsShelter})
+					shelter = append(shelter, shelterDay{day: k, needsNest: needsNest, needsShelter: needsShelter})
 				}
 			}
 		}
 		if from, to, done := unknownRun.flush(); done {
-			ec.unknown = append(ec.unknown, [2]records.Day{from, to})
+			unknown = append(unknown, [2]records.Day{from, to})
 		}
-		ec.water, ec.bedding, ec.shelter, ec.unknown = slices.Clip(ec.water), slices.Clip(ec.bedding), slices.Clip(ec.shelter), slices.Clip(ec.unknown)
+		ec.water, ec.bedding, ec.shelter, ec.unknown = exactCopy(water), exactCopy(bedding), exactCopy(shelter), exactCopy(unknown)
 		f.doc("enclosure", e.ID)["cold"] = &lazy{make: ec.section, term: ec.sectionTerm}
 	}
 }
