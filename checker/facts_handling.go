@@ -20,14 +20,25 @@ import (
 // a rowRef) and the entries are made when the animal is evaluated.
 func (f *facts) handlingFacts() {
 	ht := &handlingTable{days: newDayValues(f.period), refs: newRowRefs(), texts: map[string]uint32{}, ppes: map[string]uint32{}}
-	byAnimal := map[*records.Animal]*animalHandling{}
-	var order []*animalHandling
+	// The rows kept are counted per animal first, so every animal's rows
+	// are cut from one block at their exact size.
+	counts := map[*records.Animal]int{}
+	total := 0
+	for i := range f.set.Handling {
+		h := &f.set.Handling[i]
+		// A row naming an unknown animal was rejected by the loader's
+		// reference check and is reported as records.row.rejected.
+		if a := f.animals[h.AnimalID]; a != nil && f.inPeriod(records.DayOf(h.At)) {
+			counts[a]++
+			total++
+		}
+	}
+	block := make([]handlingRow, 0, total)
+	byAnimal := make(map[*records.Animal]*animalHandling, len(counts))
 	for i := range f.set.Handling {
 		h := &f.set.Handling[i]
 		day := records.DayOf(h.At)
 		a := f.animals[h.AnimalID]
-		// A row naming an unknown animal was rejected by the loader's
-		// reference check and is reported as records.row.rejected.
 		if a == nil || !f.inPeriod(day) {
 			continue
 		}
@@ -59,15 +70,13 @@ func (f *facts) handlingFacts() {
 		}
 		ah := byAnimal[a]
 		if ah == nil {
-			ah = &animalHandling{t: ht}
+			n := counts[a]
+			ah = &animalHandling{t: ht, rows: block[len(block) : len(block) : len(block)+n]}
+			block = block[:len(block)+n]
 			byAnimal[a] = ah
-			order = append(order, ah)
 			f.animalDoc(a)["handling"] = &lazy{make: ah.section, term: ah.sectionTerm}
 		}
 		ah.rows = append(ah.rows, row)
-	}
-	for _, ah := range order {
-		ah.rows = ah.rows[:len(ah.rows):len(ah.rows)]
 	}
 	ht.finish()
 }

@@ -187,6 +187,9 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay, docs map[string][
 	c := f.careIndex()
 	hot := f.lim.Heat.HotDayC
 	sites := map[string]*siteHeat{}
+	// Each enclosure's hot days go to a buffer reused from one enclosure to
+	// the next and are copied out at their exact size.
+	var days []hotDayOf
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
 		b := f.buildings[e.BuildingID]
@@ -194,6 +197,8 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay, docs map[string][
 			continue
 		}
 		site := byDay[b.WeatherSite]
+		care := c.of(e.ID, e.BuildingID)
+		days = days[:0]
 		eh := &encHeat{
 			exposure: b.Exposure, site: nilIfEmpty(b.WeatherSite), ref: e.Ref,
 			shade: e.Shade.IsYes(), shadeRecorded: e.Shade != records.NotRecorded,
@@ -207,9 +212,10 @@ func (f *facts) enclosureHeatFacts(byDay map[string][]heatDay, docs map[string][
 				if !hotDay(site[k], hot) {
 					continue
 				}
-				eh.days = append(eh.days, hotDayOf{day: int32(k), water: uint16(c.on(e.ID, e.BuildingID, d).waterChecks)})
+				days = append(days, hotDayOf{day: int32(k), water: uint16(care.on(d).waterChecks)})
 			}
 		}
+		eh.days = exactCopy(days)
 		if len(eh.days) > 0 {
 			sh := sites[b.WeatherSite]
 			if sh == nil {
