@@ -43,6 +43,10 @@ type facts struct {
 	// deathDay is each animal's death (deaths.csv): its last day, as left_on is.
 	deathDay map[string]records.Day
 
+	// days are the period's days as document values, shared by every
+	// entry that names one (dayValue).
+	days *dayValues
+
 	docs map[string]map[string]map[string]any // kind -> subject id -> document
 
 	// For the report: care coverage and the weather sites' daily minima.
@@ -69,6 +73,7 @@ func newFacts(set *records.Set, lim *rules.Limits, p Period) *facts {
 		protocols:  make(map[string]*records.Protocol, len(set.Protocols)),
 		byBuilding: map[string][]string{},
 		docs:       map[string]map[string]map[string]any{},
+		days:       newDayValues(p),
 	}
 	for i := range set.Animals {
 		f.animals[set.Animals[i].ID] = &set.Animals[i]
@@ -312,6 +317,10 @@ func (r *dayRun) flush() (from, to records.Day, done bool) {
 func spanRun(from, to records.Day) map[string]any {
 	return map[string]any{"from": from.String(), "until": to.String(), "days": int(to-from) + 1}
 }
+
+// dayValue is day d as a document value ("YYYY-MM-DD"): for a day of the
+// period, the one value every entry naming it shares.
+func (f *facts) dayValue(d records.Day) any { return f.days.of(d) }
 
 // exactCopy copies a builder's scratch buffer out at its exact size, nil
 // when it is empty (as a slice never appended to is), so the buffer can be

@@ -43,7 +43,7 @@ func (f *facts) stintColdFacts(sites map[string]*siteWeather) {
 			activity = "moderate"
 		}
 		st := map[string]any{
-			"on": day.String(), "ref": string(w.Ref), "site": w.SiteID,
+			"on": f.dayValue(day), "ref": string(w.Ref), "site": w.SiteID,
 			"started_at": w.StartedAt.Format("2006-01-02 15:04"),
 			"ended_at":   w.EndedAt.Format("2006-01-02 15:04"),
 			"minutes":    w.EndedAt.Sub(w.StartedAt).Minutes(),

@@ -54,8 +54,8 @@ func (f *facts) enclosureFacts() {
 				ev = append(ev, string(o.Ref))
 			}
 			occ = append(occ, map[string]any{
-				"from":             s.From.String(),
-				"until":            s.To.String(),
+				"from":             f.dayValue(s.From),
+				"until":            f.dayValue(s.To),
 				"days":             int(s.To-s.From) + 1,
 				"count":            len(s.Occupants),
 				"occupants":        people,

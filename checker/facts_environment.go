@@ -90,7 +90,7 @@ func (f *facts) environmentFacts() {
 			}
 			if cur == nil || d != curDay {
 				cur, curDay = map[string]any{
-					"on": d.String(), "readings": 0, "humidity_pct": []any{}, "humidity_refs": []any{},
+					"on": f.dayValue(d), "readings": 0, "humidity_pct": []any{}, "humidity_refs": []any{},
 					"min_humidity_pct": nil, "max_humidity_pct": nil, "max_ammonia_ppm": nil, "ammonia_ref": nil,
 				}, d
 				days = append(days, cur)

@@ -166,7 +166,7 @@ func (f *facts) staffFacts() {
 				culled = append(culled, f.operatorDay(s, sd))
 			}
 			if sd.outside.n > 0 {
-				out = append(out, map[string]any{"on": sd.day.String(), "rows": sd.outside.n, "refs": refs(sd.outside.first...)})
+				out = append(out, map[string]any{"on": f.dayValue(sd.day), "rows": sd.outside.n, "refs": refs(sd.outside.first...)})
 			}
 		}
 		d := f.doc("staff", id)
@@ -208,7 +208,7 @@ func trainedAt(on records.Day, months int, d records.Day) map[string]any {
 func (f *facts) handlerDay(s *records.Staff, sd *staffDay) map[string]any {
 	d := sd.day
 	out := map[string]any{
-		"on":         d.String(),
+		"on":         f.dayValue(d),
 		"refs":       refs(sd.handled...),
 		"training":   trainedAt(s.HandlingTrainedOn, f.lim.Staff.HandlingTrainingMonths, d),
 		"respirator": nil,
@@ -233,7 +233,7 @@ func (f *facts) operatorDay(s *records.Staff, sd *staffDay) map[string]any {
 		}
 	}
 	out := trainedAt(s.EuthanasiaTrainedOn, f.lim.Staff.EuthanasiaTrainingMonths, sd.day)
-	out["on"] = sd.day.String()
+	out["on"] = f.dayValue(sd.day)
 	out["refs"] = refs(sd.culls...)
 	out["methods"] = strs(sd.methods)
 	out["untrained_methods"] = untrained
@@ -335,7 +335,7 @@ func (f *facts) rabiesDay(s *records.Staff, sd *staffDay) map[string]any {
 	}
 	work := slices.Concat(firstRefs(sd.rabiesHandled), firstRefs(sd.rabiesCulls), sd.rabiesRounds.first)
 	r := rabiesRecord(s, sd.day, firstRefs(work))
-	r["on"] = sd.day.String()
+	r["on"] = f.dayValue(sd.day)
 	r["category"] = category
 	r["work"] = map[string]any{
 		"handlings":   len(sd.rabiesHandled),
