@@ -88,10 +88,22 @@ func (f *facts) deathFacts() {
 // period's end, each with the first handling of every purpose at or after
 // the observation and the first case opened on or after its day.
 func (f *facts) observationFacts() {
-	handlings := map[string][]*records.Handling{}
+	// Each animal's handlings, cut from one block at their exact size.
+	handled := map[string]int{}
+	for i := range f.set.Handling {
+		handled[f.set.Handling[i].AnimalID]++
+	}
+	handlings := make(map[string][]*records.Handling, len(handled))
+	hblock := make([]*records.Handling, 0, len(f.set.Handling))
 	for i := range f.set.Handling {
 		h := &f.set.Handling[i]
-		handlings[h.AnimalID] = append(handlings[h.AnimalID], h)
+		hs, ok := handlings[h.AnimalID]
+		if !ok {
+			n := handled[h.AnimalID]
+			hs = hblock[len(hblock) : len(hblock) : len(hblock)+n]
+			hblock = hblock[:len(hblock)+n]
+		}
+		handlings[h.AnimalID] = append(hs, h)
 	}
 	for _, hs := range handlings {
 		sort.SliceStable(hs, func(i, j int) bool { return hs[i].At.Before(hs[j].At) })
@@ -113,9 +125,25 @@ func (f *facts) observationFacts() {
 	// keep each weighing and score compactly (obsTable) and the entries are
 	// made when the animal is evaluated; the report's weight charts make
 	// them again after (result_health.go).
-	ot := &obsTable{days: newDayValues(f.period), refs: newRowRefs()}
-	weights := map[*records.Animal]*animalWeights{}
-	conds := map[*records.Animal]*animalConditions{}
+	ot := &obsTable{days: f.days, refs: newRowRefs()}
+	// The weighings and scores kept are counted per animal first, so each
+	// animal's are cut from one block at their exact size.
+	nWeights, nConds := map[*records.Animal]int{}, map[*records.Animal]int{}
+	totalW, totalC := 0, 0
+	for _, o := range obs {
+		a := f.animals[o.AnimalID]
+		if o.MassKg != nil {
+			nWeights[a]++
+			totalW++
+		}
+		if o.BodyCondition != nil && f.inPeriod(records.DayOf(o.At)) {
+			nConds[a]++
+			totalC++
+		}
+	}
+	wblock, cblock := make([]weighing, 0, totalW), make([]condition, 0, totalC)
+	weights := make(map[*records.Animal]*animalWeights, len(nWeights))
+	conds := make(map[*records.Animal]*animalConditions, len(nConds))
 	for _, o := range obs {
 		a := f.animals[o.AnimalID]
 		day := records.DayOf(o.At)
@@ -123,7 +151,9 @@ func (f *facts) observationFacts() {
 		if o.MassKg != nil {
 			aw := weights[a]
 			if aw == nil {
-				aw = &animalWeights{t: ot}
+				n := nWeights[a]
+				aw = &animalWeights{t: ot, rows: wblock[len(wblock) : len(wblock) : len(wblock)+n]}
+				wblock = wblock[:len(wblock)+n]
 				weights[a] = aw
 				f.healthDoc(a)["weights"] = &lazy{make: aw.section, term: aw.sectionTerm}
 			}
@@ -132,7 +162,9 @@ func (f *facts) observationFacts() {
 		if o.BodyCondition != nil && in {
 			ac := conds[a]
 			if ac == nil {
-				ac = &animalConditions{t: ot}
+				n := nConds[a]
+				ac = &animalConditions{t: ot, rows: cblock[len(cblock) : len(cblock) : len(cblock)+n]}
+				cblock = cblock[:len(cblock)+n]
 				conds[a] = ac
 				f.healthDoc(a)["conditions"] = &lazy{make: ac.section, term: ac.sectionTerm}
 			}
