@@ -79,12 +79,6 @@ func (f *facts) careIndex() *careDays {
 	return c
 }
 
-// on is what the rounds of day d recorded for the enclosure, counting its
-// building's rounds.
-func (c *careDays) on(encID, buildingID string, d records.Day) dayCare {
-	return c.of(encID, buildingID).on(d)
-}
-
 // enclosureCare is one enclosure's days of care and its building's, looked
 // up once for a loop over its days.
 type enclosureCare struct {

@@ -298,12 +298,6 @@ func (f *facts) beddingDays() beddingIndex {
 	return ix
 }
 
-// last is the latest day on or before d bedding was added to the enclosure
-// (by its own rounds or its building's), or 0.
-func (ix beddingIndex) last(encID, buildingID string, d records.Day) records.Day {
-	return ix.of(encID, buildingID).last(d)
-}
-
 // enclosureBedding is one enclosure's bedding days and its building's,
 // looked up once for a loop over its days.
 type enclosureBedding struct{ enc, bld []records.Day }

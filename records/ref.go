@@ -43,7 +43,7 @@ func ParseRef(s string) (RefPlace, error) {
 	if j := strings.LastIndexByte(num, '!'); j >= 0 {
 		p.Sheet, num = num[:j], num[j+1:]
 		if p.Sheet == "" {
-			return RefPlace{}, fmt.Errorf("%s is not a record reference: no sheet name before the !", shortQuote(s))
+			return RefPlace{}, fmt.Errorf("%s is not a record reference: the sheet name before its ! is missing", shortQuote(s))
 		}
 		k := 0
 		for k < len(num) && num[k] >= 'A' && num[k] <= 'Z' {

@@ -35,7 +35,7 @@ func TestParseRef(t *testing.T) {
 		{ref: "x:two", err: "the line after the colon is not a number from 1"},
 		{ref: "x:99999999999", err: "the line after the colon is not a number from 1"},
 		{ref: "x:E4", err: "the line after the colon is not a number from 1"}, // a cell needs its sheet
-		{ref: "x.xlsx:!5", err: "no sheet name before the !"},
+		{ref: "x.xlsx:!5", err: "the sheet name before its ! is missing"},
 		{ref: "x.xlsx:daily_care!", err: "the row after the sheet is not a number from 1"},
 		{ref: "x.xlsx:daily_care!E", err: "the row after the sheet is not a number from 1"},
 		{ref: "x.xlsx:daily_care!e4", err: "the row after the sheet is not a number from 1"},
