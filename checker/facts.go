@@ -4,6 +4,8 @@ import (
 	"sort"
 	"strconv"
 
+	"github.com/open-policy-agent/opa/v1/ast"
+
 	"welfare/records"
 	"welfare/rules"
 )
@@ -330,4 +332,50 @@ func exactCopy[T any](s []T) []T {
 		return nil
 	}
 	return append(make([]T, 0, len(s)), s...)
+}
+
+// dayValues gives days as document values ("YYYY-MM-DD" as an any), made
+// once per day of the period and shared by every document entry that names
+// the day; a day outside the period gets a value of its own.
+type dayValues struct {
+	from records.Day
+	vals []any
+	// terms are the same days as OPA values, made on first use (term).
+	terms []*ast.Term
+}
+
+func newDayValues(p Period) *dayValues {
+	v := &dayValues{from: p.From, vals: make([]any, max(int(p.To-p.From)+1, 0))}
+	for i := range v.vals {
+		v.vals[i] = (p.From + records.Day(i)).String()
+	}
+	return v
+}
+
+func (v *dayValues) of(d records.Day) any {
+	if i := int(d - v.from); i >= 0 && i < len(v.vals) {
+		return v.vals[i]
+	}
+	return d.String()
+}
+
+// makeTerms makes the period's days as OPA values, for term. Fact builders
+// call it while building (one at a time), never the evaluation's workers.
+func (v *dayValues) makeTerms() {
+	if v.terms != nil {
+		return
+	}
+	v.terms = make([]*ast.Term, len(v.vals))
+	for i, s := range v.vals {
+		v.terms[i] = ast.StringTerm(s.(string))
+	}
+}
+
+// term is a day's text as an OPA value: one of the terms made once when
+// makeTerms was called, else a new one.
+func (v *dayValues) term(c *converter, d records.Day) *ast.Term {
+	if i := int(d - v.from); i >= 0 && i < len(v.terms) {
+		return v.terms[i]
+	}
+	return c.str(d.String())
 }

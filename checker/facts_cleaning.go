@@ -112,7 +112,7 @@ func (f *facts) cleaningFacts() {
 	// enclosure is evaluated. Each enclosure's days, stretches and gaps
 	// are worked out in buffers reused from one enclosure to the next; the
 	// gaps kept are copied out at their exact size.
-	day := newDayValues(f.period)
+	day := f.days
 	recorded := f.set.Present["daily_care.csv"]
 	var days []records.Day
 	var gaps []cleanGap
@@ -299,29 +299,6 @@ func (ec *encCleaning) section() any {
 		"rounds_recorded": ec.recorded,
 		"gaps":            gaps,
 	}
-}
-
-// dayValues gives days as document values ("YYYY-MM-DD" as an any), made
-// once per day of the period and shared by every document entry that names
-// the day; a day outside the period gets a value of its own.
-type dayValues struct {
-	from records.Day
-	vals []any
-}
-
-func newDayValues(p Period) *dayValues {
-	v := &dayValues{from: p.From, vals: make([]any, max(int(p.To-p.From)+1, 0))}
-	for i := range v.vals {
-		v.vals[i] = (p.From + records.Day(i)).String()
-	}
-	return v
-}
-
-func (v *dayValues) of(d records.Day) any {
-	if i := int(d - v.from); i >= 0 && i < len(v.vals) {
-		return v.vals[i]
-	}
-	return d.String()
 }
 
 // appendStretches appends the enclosure's runs of consecutive occupied

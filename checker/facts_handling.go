@@ -19,7 +19,7 @@ import (
 // (texts and PPE lists as indexes into tables the animals share, the ref as
 // a rowRef) and the entries are made when the animal is evaluated.
 func (f *facts) handlingFacts() {
-	ht := &handlingTable{days: newDayValues(f.period), refs: newRowRefs(), texts: map[string]uint32{}, ppes: map[string]uint32{}}
+	ht := &handlingTable{days: f.days, refs: newRowRefs(), texts: map[string]uint32{}, ppes: map[string]uint32{}}
 	// The rows kept are counted per animal first, so every animal's rows
 	// are cut from one block at their exact size.
 	counts := map[*records.Animal]int{}
@@ -94,7 +94,6 @@ type handlingTable struct {
 	ppeList   [][]string
 	textTerms []*ast.Term
 	ppeTerms  []*ast.Term
-	dayTerms  []*ast.Term
 }
 
 func (t *handlingTable) text(s string) uint32 {
@@ -135,10 +134,7 @@ func (t *handlingTable) finish() {
 		}
 		t.ppeTerms[i] = ast.NewTerm(ast.NewArray(elems...))
 	}
-	t.dayTerms = make([]*ast.Term, len(t.days.vals))
-	for i, v := range t.days.vals {
-		t.dayTerms[i] = ast.StringTerm(v.(string))
-	}
+	t.days.makeTerms()
 }
 
 // handlingRow is one handling row as the facts keep it.
@@ -234,14 +230,6 @@ var (
 	keyReported    = ast.InternedTerm("reported_after_hours")
 )
 
-// dayTerm is a day's text as an OPA value: the period's days made once.
-func dayTerm(c *converter, days *dayValues, terms []*ast.Term, d records.Day) *ast.Term {
-	if i := int(d - days.from); i >= 0 && i < len(terms) {
-		return terms[i]
-	}
-	return c.str(d.String())
-}
-
 // numTerm is numIf's value as an OPA value.
 func numTerm(c *converter, ok bool, v float64) *ast.Term {
 	if !ok {
@@ -265,7 +253,7 @@ func (ah *animalHandling) sectionTerm(c *converter) (*ast.Term, error) {
 	elems := make([]*ast.Term, len(ah.rows))
 	for i, r := range ah.rows {
 		elems[i] = ast.NewTerm(ast.NewObject(
-			[2]*ast.Term{keyOn, dayTerm(c, t.days, t.dayTerms, r.day)},
+			[2]*ast.Term{keyOn, t.days.term(c, r.day)},
 			[2]*ast.Term{keyAt, ast.StringTerm(minuteStampOf(stampDay(r.day), r.minute))},
 			[2]*ast.Term{keyRef, ast.StringTerm(t.refs.ref(r.ref))},
 			[2]*ast.Term{keyStaff, t.textTerms[r.staff]},

@@ -212,16 +212,12 @@ func (f *facts) observationFacts() {
 // obsTable is what the weights and conditions sections of every animal
 // share: the period's days (as document and OPA values) and the rows' refs.
 type obsTable struct {
-	days     *dayValues
-	dayTerms []*ast.Term
-	refs     *rowRefs
+	days *dayValues
+	refs *rowRefs
 }
 
 func (t *obsTable) finish() {
-	t.dayTerms = make([]*ast.Term, len(t.days.vals))
-	for i, v := range t.days.vals {
-		t.dayTerms[i] = ast.StringTerm(v.(string))
-	}
+	t.days.makeTerms()
 }
 
 // weighing is one weighing as the facts keep it: its day and minute, the
@@ -270,7 +266,7 @@ func (aw *animalWeights) sectionTerm(c *converter) (*ast.Term, error) {
 	for i, w := range aw.rows {
 		elems[i] = ast.NewTerm(ast.NewObject(
 			[2]*ast.Term{keyN, ast.InternedTerm(i)},
-			[2]*ast.Term{keyOn, dayTerm(c, t.days, t.dayTerms, w.day)},
+			[2]*ast.Term{keyOn, t.days.term(c, w.day)},
 			[2]*ast.Term{keyDay, ast.InternedTerm(int(w.day))},
 			[2]*ast.Term{keyAt, ast.StringTerm(minuteStampOf(stampDay(w.day), w.minute))},
 			[2]*ast.Term{keyKg, c.num(w.kg)},
@@ -308,7 +304,7 @@ func (ac *animalConditions) sectionTerm(c *converter) (*ast.Term, error) {
 	elems := make([]*ast.Term, len(ac.rows))
 	for i, r := range ac.rows {
 		elems[i] = ast.NewTerm(ast.NewObject(
-			[2]*ast.Term{keyOn, dayTerm(c, t.days, t.dayTerms, r.day)},
+			[2]*ast.Term{keyOn, t.days.term(c, r.day)},
 			[2]*ast.Term{keyScore, ast.InternedTerm(int(r.score))},
 			[2]*ast.Term{keyRef, ast.StringTerm(t.refs.ref(r.ref))},
 		))
