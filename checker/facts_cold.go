@@ -451,6 +451,9 @@ type siteCold struct {
 	airRefTerms []*ast.Term
 	refTerms    []*ast.Term // the ref of each day's wind-chill reading
 	pairs       [][][2]*ast.Term
+	// err is a day's figures that could not be made OPA values; an
+	// enclosure's section gives it when converted.
+	err error
 }
 
 func (f *facts) siteColdOf(s *siteWeather, pd *periodDays) *siteCold {
@@ -474,13 +477,10 @@ func (f *facts) siteColdOf(s *siteWeather, pd *periodDays) *siteCold {
 		if r := doc["ref"].(string); r != "" {
 			sc.refTerms[i] = ast.StringTerm(r)
 		}
-		t, err := c.term(doc)
-		if err != nil {
-			panic(err) // a day's figures are numbers and strings
+		pairs, err := objectPairs(c, doc, 0)
+		if err != nil && sc.err == nil {
+			sc.err = err
 		}
-		obj := t.Value.(ast.Object)
-		pairs := make([][2]*ast.Term, 0, obj.Len())
-		obj.Foreach(func(k, v *ast.Term) { pairs = append(pairs, [2]*ast.Term{k, v}) })
 		sc.pairs[i] = pairs
 	}
 	return sc
@@ -634,6 +634,9 @@ func arrayOf(elems []*ast.Term) *ast.Term {
 // converted figures and the enclosure's fields.
 func (ec *encCold) sectionTerm(c *converter) (*ast.Term, error) {
 	sc := ec.sc
+	if sc != nil && sc.err != nil {
+		return nil, sc.err
+	}
 	var encRef *ast.Term
 	if ec.ref != "" {
 		encRef = c.str(string(ec.ref))

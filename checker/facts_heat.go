@@ -246,6 +246,9 @@ type siteHeat struct {
 	pairs    [][][2]*ast.Term
 	evTerms  [][2]*ast.Term
 	runTerms map[records.Day]*ast.Term
+	// err is a site-day or run that could not be made OPA values; an
+	// enclosure's section gives it when converted.
+	err error
 }
 
 func (f *facts) siteHeatOf(site []heatDay, docs []map[string]any, hot float64) *siteHeat {
@@ -263,13 +266,10 @@ func (f *facts) siteHeatOf(site []heatDay, docs []map[string]any, hot float64) *
 		if d == nil || !hotDay(site[i], hot) {
 			continue
 		}
-		t, err := c.term(d)
-		if err != nil {
-			panic(err) // a site-day's figures are numbers, strings and bools
+		pairs, err := objectPairs(c, d, 3)
+		if err != nil && sh.err == nil {
+			sh.err = err
 		}
-		obj := t.Value.(ast.Object)
-		pairs := make([][2]*ast.Term, 0, obj.Len()+3)
-		obj.Foreach(func(k, v *ast.Term) { pairs = append(pairs, [2]*ast.Term{k, v}) })
 		sh.pairs[i] = pairs
 		for k, r := range sh.evidence[i] {
 			if r != "" {
@@ -280,8 +280,8 @@ func (f *facts) siteHeatOf(site []heatDay, docs []map[string]any, hot float64) *
 	sh.runTerms = make(map[records.Day]*ast.Term, len(sh.runs))
 	for d, r := range sh.runs {
 		t, err := c.term(r.doc)
-		if err != nil {
-			panic(err)
+		if err != nil && sh.err == nil {
+			sh.err = err
 		}
 		sh.runTerms[d] = t
 	}
@@ -321,6 +321,9 @@ func (eh *encHeat) sectionTerm(c *converter) (*ast.Term, error) {
 	days := emptyArray
 	if len(eh.days) > 0 {
 		sh := eh.on
+		if sh.err != nil {
+			return nil, sh.err
+		}
 		encRef := ast.StringTerm(string(eh.ref))
 		base := make([]map[string]any, len(eh.days))
 		on := make([]records.Day, len(eh.days))

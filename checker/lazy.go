@@ -1,6 +1,7 @@
 package checker
 
 import (
+	"fmt"
 	"strconv"
 	"strings"
 	"time"
@@ -147,4 +148,21 @@ func minuteOfDay(t time.Time) uint16 {
 		s += 86400
 	}
 	return uint16(s / 60)
+}
+
+// objectPairs converts a document made once and shared by many subjects'
+// sections (a site-day's figures) into its key-value terms, with room for
+// extra pairs the section adds per subject.
+func objectPairs(c *converter, doc map[string]any, extra int) ([][2]*ast.Term, error) {
+	t, err := c.term(doc)
+	if err != nil {
+		return nil, err
+	}
+	obj, ok := t.Value.(ast.Object)
+	if !ok {
+		return nil, fmt.Errorf("a shared figure is %T, not an object", t.Value)
+	}
+	pairs := make([][2]*ast.Term, 0, obj.Len()+extra)
+	obj.Foreach(func(k, v *ast.Term) { pairs = append(pairs, [2]*ast.Term{k, v}) })
+	return pairs, nil
 }

@@ -4,6 +4,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
+	"errors"
 	"flag"
 	"os"
 	"path/filepath"
@@ -220,5 +221,27 @@ func TestMinuteStampOf(t *testing.T) {
 	}
 	if got, want := minuteStampOf(stampDay(0), 61), "1970-01-01 01:01"; got != want {
 		t.Errorf("day 0: %q, want %q", got, want)
+	}
+}
+
+// TestSharedFiguresErrorNotPanic: a shared figure that cannot be made an
+// OPA value is an error of the subject's conversion, not a crash of the
+// check.
+func TestSharedFiguresErrorNotPanic(t *testing.T) {
+	if _, err := objectPairs(newConverter(), map[string]any{"on": "2026-01-05", "x": make(chan int)}, 0); err == nil {
+		t.Fatal("a channel in a shared figure converted without error")
+	}
+	pairs, err := objectPairs(newConverter(), map[string]any{"on": "2026-01-05", "n": 2}, 3)
+	if err != nil || len(pairs) != 2 || cap(pairs) != 5 {
+		t.Fatalf("objectPairs: %d pairs (cap %d), %v; want 2 (cap 5)", len(pairs), cap(pairs), err)
+	}
+	bad := errors.New("site figures broken")
+	eh := &encHeat{days: []hotDayOf{{}}, on: &siteHeat{err: bad}}
+	if _, err := eh.sectionTerm(newConverter()); !errors.Is(err, bad) {
+		t.Fatalf("heat section: %v, want the site's error", err)
+	}
+	ec := &encCold{sc: &siteCold{err: bad}}
+	if _, err := ec.sectionTerm(newConverter()); !errors.Is(err, bad) {
+		t.Fatalf("cold section: %v, want the site's error", err)
 	}
 }
