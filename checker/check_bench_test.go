@@ -1,14 +1,12 @@
 package checker
 
 import (
-	"bytes"
 	"context"
 	"fmt"
 	"testing"
 	"time"
 
 	"welfare/records"
-	"welfare/rules"
 )
 
 // yearOfCages builds, in memory, a facility of n single-fox outdoor cages
@@ -88,19 +86,9 @@ func BenchmarkCheckYear10000Cages(b *testing.B) { benchmarkCheckYear(b, 10000) }
 
 func benchmarkCheckYear(b *testing.B, n int) {
 	set, period, rows := yearOfCages(b, n)
-	lim, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
-	if err != nil {
-		b.Fatal(err)
-	}
-	data, err := lim.Data()
-	if err != nil {
-		b.Fatal(err)
-	}
+	lim := defaultLimits(b)
+	engine := shippedEngine(b, lim)
 	ctx := context.Background()
-	engine, err := NewEngine(ctx, []Source{{Name: "rules", FS: rules.FS()}}, data, EngineOptions{})
-	if err != nil {
-		b.Fatal(err)
-	}
 	b.ReportAllocs()
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {

@@ -17,9 +17,9 @@ import (
 	"github.com/google/go-cmp/cmp"
 )
 
-// coldEngine compiles the shipped rules; the tests keep the cold domain
+// shippedEngine compiles the shipped rules with lim; the cold tests keep the cold domain
 // with Config.Only, as `--only cold` does.
-func coldEngine(t testing.TB, lim *rules.Limits) *Engine {
+func shippedEngine(t testing.TB, lim *rules.Limits) *Engine {
 	t.Helper()
 	data, err := lim.Data()
 	if err != nil {
@@ -33,8 +33,8 @@ func coldEngine(t testing.TB, lim *rules.Limits) *Engine {
 }
 
 func TestColdCheckEndToEnd(t *testing.T) {
-	lim := coldLimits(t)
-	eng := coldEngine(t, lim)
+	lim := defaultLimits(t)
+	eng := shippedEngine(t, lim)
 	type row struct{ Check, Subject, On, Until string }
 	tests := []struct {
 		name   string
@@ -120,7 +120,7 @@ func coldBenchSet() (*records.Set, Period) {
 // BenchmarkColdFacts10kEnclosures31Days times the cold facts alone.
 func BenchmarkColdFacts10kEnclosures31Days(b *testing.B) {
 	set, p := coldBenchSet()
-	f := newFacts(set, coldLimits(b), p)
+	f := newFacts(set, defaultLimits(b), p)
 	f.careIndex()
 	b.ResetTimer()
 	for b.Loop() {
@@ -133,8 +133,8 @@ func BenchmarkColdFacts10kEnclosures31Days(b *testing.B) {
 // every domain's facts and the rules, with about 320,000 findings.
 func BenchmarkColdCheck10kEnclosures31Days(b *testing.B) {
 	set, p := coldBenchSet()
-	lim := coldLimits(b)
-	eng := coldEngine(b, lim)
+	lim := defaultLimits(b)
+	eng := shippedEngine(b, lim)
 	b.ResetTimer()
 	for b.Loop() {
 		res, err := Check(context.Background(), Config{Records: set, Limits: lim, Engine: eng, Period: p, Only: []string{"cold"}})
@@ -164,7 +164,7 @@ func TestColdDemoMatchesAnswerKey(t *testing.T) {
 	if len(want) == 0 {
 		t.Fatal("the answer key lists no cold findings")
 	}
-	lim := coldLimits(t)
+	lim := defaultLimits(t)
 	var species []string
 	for code := range lim.Species {
 		species = append(species, code)
@@ -174,7 +174,7 @@ func TestColdDemoMatchesAnswerKey(t *testing.T) {
 		t.Fatalf("loading the demo: %v", err)
 	}
 	period := Period{From: coldDay("2026-01-01"), To: coldDay("2026-01-31")}
-	res, err := Check(context.Background(), Config{Records: set, Limits: lim, Engine: coldEngine(t, lim), Period: period, Only: []string{"cold"}})
+	res, err := Check(context.Background(), Config{Records: set, Limits: lim, Engine: shippedEngine(t, lim), Period: period, Only: []string{"cold"}})
 	if err != nil {
 		t.Fatalf("Check: %v", err)
 	}
@@ -209,7 +209,7 @@ func TestColdDemoMatchesAnswerKey(t *testing.T) {
 // the shipped rule (<=) reports 01-12…01-13, and the same rule edited to <
 // reports 01-13 alone: the facts did not decide for the rule.
 func TestColdRuleDecides(t *testing.T) {
-	lim := coldLimits(t)
+	lim := defaultLimits(t)
 	lim.Cold.FrostbiteWindChill = cold.WindChillC(-25, 20)
 	data, err := lim.Data()
 	if err != nil {
@@ -275,8 +275,8 @@ func TestDogOutdoorShelterAndBedding(t *testing.T) {
 		}
 		return set
 	}
-	lim := coldLimits(t)
-	eng := coldEngine(t, lim)
+	lim := defaultLimits(t)
+	eng := shippedEngine(t, lim)
 	tests := []struct {
 		exposure    string
 		wantShelter []string // from..until of cold.shelter.missing for N-02

@@ -69,7 +69,7 @@ func TestCleaningGaps(t *testing.T) {
 				}
 				set.Care = append(set.Care, cr)
 			}
-			f := newFacts(set, coldLimits(t), period)
+			f := newFacts(set, defaultLimits(t), period)
 			f.cleaningFacts()
 			var got []gap
 			for _, g := range section(f.docs["enclosure"]["C-01"], "cleaning").(map[string]any)["gaps"].([]any) {

@@ -1,7 +1,6 @@
 package checker
 
 import (
-	"bytes"
 	"fmt"
 	"sort"
 	"testing"
@@ -11,7 +10,6 @@ import (
 
 	"welfare/checker/cold"
 	"welfare/records"
-	"welfare/rules"
 )
 
 // The cold-season scenario (invented): Birchfall's north fox shed SHED-N is
@@ -149,20 +147,11 @@ func coldSet() *records.Set {
 	return set
 }
 
-func coldLimits(t testing.TB) *rules.Limits {
-	t.Helper()
-	l, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
-	if err != nil {
-		t.Fatalf("LoadLimits: %v", err)
-	}
-	return l
-}
-
 var coldPeriod = Period{From: coldDay("2026-01-10"), To: coldDay("2026-01-14")}
 
 func coldFactsOf(t testing.TB, set *records.Set, p Period) *facts {
 	t.Helper()
-	f := newFacts(set, coldLimits(t), p)
+	f := newFacts(set, defaultLimits(t), p)
 	f.coldFacts()
 	return f
 }

@@ -127,7 +127,7 @@ func summerSet(withCleanedColumn bool) *records.Set {
 }
 
 func TestHeatSiteDays(t *testing.T) {
-	f := newFacts(summerSet(true), coldLimits(t), summerPeriod)
+	f := newFacts(summerSet(true), defaultLimits(t), summerPeriod)
 	f.heatFacts()
 	days := section(f.docs["site"]["YARD"], "heat").(map[string]any)["days"].([]any)
 	type row struct {
@@ -203,8 +203,8 @@ func TestOutsideSpells(t *testing.T) {
 }
 
 func TestSummerCheckEndToEnd(t *testing.T) {
-	lim := coldLimits(t)
-	eng := coldEngine(t, lim)
+	lim := defaultLimits(t)
+	eng := shippedEngine(t, lim)
 	type row struct{ Check, Subject, On, Until string }
 	res, err := Check(context.Background(), Config{Records: summerSet(true), Limits: lim, Engine: eng, Period: summerPeriod,
 		Only: []string{"heat", "environment", "care"}})
@@ -254,8 +254,8 @@ func TestSummerCheckEndToEnd(t *testing.T) {
 }
 
 func TestCleaningNotEvaluatedWithoutColumn(t *testing.T) {
-	lim := coldLimits(t)
-	res, err := Check(context.Background(), Config{Records: summerSet(false), Limits: lim, Engine: coldEngine(t, lim), Period: summerPeriod,
+	lim := defaultLimits(t)
+	res, err := Check(context.Background(), Config{Records: summerSet(false), Limits: lim, Engine: shippedEngine(t, lim), Period: summerPeriod,
 		Only: []string{"care"}})
 	if err != nil {
 		t.Fatalf("Check: %v", err)
@@ -272,7 +272,7 @@ func TestCleaningNotEvaluatedWithoutColumn(t *testing.T) {
 }
 
 func TestEnvironmentDays(t *testing.T) {
-	f := newFacts(summerSet(true), coldLimits(t), summerPeriod)
+	f := newFacts(summerSet(true), defaultLimits(t), summerPeriod)
 	f.environmentFacts()
 	env := f.docs["building"]["KB"]["environment"].(map[string]any)
 	type row struct {
@@ -304,7 +304,7 @@ func TestEnvironmentDays(t *testing.T) {
 }
 
 func TestEnclosureHotDays(t *testing.T) {
-	f := newFacts(summerSet(true), coldLimits(t), summerPeriod)
+	f := newFacts(summerSet(true), defaultLimits(t), summerPeriod)
 	f.heatFacts()
 	type row struct {
 		On     string
@@ -340,7 +340,7 @@ func TestEnclosureHotDays(t *testing.T) {
 func TestEnclosureHotRunsShared(t *testing.T) {
 	set := summerSet(true)
 	set.Animals[1].LeftOn = coldDay("2026-07-14") // S-02 is empty from 07-15
-	f := newFacts(set, coldLimits(t), summerPeriod)
+	f := newFacts(set, defaultLimits(t), summerPeriod)
 	f.heatFacts()
 	runs := func(id string) []map[string]any {
 		var out []map[string]any
@@ -359,7 +359,7 @@ func TestEnclosureHotRunsShared(t *testing.T) {
 	}
 	// Another enclosure of the site occupied for the whole run shares it.
 	set = summerSet(true)
-	g := newFacts(set, coldLimits(t), summerPeriod)
+	g := newFacts(set, defaultLimits(t), summerPeriod)
 	g.heatFacts()
 	a := section(g.docs["enclosure"]["S-01"], "heat").(map[string]any)["hot_days"].([]any)[0].(map[string]any)["run"].(map[string]any)
 	b := section(g.docs["enclosure"]["S-02"], "heat").(map[string]any)["hot_days"].([]any)[1].(map[string]any)["run"].(map[string]any)

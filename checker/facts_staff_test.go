@@ -296,7 +296,7 @@ func TestRabiesCoversEveryoneWhoWorksWithRiskSpecies(t *testing.T) {
 		{"person's own category 5", cat(5), "F2", "", map[string]any{"handlings": 0, "culls": 1, "care_rounds": 0}, 5, nil},
 	}
 	lim := peopleLimits(t)
-	eng := coldEngine(t, lim)
+	eng := shippedEngine(t, lim)
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			set := peopleSet(t)

@@ -81,7 +81,7 @@ func followCheck(t *testing.T, only []string, prev *Previous) *Result {
 	if err != nil {
 		t.Fatal(err)
 	}
-	eng := coldEngine(t, lim)
+	eng := shippedEngine(t, lim)
 	res, err := Check(context.Background(), Config{Records: set, Limits: lim, Engine: eng, Only: only, Previous: prev,
 		Period: Period{From: followDay(t, "2026-01-01"), To: followDay(t, "2026-01-03")}})
 	if err != nil {

@@ -1,7 +1,6 @@
 package checker
 
 import (
-	"bytes"
 	"context"
 	"fmt"
 	"os"
@@ -24,19 +23,9 @@ import (
 //
 //	go test ./checker -run '^$' -bench 'Generated/animals=1000$/' -benchmem
 func BenchmarkGenerated(b *testing.B) {
-	lim, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
-	if err != nil {
-		b.Fatal(err)
-	}
-	data, err := lim.Data()
-	if err != nil {
-		b.Fatal(err)
-	}
+	lim := defaultLimits(b)
+	engine := shippedEngine(b, lim)
 	ctx := context.Background()
-	engine, err := NewEngine(ctx, []Source{{Name: "rules", FS: rules.FS()}}, data, EngineOptions{})
-	if err != nil {
-		b.Fatal(err)
-	}
 	for _, n := range []int{1000, 10000} {
 		b.Run(fmt.Sprintf("animals=%d", n), func(b *testing.B) {
 			set, planted := generatedSet(b, n, lim)

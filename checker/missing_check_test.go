@@ -15,8 +15,8 @@ import (
 // is one of issue-free-looking records that the checker used to pass or
 // judge on a made-up value (checks.md "Never pass what was not judged").
 func TestValueMissingEndToEnd(t *testing.T) {
-	lim := coldLimits(t)
-	eng := coldEngine(t, lim)
+	lim := defaultLimits(t)
+	eng := shippedEngine(t, lim)
 	type row struct{ Check, Subject, On, Until string }
 	keep := map[string]bool{"records.value.missing": true, "cold.work.over_limit": true, "cold.work.should_cease": true,
 		"cold.bedding.stale": true, "enclosure.space.insufficient": true}

@@ -1,15 +1,12 @@
 package checker
 
 import (
-	"bytes"
 	"context"
 	"fmt"
 	"testing"
 
 	"github.com/open-policy-agent/opa/v1/ast"
 	"github.com/open-policy-agent/opa/v1/rego"
-
-	"welfare/rules"
 )
 
 // BenchmarkPackages times each shipped rule package on its own, per subject
@@ -21,19 +18,9 @@ import (
 //
 //	go test ./checker -run '^$' -bench 'Packages/animals=1000/' -benchtime 3x -count 3
 func BenchmarkPackages(b *testing.B) {
-	lim, err := rules.LoadLimits(bytes.NewReader(rules.DefaultLimits()), "limits.yaml")
-	if err != nil {
-		b.Fatal(err)
-	}
-	data, err := lim.Data()
-	if err != nil {
-		b.Fatal(err)
-	}
+	lim := defaultLimits(b)
+	engine := shippedEngine(b, lim)
 	ctx := context.Background()
-	engine, err := NewEngine(ctx, []Source{{Name: "rules", FS: rules.FS()}}, data, EngineOptions{})
-	if err != nil {
-		b.Fatal(err)
-	}
 	for _, n := range []int{1000, 10000} {
 		b.Run(fmt.Sprintf("animals=%d", n), func(b *testing.B) {
 			set, _ := generatedSet(b, n, lim)
@@ -62,6 +49,7 @@ func BenchmarkPackages(b *testing.B) {
 				conv := newConverter()
 				vals := make([]ast.Value, len(docs))
 				for i, doc := range docs {
+					var err error
 					if vals[i], err = conv.document(doc); err != nil {
 						b.Fatal(err)
 					}
