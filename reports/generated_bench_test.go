@@ -24,7 +24,7 @@ import (
 func BenchmarkGenerated(b *testing.B) {
 	for _, n := range []int{1000, 10000} {
 		b.Run(fmt.Sprintf("animals=%d", n), func(b *testing.B) {
-			res := generatedResult(b, n)
+			res := generatedResult(b, synth.Options{Animals: n, Days: 365, Seed: 7})
 			writers := []struct {
 				name  string
 				write func(io.Writer) error
@@ -49,24 +49,26 @@ func BenchmarkGenerated(b *testing.B) {
 	}
 }
 
-func generatedResult(b *testing.B, n int) *checker.Result {
-	b.Helper()
-	dir := b.TempDir()
-	if _, err := synth.Generate(dir, synth.Options{Animals: n, Days: 365, Seed: 7}); err != nil {
-		b.Fatal(err)
+// generatedResult checks a folder made by welfare generate with opt (a
+// year of the baseline farm, or the failing farm) with the shipped rules.
+func generatedResult(tb testing.TB, opt synth.Options) *checker.Result {
+	tb.Helper()
+	dir := tb.TempDir()
+	if _, err := synth.Generate(dir, opt); err != nil {
+		tb.Fatal(err)
 	}
 	lim, err := rules.Default()
 	if err != nil {
-		b.Fatal(err)
+		tb.Fatal(err)
 	}
 	ctx := context.Background()
 	policy, err := checker.Compile(ctx, lim, []checker.Source{{Name: "rules", FS: rules.FS()}}, checker.Options{})
 	if err != nil {
-		b.Fatal(err)
+		tb.Fatal(err)
 	}
 	res, err := policy.Check(ctx, os.DirFS(dir), checker.Period{}, nil)
 	if err != nil {
-		b.Fatal(err)
+		tb.Fatal(err)
 	}
 	return res
 }

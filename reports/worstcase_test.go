@@ -2,11 +2,9 @@ package reports_test
 
 import (
 	"bytes"
-	"context"
 	"encoding/json"
 	"fmt"
 	"io"
-	"os"
 	"regexp"
 	"strings"
 	"testing"
@@ -17,7 +15,6 @@ import (
 	"welfare/records/synth"
 	"welfare/reports"
 	"welfare/reports/pdf"
-	"welfare/rules"
 )
 
 // failingResult checks the failing farm (welfare generate --failing) of n
@@ -25,24 +22,7 @@ import (
 // every check it can on every day.
 func failingResult(tb testing.TB, n, days int) *checker.Result {
 	tb.Helper()
-	dir := tb.TempDir()
-	if _, err := synth.Generate(dir, synth.Options{Animals: n, Days: days, Seed: 7, Failing: true}); err != nil {
-		tb.Fatal(err)
-	}
-	lim, err := rules.Default()
-	if err != nil {
-		tb.Fatal(err)
-	}
-	ctx := context.Background()
-	policy, err := checker.Compile(ctx, lim, []checker.Source{{Name: "rules", FS: rules.FS()}}, checker.Options{})
-	if err != nil {
-		tb.Fatal(err)
-	}
-	res, err := policy.Check(ctx, os.DirFS(dir), checker.Period{}, nil)
-	if err != nil {
-		tb.Fatal(err)
-	}
-	return res
+	return generatedResult(tb, synth.Options{Animals: n, Days: days, Seed: 7, Failing: true})
 }
 
 // withEverything adds to a failing farm's result the listings the failing
