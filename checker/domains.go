@@ -6,6 +6,11 @@ package checker
 type domain struct {
 	name  string
 	facts func(*facts)
+	// rounds: the builder reads the care rounds themselves (f.rounds; the
+	// care index made from them is kept). Such builders run first, so a
+	// check that keeps only its result can let the rounds — most of a
+	// large set's memory — go before the other builders add theirs.
+	rounds bool
 }
 
 // domains is the one catalogue of the shipped domains, in the order reports
@@ -16,26 +21,20 @@ type domain struct {
 // own check ids) needs no entry: it reads the facts the shipped domains
 // compute, and reports list it after these.
 var domains = []domain{
-	{"records", (*facts).recordsFacts},
-	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }},
-	{"enclosure", (*facts).enclosureFacts},
-	{"handling", (*facts).handlingFacts},
-	{"staff", (*facts).staffFacts},
-	{"ppe", (*facts).ppeFacts},
-	{"protocol", (*facts).protocolFacts},
-	{"cull", (*facts).cullFacts},
-	{"health", (*facts).healthFacts},
-	{"litter", (*facts).litterFacts},
-	{"cold", (*facts).coldFacts},
-	{"heat", (*facts).heatFacts},
-	{"environment", (*facts).environmentFacts},
+	{"records", (*facts).recordsFacts, true},
+	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }, true},
+	{"enclosure", (*facts).enclosureFacts, false},
+	{"handling", (*facts).handlingFacts, false},
+	{"staff", (*facts).staffFacts, true},
+	{"ppe", (*facts).ppeFacts, false},
+	{"protocol", (*facts).protocolFacts, false},
+	{"cull", (*facts).cullFacts, false},
+	{"health", (*facts).healthFacts, false},
+	{"litter", (*facts).litterFacts, false},
+	{"cold", (*facts).coldFacts, true},
+	{"heat", (*facts).heatFacts, false},
+	{"environment", (*facts).environmentFacts, false},
 }
-
-// readsRounds names the domains whose fact builders read the care rounds
-// themselves (f.rounds; the care index made from them is kept): they run
-// first, so a check that keeps only its result can let the rounds — most
-// of a large set's memory — go before the other builders add theirs.
-var readsRounds = map[string]bool{"records": true, "care": true, "staff": true, "cold": true}
 
 // buildFacts runs every domain's fact builder, the ones reading the care
 // rounds first; release, when not nil, is called once those are done.
@@ -43,7 +42,7 @@ var readsRounds = map[string]bool{"records": true, "care": true, "staff": true, 
 // the facts.
 func buildFacts(f *facts, release func()) {
 	for _, d := range domains {
-		if readsRounds[d.name] {
+		if d.rounds {
 			d.facts(f)
 		}
 	}
@@ -52,7 +51,7 @@ func buildFacts(f *facts, release func()) {
 		release()
 	}
 	for _, d := range domains {
-		if !readsRounds[d.name] {
+		if !d.rounds {
 			d.facts(f)
 		}
 	}
