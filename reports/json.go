@@ -583,14 +583,10 @@ func WriteJSON(w io.Writer, r *checker.Result) error {
 		bw.WriteString("[]")
 	} else {
 		bw.WriteString("[\n")
-		var one bytes.Buffer
+		var one []byte
 		for i := range findings {
-			one.Reset()
-			if err := encodeJSON(&one, &findings[i], "    "); err != nil {
-				return err
-			}
-			bw.WriteString("    ")
-			bw.Write(bytes.TrimSuffix(one.Bytes(), []byte("\n")))
+			one = appendFinding(append(one[:0], "    "...), &findings[i])
+			bw.Write(one)
 			if i < len(findings)-1 {
 				bw.WriteByte(',')
 			}
