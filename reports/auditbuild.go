@@ -30,6 +30,12 @@ type PDFOptions struct {
 	// the finding's days. A finding whose subject is a site itself needs no
 	// entry; with a single weather site every cold finding is that site's.
 	SiteOf map[string]string
+	// FindingsJSON and FindingsCSV, when set, are what WriteJSON and
+	// WriteCSV wrote for the same result: attached as they are rather than
+	// written again (a run writing --json and --csv beside the PDF has
+	// them; with hundreds of thousands of findings writing them is most
+	// of the PDF's time). The caller vouches they are of this result.
+	FindingsJSON, FindingsCSV []byte
 }
 
 // DefaultPDFMaxPerCheck keeps a report with thousands of findings printable;
@@ -52,12 +58,22 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 	if opt.MaxPerCheck == 0 {
 		opt.MaxPerCheck = DefaultPDFMaxPerCheck
 	}
-	var js, cs bytes.Buffer
-	if err := WriteJSON(&js, r); err != nil {
-		return nil, fmt.Errorf("reports: attached findings.json: %w", err)
+	js, cs := opt.FindingsJSON, opt.FindingsCSV
+	if js == nil {
+		var buf bytes.Buffer
+		buf.Grow(findingsSize(r, 320))
+		if err := WriteJSON(&buf, r); err != nil {
+			return nil, fmt.Errorf("reports: attached findings.json: %w", err)
+		}
+		js = buf.Bytes()
 	}
-	if err := WriteCSV(&cs, r); err != nil {
-		return nil, fmt.Errorf("reports: attached findings.csv: %w", err)
+	if cs == nil {
+		var buf bytes.Buffer
+		buf.Grow(findingsSize(r, 40))
+		if err := WriteCSV(&buf, r); err != nil {
+			return nil, fmt.Errorf("reports: attached findings.csv: %w", err)
+		}
+		cs = buf.Bytes()
 	}
 	b := &auditBuilder{r: r, opt: opt, tall: countFindings(r.Findings), groups: groupFindings(r)}
 	a := &Audit{
@@ -82,8 +98,8 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 	}
 	a.Sections = append(a.Sections, b.findings(), b.limits(), b.cautions(), b.signOff())
 	a.Attachments = []Attachment{
-		{Name: "findings.json", Description: "Every finding, with the accounting and the checks in force (JSON)", Content: js.Bytes(), Bytes: js.Len()},
-		{Name: "findings.csv", Description: "Every finding, one per row (CSV)", Content: cs.Bytes(), Bytes: cs.Len()},
+		{Name: "findings.json", Description: "Every finding, with the accounting and the checks in force (JSON)", Content: js, Bytes: len(js)},
+		{Name: "findings.csv", Description: "Every finding, one per row (CSV)", Content: cs, Bytes: len(cs)},
 	}
 	if len(r.LimitsText) > 0 {
 		a.Attachments = append(a.Attachments, Attachment{Name: "limits.yaml",
@@ -777,4 +793,22 @@ func plural(n int, noun string) string {
 		return "1 " + noun
 	}
 	return itoa(n) + " " + noun + "s"
+}
+
+// findingsSize estimates the bytes of r's findings written one to a row
+// or object: their texts twice over (message, title and source, with the
+// key and problem repeating the check and subject) and perFinding for
+// the names, dates and punctuation. A buffer grown to it once is not
+// copied and cleared again at each doubling, which at hundreds of
+// thousands of findings cost about as much as the writing.
+func findingsSize(r *checker.Result, perFinding int) int {
+	n := 0
+	for i := range r.Findings {
+		f := &r.Findings[i]
+		n += perFinding + len(f.Message) + len(f.Title) + len(f.Source) + 3*len(f.Check) + 3*len(f.Subject)
+		for _, e := range f.Evidence {
+			n += len(e) + 12
+		}
+	}
+	return n + 64<<10
 }

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"flag"
 	"fmt"
@@ -190,18 +191,33 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	if err != nil {
 		return err
 	}
+	// With a PDF, the findings.json and findings.csv written beside it are
+	// kept and attached as they are, not written a second time.
+	popt := reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: res.SiteOf}
+	keep := func(into *[]byte, write func(io.Writer, *checker.Result) error) func(io.Writer) error {
+		return func(w io.Writer) error {
+			if o.pdfOut == "" {
+				return write(w, res)
+			}
+			var buf bytes.Buffer
+			if err := write(&buf, res); err != nil {
+				return err
+			}
+			*into = buf.Bytes()
+			_, err := w.Write(*into)
+			return err
+		}
+	}
 	outputs := []struct {
 		path  string
 		write func(io.Writer) error
 	}{
-		{o.jsonOut, func(w io.Writer) error { return reports.WriteJSON(w, res) }},
-		{o.csvOut, func(w io.Writer) error { return reports.WriteCSV(w, res) }},
+		{o.jsonOut, keep(&popt.FindingsJSON, reports.WriteJSON)},
+		{o.csvOut, keep(&popt.FindingsCSV, reports.WriteCSV)},
 		// The scope goes beside the CSV, not into it: a spreadsheet reads
 		// findings.csv as one header row and one finding per row.
 		{scopePath(o.csvOut), func(w io.Writer) error { return reports.WriteScope(w, res) }},
-		{o.pdfOut, func(w io.Writer) error {
-			return pdf.Write(w, res, reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: res.SiteOf})
-		}},
+		{o.pdfOut, func(w io.Writer) error { return pdf.Write(w, res, popt) }},
 	}
 	for _, out := range outputs {
 		if out.path == "" {
