@@ -123,6 +123,9 @@ findings contains f if {
 		bedding_cold(d, wind_chill_c)
 		bedding_due(d, bedding_days)
 	]
+
+	# Most enclosures have no such day: runs is not called for none (here and below).
+	count(stale) > 0
 	some r in runs(stale)
 	f := {
 		"check": "cold.bedding.stale",
@@ -174,6 +177,7 @@ findings contains f if {
 		needs_shelter(d)
 		d.min_wind_chill_c <= wind_chill_c
 	]
+	count(bare) > 0
 	some r in runs(bare)
 	f := {
 		"check": "cold.shelter.missing",
@@ -270,6 +274,7 @@ findings contains f if {
 		some d in days
 		d.min_wind_chill_c <= lim.frostbite_wind_chill
 	]
+	count(frost) > 0
 	some r in runs(frost)
 	f := {
 		"check": "cold.frostbite.risk",
