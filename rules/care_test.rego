@@ -81,6 +81,19 @@ test_cleaning_gap_of_15_days_fires_on_the_15th if {
 	contains(f.message, "last cleaned 2026-07-02")
 }
 
+# Among an enclosure's gaps only the one over 14 days fires, wherever it falls in the list (the
+# rule first compares the longest gap).
+test_only_the_gap_over_14_days_fires if {
+	g := gap("2026-07-02", "2026-07-17", 15, "cleaned").enclosure.cleaning.gaps[0]
+	gaps := [
+		object.union(g, {"from": "2026-06-01", "until": "2026-06-11", "days": 10}),
+		g,
+		object.union(g, {"from": "2026-07-18", "until": "2026-08-01", "days": 14}),
+	]
+	found := care.findings with input as {"kind": "enclosure", "id": "K-01", "ref": "enclosures.csv:30", "cleaning": {"rounds_recorded": true, "gaps": gaps}}
+	{[f.check, f.on] | some f in found} == {["care.cleaning.overdue", "2026-07-17"]}
+}
+
 test_cleaning_gap_from_before_the_period_starts_on_the_first_day if {
 	some f in care.findings with input as gap("2026-06-01", "2026-07-10", 39, "first_round").enclosure
 	f.on == "2026-07-01"

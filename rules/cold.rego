@@ -89,10 +89,13 @@ conditions(r) := sprintf("coldest wind chill %d °C on %s (air %v °C, %s)", [r.
 #   source: common practice
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
-	some g in input.cold.days_at_or_below_water_limits_by_checks
-	g.checks < lim.water_checks_min
+	groups := input.cold.days_at_or_below_water_limits_by_checks
+	checks_min := lim.water_checks_min
+	below_c := lim.water_check_below_c
+	some g in groups
+	g.checks < checks_min
 	some i, on in g.on
-	g.min_air_c[i] < lim.water_check_below_c
+	g.min_air_c[i] < below_c
 	f := {
 		"check": "cold.water.checks_insufficient",
 		"subject": input.id,
@@ -112,11 +115,17 @@ findings contains f if {
 #   runs: true
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
+	days := input.cold.days_at_or_past_bedding_limits
+	wind_chill_c := lim.bedding_wind_chill
+	bedding_days := lim.bedding_days
 	stale := [d |
-		some d in input.cold.days_at_or_past_bedding_limits
-		bedding_cold(d)
-		bedding_due(d)
+		some d in days
+		bedding_cold(d, wind_chill_c)
+		bedding_due(d, bedding_days)
 	]
+
+	# Most enclosures have no such day: runs is not called for none (here and below).
+	count(stale) > 0
 	some r in runs(stale)
 	f := {
 		"check": "cold.bedding.stale",
@@ -130,9 +139,9 @@ findings contains f if {
 
 # A day is cold enough for fresh bedding when its wind chill is at or below the limit, or, for a
 # species with an outdoor bedding limit (dogs, 9 CFR §3.4(b)(4)), its minimum air is below it.
-bedding_cold(d) if d.min_wind_chill_c <= lim.bedding_wind_chill
+bedding_cold(d, wind_chill_c) if d.min_wind_chill_c <= wind_chill_c
 
-bedding_cold(d) if {
+bedding_cold(d, _) if {
 	d.bedding_below_c != null
 	d.min_air_c < d.bedding_below_c
 }
@@ -142,9 +151,9 @@ bedding_why(d) := sprintf("with wind chill at or below %v °C", [lim.bedding_win
 } else := sprintf("with air below %v °C, when 9 CFR §3.4(b)(4) requires clean, dry bedding for dogs outdoors (more at or below %v °C)", [d.bedding_below_c, d.more_bedding_at_or_below_c])
 
 # Bedding is due on a day when none was ever added, or the last was the limit's days or more before it.
-bedding_due(d) if d.days_since_bedding == null
+bedding_due(d, _) if d.days_since_bedding == null
 
-bedding_due(d) if d.days_since_bedding >= lim.bedding_days
+bedding_due(d, bedding_days) if d.days_since_bedding >= bedding_days
 
 last_bedding(d) := sprintf("bedding last added %s", [d.last_bedding]) if d.last_bedding != null
 
@@ -161,11 +170,14 @@ else := "no bedding added on record"
 #   needs: [weather.csv]
 findings contains f if {
 	not input.cold.nest_box
+	days := input.cold.days_at_or_below_shelter_limit_without_nest_box
+	wind_chill_c := lim.shelter_wind_chill
 	bare := [d |
-		some d in input.cold.days_at_or_below_shelter_limit_without_nest_box
+		some d in days
 		needs_shelter(d)
-		d.min_wind_chill_c <= lim.shelter_wind_chill
+		d.min_wind_chill_c <= wind_chill_c
 	]
+	count(bare) > 0
 	some r in runs(bare)
 	f := {
 		"check": "cold.shelter.missing",
@@ -257,10 +269,12 @@ else := ""
 #   runs: true
 #   needs: [weather.csv]
 findings contains f if {
+	days := input.cold.days_at_or_below_frostbite_limit
 	frost := [d |
-		some d in input.cold.days_at_or_below_frostbite_limit
+		some d in days
 		d.min_wind_chill_c <= lim.frostbite_wind_chill
 	]
+	count(frost) > 0
 	some r in runs(frost)
 	f := {
 		"check": "cold.frostbite.risk",

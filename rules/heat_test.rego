@@ -47,6 +47,19 @@ test_one_water_check_just_below_25_is_quiet if {
 	count(heat.findings) == 0 with input as enc({"shade": true, "hot_days": [hot_day(24.9, 25.2, 1)]})
 }
 
+# Among a year's hot days only those with fewer than 2 checks and air from 25 °C fire, wherever
+# they fall in the list (the rule first compares the fewest checks of all the days).
+test_only_the_days_with_too_few_checks_fire if {
+	days := [
+		object.union(hot_day(30, 31, 3), {"on": "2026-07-14"}),
+		object.union(hot_day(28, 29, 1), {"on": "2026-07-15"}),
+		object.union(hot_day(24.9, 25.5, 0), {"on": "2026-07-16"}),
+		object.union(hot_day(27, 27, 2), {"on": "2026-07-17"}),
+	]
+	found := heat.findings with input as enc({"shade": true, "hot_days": days})
+	{[f.check, f.on] | some f in found} == {["heat.water.checks_insufficient", "2026-07-15"]}
+}
+
 test_two_water_checks_is_quiet if {
 	count(heat.findings) == 0 with input as enc({"shade": true, "hot_days": [hot_day(31, 33, 2)]})
 }
