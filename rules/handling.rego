@@ -28,9 +28,11 @@ pep := "ACIP post-exposure recommendations, MMWR 2008;57(RR-3), updated 2010, MM
 # The animal could bite: its species is a bite risk. Computed once per animal.
 bite_risk if data.limits.species[input.species].bite_risk
 
+unconscious := {r | some r in lim.unconscious_restraint}
+
 # The handling left the animal conscious: its restraint is not one that
 # leaves it unable to bite.
-conscious(e) if not e.restraint in lim.unconscious_restraint
+conscious(e) if not unconscious[e.restraint]
 
 shown(x) := "none recorded" if x == null
 
