@@ -139,8 +139,10 @@ losses contains x if {
 # list itself in order.
 loss_block(day) := floor(day / (lim.weight_loss_days + 1))
 
-# The animal's heaviest weighing of all, found once per animal.
-heaviest := max([w.kg | some w in input.weights])
+# The animal's masses, each once, and the heaviest of all, found once per animal.
+masses := {k | k := input.weights[_].kg}
+
+heaviest := max(masses)
 
 # The animal's masses vary enough for a loss: its lightest weighing is at
 # least weight_loss_pct below its heaviest. A loss compares a weighing with
@@ -149,8 +151,10 @@ heaviest := max([w.kg | some w in input.weights])
 # grows with a heavier top (weight_loss_pct is below 100) and a lighter kg;
 # so an animal whose masses vary less (an adult weighed at a steady mass)
 # has none, and its weighings are not looked at one by one.
+# A single mass, weighed again and again, needs no arithmetic to tell.
 varies if {
-	least := min({k | k := input.weights[_].kg})
+	count(masses) > 1
+	least := min(masses)
 	(heaviest - least) * 100 >= lim.weight_loss_pct * heaviest
 }
 
