@@ -18,21 +18,28 @@ lim := data.limits.handling
 # Post-exposure advice cites the post-exposure recommendations, not the 2022 pre-exposure report.
 pep := "ACIP post-exposure recommendations, MMWR 2008;57(RR-3), updated 2010, MMWR 2010;59(RR-2) (from memory)"
 
-# The animal could bite: its species is a bite risk and the restraint left it
-# conscious. Computed once per animal: an animal may have hundreds of handlings.
+# An animal may have hundreds of handlings, most of them in order, so each
+# check first compares the few distinct values the rows record (gloves,
+# thicknesses, PPE lists, durations) with the limits, once per value, and
+# goes back to the rows only for a value that fails. Reading one field of
+# every row (input.handling[_].glove) is the cheapest pass OPA makes over
+# them; a built-in call or a negation per row costs several times more.
+
+# The animal could bite: its species is a bite risk. Computed once per animal.
 bite_risk if data.limits.species[input.species].bite_risk
 
 unconscious := {r | some r in lim.unconscious_restraint}
 
-accepted := {g | some g in lim.accepted_gloves}
-
-# The handlings in which the animal could bite, found once for both glove
-# checks; none when its species is not a bite risk.
-conscious_bite_risk := [e | some e in input.handling; not unconscious[e.restraint]] if bite_risk
+# The handling left the animal conscious: its restraint is not one that
+# leaves it unable to bite.
+conscious(e) if not unconscious[e.restraint]
 
 shown(x) := "none recorded" if x == null
 
 else := x
+
+# The gloves the rows record (null for none), each once.
+gloves := {g | g := input.handling[_].glove}
 
 # METADATA
 # title: Inadequate gloves for a conscious animal
@@ -43,8 +50,12 @@ else := x
 #   source: "common practice: bite-resistant gloves for conscious carnivores; minimum thickness: facility choice"
 #   needs: [handling.csv]
 findings contains f if {
-	some e in conscious_bite_risk
-	not accepted[e.glove]
+	bite_risk
+	some g in gloves
+	not g in lim.accepted_gloves
+	some e in input.handling
+	e.glove == g
+	conscious(e)
 	f := {
 		"check": "handling.glove.inadequate",
 		"subject": input.id,
@@ -54,11 +65,18 @@ findings contains f if {
 	}
 }
 
+# The glove thicknesses the rows record, each once.
+thicknesses := {t | t := input.handling[_].glove_thickness_mm}
+
 findings contains f if {
-	some e in conscious_bite_risk
-	e.glove_thickness_mm != null
-	accepted[e.glove]
-	e.glove_thickness_mm < lim.min_glove_thickness_mm
+	bite_risk
+	some t in thicknesses
+	t != null
+	t < lim.min_glove_thickness_mm
+	some e in input.handling
+	e.glove_thickness_mm == t
+	e.glove in lim.accepted_gloves
+	conscious(e)
 	f := {
 		"check": "handling.glove.inadequate",
 		"subject": input.id,
@@ -68,10 +86,20 @@ findings contains f if {
 	}
 }
 
-# The items each purpose handled requires, looked up once per purpose.
-required_ppe := {p: r |
-	some p in {e.purpose | some e in input.handling}
-	r := object.get(lim.required_ppe, p, object.get(lim.required_ppe, "default", []))
+# The items a purpose requires.
+required_ppe(purpose) := object.get(lim.required_ppe, purpose, object.get(lim.required_ppe, "default", []))
+
+# The PPE lists the rows record, each once.
+kits := {k | k := input.handling[_].ppe}
+
+# Every item some purpose requires.
+any_required := {p | some list in lim.required_ppe; some p in list}
+
+# The PPE lists that lack an item some purpose requires.
+short_kits contains k if {
+	some k in kits
+	some p in any_required
+	not p in k
 }
 
 # METADATA
@@ -83,8 +111,10 @@ required_ppe := {p: r |
 #   source: "facility choice: dedicated clothing against fox tapeworm eggs in fur and faeces (PHAC pathogen safety data sheet)"
 #   needs: [handling.csv]
 findings contains f if {
+	some k in short_kits
 	some e in input.handling
-	missing := [p | some p in required_ppe[e.purpose]; not p in e.ppe]
+	e.ppe == k
+	missing := [p | some p in required_ppe(e.purpose); not p in k]
 	count(missing) > 0
 	f := {
 		"check": "handling.ppe.missing",
@@ -93,6 +123,14 @@ findings contains f if {
 		"message": sprintf("%s by %s without %s", [e.purpose, e.staff, concat(", ", missing)]),
 		"evidence": [e.ref],
 	}
+}
+
+# The durations the rows record that exceed the shortest maximum of any
+# purpose: only these can exceed their own purpose's.
+long := {d |
+	shortest := min([m | some m in lim.max_duration_min])
+	d := input.handling[_].duration_min
+	d > shortest
 }
 
 # METADATA
@@ -104,10 +142,11 @@ findings contains f if {
 #   source: facility choice
 #   needs: [handling.csv]
 findings contains f if {
+	some d in long
 	some e in input.handling
-	e.duration_min != null
+	e.duration_min == d
 	most := lim.max_duration_min[e.purpose]
-	e.duration_min > most
+	d > most
 	f := {
 		"check": "handling.duration.exceeded",
 		"subject": input.id,
@@ -117,16 +156,10 @@ findings contains f if {
 	}
 }
 
-# The handlings that left a bite or scratch, found once for both wound checks.
-wounds contains e if {
-	some e in input.handling
-	e.bite
-}
+# The rows (by index) that left a bite or scratch, found once for both wound checks.
+wounds contains i if input.handling[i].bite
 
-wounds contains e if {
-	some e in input.handling
-	e.scratch
-}
+wounds contains i if input.handling[i].scratch
 
 injury(e) := "bite" if e.bite
 
@@ -141,7 +174,8 @@ else := "scratch"
 #   source: "WHO rabies position paper (2018): immediate thorough washing of the wound with soap and water"
 #   needs: [handling.csv]
 findings contains f if {
-	some e in wounds
+	some i in wounds
+	e := input.handling[i]
 	not e.wound_washed
 	f := {
 		"check": "handling.bite.not_washed",
@@ -171,7 +205,8 @@ else := sprintf("reported %.1f h after the handling", [e.reported_after_hours])
 #   source: "common practice: prompt medical assessment for rabies post-exposure prophylaxis (ACIP post-exposure recommendations 2008, updated 2010, from memory)"
 #   needs: [handling.csv]
 findings contains f if {
-	some e in wounds
+	some i in wounds
+	e := input.handling[i]
 	not reported_in_time(e)
 	f := {
 		"check": "handling.bite.not_reported",

@@ -93,3 +93,76 @@ test_bite_report_follows_the_one_limit if {
 	contains(f.message, "ACIP post-exposure recommendations, MMWR 2008")
 	not contains(f.message, "2022")
 }
+
+# The checks compare the distinct values the rows record and go back to the
+# rows only for a value that fails: each failing row gives its own finding,
+# and a row sharing a failing value but passing otherwise gives none.
+animal(rows) := {"kind": "animal", "id": "F1", "ref": "animals.csv:2", "species": "vulpes_vulpes", "handling": rows}
+
+found(rows) := {[f.check, f.evidence[0]] | some f in handling.findings with input as animal(rows)}
+
+row(n, patch) := object.union(ev, object.union({"ref": sprintf("handling.csv:%d", [n])}, patch))
+
+test_leather_glove_fires_only_on_the_conscious_rows if {
+	found([
+		row(2, {"glove": "leather"}),
+		row(3, {}),
+		row(4, {"glove": "leather", "restraint": "anaesthesia"}),
+		row(5, {"glove": "leather", "restraint": null}),
+	]) == {["handling.glove.inadequate", "handling.csv:2"], ["handling.glove.inadequate", "handling.csv:5"]}
+}
+
+test_thin_glove_fires_only_on_conscious_rows_with_an_accepted_glove if {
+	# min_glove_thickness_mm 2: facility choice (limits.yaml).
+	found([
+		row(2, {"glove_thickness_mm": 1.5}),
+		row(3, {"glove_thickness_mm": 1.5, "restraint": "sedation"}),
+		row(4, {"glove_thickness_mm": 1.5, "glove": "gauntlet"}),
+		row(5, {"glove_thickness_mm": null}),
+		row(6, {"glove_thickness_mm": 2}),
+	]) == {["handling.glove.inadequate", "handling.csv:2"], ["handling.glove.inadequate", "handling.csv:4"]}
+}
+
+test_ppe_list_short_for_one_purpose_only if {
+	# A committee's own list for transfers (limits: required_ppe per purpose, default for the rest).
+	found([
+		row(2, {"purpose": "transfer", "ppe": ["coverall"]}),
+		row(3, {"ppe": ["coverall"]}),
+		row(4, {"purpose": "transfer", "ppe": ["coverall", "gown"]}),
+	]) == {["handling.ppe.missing", "handling.csv:2"]} with data.limits.handling.required_ppe as {"default": ["coverall"], "transfer": ["coverall", "gown"]}
+}
+
+test_no_required_ppe_is_quiet if {
+	found([row(2, {"ppe": []})]) == set() with data.limits.handling.required_ppe as {"default": []}
+}
+
+test_duration_against_its_own_purpose_not_the_shortest_maximum if {
+	# health_check 15 min, weighing 5 min (facility choice, limits.yaml): 10 min passes a
+	# health check and fails a weighing; a purpose without a maximum passes any length.
+	found([
+		row(2, {"purpose": "health_check", "duration_min": 10}),
+		row(3, {"duration_min": 10}),
+		row(4, {"purpose": "health_check", "duration_min": 15.5}),
+		row(5, {"purpose": "vet_exam", "duration_min": 10}),
+		row(6, {"duration_min": null}),
+	]) == {["handling.duration.exceeded", "handling.csv:3"], ["handling.duration.exceeded", "handling.csv:4"]}
+}
+
+test_no_duration_maximum_is_quiet if {
+	# A limits file whose max_duration_min: is left empty (null) sets no maximum.
+	found([row(2, {"duration_min": 90})]) == set() with data.limits.handling.max_duration_min as null
+}
+
+test_each_wound_row_is_judged_once if {
+	found([
+		row(2, {"bite": true, "scratch": true}),
+		row(3, {"scratch": true, "wound_washed": true, "reported_after_hours": 1}),
+		row(4, {"bite": true, "wound_washed": true}),
+		row(5, {}),
+	]) == {
+		["handling.bite.not_washed", "handling.csv:2"],
+		["handling.bite.not_reported", "handling.csv:2"],
+		["handling.bite.not_reported", "handling.csv:4"],
+	}
+	count(handling.findings) == 2 with input as animal([row(2, {"bite": true, "scratch": true})])
+}

@@ -110,6 +110,7 @@ findings contains f if {
 # above 0 kg and weight_loss_pct above 0 %), so a weighing at the animal's
 # heaviest mass is passed over before the look-back.
 losses contains x if {
+	varies
 	some w in input.weights
 	w.in_period
 	w.kg < heaviest
@@ -138,8 +139,24 @@ losses contains x if {
 # list itself in order.
 loss_block(day) := floor(day / (lim.weight_loss_days + 1))
 
-# The animal's heaviest weighing of all, found once per animal.
-heaviest := max([w.kg | some w in input.weights])
+# The animal's masses, each once, and the heaviest of all, found once per animal.
+masses := {k | k := input.weights[_].kg}
+
+heaviest := max(masses)
+
+# The animal's masses vary enough for a loss: its lightest weighing is at
+# least weight_loss_pct below its heaviest. A loss compares a weighing with
+# a heavier one before it, both among the animal's weighings, and the loss
+# the rule computes, (top - kg) * 100 against weight_loss_pct * top, only
+# grows with a heavier top (weight_loss_pct is below 100) and a lighter kg;
+# so an animal whose masses vary less (an adult weighed at a steady mass)
+# has none, and its weighings are not looked at one by one.
+# A single mass, weighed again and again, needs no arithmetic to tell.
+varies if {
+	count(masses) > 1
+	least := min(masses)
+	(heaviest - least) * 100 >= lim.weight_loss_pct * heaviest
+}
 
 # The animal's weighings per block, found once per animal.
 weighings_in_block := blocks if {
@@ -180,6 +197,13 @@ loss_severity(x) := "significant" if {
 	(x.peak.kg - x.w.kg) * 100 >= lim.weight_loss_significant_pct * x.peak.kg
 } else := "minor"
 
+# Some body condition score is poor: each distinct score is compared once,
+# and the scores are gone through by day only when one is.
+some_poor if {
+	some score in {s | s := input.conditions[_].score}
+	score <= lim.condition_poor_max
+}
+
 # METADATA
 # title: Poor body condition
 # description: A body condition score at or below condition_poor_max (of 5); significant at or below condition_severe_max.
@@ -190,6 +214,8 @@ loss_severity(x) := "significant" if {
 #   source: common practice
 #   needs: [observations.csv]
 findings contains f if {
+	some_poor
+
 	# the days with a poor score; the day's lowest score is then poor too
 	some on in {c.on | some c in input.conditions; c.score <= lim.condition_poor_max}
 	lowest := min([c.score | some c in input.conditions; c.on == on])

@@ -201,6 +201,35 @@ test_condition_scores if {
 	sig.severity == "significant"
 }
 
+# An animal is gone through weighing by weighing only when its lightest mass is
+# weight_loss_pct below its heaviest: a growing animal's masses vary that much
+# without a loss, a steady one's just under it has none, and at exactly 10 %
+# the loss fires whichever weighing of the animal is the lightest or heaviest.
+test_growing_animal_varies_without_a_loss if {
+	count(health.findings) == 0 with input as animal({"weights": [weigh(0, 2, 2), weigh(1, 9, 4), weigh(2, 16, 6)]})
+}
+
+test_steady_animal_just_under_the_loss_is_quiet if {
+	count(health.findings) == 0 with input as animal({"weights": [weigh(0, 2, 10), weigh(1, 9, 9.01), weigh(2, 16, 9.5), weigh(3, 23, 9.01)]})
+}
+
+test_loss_of_exactly_10_pct_fires_before_a_later_peak if {
+	fs := health.findings with input as animal({"weights": [weigh(0, 2, 10), weigh(1, 9, 9), weigh(2, 16, 12)]})
+	[[f.on, f.evidence] | some f in fs] == [["2026-01-09", ["observations.csv:2", "observations.csv:3"]]]
+}
+
+# Each day's scores are gone through only when a score is poor (2 or below [C]):
+# one poor score among good ones fires on its own day only.
+test_one_poor_score_among_good_ones if {
+	fs := health.findings with input as animal({"conditions": [
+		{"on": "2026-01-05", "score": 3, "ref": "observations.csv:2"},
+		{"on": "2026-01-06", "score": 2, "ref": "observations.csv:3"},
+		{"on": "2026-01-06", "score": 4, "ref": "observations.csv:4"},
+		{"on": "2026-01-07", "score": 3, "ref": "observations.csv:5"},
+	]})
+	[[f.on, f.evidence] | some f in fs] == [["2026-01-06", ["observations.csv:3", "observations.csv:4"]]]
+}
+
 # ---- signs: answered within 48 h, or a case within 2 days [C]
 
 sign(signs, answers, kase) := {
