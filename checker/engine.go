@@ -57,8 +57,9 @@ const (
 // evaluation runs out of its time budget.
 var ErrTimeBudget = errors.New("time budget ran out")
 
-// engine holds compiled welfare rules and one prepared query per rule
-// package. It is safe for concurrent use once built.
+// engine holds compiled welfare rules, one prepared query per rule package
+// and one per subject kind of several packages (kindQuery). It is safe for
+// concurrent use once built.
 type engine struct {
 	opt    Options
 	checks map[string]CheckInfo
@@ -96,7 +97,7 @@ type packageQuery struct {
 
 // newEngine parses and compiles the rules of sources (files ending in
 // _test.rego are left out), reads their METADATA, and prepares one query per
-// rule package. limits are available to the rules as data.limits. A problem
+// rule package and one per subject kind (prepareGroup). limits are available to the rules as data.limits. A problem
 // in the rules is returned as a *RulesError.
 func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt Options) (*engine, error) {
 	if opt.Timeout <= 0 {
