@@ -355,6 +355,13 @@ func TestOneQueryPerKindNamesThePackage(t *testing.T) {
 			"welfare.slow: subject E-01: the 200ms time budget ran out"},
 		{"slow last", map[string]string{"a.rego": quickRule("quick"), "b.rego": quickRule("quick2"), "c.rego": slowRule("slow")},
 			"welfare.slow: subject E-01: the 200ms time budget ran out"},
+		// A rule's own print call (internal.print, which the compiler
+		// leaves in) is not a mark between packages, even at the column
+		// of the query's first mark (after "f0 = data.welfare.slow.findings; ").
+		{"slow, printing", map[string]string{"a.rego": strings.Replace(slowRule("slow"), "findings contains f if {\n",
+			"findings contains f if {\n"+strings.Repeat(" ", len("f0 = data.welfare.slow.findings; "))+"internal.print([{\"1\"}])\n", 1),
+			"b.rego": quickRule("quick"), "c.rego": quickRule("quick2")},
+			"welfare.slow: subject E-01: the 200ms time budget ran out"},
 		{"failing first", map[string]string{"a.rego": failingRule("bad"), "b.rego": quickRule("quick")},
 			"welfare.bad: subject E-01: "},
 		{"failing between", map[string]string{"a.rego": quickRule("quick"), "b.rego": failingRule("bad"), "c.rego": quickRule("quick2")},
