@@ -97,8 +97,9 @@ type packageQuery struct {
 
 // newEngine parses and compiles the rules of sources (files ending in
 // _test.rego are left out), reads their METADATA, and prepares one query per
-// rule package and one per subject kind (prepareGroup). limits are available to the rules as data.limits. A problem
-// in the rules is returned as a *RulesError.
+// rule package and one per subject kind (prepareGroup). limits are available
+// to the rules as data.limits. A problem in the rules is returned as a
+// *RulesError.
 func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt Options) (*engine, error) {
 	if opt.Timeout <= 0 {
 		opt.Timeout = DefaultTimeout
@@ -228,7 +229,11 @@ func prepareGroup(ctx context.Context, compiler *ast.Compiler, store storage.Sto
 	g := &kindQuery{pkgs: qs, vars: make([]string, len(qs)), marks: make([]int, len(qs))}
 	var query strings.Builder
 	for i, q := range qs {
-		rules := compiler.GetRulesExact(ast.MustParseRef("data." + q.name + ".findings"))
+		ref, err := ast.ParseRef("data." + q.name + ".findings")
+		if err != nil {
+			return nil, nil
+		}
+		rules := compiler.GetRulesExact(ref)
 		if len(rules) == 0 {
 			return nil, nil
 		}
