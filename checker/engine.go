@@ -7,8 +7,11 @@ import (
 	"runtime"
 	"slices"
 	"sort"
+	"strconv"
+	"strings"
 	"time"
 
+	"github.com/open-policy-agent/opa/v1/ast"
 	"github.com/open-policy-agent/opa/v1/rego"
 	"github.com/open-policy-agent/opa/v1/storage"
 	"github.com/open-policy-agent/opa/v1/storage/inmem"
@@ -54,13 +57,17 @@ const (
 // evaluation runs out of its time budget.
 var ErrTimeBudget = errors.New("time budget ran out")
 
-// engine holds compiled welfare rules and one prepared query per rule
-// package. It is safe for concurrent use once built.
+// engine holds compiled welfare rules, one prepared query per rule package
+// and one per subject kind of several packages (kindQuery). It is safe for
+// concurrent use once built.
 type engine struct {
-	opt      Options
-	checks   map[string]CheckInfo
-	sorted   []CheckInfo
-	kinds    map[string][]*packageQuery
+	opt    Options
+	checks map[string]CheckInfo
+	sorted []CheckInfo
+	kinds  map[string][]*packageQuery
+	// groups has, per subject kind of two or more packages, the one query
+	// that evaluates all of them on a subject (kindQuery).
+	groups   map[string]*kindQuery
 	override map[string]string // check id -> severity or "off", from data.limits.severity
 	files    []ruleFile        // the rule files compiled, in the order read
 	// ruleAt is, per check id, the findings rules that make its findings;
@@ -90,8 +97,9 @@ type packageQuery struct {
 
 // newEngine parses and compiles the rules of sources (files ending in
 // _test.rego are left out), reads their METADATA, and prepares one query per
-// rule package. limits are available to the rules as data.limits. A problem
-// in the rules is returned as a *RulesError.
+// rule package and one per subject kind (prepareGroup). limits are available
+// to the rules as data.limits. A problem in the rules is returned as a
+// *RulesError.
 func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt Options) (*engine, error) {
 	if opt.Timeout <= 0 {
 		opt.Timeout = DefaultTimeout
@@ -172,7 +180,90 @@ func newEngine(ctx context.Context, sources []Source, limits map[string]any, opt
 			e.kinds[k] = append(e.kinds[k], q)
 		}
 	}
+	e.groups = map[string]*kindQuery{}
+	for kind, qs := range e.kinds {
+		g, err := prepareGroup(ctx, compiler, store, caps, qs)
+		if err != nil {
+			return nil, fmt.Errorf("%s subjects: preparing the findings query of every package: %w", kind, err)
+		}
+		if g != nil {
+			e.groups[kind] = g
+		}
+	}
 	return e, nil
+}
+
+// kindQuery is the prepared query of every rule package of one subject
+// kind, in one evaluation per subject instead of one per package: a
+// package's own evaluation costs the evaluator's set-up (its state, caches
+// and the store's reads) on every subject, about a tenth of the shipped
+// rules' time.
+//
+// The query reads each package's findings in the packages' order, with a
+// mark after each package but the last:
+//
+//	f0 = data.welfare.care.findings; print(); f1 = data.welfare.cold.findings; ...
+//
+// The evaluation calls the worker's print hook (evalWorker.Print) at each
+// mark, so each package still has its own time: its time budget (the
+// timer is set again at each mark), the time charged to its package budget
+// and the name on a time-out or an error are those of the package being
+// evaluated, as when each package was evaluated on its own.
+type kindQuery struct {
+	query rego.PreparedEvalQuery
+	pkgs  []*packageQuery
+	vars  []string // the binding of each package's findings
+	marks []int    // marks[i]: the column in the query of the mark before pkgs[i] (i ≥ 1)
+}
+
+// prepareGroup prepares the kindQuery of the packages qs of one kind, or
+// returns nil when they are evaluated one by one: a single package, or a
+// package whose findings is not a set made by `findings contains` rules
+// (always defined, a set, so that one package can neither leave the
+// query undefined and lose the others' findings, nor be reported in
+// another order than on its own).
+func prepareGroup(ctx context.Context, compiler *ast.Compiler, store storage.Store, caps *ast.Capabilities, qs []*packageQuery) (*kindQuery, error) {
+	if len(qs) < 2 {
+		return nil, nil
+	}
+	g := &kindQuery{pkgs: qs, vars: make([]string, len(qs)), marks: make([]int, len(qs))}
+	var query strings.Builder
+	for i, q := range qs {
+		ref, err := ast.ParseRef("data." + q.name + ".findings")
+		if err != nil {
+			return nil, nil
+		}
+		rules := compiler.GetRulesExact(ref)
+		if len(rules) == 0 {
+			return nil, nil
+		}
+		for _, r := range rules {
+			if r.Head.RuleKind() != ast.MultiValue || r.Default {
+				return nil, nil
+			}
+		}
+		if i > 0 {
+			query.WriteString("; ")
+			g.marks[i] = query.Len() + 1 // the column of the mark (the query is one line)
+			query.WriteString("print(); ")
+		}
+		g.vars[i] = "f" + strconv.Itoa(i)
+		fmt.Fprintf(&query, "%s = data.%s.findings", g.vars[i], q.name)
+	}
+	r := rego.New(
+		rego.Compiler(compiler),
+		rego.Store(store),
+		rego.Capabilities(caps),
+		rego.Query(query.String()),
+		rego.StrictBuiltinErrors(true),
+		rego.EnablePrintStatements(true),
+	)
+	pq, err := r.PrepareForEval(ctx)
+	if err != nil {
+		return nil, err
+	}
+	g.query = pq
+	return g, nil
 }
 
 // Checks lists the metadata of every check the rules define, sorted by id.

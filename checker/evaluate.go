@@ -12,10 +12,12 @@ import (
 	"time"
 	"unicode/utf8"
 
+	"github.com/open-policy-agent/opa/v1/ast"
 	"github.com/open-policy-agent/opa/v1/metrics"
 	"github.com/open-policy-agent/opa/v1/rego"
 	"github.com/open-policy-agent/opa/v1/storage"
 	"github.com/open-policy-agent/opa/v1/topdown"
+	"github.com/open-policy-agent/opa/v1/topdown/print"
 
 	"welfare/records"
 )
@@ -64,7 +66,7 @@ func (e *engine) Evaluate(ctx context.Context, kind string, inputs []map[string]
 			}
 			defer w.close()
 			for i := range next {
-				results[i], errs[i] = e.evaluateOne(ctx, queries, w, inputs[i])
+				results[i], errs[i] = e.evaluateOne(ctx, queries, e.groups[kind], w, inputs[i])
 				if errs[i] != nil {
 					failed.Store(true)
 				}
@@ -156,6 +158,26 @@ type evalWorker struct {
 	ctx     context.Context
 	stop    func() bool
 	current atomic.Pointer[evalCall]
+	// group is the state of the kindQuery evaluation running (gcall),
+	// read by the marks (Print); nil when none is.
+	group *groupCall
+	gcall groupCall
+}
+
+// groupCall is one evaluation of a kindQuery on one subject: which of its
+// packages is being evaluated, since when, and under which budget.
+type groupCall struct {
+	e     *engine
+	g     *kindQuery
+	run   *evalRun
+	call  *evalCall
+	phase int // the index in g.pkgs of the package being evaluated
+	since time.Time
+	// limited: the package's time budget is what is left of its package
+	// budget; outOfBudget: that was nothing when its turn came.
+	limited, outOfBudget bool
+	// spent is the time charged to each package so far.
+	spent []time.Duration
 }
 
 // evalCall is one running evaluation: its cancel, and whether its timer
@@ -236,21 +258,37 @@ func inputSubject(input map[string]any) string {
 	return "(no id)"
 }
 
-func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, w *evalWorker, input map[string]any) ([]Finding, error) {
+// limitOf is the time budget of q's evaluation on one subject: the smaller
+// of a subject's own budget and what is left of its package's (limited).
+func (e *engine) limitOf(run *evalRun, q *packageQuery) (limit time.Duration, limited bool) {
+	limit = e.opt.Timeout
+	if left := e.opt.PackageBudget - run.spentOn(q); left < limit {
+		return left, true
+	}
+	return limit, false
+}
+
+func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, group *kindQuery, w *evalWorker, input map[string]any) ([]Finding, error) {
 	subject := inputSubject(input)
 	val, err := w.conv.document(input)
 	if err != nil {
 		return nil, fmt.Errorf("subject %s: facts cannot be given to the rules: %w", subject, err)
 	}
 	run := runOf(ctx)
+	if group != nil {
+		if out, done, err := e.evaluateGroup(ctx, group, w, run, subject, val); done {
+			return out, err
+		}
+	}
+	return e.evaluatePackages(ctx, queries, w, run, subject, val)
+}
+
+// evaluatePackages evaluates each package of queries on one subject, one
+// evaluation per package.
+func (e *engine) evaluatePackages(ctx context.Context, queries []*packageQuery, w *evalWorker, run *evalRun, subject string, val ast.Value) ([]Finding, error) {
 	var out []Finding
 	for _, q := range queries {
-		// A subject has the smaller of its own budget and what is left
-		// of its package's.
-		limit, packageLimited := e.opt.Timeout, false
-		if left := e.opt.PackageBudget - run.spentOn(q); left < limit {
-			limit, packageLimited = left, true
-		}
+		limit, packageLimited := e.limitOf(run, q)
 		if limit <= 0 {
 			return nil, e.packageBudgetErr(q.name, subject)
 		}
@@ -290,6 +328,112 @@ func (e *engine) evaluateOne(ctx context.Context, queries []*packageQuery, w *ev
 		}
 	}
 	return out, nil
+}
+
+// evaluateGroup evaluates every package of g on one subject in one
+// evaluation, each package under its own time budget (evalWorker.Print).
+// It gives what evaluating them one after the other gives: the same
+// findings in the same order, the same error. When an error is not one it
+// can name the package of by itself, it gives up (done false), its time
+// taken back from the packages' budgets: the caller evaluates the
+// packages one by one to report the error as it always has. (A built-in's
+// error under strict built-in errors does not end the evaluation where it
+// happens: OPA gives the first one at the end.)
+func (e *engine) evaluateGroup(ctx context.Context, g *kindQuery, w *evalWorker, run *evalRun, subject string, val ast.Value) (out []Finding, done bool, err error) {
+	first := g.pkgs[0]
+	limit, limited := e.limitOf(run, first)
+	if limit <= 0 {
+		return nil, true, e.packageBudgetErr(first.name, subject)
+	}
+	gc := &w.gcall
+	*gc = groupCall{e: e, g: g, run: run, call: w.start(limit), since: time.Now(), limited: limited, spent: gc.spent[:0]}
+	w.group = gc
+	rs, err := g.query.Eval(ctx, rego.EvalParsedInput(val), evalAtPinnedTime, noMetrics,
+		rego.EvalTransaction(w.txn), rego.EvalExternalCancel(gc.call.cancel), rego.EvalPrintHook(w))
+	w.group = nil
+	gc.charge(time.Now())
+	q := g.pkgs[gc.phase]
+	timedOut := w.finish(gc.call)
+	if err != nil {
+		stoppedHere := errors.Is(err, errGroupStop) || topdown.IsCancel(err)
+		switch {
+		case ctx.Err() != nil:
+			return nil, true, e.stopped(ctx, q.name, subject)
+		case stoppedHere && gc.outOfBudget:
+			return nil, true, e.packageBudgetErr(q.name, subject)
+		case stoppedHere && timedOut && gc.limited:
+			return nil, true, e.packageBudgetErr(q.name, subject)
+		case stoppedHere && timedOut:
+			return nil, true, fmt.Errorf("%s: subject %s: the %s %w (a rule is looping or doing too much work)", q.name, subject, e.opt.Timeout, ErrTimeBudget)
+		}
+		for i, d := range gc.spent {
+			run.add(g.pkgs[i], -d)
+		}
+		return nil, false, nil
+	}
+	if len(rs) != 1 || gc.phase != len(g.pkgs)-1 {
+		// Every package's findings is a set, always defined
+		// (prepareGroup), and every mark was passed.
+		return nil, true, fmt.Errorf("subject %s: the query of its packages gave %d results, at package %s", subject, len(rs), q.name)
+	}
+	for i, q := range g.pkgs {
+		list, ok := rs[0].Bindings[g.vars[i]].([]any)
+		if !ok {
+			return nil, true, fmt.Errorf("%s: subject %s: findings must be a set of objects, got %T", q.name, subject, rs[0].Bindings[g.vars[i]])
+		}
+		for _, raw := range list {
+			f, keep, err := e.toFinding(q.name, raw, run.lines)
+			if err != nil {
+				out = append(out, e.malformed(q.name, subject, raw, err))
+				continue
+			}
+			if keep {
+				out = append(out, f)
+			}
+		}
+	}
+	return out, true, nil
+}
+
+// charge charges the time of the package being evaluated, up to now, to
+// its package budget.
+func (gc *groupCall) charge(now time.Time) {
+	d := now.Sub(gc.since)
+	gc.run.add(gc.g.pkgs[gc.phase], d)
+	gc.spent = append(gc.spent, d)
+	gc.since = now
+}
+
+// errGroupStop ends a kindQuery evaluation at a mark: the package whose
+// turn it is has no time left, or the one before ran out of its own.
+var errGroupStop = errors.New("evaluation stopped between packages")
+
+// Print is the hook of the marks of a kindQuery evaluation: the package
+// before the mark is done, its time is charged to its package budget, and
+// the next package's time budget starts. Only the query's own marks count
+// (a print call of a rule has the rule's file as location, and is erased
+// from the rules when they are compiled anyway).
+func (w *evalWorker) Print(pctx print.Context, _ string) error {
+	gc := w.group
+	if gc == nil || pctx.Location == nil || pctx.Location.File != "" ||
+		gc.phase+1 >= len(gc.g.pkgs) || pctx.Location.Col != gc.g.marks[gc.phase+1] {
+		return nil
+	}
+	if !gc.call.timer.Stop() {
+		// The budget of the package before ran out as it finished: it is
+		// the one that timed out (the timer has cancelled the evaluation).
+		return topdown.Halt{Err: errGroupStop}
+	}
+	gc.charge(time.Now())
+	gc.phase++
+	limit, limited := gc.e.limitOf(gc.run, gc.g.pkgs[gc.phase])
+	if limit <= 0 {
+		gc.outOfBudget = true
+		return topdown.Halt{Err: errGroupStop}
+	}
+	gc.limited = limited
+	gc.call.timer.Reset(limit)
+	return nil
 }
 
 func (e *engine) packageBudgetErr(pkg, subject string) error {

@@ -324,3 +324,122 @@ func TestEvaluateConcurrentCalls(t *testing.T) {
 		}
 	}
 }
+
+// quickRule is a package with one findings rule that gives every subject
+// a finding at once.
+func quickRule(pkg string) string {
+	return strings.Replace(strings.Replace(engHeader, "welfare.sandbox", "welfare."+pkg, 1), "sandbox.probe.fired", pkg+".probe.fired", 1) +
+		"findings contains f if {\n" +
+		"\tf := {\"check\": \"" + pkg + ".probe.fired\", \"subject\": input.id, \"on\": \"2026-01-01\", \"message\": \"m\", \"evidence\": []}\n}\n"
+}
+
+// failingRule is a package whose findings rule fails on every subject (a
+// built-in error, an error under strict built-in errors).
+func failingRule(pkg string) string {
+	return strings.Replace(strings.Replace(engHeader, "welfare.sandbox", "welfare."+pkg, 1), "sandbox.probe.fired", pkg+".probe.fired", 1) +
+		"findings contains f if {\n\tto_number(\"not a number\") > 0\n" +
+		"\tf := {\"check\": \"" + pkg + ".probe.fired\", \"subject\": input.id, \"on\": \"2026-01-01\", \"message\": \"m\", \"evidence\": []}\n}\n"
+}
+
+// TestOneQueryPerKindNamesThePackage: the packages of a kind are evaluated
+// in one query per subject, yet a time-out or an error is the package's
+// own, named as when each package had an evaluation of its own, whether it
+// comes first (before any mark between packages) or after others.
+func TestOneQueryPerKindNamesThePackage(t *testing.T) {
+	tests := []struct {
+		name  string
+		files map[string]string
+		want  string
+	}{
+		{"slow first", map[string]string{"a.rego": slowRule("slow"), "b.rego": quickRule("quick")},
+			"welfare.slow: subject E-01: the 200ms time budget ran out"},
+		{"slow last", map[string]string{"a.rego": quickRule("quick"), "b.rego": quickRule("quick2"), "c.rego": slowRule("slow")},
+			"welfare.slow: subject E-01: the 200ms time budget ran out"},
+		// A rule's own print call (internal.print, which the compiler
+		// leaves in) is not a mark between packages, even at the column
+		// of the query's first mark (after "f0 = data.welfare.slow.findings; ").
+		{"slow, printing", map[string]string{"a.rego": strings.Replace(slowRule("slow"), "findings contains f if {\n",
+			"findings contains f if {\n"+strings.Repeat(" ", len("f0 = data.welfare.slow.findings; "))+"internal.print([{\"1\"}])\n", 1),
+			"b.rego": quickRule("quick"), "c.rego": quickRule("quick2")},
+			"welfare.slow: subject E-01: the 200ms time budget ran out"},
+		{"failing first", map[string]string{"a.rego": failingRule("bad"), "b.rego": quickRule("quick")},
+			"welfare.bad: subject E-01: "},
+		{"failing between", map[string]string{"a.rego": quickRule("quick"), "b.rego": failingRule("bad"), "c.rego": quickRule("quick2")},
+			"welfare.bad: subject E-01: "},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			e := engNew(t, engUser(tt.files), nil, checker.EngineOptions{Timeout: 200 * time.Millisecond, Workers: 2})
+			_, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-01"}, {"id": "E-02"}})
+			if err == nil || !strings.HasPrefix(err.Error(), tt.want) {
+				t.Fatalf("error = %v, want it to start with %q", err, tt.want)
+			}
+			if strings.Contains(tt.name, "slow") != errors.Is(err, checker.ErrTimeBudget) {
+				t.Errorf("error = %v: wraps ErrTimeBudget %v", err, errors.Is(err, checker.ErrTimeBudget))
+			}
+		})
+	}
+}
+
+// TestOneQueryPerKindFindings: the findings of the packages evaluated in
+// one query are every package's, each checked against its own package (a
+// check id of another package is a malformed finding of the package that
+// gave it).
+func TestOneQueryPerKindFindings(t *testing.T) {
+	stray := strings.Replace(quickRule("stray"), `"check": "stray.probe.fired"`, `"check": concat(".", ["quick", "probe.fired"])`, 1)
+	e := engNew(t, engUser(map[string]string{"a.rego": quickRule("quick"), "b.rego": stray, "c.rego": quickRule("quick2")}), nil,
+		checker.EngineOptions{})
+	got, err := e.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-02"}, {"id": "E-01"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rows []string
+	for _, f := range got {
+		rows = append(rows, f.Check+" "+f.Subject)
+		if f.Check == checker.MalformedCheck && !strings.Contains(f.Message, "welfare.stray gave a finding") {
+			t.Errorf("malformed finding not of welfare.stray: %s", f.Message)
+		}
+	}
+	want := []string{"quick.probe.fired E-01", "quick.probe.fired E-02", "quick2.probe.fired E-01", "quick2.probe.fired E-02",
+		checker.MalformedCheck + " E-01", checker.MalformedCheck + " E-02"}
+	if diff := cmp.Diff(want, rows); diff != "" {
+		t.Errorf("findings (-want +got):\n%s", diff)
+	}
+}
+
+// TestOneQueryPerKindPackageBudget: the budget of a package evaluated in
+// one query with the other packages of its kind is still its own: the
+// time of its part of each subject's evaluation, added up, runs out and
+// the error names it, not the package evaluated with it.
+func TestOneQueryPerKindPackageBudget(t *testing.T) {
+	src := engUser(map[string]string{"a.rego": quickRule("quick"), "b.rego": squareRule("square")})
+	calib := engNew(t, src, nil, checker.EngineOptions{Workers: 1})
+	n, per := 100, time.Duration(0)
+	for ; n < 1_000_000; n *= 2 {
+		per = time.Hour
+		for range 3 {
+			started := time.Now()
+			if _, err := calib.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-00", "n": n}}); err != nil {
+				t.Fatal(err)
+			}
+			per = min(per, time.Since(started))
+		}
+		if per >= 20*time.Millisecond {
+			break
+		}
+	}
+	inputs := make([]map[string]any, 60)
+	for i := range inputs {
+		inputs[i] = map[string]any{"id": fmt.Sprintf("E-%02d", i+1), "n": n}
+	}
+	budget := (8 * per).Round(time.Millisecond)
+	e := engNew(t, src, nil, checker.EngineOptions{Timeout: time.Minute, PackageBudget: budget, Workers: 1})
+	_, err := checker.EvaluateRun(context.Background(), e, "enclosure", inputs)
+	if !errors.Is(err, checker.ErrTimeBudget) {
+		t.Fatalf("error = %v, want one wrapping ErrTimeBudget", err)
+	}
+	want := "welfare.square: the " + budget.String() + " time budget ran out for the whole package, across its subjects (it ran out at subject E-"
+	if !strings.HasPrefix(err.Error(), want) {
+		t.Fatalf("error = %q,\nwant it to start with %q", err, want)
+	}
+}

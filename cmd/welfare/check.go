@@ -128,8 +128,11 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		Progress: func(phase string, done int) {
 			if done == 0 {
 				ph.enter(phase, map[string]string{"load": "rows", "rules": "subjects"}[phase])
-				if phase == "facts" {
+				switch phase {
+				case "facts":
 					paceMemory()
+				case "rules":
+					paceRules()
 				}
 			}
 			ph.set(done)
@@ -178,6 +181,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 			o.previous, prev.Period.From, prev.Period.To, res.Period.From)
 	}
 	ph.enter("reports", "")
+	paceReports()
 
 	var verdict reports.TodayVerdict
 	if o.on != "" {

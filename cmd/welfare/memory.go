@@ -34,4 +34,30 @@ func paceMemory() {
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
 	debug.SetMemoryLimit(max(int64(minMemoryLimit), int64(ms.HeapAlloc)*16/10))
+	paced = true
+}
+
+// paced: paceMemory has set the soft memory limit.
+var paced bool
+
+// paceRules lets the collector run only at the soft memory limit while the
+// rules are evaluated, when paceMemory set one. The rules' phase holds less
+// than the facts' (the care rounds are gone, and each kind's documents go
+// once evaluated) but allocates several times that in short-lived values
+// (each subject's converted document and its evaluation); at the default
+// GOGC the collector then ran every ~200 MB allocated, marking the whole
+// live heap each time. The limit still bounds the heap: peak memory stays
+// that of the facts' phase. The default returns with the reports
+// (paceReports).
+func paceRules() {
+	if gcAuto && paced {
+		debug.SetGCPercent(-1)
+	}
+}
+
+// paceReports undoes paceRules.
+func paceReports() {
+	if gcAuto && paced {
+		debug.SetGCPercent(100)
+	}
 }

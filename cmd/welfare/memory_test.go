@@ -42,3 +42,38 @@ func TestPaceMemory(t *testing.T) {
 	}
 	runtime.KeepAlive(keep)
 }
+
+// TestPaceRules: while the rules are evaluated the collector runs only at
+// the soft limit, and only when paceMemory set one (the user left GOGC and
+// GOMEMLIMIT unset); the reports have the default pacing again.
+func TestPaceRules(t *testing.T) {
+	defer debug.SetGCPercent(debug.SetGCPercent(100))
+	defer debug.SetMemoryLimit(debug.SetMemoryLimit(-1))
+	defer func(a, p bool) { gcAuto, paced = a, p }(gcAuto, paced)
+
+	gcPercent := func() int {
+		v := debug.SetGCPercent(100)
+		debug.SetGCPercent(v)
+		return v
+	}
+	for _, tt := range []struct {
+		auto, paced bool
+		during      int
+	}{
+		{false, false, 100}, // GOGC or GOMEMLIMIT set by the user
+		{false, true, 100},
+		{true, false, 100}, // no limit set: the heap would not be bounded
+		{true, true, -1},
+	} {
+		debug.SetGCPercent(100)
+		gcAuto, paced = tt.auto, tt.paced
+		paceRules()
+		if got := gcPercent(); got != tt.during {
+			t.Errorf("auto %v, limit set %v: GC percent during the rules %d, want %d", tt.auto, tt.paced, got, tt.during)
+		}
+		paceReports()
+		if got := gcPercent(); got != 100 {
+			t.Errorf("auto %v, limit set %v: GC percent during the reports %d, want 100", tt.auto, tt.paced, got)
+		}
+	}
+}
