@@ -1,7 +1,6 @@
 package checker
 
 import (
-	"cmp"
 	"slices"
 	"sort"
 	"strings"
@@ -27,80 +26,19 @@ import (
 
 func (f *facts) cleaningFacts() {
 	// Each enclosure's (or building's) first round and its cleaning rounds,
-	// gathered by the keys of the rounds' table in two passes: the first
-	// counts, the second fills one block of round indexes cut by key, so a
-	// year of rounds costs one allocation, not a growing slice per key.
+	// from the one pass over the rounds (facts_rounds.go).
 	type index struct {
 		first   records.Day
 		cleaned []int32 // indexes of f.rounds, sorted by day, then ref
 	}
 	rounds := f.rounds
-	strs := rounds.Strings()
-	encIx := make([]index, len(strs))
-	bldIx := make([]index, len(strs))
-	seen := make([]uint8, len(strs)) // 1: an enclosure's key, 2: a building's
-	counts := make([]int32, 2*len(strs))
-	total := 0
-	for i := range rounds.Len() {
-		d := rounds.Day(i)
-		if d > f.period.To {
-			continue
-		}
-		k := rounds.Keys(i)
-		ixs, key, c, bit := encIx, k.Enclosure, 0, uint8(1)
-		if key == 0 {
-			ixs, key, c, bit = bldIx, k.Building, len(strs), 2
-		}
-		ix := &ixs[key]
-		seen[key] |= bit
-		if ix.first == 0 || d < ix.first {
-			ix.first = d
-		}
-		if rounds.Answers(i).Cleaned.IsYes() {
-			counts[c+int(key)]++
-			total++
-		}
-	}
-	block := make([]int32, 0, total)
-	for key := range strs {
-		for c, ixs := range [2][]index{encIx, bldIx} {
-			if n := int(counts[c*len(strs)+key]); n > 0 {
-				ixs[key].cleaned = block[len(block) : len(block) : len(block)+n]
-				block = block[:len(block)+n]
-			}
-		}
-	}
-	for i := range rounds.Len() {
-		if rounds.Day(i) > f.period.To || !rounds.Answers(i).Cleaned.IsYes() {
-			continue
-		}
-		k := rounds.Keys(i)
-		ix := &encIx[k.Enclosure]
-		if k.Enclosure == 0 {
-			ix = &bldIx[k.Building]
-		}
-		ix.cleaned = append(ix.cleaned, int32(i))
-	}
+	rix := f.roundIndex()
 	enc := make(map[string]*index, len(f.set.Enclosures))
 	bld := make(map[string]*index, len(f.set.Facility.Buildings))
-	for key, id := range strs {
-		if seen[key]&1 != 0 {
-			enc[id] = &encIx[key]
-		}
-		if seen[key]&2 != 0 {
-			bld[id] = &bldIx[key]
-		}
-	}
-	byDayRef := func(a, b int32) int {
-		if da, db := rounds.Day(int(a)), rounds.Day(int(b)); da != db {
-			return cmp.Compare(da, db)
-		}
-		return rounds.CompareRefs(int(a), int(b))
-	}
-	for _, ixs := range [2][]index{encIx, bldIx} {
-		for k := range ixs {
-			if c := ixs[k].cleaned; len(c) > 1 && !slices.IsSortedFunc(c, byDayRef) {
-				slices.SortFunc(c, byDayRef)
+	for key, id := range rix.strs {
+		for side, m := range [2]map[string]*index{enc, bld} {
+			if rix.seen[key]&(1<<side) != 0 {
+				m[id] = &index{first: rix.first[side][key], cleaned: rix.cleaned[side][key]}
 			}
 		}
 	}

@@ -1,7 +1,6 @@
 package checker
 
 import (
-	"slices"
 	"sort"
 
 	"github.com/open-policy-agent/opa/v1/ast"
@@ -240,59 +239,14 @@ type beddingIndex struct {
 
 func (f *facts) beddingDays() beddingIndex {
 	ix := beddingIndex{enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
-	// Gathered by the keys of the rounds' table, named once per key, in two
-	// passes: the first counts each key's days, the second fills one block
-	// cut by key, instead of a growing slice per key.
-	strs := f.rounds.Strings()
-	encDays := make([][]records.Day, len(strs))
-	bldDays := make([][]records.Day, len(strs))
-	counts := make([]int32, 2*len(strs))
-	total := 0
-	added := func(i int) bool {
-		return f.rounds.Day(i) <= f.period.To && f.rounds.Answers(i).BeddingAdded.IsYes()
-	}
-	for i := range f.rounds.Len() {
-		if !added(i) {
-			continue
+	// From the one pass over the rounds (facts_rounds.go).
+	rix := f.roundIndex()
+	for key, id := range rix.strs {
+		if ds := rix.bedding[0][key]; ds != nil {
+			ix.enc[id] = ds
 		}
-		if k := f.rounds.Keys(i); k.Enclosure != 0 {
-			counts[k.Enclosure]++
-		} else {
-			counts[len(strs)+int(k.Building)]++
-		}
-		total++
-	}
-	block := make([]records.Day, 0, total)
-	for k := range strs {
-		for c, days := range [2][][]records.Day{encDays, bldDays} {
-			if n := int(counts[c*len(strs)+k]); n > 0 {
-				days[k] = block[len(block) : len(block) : len(block)+n]
-				block = block[:len(block)+n]
-			}
-		}
-	}
-	for i := range f.rounds.Len() {
-		if !added(i) {
-			continue
-		}
-		d := f.rounds.Day(i)
-		if k := f.rounds.Keys(i); k.Enclosure != 0 {
-			encDays[k.Enclosure] = append(encDays[k.Enclosure], d)
-		} else {
-			bldDays[k.Building] = append(bldDays[k.Building], d)
-		}
-	}
-	for k, id := range strs {
-		for _, m := range []struct {
-			days [][]records.Day
-			ix   map[string][]records.Day
-		}{{encDays, ix.enc}, {bldDays, ix.bld}} {
-			if ds := m.days[k]; ds != nil {
-				if !slices.IsSorted(ds) {
-					slices.Sort(ds)
-				}
-				m.ix[id] = ds
-			}
+		if ds := rix.bedding[1][key]; ds != nil {
+			ix.bld[id] = ds
 		}
 	}
 	return ix
