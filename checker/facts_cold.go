@@ -229,16 +229,19 @@ func (f *facts) siteColdFacts(s *siteWeather) {
 	}
 }
 
-// beddingIndex lists, per enclosure and per building, the days a round
-// added bedding, sorted, from every round up to the period's end: the
-// look-back before the period start uses the rounds themselves, so the first
-// days of a period are judged on the week before it.
+// beddingIndex gives, per enclosure and per building, the days a round
+// added bedding, from every round up to the period's end: the look-back
+// before the period start uses the rounds themselves, so the first days of
+// a period are judged on the week before it. The period's days are the care
+// index's (a round of the period that added bedding marks its day there);
+// the days before the period are listed, sorted.
 type beddingIndex struct {
-	enc, bld map[string][]records.Day
+	care     *careDays
+	enc, bld map[string][]records.Day // days before the period
 }
 
 func (f *facts) beddingDays() beddingIndex {
-	ix := beddingIndex{enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
+	ix := beddingIndex{care: f.careIndex(), enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
 	// From the one pass over the rounds (facts_rounds.go).
 	rix := f.roundIndex()
 	for key, id := range rix.strs {
@@ -253,22 +256,47 @@ func (f *facts) beddingDays() beddingIndex {
 }
 
 // enclosureBedding is one enclosure's bedding days and its building's,
-// looked up once for a loop over its days.
-type enclosureBedding struct{ enc, bld []records.Day }
-
-func (ix beddingIndex) of(encID, buildingID string) enclosureBedding {
-	return enclosureBedding{ix.enc[encID], ix.bld[buildingID]}
+// looked up once for a loop over its days. A loop asking for later and
+// later days (last) scans the period's days once.
+type enclosureBedding struct {
+	care   enclosureCare
+	before [2][]records.Day // the enclosure's and the building's days before the period
+	// next is the first day of the period not yet scanned (0: none is);
+	// lastIn the last day before it with bedding added (0: none).
+	next, lastIn records.Day
 }
 
-func (eb enclosureBedding) last(d records.Day) records.Day {
+func (ix beddingIndex) of(encID, buildingID string) *enclosureBedding {
+	return &enclosureBedding{care: ix.care.of(encID, buildingID), before: [2][]records.Day{ix.enc[encID], ix.bld[buildingID]}}
+}
+
+// last is the last day up to d (d included) a round added bedding, 0 when
+// none did.
+func (eb *enclosureBedding) last(d records.Day) records.Day {
 	var best records.Day
-	for _, ds := range [2][]records.Day{eb.enc, eb.bld} {
+	for _, ds := range eb.before {
+		if len(ds) == 0 {
+			continue
+		}
 		i := sort.Search(len(ds), func(i int) bool { return ds[i] > d })
 		if i > 0 && ds[i-1] > best {
 			best = ds[i-1]
 		}
 	}
-	return best
+	from, end := eb.care.from, eb.care.from+records.Day(eb.care.n)
+	if d < from {
+		return best
+	}
+	if eb.next == 0 || d < eb.next-1 {
+		// The first call, or a day before those scanned: scan from the start.
+		eb.next, eb.lastIn = from, 0
+	}
+	for ; eb.next <= d && eb.next < end; eb.next++ {
+		if eb.care.on(eb.next).bedding {
+			eb.lastIn = eb.next
+		}
+	}
+	return max(best, eb.lastIn)
 }
 
 // exposed reports whether a building's animals live in the outside air.

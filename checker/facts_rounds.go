@@ -23,8 +23,9 @@ type roundIndex struct {
 	// cleaned are the key's rounds up to the period's end that cleaned,
 	// sorted by day, then ref (facts_cleaning.go).
 	cleaned [2][][]int32
-	// bedding are the days up to the period's end a round of the key added
-	// bedding, sorted (facts_cold.go).
+	// bedding are the days before the period a round of the key added
+	// bedding, sorted; the period's are marked in the care index
+	// (facts_cold.go).
 	bedding [2][][]records.Day
 	// events are the rounds of the period that found water empty or frozen
 	// or raised a health concern, in the rounds' order (facts_care.go).
@@ -51,8 +52,9 @@ func (f *facts) roundIndex() *roundIndex {
 	from, to := f.period.From, f.period.To
 	c := &careDays{from: from, n: int(to-from) + 1, enc: map[string][]dayCare{}, bld: map[string][]dayCare{}}
 	careOf := [2][][]dayCare{make([][]dayCare, nk), make([][]dayCare, nk)}
-	// The cleaning and bedding rounds are few: listed here, counted per
-	// key, and cut into one block per list below.
+	// The cleaning rounds, and the bedding rounds before the period, are
+	// few: listed here, counted per key, and cut into one block per list
+	// below.
 	var cleanList, bedList []int32
 	counts := [2][]int32{make([]int32, 2*nk), make([]int32, 2*nk)}
 	for i := range rounds.Len() {
@@ -77,11 +79,11 @@ func (f *facts) roundIndex() *roundIndex {
 			counts[0][side*nk+int(key)]++
 			cleanList = append(cleanList, int32(i))
 		}
-		if a.BeddingAdded.IsYes() {
-			counts[1][side*nk+int(key)]++
-			bedList = append(bedList, int32(i))
-		}
 		if d < from {
+			if a.BeddingAdded.IsYes() {
+				counts[1][side*nk+int(key)]++
+				bedList = append(bedList, int32(i))
+			}
 			continue
 		}
 		days := careOf[side][key]
