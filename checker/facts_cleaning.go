@@ -145,7 +145,7 @@ func (f *facts) cleaningFacts() {
 		if len(gaps) > 0 {
 			ec.gaps = slices.Clone(gaps)
 		}
-		f.doc("enclosure", e.ID)["cleaning"] = &lazy{make: ec.section, term: ec.sectionTerm}
+		f.doc("enclosure", e.ID)["cleaning"] = &lazy{make: ec.section, term: ec.sectionTerm, data: ec}
 	}
 }
 
@@ -215,6 +215,15 @@ func (ec *encCleaning) sectionTerm(c *converter) (*ast.Term, error) {
 		[2]*ast.Term{c.key("rounds_recorded"), ast.InternedTerm(ec.recorded)},
 		[2]*ast.Term{c.key("gaps"), gaps},
 	)), nil
+}
+
+// appendGaps appends the section's gaps as the report lists them: the
+// days the made section gives, without making its maps.
+func (ec *encCleaning) appendGaps(out []CleaningGap, id string) []CleaningGap {
+	for _, g := range ec.gaps {
+		out = append(out, CleaningGap{Enclosure: id, From: g.from, Until: g.until, Days: int(g.until - g.from)})
+	}
+	return out
 }
 
 // section makes the enclosure's cleaning section.

@@ -82,3 +82,23 @@ func TestCleaningGaps(t *testing.T) {
 		})
 	}
 }
+
+// The report's cleaning gaps are read from the builder's data without
+// making the sections (cleaningGaps): they are the gaps of the sections
+// made, enclosure for enclosure.
+func TestCleaningGapsWithoutMakingSections(t *testing.T) {
+	for name, f := range documentSets(t) {
+		encs := f.docs["enclosure"]
+		made := make(map[string]map[string]any, len(encs))
+		for id, d := range encs {
+			made[id] = resolveDoc(d)
+		}
+		got, want := cleaningGaps(encs), cleaningGaps(made)
+		if len(want) == 0 {
+			t.Errorf("%s: no cleaning gaps to compare", name)
+		}
+		if diff := cmp.Diff(want, got); diff != "" {
+			t.Errorf("%s: gaps from the sections made (-) and from the builder's data (+):\n%s", name, diff)
+		}
+	}
+}

@@ -52,17 +52,21 @@ func (l *refList) add(r records.Ref) {
 // their handlings; the euthanasia training at the time of their culls; and
 // the rows that name them outside their employment window.
 func (f *facts) staffFacts() {
-	days := map[string]map[records.Day]*staffDay{}
+	// Each person's days of the period, by index in the period, made on
+	// the person's first row: every row counted is of the period, and a
+	// year of care rounds looks a person's day up once per round.
+	n := int(f.period.To-f.period.From) + 1
+	days := make(map[*records.Staff][]*staffDay, len(f.set.Staff))
 	at := func(s *records.Staff, d records.Day) *staffDay {
-		byDay := days[s.ID]
+		byDay := days[s]
 		if byDay == nil {
-			byDay = map[records.Day]*staffDay{}
-			days[s.ID] = byDay
+			byDay = make([]*staffDay, n)
+			days[s] = byDay
 		}
-		sd := byDay[d]
+		sd := byDay[d-f.period.From]
 		if sd == nil {
 			sd = &staffDay{day: d}
-			byDay[d] = sd
+			byDay[d-f.period.From] = sd
 		}
 		return sd
 	}
@@ -147,15 +151,12 @@ func (f *facts) staffFacts() {
 		}
 	}
 
-	for id, byDay := range days {
-		s := f.staff[id]
-		sds := make([]*staffDay, 0, len(byDay))
-		for _, sd := range byDay {
-			sds = append(sds, sd)
-		}
-		sort.Slice(sds, func(i, j int) bool { return sds[i].day < sds[j].day })
+	for s, byDay := range days {
 		handled, culled, out, rabies := []any{}, []any{}, []any{}, []any{}
-		for _, sd := range sds {
+		for _, sd := range byDay {
+			if sd == nil {
+				continue
+			}
 			if r := f.rabiesDay(s, sd); r != nil {
 				rabies = append(rabies, r)
 			}
@@ -169,7 +170,7 @@ func (f *facts) staffFacts() {
 				out = append(out, map[string]any{"on": f.dayValue(sd.day), "rows": sd.outside.n, "refs": refs(sd.outside.first...)})
 			}
 		}
-		d := f.doc("staff", id)
+		d := f.doc("staff", s.ID)
 		d["staff"] = map[string]any{
 			"active_from":    dayOrNull(s.ActiveFrom),
 			"active_to":      dayOrNull(s.ActiveTo),

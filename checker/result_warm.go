@@ -177,6 +177,13 @@ func (f *facts) warmFigures(fs []Finding, gaps []CleaningGap) *Warm {
 func cleaningGaps(enclosures map[string]map[string]any) []CleaningGap {
 	var gaps []CleaningGap
 	for _, id := range sortedIDs(enclosures) {
+		// A cleaning builder's section gives its gaps without being made.
+		if l, ok := enclosures[id]["cleaning"].(*lazy); ok {
+			if ec, ok := l.data.(*encCleaning); ok {
+				gaps = ec.appendGaps(gaps, id)
+				continue
+			}
+		}
 		cs, _ := section(enclosures[id], "cleaning").(map[string]any)
 		list, _ := cs["gaps"].([]any)
 		for _, x := range list {
