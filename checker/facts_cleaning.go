@@ -35,12 +35,13 @@ func (f *facts) cleaningFacts() {
 	rix := f.roundIndex()
 	enc := make(map[string]*index, len(f.set.Enclosures))
 	bld := make(map[string]*index, len(f.set.Facility.Buildings))
-	for key, id := range rix.strs {
-		for side, m := range [2]map[string]*index{enc, bld} {
-			if rix.seen[key]&(1<<side) != 0 {
-				m[id] = &index{first: rix.first[side][key], cleaned: rix.cleaned[side][key]}
-			}
+	for i := range rix.places {
+		p := &rix.places[i]
+		m := enc
+		if p.building {
+			m = bld
 		}
+		m[p.id] = &index{first: p.first, cleaned: p.cleaned}
 	}
 	// A year of gaps names the same days, the same period start and the
 	// same enclosure row again and again: each is one document value,

@@ -244,12 +244,13 @@ func (f *facts) beddingDays() beddingIndex {
 	ix := beddingIndex{care: f.careIndex(), enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
 	// From the one pass over the rounds (facts_rounds.go).
 	rix := f.roundIndex()
-	for key, id := range rix.strs {
-		if ds := rix.bedding[0][key]; ds != nil {
-			ix.enc[id] = ds
-		}
-		if ds := rix.bedding[1][key]; ds != nil {
-			ix.bld[id] = ds
+	for i := range rix.places {
+		if p := &rix.places[i]; p.bedding != nil {
+			if p.building {
+				ix.bld[p.id] = p.bedding
+			} else {
+				ix.enc[p.id] = p.bedding
+			}
 		}
 	}
 	return ix

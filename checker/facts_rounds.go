@@ -8,31 +8,38 @@ import (
 )
 
 // roundIndex is what the builders reading the care rounds take from them,
-// gathered in one pass over the rounds (roundIndex): a year of a large
-// colony is millions of rounds, and reading each round's answers costs more
-// than everything a builder then does with them, so the rounds are read
-// once, not once per builder. Ids are keys of the rounds' table of strings
-// (strs); the entries of an enclosure's own rounds are under its key in
-// side 0, a building round's under the building's key in side 1.
+// gathered in one pass over the rounds (facts.roundIndex): a year of a
+// large colony is millions of rounds, and reading each round's answers
+// costs more than everything a builder then does with them, so the rounds
+// are read once, not once per builder.
 type roundIndex struct {
-	strs []string
-	// seen: bit 1<<side set when the key has a round up to the period's end.
-	seen []uint8
-	// first is the day of the key's first round up to the period's end.
-	first [2][]records.Day
-	// cleaned are the key's rounds up to the period's end that cleaned,
-	// sorted by day, then ref (facts_cleaning.go).
-	cleaned [2][][]int32
-	// bedding are the days before the period a round of the key added
-	// bedding, sorted; the period's are marked in the care index
-	// (facts_cold.go).
-	bedding [2][][]records.Day
+	// places are the enclosures and buildings that have a round up to the
+	// period's end, in the order of their first round.
+	places []roundPlace
 	// events are the rounds of the period that found water empty or frozen
 	// or raised a health concern, in the rounds' order (facts_care.go).
 	events []int32
 	// concerns are the rounds of any day that name a concern animal, in the
 	// rounds' order (facts_records.go).
 	concerns []int32
+}
+
+// roundPlace is what the rounds up to the period's end recorded for one
+// enclosure (its own rounds) or one building (its building rounds).
+type roundPlace struct {
+	id       string
+	building bool
+	// first is the day of the first round.
+	first records.Day
+	// care is the care index's days of the period (nil: no round in the
+	// period; facts_care.go).
+	care []dayCare
+	// cleaned are the rounds that cleaned, sorted by day, then ref
+	// (facts_cleaning.go).
+	cleaned []int32
+	// bedding are the days before the period a round added bedding, sorted;
+	// the period's are marked in care (facts_cold.go).
+	bedding []records.Day
 }
 
 // roundIndex reads the care rounds once for every builder that needs them
@@ -44,19 +51,25 @@ func (f *facts) roundIndex() *roundIndex {
 	}
 	rounds := f.rounds
 	strs := rounds.Strings()
-	nk := len(strs)
-	ix := &roundIndex{strs: strs, seen: make([]uint8, nk)}
-	for side := range 2 {
-		ix.first[side] = make([]records.Day, nk)
-	}
+	ix := &roundIndex{}
 	from, to := f.period.From, f.period.To
-	c := &careDays{from: from, n: int(to-from) + 1, enc: map[string][]dayCare{}, bld: map[string][]dayCare{}}
-	careOf := [2][][]dayCare{make([][]dayCare, nk), make([][]dayCare, nk)}
+	n := int(to-from) + 1
+	// Each place is found by its key in the rounds' table of strings (per
+	// side: an enclosure's own rounds, a building's), then held as an index
+	// into places, so the per-place data grows with the places, not with
+	// the table (which holds every note too).
+	placeOf := [2][]int32{make([]int32, len(strs)), make([]int32, len(strs))}
+	place := func(k records.CareKeys) (side int, key uint32) {
+		if k.Enclosure != 0 {
+			return 0, k.Enclosure
+		}
+		return 1, k.Building
+	}
 	// The cleaning rounds, and the bedding rounds before the period, are
-	// few: listed here, counted per key, and cut into one block per list
+	// few: listed here, counted per place, and cut into one block per list
 	// below.
 	var cleanList, bedList []int32
-	counts := [2][]int32{make([]int32, 2*nk), make([]int32, 2*nk)}
+	var counts [][2]int32
 	for i := range rounds.Len() {
 		k := rounds.Keys(i)
 		if k.ConcernAnimal != 0 {
@@ -66,32 +79,34 @@ func (f *facts) roundIndex() *roundIndex {
 		if d > to {
 			continue
 		}
-		side, key := 0, k.Enclosure
-		if key == 0 {
-			side, key = 1, k.Building
+		side, key := place(k)
+		pi := placeOf[side][key]
+		if pi == 0 {
+			ix.places = append(ix.places, roundPlace{id: strs[key], building: side == 1, first: d})
+			counts = append(counts, [2]int32{})
+			pi = int32(len(ix.places))
+			placeOf[side][key] = pi
 		}
-		ix.seen[key] |= 1 << side
-		if first := &ix.first[side][key]; *first == 0 || d < *first {
-			*first = d
+		p := &ix.places[pi-1]
+		if d < p.first {
+			p.first = d
 		}
 		a := rounds.Answers(i)
 		if a.Cleaned.IsYes() {
-			counts[0][side*nk+int(key)]++
+			counts[pi-1][0]++
 			cleanList = append(cleanList, int32(i))
 		}
 		if d < from {
 			if a.BeddingAdded.IsYes() {
-				counts[1][side*nk+int(key)]++
+				counts[pi-1][1]++
 				bedList = append(bedList, int32(i))
 			}
 			continue
 		}
-		days := careOf[side][key]
-		if days == nil {
-			days = make([]dayCare, c.n)
-			careOf[side][key] = days
+		if p.care == nil {
+			p.care = make([]dayCare, n)
 		}
-		dc := &days[d-from]
+		dc := &p.care[d-from]
 		dc.observed = dc.observed || a.Observed.IsYes()
 		dc.fed = dc.fed || a.Fed.IsYes() || (a.HasFeed && a.FeedG > 0)
 		dc.bedding = dc.bedding || a.BeddingAdded.IsYes()
@@ -102,63 +117,54 @@ func (f *facts) roundIndex() *roundIndex {
 			ix.events = append(ix.events, int32(i))
 		}
 	}
-	for key, id := range strs {
-		if days := careOf[0][key]; days != nil {
-			c.enc[id] = days
+	// Each list cut into one block, a slice per place.
+	cleaned := make([]int32, 0, len(cleanList))
+	bedding := make([]records.Day, 0, len(bedList))
+	for pi := range ix.places {
+		p := &ix.places[pi]
+		if c := int(counts[pi][0]); c > 0 {
+			p.cleaned = cleaned[len(cleaned) : len(cleaned) : len(cleaned)+c]
+			cleaned = cleaned[:len(cleaned)+c]
 		}
-		if days := careOf[1][key]; days != nil {
-			c.bld[id] = days
+		if c := int(counts[pi][1]); c > 0 {
+			p.bedding = bedding[len(bedding) : len(bedding) : len(bedding)+c]
+			bedding = bedding[:len(bedding)+c]
 		}
 	}
-	f.care = c
-	ix.cleaned = cutByKey(rounds, nk, counts[0], cleanList, func(i int32) int32 { return i })
-	ix.bedding = cutByKey(rounds, nk, counts[1], bedList, func(i int32) records.Day { return rounds.Day(int(i)) })
+	for _, i := range cleanList {
+		side, key := place(rounds.Keys(int(i)))
+		p := &ix.places[placeOf[side][key]-1]
+		p.cleaned = append(p.cleaned, i)
+	}
+	for _, i := range bedList {
+		side, key := place(rounds.Keys(int(i)))
+		p := &ix.places[placeOf[side][key]-1]
+		p.bedding = append(p.bedding, rounds.Day(int(i)))
+	}
 	byDayRef := func(a, b int32) int {
 		if da, db := rounds.Day(int(a)), rounds.Day(int(b)); da != db {
 			return cmp.Compare(da, db)
 		}
 		return rounds.CompareRefs(int(a), int(b))
 	}
-	for side := range 2 {
-		for _, c := range ix.cleaned[side] {
-			if len(c) > 1 && !slices.IsSortedFunc(c, byDayRef) {
-				slices.SortFunc(c, byDayRef)
-			}
+	c := &careDays{from: from, n: n, enc: map[string][]dayCare{}, bld: map[string][]dayCare{}}
+	for pi := range ix.places {
+		p := &ix.places[pi]
+		if len(p.cleaned) > 1 && !slices.IsSortedFunc(p.cleaned, byDayRef) {
+			slices.SortFunc(p.cleaned, byDayRef)
 		}
-		for _, ds := range ix.bedding[side] {
-			if !slices.IsSorted(ds) {
-				slices.Sort(ds)
+		if !slices.IsSorted(p.bedding) {
+			slices.Sort(p.bedding)
+		}
+		if p.care != nil {
+			if p.building {
+				c.bld[p.id] = p.care
+			} else {
+				c.enc[p.id] = p.care
 			}
 		}
 	}
+	f.care = c
 	f.rix = ix
 	return ix
-}
-
-// cutByKey gives each key's entries of list (round indexes, in the rounds'
-// order), made by val, as slices of one block: counts are the entries per
-// side and key (side*nk+key), as the pass over the rounds counted them.
-func cutByKey[T any](rounds *records.CareRounds, nk int, counts []int32, list []int32, val func(int32) T) [2][][]T {
-	var out [2][][]T
-	block := make([]T, 0, len(list))
-	for side := range 2 {
-		out[side] = make([][]T, nk)
-	}
-	for key := range nk {
-		for side := range 2 {
-			if n := int(counts[side*nk+key]); n > 0 {
-				out[side][key] = block[len(block) : len(block) : len(block)+n]
-				block = block[:len(block)+n]
-			}
-		}
-	}
-	for _, i := range list {
-		k := rounds.Keys(int(i))
-		side, key := 0, k.Enclosure
-		if key == 0 {
-			side, key = 1, k.Building
-		}
-		out[side][key] = append(out[side][key], val(i))
-	}
-	return out
 }

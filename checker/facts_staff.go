@@ -56,20 +56,31 @@ func (f *facts) staffFacts() {
 	// the person's first row: every row counted is of the period, and a
 	// year of care rounds looks a person's day up once per round.
 	n := int(f.period.To-f.period.From) + 1
-	days := make(map[*records.Staff][]*staffDay, len(f.set.Staff))
-	at := func(s *records.Staff, d records.Day) *staffDay {
-		byDay := days[s]
-		if byDay == nil {
-			byDay = make([]*staffDay, n)
-			days[s] = byDay
+	type personDays struct {
+		s    *records.Staff
+		days []*staffDay // nil until the person's first row
+	}
+	people := make(map[*records.Staff]*personDays, len(f.set.Staff))
+	personOf := func(s *records.Staff) *personDays {
+		p := people[s]
+		if p == nil {
+			p = &personDays{s: s}
+			people[s] = p
 		}
-		sd := byDay[d-f.period.From]
+		return p
+	}
+	dayOf := func(p *personDays, d records.Day) *staffDay {
+		if p.days == nil {
+			p.days = make([]*staffDay, n)
+		}
+		sd := p.days[d-f.period.From]
 		if sd == nil {
 			sd = &staffDay{day: d}
-			byDay[d-f.period.From] = sd
+			p.days[d-f.period.From] = sd
 		}
 		return sd
 	}
+	at := func(s *records.Staff, d records.Day) *staffDay { return dayOf(personOf(s), d) }
 	// away is whether d is outside s's employment.
 	away := func(s *records.Staff, d records.Day) bool {
 		return (!s.ActiveFrom.IsZero() && d < s.ActiveFrom) || (!s.ActiveTo.IsZero() && d > s.ActiveTo)
@@ -119,9 +130,11 @@ func (f *facts) staffFacts() {
 	risky := f.rabiesRiskRounds()
 	// The rounds' staff, resolved once per key of the rounds' table.
 	strs := f.rounds.Strings()
-	staffOf := make([]*records.Staff, len(strs))
+	staffOf := make([]*personDays, len(strs))
 	for k, id := range strs {
-		staffOf[k] = f.staff[id]
+		if s := f.staff[id]; s != nil {
+			staffOf[k] = personOf(s)
+		}
 	}
 	for i := range f.rounds.Len() {
 		d := f.rounds.Day(i)
@@ -129,15 +142,15 @@ func (f *facts) staffFacts() {
 			continue
 		}
 		k := f.rounds.Keys(i)
-		if s := staffOf[k.Staff]; s != nil {
+		if p := staffOf[k.Staff]; p != nil {
 			// The ref is formatted only for a round the facts cite.
-			if away(s, d) {
-				if sd := at(s, d); sd.outside.count() {
+			if away(p.s, d) {
+				if sd := dayOf(p, d); sd.outside.count() {
 					sd.outside.keep(f.rounds.Ref(i))
 				}
 			}
 			if risky(k, d) {
-				if sd := at(s, d); sd.rabiesRounds.count() {
+				if sd := dayOf(p, d); sd.rabiesRounds.count() {
 					sd.rabiesRounds.keep(f.rounds.Ref(i))
 				}
 			}
@@ -151,9 +164,12 @@ func (f *facts) staffFacts() {
 		}
 	}
 
-	for s, byDay := range days {
+	for s, p := range people {
+		if p.days == nil {
+			continue // no row of the period names the person
+		}
 		handled, culled, out, rabies := []any{}, []any{}, []any{}, []any{}
-		for _, sd := range byDay {
+		for _, sd := range p.days {
 			if sd == nil {
 				continue
 			}
@@ -293,11 +309,36 @@ func (f *facts) rabiesRiskRounds() func(k records.CareKeys, d records.Day) bool 
 		i := sort.Search(len(o.segs), func(i int) bool { return o.segs[i].To >= d })
 		return i < len(o.segs) && o.segs[i].From <= d && o.risky[i]
 	}
-	// The rounds' enclosures, resolved once per key of the rounds' table.
+	// The rounds' enclosures, resolved once per key of the rounds' table;
+	// an enclosure's risky days of the period as bits, one block for all
+	// (a round of the period tests a bit instead of searching the
+	// enclosure's segments).
 	strs := f.rounds.Strings()
 	encOf := make([]occ, len(strs))
+	words := (int(f.period.To-f.period.From) + 1 + 63) / 64
+	bitsOf := make([][]uint64, len(strs)) // nil: no risky day
+	var bits []uint64
 	for k, id := range strs {
-		encOf[k] = byEnc[id]
+		o := byEnc[id]
+		encOf[k] = o
+		if !slices.Contains(o.risky, true) {
+			continue
+		}
+		if len(bits) < words {
+			bits = make([]uint64, 64*words)
+		}
+		kb := bits[:words:words]
+		bits = bits[words:]
+		bitsOf[k] = kb
+		for i, seg := range o.segs {
+			if !o.risky[i] {
+				continue
+			}
+			for d := max(seg.From, f.period.From); d <= seg.To && d <= f.period.To; d++ {
+				j := int(d - f.period.From)
+				kb[j/64] |= 1 << (j % 64)
+			}
+		}
 	}
 	type key struct {
 		building uint32
@@ -306,7 +347,11 @@ func (f *facts) rabiesRiskRounds() func(k records.CareKeys, d records.Day) bool 
 	memo := map[key]bool{}
 	return func(k records.CareKeys, d records.Day) bool {
 		if k.Enclosure != 0 {
-			return riskyOn(encOf[k.Enclosure], d)
+			if !f.inPeriod(d) {
+				return riskyOn(encOf[k.Enclosure], d)
+			}
+			kb, j := bitsOf[k.Enclosure], int(d-f.period.From)
+			return kb != nil && kb[j/64]&(1<<(j%64)) != 0
 		}
 		mk := key{k.Building, d}
 		if v, ok := memo[mk]; ok {
