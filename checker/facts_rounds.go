@@ -22,6 +22,9 @@ type roundIndex struct {
 	// concerns are the rounds of any day that name a concern animal, in the
 	// rounds' order (facts_records.go).
 	concerns []int32
+	// staff are the rounds of the period counted per person and day
+	// (facts_staff.go).
+	staff *staffRounds
 }
 
 // roundPlace is what the rounds up to the period's end recorded for one
@@ -51,7 +54,7 @@ func (f *facts) roundIndex() *roundIndex {
 	}
 	rounds := f.rounds
 	strs := rounds.Strings()
-	ix := &roundIndex{}
+	ix := &roundIndex{staff: f.newStaffRounds()}
 	from, to := f.period.From, f.period.To
 	n := int(to-from) + 1
 	// Each place is found by its key in the rounds' table of strings (per
@@ -103,6 +106,7 @@ func (f *facts) roundIndex() *roundIndex {
 			}
 			continue
 		}
+		ix.staff.visit(i, k, d)
 		if p.care == nil {
 			p.care = make([]dayCare, n)
 		}

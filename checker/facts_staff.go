@@ -41,6 +41,22 @@ func (l *refList) count() bool {
 
 func (l *refList) keep(r records.Ref) { l.first = append(l.first, r) }
 
+// merge counts the rows of m after l's, keeping refs up to maxRefs: l is
+// then as if m's rows had been added to it one by one. m is l's to keep.
+func (l *refList) merge(m *refList) {
+	l.n += m.n
+	if len(l.first) == 0 {
+		l.first = m.first // m is not used after
+		return
+	}
+	for _, r := range m.first {
+		if len(l.first) >= maxRefs {
+			break
+		}
+		l.keep(r)
+	}
+}
+
 func (l *refList) add(r records.Ref) {
 	if l.count() {
 		l.keep(r)
@@ -127,32 +143,17 @@ func (f *facts) staffFacts() {
 		}
 		outside(s, d, c.Ref)
 	}
-	risky := f.rabiesRiskRounds()
-	// The rounds' staff, resolved once per key of the rounds' table.
-	strs := f.rounds.Strings()
-	staffOf := make([]*personDays, len(strs))
-	for k, id := range strs {
-		if s := f.staff[id]; s != nil {
-			staffOf[k] = personOf(s)
-		}
-	}
-	for i := range f.rounds.Len() {
-		d := f.rounds.Day(i)
-		if !f.inPeriod(d) {
-			continue
-		}
-		k := f.rounds.Keys(i)
-		if p := staffOf[k.Staff]; p != nil {
-			// The ref is formatted only for a round the facts cite.
-			if away(p.s, d) {
-				if sd := dayOf(p, d); sd.outside.count() {
-					sd.outside.keep(f.rounds.Ref(i))
-				}
+	// The care rounds, counted in the one pass over them (roundIndex),
+	// added where this loop read them: after the culls, before the work.
+	sr := f.roundIndex().staff
+	for _, p := range sr.people {
+		for j := range p.days {
+			rc, d := &p.days[j], f.period.From+records.Day(j)
+			if rc.outside.n > 0 {
+				at(p.s, d).outside.merge(&rc.outside)
 			}
-			if risky(k, d) {
-				if sd := dayOf(p, d); sd.rabiesRounds.count() {
-					sd.rabiesRounds.keep(f.rounds.Ref(i))
-				}
+			if rc.rabies.n > 0 {
+				at(p.s, d).rabiesRounds.merge(&rc.rabies)
 			}
 		}
 	}
@@ -275,6 +276,70 @@ func rabiesRecord(s *records.Staff, d records.Day, work []records.Ref) map[strin
 		r["booster_on"] = s.RabiesBoosterOn.String()
 	}
 	return r
+}
+
+// staffRounds counts, per person and day of the period, the care rounds
+// the person did outside their employment and those of an enclosure a
+// rabies-risk species occupied that day, keeping the refs of the first
+// maxRefs of each. It is filled in the one pass over the rounds
+// (roundIndex, visit) and read by staffFacts.
+type staffRounds struct {
+	f       *facts
+	staffOf []*staffRoundDays // per key of the rounds' table; nil: no such person
+	people  []*staffRoundDays
+	risky   func(k records.CareKeys, d records.Day) bool
+}
+
+type staffRoundDays struct {
+	s    *records.Staff
+	days []staffRoundCounts // by index in the period; nil until needed
+}
+
+type staffRoundCounts struct{ outside, rabies refList }
+
+func (f *facts) newStaffRounds() *staffRounds {
+	strs := f.rounds.Strings()
+	sr := &staffRounds{f: f, staffOf: make([]*staffRoundDays, len(strs)), risky: f.rabiesRiskRounds()}
+	byStaff := map[*records.Staff]*staffRoundDays{}
+	for k, id := range strs {
+		s := f.staff[id]
+		if s == nil {
+			continue
+		}
+		p := byStaff[s]
+		if p == nil {
+			p = &staffRoundDays{s: s}
+			byStaff[s] = p
+			sr.people = append(sr.people, p)
+		}
+		sr.staffOf[k] = p
+	}
+	return sr
+}
+
+// visit counts round i of day d (a day of the period).
+func (sr *staffRounds) visit(i int, k records.CareKeys, d records.Day) {
+	p := sr.staffOf[k.Staff]
+	if p == nil {
+		return
+	}
+	s, f := p.s, sr.f
+	away := (!s.ActiveFrom.IsZero() && d < s.ActiveFrom) || (!s.ActiveTo.IsZero() && d > s.ActiveTo)
+	risky := sr.risky(k, d)
+	if !away && !risky {
+		return
+	}
+	if p.days == nil {
+		p.days = make([]staffRoundCounts, int(f.period.To-f.period.From)+1)
+	}
+	rc := &p.days[d-f.period.From]
+	// The ref is formatted only for a round the facts cite.
+	if away && rc.outside.count() {
+		rc.outside.keep(f.rounds.Ref(i))
+	}
+	if risky && rc.rabies.count() {
+		rc.rabies.keep(f.rounds.Ref(i))
+	}
 }
 
 // rabiesRiskRounds returns whether a care round covers an enclosure occupied
