@@ -30,6 +30,7 @@ func (f *facts) cleaningFacts() {
 	type index struct {
 		first   records.Day
 		cleaned []int32 // indexes of f.rounds, sorted by day, then ref
+		on      []records.Day
 	}
 	rounds := f.rounds
 	rix := f.roundIndex()
@@ -41,7 +42,7 @@ func (f *facts) cleaningFacts() {
 		if p.building {
 			m = bld
 		}
-		m[p.id] = &index{first: p.first, cleaned: p.cleaned}
+		m[p.id] = &index{first: p.first, cleaned: p.cleaned, on: p.cleanedOn}
 	}
 	// A year of gaps names the same days, the same period start and the
 	// same enclosure row again and again: each is one document value,
@@ -68,9 +69,7 @@ func (f *facts) cleaningFacts() {
 			if first == 0 || ix.first < first {
 				first = ix.first
 			}
-			for _, r := range ix.cleaned {
-				days = append(days, rounds.Day(int(r)))
-			}
+			days = append(days, ix.on...)
 		}
 		// refOf is the first round (by ref) that cleaned the enclosure on d.
 		refOf := func(d records.Day) records.Ref {
@@ -79,8 +78,8 @@ func (f *facts) cleaningFacts() {
 				if ix == nil {
 					continue
 				}
-				k := sort.Search(len(ix.cleaned), func(k int) bool { return rounds.Day(int(ix.cleaned[k])) >= d })
-				if k < len(ix.cleaned) && rounds.Day(int(ix.cleaned[k])) == d {
+				k, found := slices.BinarySearch(ix.on, d)
+				if found {
 					if r := ix.cleaned[k]; best < 0 || rounds.CompareRefs(int(r), int(best)) < 0 {
 						best = r
 					}

@@ -37,9 +37,10 @@ type roundPlace struct {
 	// care is the care index's days of the period (nil: no round in the
 	// period; facts_care.go).
 	care []dayCare
-	// cleaned are the rounds that cleaned, sorted by day, then ref
-	// (facts_cleaning.go).
-	cleaned []int32
+	// cleaned are the rounds that cleaned, sorted by day, then ref, and
+	// cleanedOn their days (facts_cleaning.go).
+	cleaned   []int32
+	cleanedOn []records.Day
 	// bedding are the days before the period a round added bedding, sorted;
 	// the period's are marked in care (facts_cold.go).
 	bedding []records.Day
@@ -71,7 +72,13 @@ func (f *facts) roundIndex() *roundIndex {
 	// The cleaning rounds, and the bedding rounds before the period, are
 	// few: listed here, counted per place, and cut into one block per list
 	// below.
-	var cleanList, bedList []int32
+	// Each listed with its place (and day), so the lists are cut and
+	// sorted without reading the rounds again.
+	type listed struct {
+		place, round int32
+		day          records.Day
+	}
+	var cleanList, bedList blockList[listed]
 	var counts [][2]int32
 	for i := range rounds.Len() {
 		k := rounds.Keys(i)
@@ -97,12 +104,12 @@ func (f *facts) roundIndex() *roundIndex {
 		a := rounds.Answers(i)
 		if a.Cleaned.IsYes() {
 			counts[pi-1][0]++
-			cleanList = append(cleanList, int32(i))
+			cleanList.add(listed{pi - 1, int32(i), d})
 		}
 		if d < from {
 			if a.BeddingAdded.IsYes() {
 				counts[pi-1][1]++
-				bedList = append(bedList, int32(i))
+				bedList.add(listed{pi - 1, int32(i), d})
 			}
 			continue
 		}
@@ -122,41 +129,38 @@ func (f *facts) roundIndex() *roundIndex {
 		}
 	}
 	// Each list cut into one block, a slice per place.
-	cleaned := make([]int32, 0, len(cleanList))
-	bedding := make([]records.Day, 0, len(bedList))
+	cleaned := make([]int32, 0, cleanList.n)
+	cleanedOn := make([]records.Day, 0, cleanList.n)
+	bedding := make([]records.Day, 0, bedList.n)
 	for pi := range ix.places {
 		p := &ix.places[pi]
 		if c := int(counts[pi][0]); c > 0 {
 			p.cleaned = cleaned[len(cleaned) : len(cleaned) : len(cleaned)+c]
 			cleaned = cleaned[:len(cleaned)+c]
+			p.cleanedOn = cleanedOn[len(cleanedOn) : len(cleanedOn) : len(cleanedOn)+c]
+			cleanedOn = cleanedOn[:len(cleanedOn)+c]
 		}
 		if c := int(counts[pi][1]); c > 0 {
 			p.bedding = bedding[len(bedding) : len(bedding) : len(bedding)+c]
 			bedding = bedding[:len(bedding)+c]
 		}
 	}
-	for _, i := range cleanList {
-		side, key := place(rounds.Keys(int(i)))
-		p := &ix.places[placeOf[side][key]-1]
-		p.cleaned = append(p.cleaned, i)
-	}
-	for _, i := range bedList {
-		side, key := place(rounds.Keys(int(i)))
-		p := &ix.places[placeOf[side][key]-1]
-		p.bedding = append(p.bedding, rounds.Day(int(i)))
-	}
-	byDayRef := func(a, b int32) int {
-		if da, db := rounds.Day(int(a)), rounds.Day(int(b)); da != db {
-			return cmp.Compare(da, db)
+	for _, b := range cleanList.blocks {
+		for _, e := range b {
+			p := &ix.places[e.place]
+			p.cleaned, p.cleanedOn = append(p.cleaned, e.round), append(p.cleanedOn, e.day)
 		}
-		return rounds.CompareRefs(int(a), int(b))
+	}
+	for _, b := range bedList.blocks {
+		for _, e := range b {
+			p := &ix.places[e.place]
+			p.bedding = append(p.bedding, e.day)
+		}
 	}
 	c := &careDays{from: from, n: n, enc: map[string][]dayCare{}, bld: map[string][]dayCare{}}
 	for pi := range ix.places {
 		p := &ix.places[pi]
-		if len(p.cleaned) > 1 && !slices.IsSortedFunc(p.cleaned, byDayRef) {
-			slices.SortFunc(p.cleaned, byDayRef)
-		}
+		sortCleaned(rounds, p.cleaned, p.cleanedOn)
 		if !slices.IsSorted(p.bedding) {
 			slices.Sort(p.bedding)
 		}
@@ -171,4 +175,55 @@ func (f *facts) roundIndex() *roundIndex {
 	f.care = c
 	f.rix = ix
 	return ix
+}
+
+// sortCleaned sorts a place's cleaning rounds (and their days alike) by
+// day, then ref; they are most often in that order already, which is
+// checked on the days alone, the refs compared only between rounds of the
+// same day.
+func sortCleaned(rounds *records.CareRounds, cleaned []int32, on []records.Day) {
+	sorted := true
+	for j := 1; j < len(on) && sorted; j++ {
+		sorted = on[j-1] < on[j] || (on[j-1] == on[j] && rounds.CompareRefs(int(cleaned[j-1]), int(cleaned[j])) <= 0)
+	}
+	if sorted {
+		return
+	}
+	type entry struct {
+		round int32
+		day   records.Day
+	}
+	es := make([]entry, len(cleaned))
+	for j := range es {
+		es[j] = entry{cleaned[j], on[j]}
+	}
+	slices.SortFunc(es, func(a, b entry) int {
+		if a.day != b.day {
+			return cmp.Compare(a.day, b.day)
+		}
+		return rounds.CompareRefs(int(a.round), int(b.round))
+	})
+	for j, e := range es {
+		cleaned[j], on[j] = e.round, e.day
+	}
+}
+
+// blockList is a list grown in blocks of a fixed size, never copied: a
+// list whose length a pass learns only at its end costs its size, not the
+// copies and spare room of a slice grown by append.
+type blockList[T any] struct {
+	blocks [][]T
+	n      int
+}
+
+const blockListSize = 4096
+
+func (l *blockList[T]) add(v T) {
+	k := len(l.blocks) - 1
+	if k < 0 || len(l.blocks[k]) == cap(l.blocks[k]) {
+		l.blocks = append(l.blocks, make([]T, 0, blockListSize))
+		k++
+	}
+	l.blocks[k] = append(l.blocks[k], v)
+	l.n++
 }

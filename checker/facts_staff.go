@@ -287,7 +287,7 @@ type staffRounds struct {
 	f       *facts
 	staffOf []*staffRoundDays // per key of the rounds' table; nil: no such person
 	people  []*staffRoundDays
-	risky   func(k records.CareKeys, d records.Day) bool
+	risky   *riskyRounds
 }
 
 type staffRoundDays struct {
@@ -325,7 +325,7 @@ func (sr *staffRounds) visit(i int, k records.CareKeys, d records.Day) {
 	}
 	s, f := p.s, sr.f
 	away := (!s.ActiveFrom.IsZero() && d < s.ActiveFrom) || (!s.ActiveTo.IsZero() && d > s.ActiveTo)
-	risky := sr.risky(k, d)
+	risky := sr.risky.on(k, d)
 	if !away && !risky {
 		return
 	}
@@ -342,13 +342,13 @@ func (sr *staffRounds) visit(i int, k records.CareKeys, d records.Day) {
 	}
 }
 
-// rabiesRiskRounds returns whether a care round covers an enclosure occupied
+// rabiesRiskRounds tells whether a care round covers an enclosure occupied
 // that day by a rabies-risk species (a building round covers every
 // enclosure of its building). A building round's result is kept per
 // building and day, since a year of them names the same few hundred of
-// each; an enclosure's round is looked up directly (its occupancy is one
-// search in a short list, cheaper than a memo of a million enclosure days).
-func (f *facts) rabiesRiskRounds() func(k records.CareKeys, d records.Day) bool {
+// each; an enclosure's round of the period tests a bit of the enclosure's
+// risky days, worked out once from its occupancy segments.
+func (f *facts) rabiesRiskRounds() *riskyRounds {
 	byBuilding := map[string][]string{}
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
@@ -410,13 +410,9 @@ func (f *facts) rabiesRiskRounds() func(k records.CareKeys, d records.Day) bool 
 		day      records.Day
 	}
 	memo := map[key]bool{}
-	return func(k records.CareKeys, d records.Day) bool {
+	return &riskyRounds{from: f.period.From, to: f.period.To, bits: bitsOf, other: func(k records.CareKeys, d records.Day) bool {
 		if k.Enclosure != 0 {
-			if !f.inPeriod(d) {
-				return riskyOn(encOf[k.Enclosure], d)
-			}
-			kb, j := bitsOf[k.Enclosure], int(d-f.period.From)
-			return kb != nil && kb[j/64]&(1<<(j%64)) != 0
+			return riskyOn(encOf[k.Enclosure], d)
 		}
 		mk := key{k.Building, d}
 		if v, ok := memo[mk]; ok {
@@ -425,7 +421,24 @@ func (f *facts) rabiesRiskRounds() func(k records.CareKeys, d records.Day) bool 
 		v := slices.ContainsFunc(byBuilding[strs[k.Building]], func(e string) bool { return riskyOn(byEnc[e], d) })
 		memo[mk] = v
 		return v
+	}}
+}
+
+// riskyRounds tells whether a care round is rabies-risk work
+// (rabiesRiskRounds): an enclosure's round of the period by its bits, any
+// other by other.
+type riskyRounds struct {
+	from, to records.Day
+	bits     [][]uint64 // per key of the rounds' table: the period's risky days; nil: none
+	other    func(k records.CareKeys, d records.Day) bool
+}
+
+func (r *riskyRounds) on(k records.CareKeys, d records.Day) bool {
+	if k.Enclosure == 0 || d < r.from || d > r.to {
+		return r.other(k, d)
 	}
+	kb, j := r.bits[k.Enclosure], int(d-r.from)
+	return kb != nil && kb[j/64]&(1<<(j%64)) != 0
 }
 
 // rabiesDay is one day on which s worked with a rabies-risk species —
