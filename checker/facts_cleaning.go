@@ -28,11 +28,10 @@ func (f *facts) cleaningFacts() {
 	// Each enclosure's (or building's) first round and its cleaning rounds,
 	// from the one pass over the rounds (facts_rounds.go).
 	type index struct {
-		first   records.Day
-		cleaned []int32 // indexes of f.rounds, sorted by day, then ref
-		on      []records.Day
+		first records.Day
+		refs  []records.Ref // the cleaning rounds', sorted by day, then ref
+		on    []records.Day // their days
 	}
-	rounds := f.rounds
 	rix := f.roundIndex()
 	enc := make(map[string]*index, len(f.set.Enclosures))
 	bld := make(map[string]*index, len(f.set.Facility.Buildings))
@@ -42,7 +41,7 @@ func (f *facts) cleaningFacts() {
 		if p.building {
 			m = bld
 		}
-		m[p.id] = &index{first: p.first, cleaned: p.cleaned, on: p.cleanedOn}
+		m[p.id] = &index{first: p.first, refs: p.cleanedRef, on: p.cleanedOn}
 	}
 	// A year of gaps names the same days, the same period start and the
 	// same enclosure row again and again: each is one document value,
@@ -73,22 +72,17 @@ func (f *facts) cleaningFacts() {
 		}
 		// refOf is the first round (by ref) that cleaned the enclosure on d.
 		refOf := func(d records.Day) records.Ref {
-			best := int32(-1)
+			var best records.Ref
+			found := false
 			for _, ix := range []*index{own, shared} {
 				if ix == nil {
 					continue
 				}
-				k, found := slices.BinarySearch(ix.on, d)
-				if found {
-					if r := ix.cleaned[k]; best < 0 || rounds.CompareRefs(int(r), int(best)) < 0 {
-						best = r
-					}
+				if k, ok := slices.BinarySearch(ix.on, d); ok && (!found || ix.refs[k] < best) {
+					best, found = ix.refs[k], true
 				}
 			}
-			if best < 0 {
-				return ""
-			}
-			return rounds.Ref(int(best))
+			return best
 		}
 		if !slices.IsSorted(days) {
 			slices.Sort(days)

@@ -102,3 +102,20 @@ func TestCleaningGapsWithoutMakingSections(t *testing.T) {
 		}
 	}
 }
+
+// A place's cleaning rounds are ordered by day, then ref as text (so
+// "daily_care.csv:10" comes before "daily_care.csv:9"), their days moving
+// with their refs.
+func TestSortCleaned(t *testing.T) {
+	d1, d2 := coldDay("2026-07-01"), coldDay("2026-07-02")
+	refs := []records.Ref{"daily_care.csv:9", "daily_care.csv:10", "daily_care.csv:3", "daily_care.csv:2"}
+	on := []records.Day{d2, d2, d1, d1}
+	sortCleaned(refs, on)
+	wantRefs := []records.Ref{"daily_care.csv:2", "daily_care.csv:3", "daily_care.csv:10", "daily_care.csv:9"}
+	if diff := cmp.Diff(wantRefs, refs); diff != "" {
+		t.Errorf("refs (-want +got):\n%s", diff)
+	}
+	if diff := cmp.Diff([]records.Day{d1, d1, d2, d2}, on); diff != "" {
+		t.Errorf("days (-want +got):\n%s", diff)
+	}
+}

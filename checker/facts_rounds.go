@@ -3,6 +3,7 @@ package checker
 import (
 	"cmp"
 	"slices"
+	"strings"
 
 	"welfare/records"
 )
@@ -37,10 +38,12 @@ type roundPlace struct {
 	// care is the care index's days of the period (nil: no round in the
 	// period; facts_care.go).
 	care []dayCare
-	// cleaned are the rounds that cleaned, sorted by day, then ref, and
-	// cleanedOn their days (facts_cleaning.go).
-	cleaned   []int32
-	cleanedOn []records.Day
+	// cleanedRef are the refs of the rounds that cleaned, sorted by day,
+	// then ref, and cleanedOn their days (facts_cleaning.go). The refs are
+	// made while the pass reads the round: read later, each would be a
+	// round read again from anywhere in the store.
+	cleanedRef []records.Ref
+	cleanedOn  []records.Day
 	// bedding are the days before the period a round added bedding, sorted;
 	// the period's are marked in care (facts_cold.go).
 	bedding []records.Day
@@ -75,8 +78,9 @@ func (f *facts) roundIndex() *roundIndex {
 	// Each listed with its place (and day), so the lists are cut and
 	// sorted without reading the rounds again.
 	type listed struct {
-		place, round int32
-		day          records.Day
+		place int32
+		day   records.Day
+		ref   records.Ref
 	}
 	var cleanList, bedList blockList[listed]
 	var counts [][2]int32
@@ -104,12 +108,12 @@ func (f *facts) roundIndex() *roundIndex {
 		a := rounds.Answers(i)
 		if a.Cleaned.IsYes() {
 			counts[pi-1][0]++
-			cleanList.add(listed{pi - 1, int32(i), d})
+			cleanList.add(listed{pi - 1, d, rounds.Ref(i)})
 		}
 		if d < from {
 			if a.BeddingAdded.IsYes() {
 				counts[pi-1][1]++
-				bedList.add(listed{pi - 1, int32(i), d})
+				bedList.add(listed{pi - 1, d, ""})
 			}
 			continue
 		}
@@ -129,13 +133,13 @@ func (f *facts) roundIndex() *roundIndex {
 		}
 	}
 	// Each list cut into one block, a slice per place.
-	cleaned := make([]int32, 0, cleanList.n)
+	cleaned := make([]records.Ref, 0, cleanList.n)
 	cleanedOn := make([]records.Day, 0, cleanList.n)
 	bedding := make([]records.Day, 0, bedList.n)
 	for pi := range ix.places {
 		p := &ix.places[pi]
 		if c := int(counts[pi][0]); c > 0 {
-			p.cleaned = cleaned[len(cleaned) : len(cleaned) : len(cleaned)+c]
+			p.cleanedRef = cleaned[len(cleaned) : len(cleaned) : len(cleaned)+c]
 			cleaned = cleaned[:len(cleaned)+c]
 			p.cleanedOn = cleanedOn[len(cleanedOn) : len(cleanedOn) : len(cleanedOn)+c]
 			cleanedOn = cleanedOn[:len(cleanedOn)+c]
@@ -148,7 +152,7 @@ func (f *facts) roundIndex() *roundIndex {
 	for _, b := range cleanList.blocks {
 		for _, e := range b {
 			p := &ix.places[e.place]
-			p.cleaned, p.cleanedOn = append(p.cleaned, e.round), append(p.cleanedOn, e.day)
+			p.cleanedRef, p.cleanedOn = append(p.cleanedRef, e.ref), append(p.cleanedOn, e.day)
 		}
 	}
 	for _, b := range bedList.blocks {
@@ -160,7 +164,7 @@ func (f *facts) roundIndex() *roundIndex {
 	c := &careDays{from: from, n: n, enc: map[string][]dayCare{}, bld: map[string][]dayCare{}}
 	for pi := range ix.places {
 		p := &ix.places[pi]
-		sortCleaned(rounds, p.cleaned, p.cleanedOn)
+		sortCleaned(p.cleanedRef, p.cleanedOn)
 		if !slices.IsSorted(p.bedding) {
 			slices.Sort(p.bedding)
 		}
@@ -177,34 +181,33 @@ func (f *facts) roundIndex() *roundIndex {
 	return ix
 }
 
-// sortCleaned sorts a place's cleaning rounds (and their days alike) by
-// day, then ref; they are most often in that order already, which is
-// checked on the days alone, the refs compared only between rounds of the
-// same day.
-func sortCleaned(rounds *records.CareRounds, cleaned []int32, on []records.Day) {
+// sortCleaned sorts a place's cleaning rounds' refs (and their days
+// alike) by day, then ref; they are most often in that order already.
+func sortCleaned(refs []records.Ref, on []records.Day) {
+	type entry struct {
+		day records.Day
+		ref records.Ref
+	}
+	byDayRef := func(a, b entry) int {
+		if a.day != b.day {
+			return cmp.Compare(a.day, b.day)
+		}
+		return strings.Compare(string(a.ref), string(b.ref))
+	}
 	sorted := true
 	for j := 1; j < len(on) && sorted; j++ {
-		sorted = on[j-1] < on[j] || (on[j-1] == on[j] && rounds.CompareRefs(int(cleaned[j-1]), int(cleaned[j])) <= 0)
+		sorted = byDayRef(entry{on[j-1], refs[j-1]}, entry{on[j], refs[j]}) <= 0
 	}
 	if sorted {
 		return
 	}
-	type entry struct {
-		round int32
-		day   records.Day
-	}
-	es := make([]entry, len(cleaned))
+	es := make([]entry, len(refs))
 	for j := range es {
-		es[j] = entry{cleaned[j], on[j]}
+		es[j] = entry{on[j], refs[j]}
 	}
-	slices.SortFunc(es, func(a, b entry) int {
-		if a.day != b.day {
-			return cmp.Compare(a.day, b.day)
-		}
-		return rounds.CompareRefs(int(a.round), int(b.round))
-	})
+	slices.SortFunc(es, byDayRef)
 	for j, e := range es {
-		cleaned[j], on[j] = e.round, e.day
+		on[j], refs[j] = e.day, e.ref
 	}
 }
 
