@@ -369,7 +369,12 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				}
 			}
 			for d := seg.From; d <= seg.To; d++ {
-				dc, ok := s.day(f.period, d)
+				// The site's figures of the day, read in place (s.day).
+				var dc *DayCold
+				if s != nil && f.inPeriod(d) {
+					dc = &s.days[d-f.period.From]
+				}
+				ok := dc != nil && dc.Readings > 0
 				if from, to, done := unknownRun.step(d, !ok); done {
 					unknown = append(unknown, [2]records.Day{from, to})
 				}
@@ -378,15 +383,20 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				}
 				k := int32(d - f.period.From)
 				// The wind-chill checks judge only days with a reading with
-				// wind; the water check needs the air temperature alone.
-				_, _, windOK := s.windDay(f.period, d)
-				if checks := int(care.on(d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
-					water = append(water, waterDay{day: k, checks: uint16(checks)})
+				// wind (s.windDay); the water check needs the air
+				// temperature alone.
+				windOK := dc.WindReadings > 0
+				if dc.MinAirC <= lc.WaterCheckBelowC {
+					if checks := int(care.on(d).waterChecks); checks <= lc.WaterChecksMin {
+						water = append(water, waterDay{day: k, checks: uint16(checks)})
+					}
 				}
-				last := bedded.last(d)
+				// The last bedding is looked up on the days it can decide.
 				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
-				if windOK && cold && (last == 0 || int(d-last) >= lc.BeddingDays) {
-					bedding = append(bedding, beddingDay{day: k, last: last, below: bedBelow, more: moreBelow})
+				if windOK && cold {
+					if last := bedded.last(d); last == 0 || int(d-last) >= lc.BeddingDays {
+						bedding = append(bedding, beddingDay{day: k, last: last, below: bedBelow, more: moreBelow})
+					}
 				}
 				if windOK && dc.MinWindChillC <= lc.ShelterWindChill && !e.NestBox.IsYes() {
 					shelter = append(shelter, shelterDay{day: k, needsNest: needsNest, needsShelter: needsShelter})
