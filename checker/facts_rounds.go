@@ -176,7 +176,10 @@ func (f *facts) roundIndex() *roundIndex {
 			}
 		}
 	}
-	f.care = c
+	if f.care == nil {
+		// A care index made before stays: the rounds may be gone since.
+		f.care = c
+	}
 	f.rix = ix
 	return ix
 }
