@@ -375,9 +375,9 @@ func (f *facts) rabiesRiskRounds() *riskyRounds {
 		return i < len(o.segs) && o.segs[i].From <= d && o.risky[i]
 	}
 	// The rounds' enclosures, resolved once per key of the rounds' table;
-	// an enclosure's risky days of the period as bits, one block for all
-	// (a round of the period tests a bit instead of searching the
-	// enclosure's segments).
+	// an enclosure's risky days of the period as bits, in blocks shared by
+	// 64 enclosures (a round of the period tests a bit instead of
+	// searching the enclosure's segments).
 	strs := f.rounds.Strings()
 	encOf := make([]occ, len(strs))
 	words := (int(f.period.To-f.period.From) + 1 + 63) / 64
