@@ -46,7 +46,7 @@ func buildFacts(f *facts, release func()) {
 			d.facts(f)
 		}
 	}
-	f.rounds = nil
+	f.rounds, f.rix = nil, nil
 	if release != nil {
 		release()
 	}

@@ -37,7 +37,10 @@ type facts struct {
 	segments map[string][]segment
 
 	// Built on first use by the domains that need them.
-	care     *careDays
+	care *careDays
+	// rix is what the round-reading builders take from the care rounds,
+	// read once (facts_rounds.go); released with the rounds.
+	rix      *roundIndex
 	handling map[string][]*records.Handling
 	// residences: every animal's stays over all time (facts_health.go).
 	residences []residence

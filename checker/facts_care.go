@@ -34,49 +34,12 @@ type careDays struct {
 }
 
 func (f *facts) careIndex() *careDays {
-	if f.care != nil {
-		return f.care
+	if f.care == nil {
+		// Filled by the one pass over the rounds (facts_rounds.go).
+		f.rix = nil
+		f.roundIndex()
 	}
-	c := &careDays{from: f.period.From, n: int(f.period.To-f.period.From) + 1,
-		enc: map[string][]dayCare{}, bld: map[string][]dayCare{}}
-	// Each round's days are found by the key of its enclosure (or
-	// building) in the rounds' table, then named once per key.
-	strs := f.rounds.Strings()
-	encDays := make([][]dayCare, len(strs))
-	bldDays := make([][]dayCare, len(strs))
-	for i := range f.rounds.Len() {
-		if !f.inPeriod(f.rounds.Day(i)) {
-			continue
-		}
-		r := f.rounds.Answers(i)
-		k := f.rounds.Keys(i)
-		by, key := encDays, k.Enclosure
-		if key == 0 {
-			by, key = bldDays, k.Building
-		}
-		days := by[key]
-		if days == nil {
-			days = make([]dayCare, c.n)
-			by[key] = days
-		}
-		dc := &days[f.rounds.Day(i)-c.from]
-		dc.observed = dc.observed || r.Observed.IsYes()
-		dc.fed = dc.fed || r.Fed.IsYes() || (r.HasFeed && r.FeedG > 0)
-		dc.bedding = dc.bedding || r.BeddingAdded.IsYes()
-		if r.Water != "" && r.Water != "not_checked" && dc.waterChecks < 255 {
-			dc.waterChecks++
-		}
-	}
-	for k, id := range strs {
-		if encDays[k] != nil {
-			c.enc[id] = encDays[k]
-		}
-		if bldDays[k] != nil {
-			c.bld[id] = bldDays[k]
-		}
-	}
-	f.care = c
-	return c
+	return f.care
 }
 
 // enclosureCare is one enclosure's days of care and its building's, looked
@@ -178,14 +141,10 @@ func unfedRun(from, to records.Day, every int) map[string]any {
 func (f *facts) roundEvents() {
 	byAnimal := f.handlingByAnimal()
 	var targets []string // reused across rounds
-	for i := range f.rounds.Len() {
-		if !f.inPeriod(f.rounds.Day(i)) {
-			continue
-		}
-		// Most rounds are neither: the full round is read only for those.
-		if a := f.rounds.Answers(i); a.Water != "empty" && a.Water != "frozen" && !a.HealthConcern.IsYes() {
-			continue
-		}
+	// Most rounds are neither: the pass over the rounds lists the others,
+	// and only those are read in full.
+	for _, i := range f.roundIndex().events {
+		i := int(i)
 		r := f.rounds.View(i)
 		// A building round speaks for every enclosure of the building that
 		// had animals that day; an enclosure round for its enclosure.

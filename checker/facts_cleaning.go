@@ -1,7 +1,6 @@
 package checker
 
 import (
-	"cmp"
 	"slices"
 	"sort"
 	"strings"
@@ -27,82 +26,22 @@ import (
 
 func (f *facts) cleaningFacts() {
 	// Each enclosure's (or building's) first round and its cleaning rounds,
-	// gathered by the keys of the rounds' table in two passes: the first
-	// counts, the second fills one block of round indexes cut by key, so a
-	// year of rounds costs one allocation, not a growing slice per key.
+	// from the one pass over the rounds (facts_rounds.go).
 	type index struct {
-		first   records.Day
-		cleaned []int32 // indexes of f.rounds, sorted by day, then ref
+		first records.Day
+		refs  []records.Ref // the cleaning rounds', sorted by day, then ref
+		on    []records.Day // their days
 	}
-	rounds := f.rounds
-	strs := rounds.Strings()
-	encIx := make([]index, len(strs))
-	bldIx := make([]index, len(strs))
-	seen := make([]uint8, len(strs)) // 1: an enclosure's key, 2: a building's
-	counts := make([]int32, 2*len(strs))
-	total := 0
-	for i := range rounds.Len() {
-		d := rounds.Day(i)
-		if d > f.period.To {
-			continue
-		}
-		k := rounds.Keys(i)
-		ixs, key, c, bit := encIx, k.Enclosure, 0, uint8(1)
-		if key == 0 {
-			ixs, key, c, bit = bldIx, k.Building, len(strs), 2
-		}
-		ix := &ixs[key]
-		seen[key] |= bit
-		if ix.first == 0 || d < ix.first {
-			ix.first = d
-		}
-		if rounds.Answers(i).Cleaned.IsYes() {
-			counts[c+int(key)]++
-			total++
-		}
-	}
-	block := make([]int32, 0, total)
-	for key := range strs {
-		for c, ixs := range [2][]index{encIx, bldIx} {
-			if n := int(counts[c*len(strs)+key]); n > 0 {
-				ixs[key].cleaned = block[len(block) : len(block) : len(block)+n]
-				block = block[:len(block)+n]
-			}
-		}
-	}
-	for i := range rounds.Len() {
-		if rounds.Day(i) > f.period.To || !rounds.Answers(i).Cleaned.IsYes() {
-			continue
-		}
-		k := rounds.Keys(i)
-		ix := &encIx[k.Enclosure]
-		if k.Enclosure == 0 {
-			ix = &bldIx[k.Building]
-		}
-		ix.cleaned = append(ix.cleaned, int32(i))
-	}
+	rix := f.roundIndex()
 	enc := make(map[string]*index, len(f.set.Enclosures))
 	bld := make(map[string]*index, len(f.set.Facility.Buildings))
-	for key, id := range strs {
-		if seen[key]&1 != 0 {
-			enc[id] = &encIx[key]
+	for i := range rix.places {
+		p := &rix.places[i]
+		m := enc
+		if p.building {
+			m = bld
 		}
-		if seen[key]&2 != 0 {
-			bld[id] = &bldIx[key]
-		}
-	}
-	byDayRef := func(a, b int32) int {
-		if da, db := rounds.Day(int(a)), rounds.Day(int(b)); da != db {
-			return cmp.Compare(da, db)
-		}
-		return rounds.CompareRefs(int(a), int(b))
-	}
-	for _, ixs := range [2][]index{encIx, bldIx} {
-		for k := range ixs {
-			if c := ixs[k].cleaned; len(c) > 1 && !slices.IsSortedFunc(c, byDayRef) {
-				slices.SortFunc(c, byDayRef)
-			}
-		}
+		m[p.id] = &index{first: p.first, refs: p.cleanedRef, on: p.cleanedOn}
 	}
 	// A year of gaps names the same days, the same period start and the
 	// same enclosure row again and again: each is one document value,
@@ -129,28 +68,21 @@ func (f *facts) cleaningFacts() {
 			if first == 0 || ix.first < first {
 				first = ix.first
 			}
-			for _, r := range ix.cleaned {
-				days = append(days, rounds.Day(int(r)))
-			}
+			days = append(days, ix.on...)
 		}
 		// refOf is the first round (by ref) that cleaned the enclosure on d.
 		refOf := func(d records.Day) records.Ref {
-			best := int32(-1)
+			var best records.Ref
+			found := false
 			for _, ix := range []*index{own, shared} {
 				if ix == nil {
 					continue
 				}
-				k := sort.Search(len(ix.cleaned), func(k int) bool { return rounds.Day(int(ix.cleaned[k])) >= d })
-				if k < len(ix.cleaned) && rounds.Day(int(ix.cleaned[k])) == d {
-					if r := ix.cleaned[k]; best < 0 || rounds.CompareRefs(int(r), int(best)) < 0 {
-						best = r
-					}
+				if k, ok := slices.BinarySearch(ix.on, d); ok && (!found || ix.refs[k] < best) {
+					best, found = ix.refs[k], true
 				}
 			}
-			if best < 0 {
-				return ""
-			}
-			return rounds.Ref(int(best))
+			return best
 		}
 		if !slices.IsSorted(days) {
 			slices.Sort(days)
@@ -207,7 +139,7 @@ func (f *facts) cleaningFacts() {
 		if len(gaps) > 0 {
 			ec.gaps = slices.Clone(gaps)
 		}
-		f.doc("enclosure", e.ID)["cleaning"] = &lazy{make: ec.section, term: ec.sectionTerm}
+		f.doc("enclosure", e.ID)["cleaning"] = &lazy{make: ec.section, term: ec.sectionTerm, data: ec}
 	}
 }
 
@@ -277,6 +209,15 @@ func (ec *encCleaning) sectionTerm(c *converter) (*ast.Term, error) {
 		[2]*ast.Term{c.key("rounds_recorded"), ast.InternedTerm(ec.recorded)},
 		[2]*ast.Term{c.key("gaps"), gaps},
 	)), nil
+}
+
+// appendGaps appends the section's gaps as the report lists them: the
+// days the made section gives, without making its maps.
+func (ec *encCleaning) appendGaps(out []CleaningGap, id string) []CleaningGap {
+	for _, g := range ec.gaps {
+		out = append(out, CleaningGap{Enclosure: id, From: g.from, Until: g.until, Days: int(g.until - g.from)})
+	}
+	return out
 }
 
 // section makes the enclosure's cleaning section.

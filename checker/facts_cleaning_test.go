@@ -82,3 +82,40 @@ func TestCleaningGaps(t *testing.T) {
 		})
 	}
 }
+
+// The report's cleaning gaps are read from the builder's data without
+// making the sections (cleaningGaps): they are the gaps of the sections
+// made, enclosure for enclosure.
+func TestCleaningGapsWithoutMakingSections(t *testing.T) {
+	for name, f := range documentSets(t) {
+		encs := f.docs["enclosure"]
+		made := make(map[string]map[string]any, len(encs))
+		for id, d := range encs {
+			made[id] = resolveDoc(d)
+		}
+		got, want := cleaningGaps(encs), cleaningGaps(made)
+		if len(want) == 0 {
+			t.Errorf("%s: no cleaning gaps to compare", name)
+		}
+		if diff := cmp.Diff(want, got); diff != "" {
+			t.Errorf("%s: gaps from the sections made (-) and from the builder's data (+):\n%s", name, diff)
+		}
+	}
+}
+
+// A place's cleaning rounds are ordered by day, then ref as text (so
+// "daily_care.csv:10" comes before "daily_care.csv:9"), their days moving
+// with their refs.
+func TestSortCleaned(t *testing.T) {
+	d1, d2 := coldDay("2026-07-01"), coldDay("2026-07-02")
+	refs := []records.Ref{"daily_care.csv:9", "daily_care.csv:10", "daily_care.csv:3", "daily_care.csv:2"}
+	on := []records.Day{d2, d2, d1, d1}
+	sortCleaned(refs, on)
+	wantRefs := []records.Ref{"daily_care.csv:2", "daily_care.csv:3", "daily_care.csv:10", "daily_care.csv:9"}
+	if diff := cmp.Diff(wantRefs, refs); diff != "" {
+		t.Errorf("refs (-want +got):\n%s", diff)
+	}
+	if diff := cmp.Diff([]records.Day{d1, d1, d2, d2}, on); diff != "" {
+		t.Errorf("days (-want +got):\n%s", diff)
+	}
+}

@@ -1,7 +1,6 @@
 package checker
 
 import (
-	"slices"
 	"sort"
 
 	"github.com/open-policy-agent/opa/v1/ast"
@@ -230,68 +229,27 @@ func (f *facts) siteColdFacts(s *siteWeather) {
 	}
 }
 
-// beddingIndex lists, per enclosure and per building, the days a round
-// added bedding, sorted, from every round up to the period's end: the
-// look-back before the period start uses the rounds themselves, so the first
-// days of a period are judged on the week before it.
+// beddingIndex gives, per enclosure and per building, the days a round
+// added bedding, from every round up to the period's end: the look-back
+// before the period start uses the rounds themselves, so the first days of
+// a period are judged on the week before it. The period's days are the care
+// index's (a round of the period that added bedding marks its day there);
+// the days before the period are listed, sorted.
 type beddingIndex struct {
-	enc, bld map[string][]records.Day
+	care     *careDays
+	enc, bld map[string][]records.Day // days before the period
 }
 
 func (f *facts) beddingDays() beddingIndex {
-	ix := beddingIndex{enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
-	// Gathered by the keys of the rounds' table, named once per key, in two
-	// passes: the first counts each key's days, the second fills one block
-	// cut by key, instead of a growing slice per key.
-	strs := f.rounds.Strings()
-	encDays := make([][]records.Day, len(strs))
-	bldDays := make([][]records.Day, len(strs))
-	counts := make([]int32, 2*len(strs))
-	total := 0
-	added := func(i int) bool {
-		return f.rounds.Day(i) <= f.period.To && f.rounds.Answers(i).BeddingAdded.IsYes()
-	}
-	for i := range f.rounds.Len() {
-		if !added(i) {
-			continue
-		}
-		if k := f.rounds.Keys(i); k.Enclosure != 0 {
-			counts[k.Enclosure]++
-		} else {
-			counts[len(strs)+int(k.Building)]++
-		}
-		total++
-	}
-	block := make([]records.Day, 0, total)
-	for k := range strs {
-		for c, days := range [2][][]records.Day{encDays, bldDays} {
-			if n := int(counts[c*len(strs)+k]); n > 0 {
-				days[k] = block[len(block) : len(block) : len(block)+n]
-				block = block[:len(block)+n]
-			}
-		}
-	}
-	for i := range f.rounds.Len() {
-		if !added(i) {
-			continue
-		}
-		d := f.rounds.Day(i)
-		if k := f.rounds.Keys(i); k.Enclosure != 0 {
-			encDays[k.Enclosure] = append(encDays[k.Enclosure], d)
-		} else {
-			bldDays[k.Building] = append(bldDays[k.Building], d)
-		}
-	}
-	for k, id := range strs {
-		for _, m := range []struct {
-			days [][]records.Day
-			ix   map[string][]records.Day
-		}{{encDays, ix.enc}, {bldDays, ix.bld}} {
-			if ds := m.days[k]; ds != nil {
-				if !slices.IsSorted(ds) {
-					slices.Sort(ds)
-				}
-				m.ix[id] = ds
+	ix := beddingIndex{care: f.careIndex(), enc: map[string][]records.Day{}, bld: map[string][]records.Day{}}
+	// From the one pass over the rounds (facts_rounds.go).
+	rix := f.roundIndex()
+	for i := range rix.places {
+		if p := &rix.places[i]; p.bedding != nil {
+			if p.building {
+				ix.bld[p.id] = p.bedding
+			} else {
+				ix.enc[p.id] = p.bedding
 			}
 		}
 	}
@@ -299,22 +257,47 @@ func (f *facts) beddingDays() beddingIndex {
 }
 
 // enclosureBedding is one enclosure's bedding days and its building's,
-// looked up once for a loop over its days.
-type enclosureBedding struct{ enc, bld []records.Day }
-
-func (ix beddingIndex) of(encID, buildingID string) enclosureBedding {
-	return enclosureBedding{ix.enc[encID], ix.bld[buildingID]}
+// looked up once for a loop over its days. A loop asking for later and
+// later days (last) scans the period's days once.
+type enclosureBedding struct {
+	care   enclosureCare
+	before [2][]records.Day // the enclosure's and the building's days before the period
+	// next is the first day of the period not yet scanned (0: none is);
+	// lastIn the last day before it with bedding added (0: none).
+	next, lastIn records.Day
 }
 
-func (eb enclosureBedding) last(d records.Day) records.Day {
+func (ix beddingIndex) of(encID, buildingID string) *enclosureBedding {
+	return &enclosureBedding{care: ix.care.of(encID, buildingID), before: [2][]records.Day{ix.enc[encID], ix.bld[buildingID]}}
+}
+
+// last is the last day up to d (d included) a round added bedding, 0 when
+// none did.
+func (eb *enclosureBedding) last(d records.Day) records.Day {
 	var best records.Day
-	for _, ds := range [2][]records.Day{eb.enc, eb.bld} {
+	for _, ds := range eb.before {
+		if len(ds) == 0 {
+			continue
+		}
 		i := sort.Search(len(ds), func(i int) bool { return ds[i] > d })
 		if i > 0 && ds[i-1] > best {
 			best = ds[i-1]
 		}
 	}
-	return best
+	from, end := eb.care.from, eb.care.from+records.Day(eb.care.n)
+	if d < from {
+		return best
+	}
+	if eb.next == 0 || d < eb.next-1 {
+		// The first call, or a day before those scanned: scan from the start.
+		eb.next, eb.lastIn = from, 0
+	}
+	for ; eb.next <= d && eb.next < end; eb.next++ {
+		if eb.care.on(eb.next).bedding {
+			eb.lastIn = eb.next
+		}
+	}
+	return max(best, eb.lastIn)
 }
 
 // exposed reports whether a building's animals live in the outside air.
@@ -386,7 +369,12 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				}
 			}
 			for d := seg.From; d <= seg.To; d++ {
-				dc, ok := s.day(f.period, d)
+				// The site's figures of the day, read in place (s.day).
+				var dc *DayCold
+				if s != nil && f.inPeriod(d) {
+					dc = &s.days[d-f.period.From]
+				}
+				ok := dc != nil && dc.Readings > 0
 				if from, to, done := unknownRun.step(d, !ok); done {
 					unknown = append(unknown, [2]records.Day{from, to})
 				}
@@ -395,15 +383,20 @@ func (f *facts) enclosureColdFacts(sites map[string]*siteWeather) {
 				}
 				k := int32(d - f.period.From)
 				// The wind-chill checks judge only days with a reading with
-				// wind; the water check needs the air temperature alone.
-				_, _, windOK := s.windDay(f.period, d)
-				if checks := int(care.on(d).waterChecks); dc.MinAirC <= lc.WaterCheckBelowC && checks <= lc.WaterChecksMin {
-					water = append(water, waterDay{day: k, checks: uint16(checks)})
+				// wind (s.windDay); the water check needs the air
+				// temperature alone.
+				windOK := dc.WindReadings > 0
+				if dc.MinAirC <= lc.WaterCheckBelowC {
+					if checks := int(care.on(d).waterChecks); checks <= lc.WaterChecksMin {
+						water = append(water, waterDay{day: k, checks: uint16(checks)})
+					}
 				}
-				last := bedded.last(d)
+				// The last bedding is looked up on the days it can decide.
 				cold := dc.MinWindChillC <= lc.BeddingWindChill || (bedBelow != nil && dc.MinAirC <= *bedBelow)
-				if windOK && cold && (last == 0 || int(d-last) >= lc.BeddingDays) {
-					bedding = append(bedding, beddingDay{day: k, last: last, below: bedBelow, more: moreBelow})
+				if windOK && cold {
+					if last := bedded.last(d); last == 0 || int(d-last) >= lc.BeddingDays {
+						bedding = append(bedding, beddingDay{day: k, last: last, below: bedBelow, more: moreBelow})
+					}
 				}
 				if windOK && dc.MinWindChillC <= lc.ShelterWindChill && !e.NestBox.IsYes() {
 					shelter = append(shelter, shelterDay{day: k, needsNest: needsNest, needsShelter: needsShelter})

@@ -57,11 +57,10 @@ func (f *facts) recordsFacts() {
 			animalOf[k] = f.animals[id]
 		}
 	}
-	for i := range f.rounds.Len() {
-		if k := f.rounds.Keys(i); k.ConcernAnimal != 0 {
-			if a, day := animalOf[k.ConcernAnimal], f.rounds.Day(i); outside(a, day) {
-				note(a, day, "health concern", f.rounds.Ref(i))
-			}
+	for _, i := range f.roundIndex().concerns {
+		i := int(i)
+		if a, day := animalOf[f.rounds.Keys(i).ConcernAnimal], f.rounds.Day(i); outside(a, day) {
+			note(a, day, "health concern", f.rounds.Ref(i))
 		}
 	}
 

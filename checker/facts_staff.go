@@ -41,6 +41,22 @@ func (l *refList) count() bool {
 
 func (l *refList) keep(r records.Ref) { l.first = append(l.first, r) }
 
+// merge counts the rows of m after l's, keeping refs up to maxRefs: l is
+// then as if m's rows had been added to it one by one. m is l's to keep.
+func (l *refList) merge(m *refList) {
+	l.n += m.n
+	if len(l.first) == 0 {
+		l.first = m.first // m is not used after
+		return
+	}
+	for _, r := range m.first {
+		if len(l.first) >= maxRefs {
+			break
+		}
+		l.keep(r)
+	}
+}
+
 func (l *refList) add(r records.Ref) {
 	if l.count() {
 		l.keep(r)
@@ -52,20 +68,35 @@ func (l *refList) add(r records.Ref) {
 // their handlings; the euthanasia training at the time of their culls; and
 // the rows that name them outside their employment window.
 func (f *facts) staffFacts() {
-	days := map[string]map[records.Day]*staffDay{}
-	at := func(s *records.Staff, d records.Day) *staffDay {
-		byDay := days[s.ID]
-		if byDay == nil {
-			byDay = map[records.Day]*staffDay{}
-			days[s.ID] = byDay
+	// Each person's days of the period, by index in the period, made on
+	// the person's first row: every row counted is of the period, and a
+	// year of care rounds looks a person's day up once per round.
+	n := int(f.period.To-f.period.From) + 1
+	type personDays struct {
+		s    *records.Staff
+		days []*staffDay // nil until the person's first row
+	}
+	people := make(map[*records.Staff]*personDays, len(f.set.Staff))
+	personOf := func(s *records.Staff) *personDays {
+		p := people[s]
+		if p == nil {
+			p = &personDays{s: s}
+			people[s] = p
 		}
-		sd := byDay[d]
+		return p
+	}
+	dayOf := func(p *personDays, d records.Day) *staffDay {
+		if p.days == nil {
+			p.days = make([]*staffDay, n)
+		}
+		sd := p.days[d-f.period.From]
 		if sd == nil {
 			sd = &staffDay{day: d}
-			byDay[d] = sd
+			p.days[d-f.period.From] = sd
 		}
 		return sd
 	}
+	at := func(s *records.Staff, d records.Day) *staffDay { return dayOf(personOf(s), d) }
 	// away is whether d is outside s's employment.
 	away := func(s *records.Staff, d records.Day) bool {
 		return (!s.ActiveFrom.IsZero() && d < s.ActiveFrom) || (!s.ActiveTo.IsZero() && d > s.ActiveTo)
@@ -112,30 +143,17 @@ func (f *facts) staffFacts() {
 		}
 		outside(s, d, c.Ref)
 	}
-	risky := f.rabiesRiskRounds()
-	// The rounds' staff, resolved once per key of the rounds' table.
-	strs := f.rounds.Strings()
-	staffOf := make([]*records.Staff, len(strs))
-	for k, id := range strs {
-		staffOf[k] = f.staff[id]
-	}
-	for i := range f.rounds.Len() {
-		d := f.rounds.Day(i)
-		if !f.inPeriod(d) {
-			continue
-		}
-		k := f.rounds.Keys(i)
-		if s := staffOf[k.Staff]; s != nil {
-			// The ref is formatted only for a round the facts cite.
-			if away(s, d) {
-				if sd := at(s, d); sd.outside.count() {
-					sd.outside.keep(f.rounds.Ref(i))
-				}
+	// The care rounds, counted in the one pass over them (roundIndex),
+	// added where this loop read them: after the culls, before the work.
+	sr := f.roundIndex().staff
+	for _, p := range sr.people {
+		for j := range p.days {
+			rc, d := &p.days[j], f.period.From+records.Day(j)
+			if rc.outside.n > 0 {
+				at(p.s, d).outside.merge(&rc.outside)
 			}
-			if risky(k, d) {
-				if sd := at(s, d); sd.rabiesRounds.count() {
-					sd.rabiesRounds.keep(f.rounds.Ref(i))
-				}
+			if rc.rabies.n > 0 {
+				at(p.s, d).rabiesRounds.merge(&rc.rabies)
 			}
 		}
 	}
@@ -147,15 +165,15 @@ func (f *facts) staffFacts() {
 		}
 	}
 
-	for id, byDay := range days {
-		s := f.staff[id]
-		sds := make([]*staffDay, 0, len(byDay))
-		for _, sd := range byDay {
-			sds = append(sds, sd)
+	for s, p := range people {
+		if p.days == nil {
+			continue // no row of the period names the person
 		}
-		sort.Slice(sds, func(i, j int) bool { return sds[i].day < sds[j].day })
 		handled, culled, out, rabies := []any{}, []any{}, []any{}, []any{}
-		for _, sd := range sds {
+		for _, sd := range p.days {
+			if sd == nil {
+				continue
+			}
 			if r := f.rabiesDay(s, sd); r != nil {
 				rabies = append(rabies, r)
 			}
@@ -169,7 +187,7 @@ func (f *facts) staffFacts() {
 				out = append(out, map[string]any{"on": f.dayValue(sd.day), "rows": sd.outside.n, "refs": refs(sd.outside.first...)})
 			}
 		}
-		d := f.doc("staff", id)
+		d := f.doc("staff", s.ID)
 		d["staff"] = map[string]any{
 			"active_from":    dayOrNull(s.ActiveFrom),
 			"active_to":      dayOrNull(s.ActiveTo),
@@ -260,13 +278,77 @@ func rabiesRecord(s *records.Staff, d records.Day, work []records.Ref) map[strin
 	return r
 }
 
-// rabiesRiskRounds returns whether a care round covers an enclosure occupied
+// staffRounds counts, per person and day of the period, the care rounds
+// the person did outside their employment and those of an enclosure a
+// rabies-risk species occupied that day, keeping the refs of the first
+// maxRefs of each. It is filled in the one pass over the rounds
+// (roundIndex, visit) and read by staffFacts.
+type staffRounds struct {
+	f       *facts
+	staffOf []*staffRoundDays // per key of the rounds' table; nil: no such person
+	people  []*staffRoundDays
+	risky   *riskyRounds
+}
+
+type staffRoundDays struct {
+	s    *records.Staff
+	days []staffRoundCounts // by index in the period; nil until needed
+}
+
+type staffRoundCounts struct{ outside, rabies refList }
+
+func (f *facts) newStaffRounds() *staffRounds {
+	strs := f.rounds.Strings()
+	sr := &staffRounds{f: f, staffOf: make([]*staffRoundDays, len(strs)), risky: f.rabiesRiskRounds()}
+	byStaff := map[*records.Staff]*staffRoundDays{}
+	for k, id := range strs {
+		s := f.staff[id]
+		if s == nil {
+			continue
+		}
+		p := byStaff[s]
+		if p == nil {
+			p = &staffRoundDays{s: s}
+			byStaff[s] = p
+			sr.people = append(sr.people, p)
+		}
+		sr.staffOf[k] = p
+	}
+	return sr
+}
+
+// visit counts round i of day d (a day of the period).
+func (sr *staffRounds) visit(i int, k records.CareKeys, d records.Day) {
+	p := sr.staffOf[k.Staff]
+	if p == nil {
+		return
+	}
+	s, f := p.s, sr.f
+	away := (!s.ActiveFrom.IsZero() && d < s.ActiveFrom) || (!s.ActiveTo.IsZero() && d > s.ActiveTo)
+	risky := sr.risky.on(k, d)
+	if !away && !risky {
+		return
+	}
+	if p.days == nil {
+		p.days = make([]staffRoundCounts, int(f.period.To-f.period.From)+1)
+	}
+	rc := &p.days[d-f.period.From]
+	// The ref is formatted only for a round the facts cite.
+	if away && rc.outside.count() {
+		rc.outside.keep(f.rounds.Ref(i))
+	}
+	if risky && rc.rabies.count() {
+		rc.rabies.keep(f.rounds.Ref(i))
+	}
+}
+
+// rabiesRiskRounds tells whether a care round covers an enclosure occupied
 // that day by a rabies-risk species (a building round covers every
 // enclosure of its building). A building round's result is kept per
 // building and day, since a year of them names the same few hundred of
-// each; an enclosure's round is looked up directly (its occupancy is one
-// search in a short list, cheaper than a memo of a million enclosure days).
-func (f *facts) rabiesRiskRounds() func(k records.CareKeys, d records.Day) bool {
+// each; an enclosure's round of the period tests a bit of the enclosure's
+// risky days, worked out once from its occupancy segments.
+func (f *facts) rabiesRiskRounds() *riskyRounds {
 	byBuilding := map[string][]string{}
 	for i := range f.set.Enclosures {
 		e := &f.set.Enclosures[i]
@@ -292,18 +374,43 @@ func (f *facts) rabiesRiskRounds() func(k records.CareKeys, d records.Day) bool 
 		i := sort.Search(len(o.segs), func(i int) bool { return o.segs[i].To >= d })
 		return i < len(o.segs) && o.segs[i].From <= d && o.risky[i]
 	}
-	// The rounds' enclosures, resolved once per key of the rounds' table.
+	// The rounds' enclosures, resolved once per key of the rounds' table;
+	// an enclosure's risky days of the period as bits, in blocks shared by
+	// 64 enclosures (a round of the period tests a bit instead of
+	// searching the enclosure's segments).
 	strs := f.rounds.Strings()
 	encOf := make([]occ, len(strs))
+	words := (int(f.period.To-f.period.From) + 1 + 63) / 64
+	bitsOf := make([][]uint64, len(strs)) // nil: no risky day
+	var bits []uint64
 	for k, id := range strs {
-		encOf[k] = byEnc[id]
+		o := byEnc[id]
+		encOf[k] = o
+		if !slices.Contains(o.risky, true) {
+			continue
+		}
+		if len(bits) < words {
+			bits = make([]uint64, 64*words)
+		}
+		kb := bits[:words:words]
+		bits = bits[words:]
+		bitsOf[k] = kb
+		for i, seg := range o.segs {
+			if !o.risky[i] {
+				continue
+			}
+			for d := max(seg.From, f.period.From); d <= seg.To && d <= f.period.To; d++ {
+				j := int(d - f.period.From)
+				kb[j/64] |= 1 << (j % 64)
+			}
+		}
 	}
 	type key struct {
 		building uint32
 		day      records.Day
 	}
 	memo := map[key]bool{}
-	return func(k records.CareKeys, d records.Day) bool {
+	return &riskyRounds{from: f.period.From, to: f.period.To, bits: bitsOf, other: func(k records.CareKeys, d records.Day) bool {
 		if k.Enclosure != 0 {
 			return riskyOn(encOf[k.Enclosure], d)
 		}
@@ -314,7 +421,24 @@ func (f *facts) rabiesRiskRounds() func(k records.CareKeys, d records.Day) bool 
 		v := slices.ContainsFunc(byBuilding[strs[k.Building]], func(e string) bool { return riskyOn(byEnc[e], d) })
 		memo[mk] = v
 		return v
+	}}
+}
+
+// riskyRounds tells whether a care round is rabies-risk work
+// (rabiesRiskRounds): an enclosure's round of the period by its bits, any
+// other by other.
+type riskyRounds struct {
+	from, to records.Day
+	bits     [][]uint64 // per key of the rounds' table: the period's risky days; nil: none
+	other    func(k records.CareKeys, d records.Day) bool
+}
+
+func (r *riskyRounds) on(k records.CareKeys, d records.Day) bool {
+	if k.Enclosure == 0 || d < r.from || d > r.to {
+		return r.other(k, d)
 	}
+	kb, j := r.bits[k.Enclosure], int(d-r.from)
+	return kb != nil && kb[j/64]&(1<<(j%64)) != 0
 }
 
 // rabiesDay is one day on which s worked with a rabies-risk species —

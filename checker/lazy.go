@@ -35,6 +35,9 @@ type lazy struct {
 	// converting make's gives (convert_test holds them to it), with less
 	// work: the converter uses it, every other reader make.
 	term func(c *converter) (*ast.Term, error)
+	// data, when set, is the builder's compact data, for a reader that
+	// knows its type and needs less than the whole section (cleaningGaps).
+	data any
 }
 
 // resolve gives the plain value of a document's section: a lazy section

@@ -175,8 +175,28 @@ func (f *facts) warmFigures(fs []Finding, gaps []CleaningGap) *Warm {
 // enclosure id (Overdue is left for warmFigures): taken before the
 // documents are evaluated and let go.
 func cleaningGaps(enclosures map[string]map[string]any) []CleaningGap {
-	var gaps []CleaningGap
+	// A cleaning builder's section gives its gaps without being made; a
+	// year of them is counted first, so the list is made at its size.
+	built := func(d map[string]any) *encCleaning {
+		l, _ := d["cleaning"].(*lazy)
+		if l == nil {
+			return nil
+		}
+		ec, _ := l.data.(*encCleaning)
+		return ec
+	}
+	n := 0
+	for _, d := range enclosures {
+		if ec := built(d); ec != nil {
+			n += len(ec.gaps)
+		}
+	}
+	gaps := make([]CleaningGap, 0, n)
 	for _, id := range sortedIDs(enclosures) {
+		if ec := built(enclosures[id]); ec != nil {
+			gaps = ec.appendGaps(gaps, id)
+			continue
+		}
 		cs, _ := section(enclosures[id], "cleaning").(map[string]any)
 		list, _ := cs["gaps"].([]any)
 		for _, x := range list {
