@@ -472,3 +472,73 @@ func (c *CareRounds) truncate(n int) {
 func (c *CareRounds) reset() {
 	c.blocks, c.n, c.wide = nil, 0, nil
 }
+
+// appendStore moves the rounds of o (a store of rounds read after c's)
+// after c's, as if each had been added to c in order: o's strings join
+// c's table in o's order of first use, which is the table c would have
+// built, and o's rows take c's keys. The rows are moved within o's own
+// blocks rather than copied to new ones, so joining needs no memory beyond
+// the two stores. It reports false, leaving the rows where they are, when
+// o is not a store c can take (another location, more ref prefixes than a
+// store holds); o is left empty when it reports true.
+func (c *CareRounds) appendStore(other rowStore[CareRound]) bool {
+	o, ok := other.(*CareRounds)
+	if !ok || o.loc != c.loc {
+		return false
+	}
+	if o.n == 0 {
+		return true
+	}
+	srcs := make([]uint32, len(o.srcs))
+	for i, p := range o.srcs {
+		if srcs[i], ok = c.source(p); !ok {
+			return false
+		}
+	}
+	keys := make([]uint32, len(o.strs))
+	for i := 1; i < len(o.strs); i++ {
+		keys[i] = c.intern(o.strs[i])
+	}
+	wideBase := uint32(len(c.wide))
+	c.wide = append(c.wide, o.wide...)
+	fix := func(r *careRow) {
+		r.enc, r.bld, r.staff, r.anim, r.notes = keys[r.enc], keys[r.bld], keys[r.staff], keys[r.anim], keys[r.notes]
+		if r.flags&careWide != 0 {
+			r.line += wideBase
+		} else {
+			r.flags = r.flags&(1<<srcShift-1) | srcs[r.flags>>srcShift]<<srcShift
+		}
+	}
+	// First fill c's last block, row by row.
+	j := 0
+	if k := len(c.blocks); k > 0 {
+		for j < o.n && len(c.blocks[k-1]) < careBlockSize {
+			w := c.push()
+			*w = *o.row(j)
+			fix(w)
+			j++
+		}
+	}
+	// The rest, o's rows from j on, are c's next blocks: each is made in
+	// o's block k from its rows after the first j and the first j rows of
+	// block k+1 (read before block k+1 is itself moved).
+	for k, blk := range o.blocks {
+		if len(blk) <= j {
+			break // its rows went into the block before
+		}
+		nb := copy(blk, blk[j:])
+		if j > 0 && k+1 < len(o.blocks) {
+			nb += copy(blk[nb:len(blk)], o.blocks[k+1][:min(j, len(o.blocks[k+1]))])
+		}
+		blk = blk[:nb]
+		for i := range blk {
+			fix(&blk[i])
+		}
+		c.blocks = append(c.blocks, blk)
+		c.n += nb
+		o.blocks[k] = nil
+	}
+	o.reset()
+	o.strs, o.ids, o.srcs, o.srcIdx = []string{""}, map[string]uint32{}, nil, map[string]uint32{}
+	return true
+}

@@ -36,6 +36,9 @@ type csvReader struct {
 	ends       []int
 	rec        []string
 	fatal      error
+	// openAtEnd is set when the input ended inside a quoted cell: a row
+	// went on past the last line (see readRanges).
+	openAtEnd bool
 }
 
 type heldLine struct {
@@ -189,6 +192,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 					var next []byte
 					next, n, err = r.readLine()
 					if err == io.EOF {
+						r.openAtEnd = true
 						qe := &quoteError{line: openLine, col: openCol, lines: r.end - openLine + 1, how: "is never closed"}
 						return r.recover(nil, 0, &csv.ParseError{StartLine: r.start, Line: r.start, Column: openCol, Err: qe})
 					}
