@@ -124,26 +124,47 @@ func (l *loaded[T]) len() int {
 }
 
 // keepRounds is keep for the care rounds, which are kept in their store:
-// a round failing check becomes a problem, positioned and dated as keep
-// does.
-func keepRounds(l *loaded[CareRound], check func(r *CareView) *cellError) {
+// a round naming an id that is not in its set becomes a problem,
+// positioned and dated as keep does. refs are the round's references in
+// the order they are checked (Enclosure, Building, Staff, ConcernAnimal
+// of CareKeys); each is resolved once per distinct id, a key of the
+// store's table of strings, rather than once per round.
+func keepRounds(l *loaded[CareRound], refs [4]ref) {
 	st, ok := l.store.(*CareRounds)
 	if l.plan == nil || !ok {
 		return
 	}
-	var v CareView // one for every row: a pointer to it escapes to check
+	strs := st.Strings()
+	// known[f][key]: 0 not looked up yet, 1 in its set, 2 not.
+	var known [4][]uint8
+	for f := range known {
+		known[f] = make([]uint8, len(strs))
+	}
 	st.retain(func(i int) bool {
-		v = st.View(i)
-		ce := check(&v)
-		if ce == nil {
-			return true
+		k := st.Keys(i)
+		for f, key := range [4]uint32{k.Enclosure, k.Building, k.Staff, k.ConcernAnimal} {
+			if key == 0 {
+				continue
+			}
+			if known[f][key] == 0 {
+				known[f][key] = 1
+				if refs[f].in.check(strs[key]) != "" {
+					known[f][key] = 2
+				}
+			}
+			if known[f][key] == 1 {
+				continue
+			}
+			r := refs[f]
+			r.id = strs[key]
+			pr := l.problem(st.line(i), l.refs(r))
+			pr.Day = st.Day(i)
+			l.problems = append(l.problems, pr)
+			l.count.Accepted--
+			l.count.Rejected++
+			return false
 		}
-		pr := l.problem(st.line(i), ce)
-		pr.Day = v.Day // the row rule set it to the day of checked_at
-		l.problems = append(l.problems, pr)
-		l.count.Accepted--
-		l.count.Rejected++
-		return false
+		return true
 	})
 }
 
@@ -293,13 +314,11 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 		}
 	}
 
-	keepRounds(ld.care, func(r *CareView) *cellError {
-		return ld.care.refs(
-			ref{"EnclosureID", r.EnclosureID, enclosures},
-			ref{"BuildingID", r.BuildingID, buildings},
-			ref{"StaffID", r.StaffID, staff},
-			ref{"ConcernAnimalID", r.ConcernAnimalID, animals})
-	})
+	keepRounds(ld.care, [4]ref{
+		{goName: "EnclosureID", in: enclosures},
+		{goName: "BuildingID", in: buildings},
+		{goName: "StaffID", in: staff},
+		{goName: "ConcernAnimalID", in: animals}})
 	ld.handling.keep(func(h *Handling) *cellError {
 		rs := []ref{{"AnimalID", h.AnimalID, animals}, {"StaffID", h.StaffID, staff}, protoRef("ProtocolID", h.ProtocolID)}
 		if items != nil {
