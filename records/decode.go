@@ -400,7 +400,12 @@ type decoder struct {
 	// verdicts memoises, per column, the validation reason of each distinct
 	// cell ("" = valid): validation is a pure function of the cell, and a
 	// million rows repeat a few hundred values.
-	verdicts []map[string]verdict
+	verdicts []map[string]*verdict
+	// last is, per column, the verdict of its text cell read last: rows
+	// repeat a cell, or follow the order of the rows before (a round of
+	// the enclosures every day), so the next cell is looked for as that
+	// one, then as the one that came after it, before the map.
+	last []*verdict
 	// kind is the Problem.Kind of the reason set last returned, if any.
 	kind string
 	// zone is the time zone of the last date a local time was read on.
@@ -413,17 +418,48 @@ type decoder struct {
 // for text fields, the shared copy of its value.
 type verdict struct {
 	val, reason string
+	// next is the verdict of the cell that followed this one in the
+	// column the last time it did.
+	next *verdict
 }
 
 func newDecoder(p *plan, e *env, file string) *decoder {
 	d := &decoder{p: p, loc: e.loc, win: e.window, strs: map[string]string{}, failed: make([]bool, len(p.rt.fields)), refBase: file + ":"}
-	d.verdicts = make([]map[string]verdict, len(p.cols))
+	d.verdicts = make([]map[string]*verdict, len(p.cols))
+	d.last = make([]*verdict, len(p.cols))
 	for ci, c := range p.cols {
 		if c.field >= 0 && p.rt.fields[c.field].vtag != "" {
-			d.verdicts[ci] = map[string]verdict{}
+			d.verdicts[ci] = map[string]*verdict{}
 		}
 	}
 	return d
+}
+
+// seen is the verdict of a text cell of column ci met before, or nil.
+func (d *decoder) seen(ci int, cell string) *verdict {
+	last := d.last[ci]
+	if last != nil {
+		if last.val == cell {
+			return last
+		}
+		if n := last.next; n != nil && n.val == cell {
+			d.last[ci] = n
+			return n
+		}
+	}
+	v := d.verdicts[ci][cell]
+	if v != nil {
+		d.follow(ci, v)
+	}
+	return v
+}
+
+// follow makes v the verdict read last in column ci, after the one before.
+func (d *decoder) follow(ci int, v *verdict) {
+	if last := d.last[ci]; last != nil {
+		last.next = v
+	}
+	d.last[ci] = v
 }
 
 // intern shares one copy of repeated ids and codes, so that a million rows
@@ -478,11 +514,11 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 		}
 		fv := rv.Field(f.index)
 		var reason string
-		v, ok := verdict{}, false
+		var v *verdict
 		if f.kind == kString && d.verdicts[ci] != nil {
-			v, ok = d.verdicts[ci][cell]
+			v = d.seen(ci, cell)
 		}
-		if ok {
+		if v != nil {
 			// A repeated id or code: its shared copy and its verdict in one lookup.
 			fv.SetString(v.val)
 			reason = v.reason

@@ -46,11 +46,12 @@ func (d *decoder) verdict(ci int, fv reflect.Value, f *field, cell string) strin
 		}
 	}
 	if len(m) < 1<<16 {
-		v := verdict{reason: reason}
+		v := &verdict{reason: reason}
+		m[strings.Clone(cell)] = v
 		if fv.Kind() == reflect.String {
 			v.val = fv.String()
+			d.follow(ci, v)
 		}
-		m[strings.Clone(cell)] = v
 	}
 	return reason
 }
