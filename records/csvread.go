@@ -3,10 +3,12 @@ package records
 import (
 	"bufio"
 	"bytes"
+	"encoding/binary"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
+	"math/bits"
 	"unicode/utf8"
 )
 
@@ -171,6 +173,13 @@ func (r *csvReader) readRecord() ([]string, error) {
 	r.held = r.held[:0]
 	r.recBuf = r.recBuf[:0]
 	r.ends = r.ends[:0]
+	if bytes.IndexByte(line, '"') < 0 {
+		// No quote on the line (most rows): its cells are cut at its commas.
+		body := bytes.TrimSuffix(line, []byte{'\n'})
+		r.recBuf = append(r.recBuf, body...)
+		r.ends = append(appendCommas(r.ends, body), len(body))
+		return r.record()
+	}
 	pos := 0
 	for {
 		if pos < len(line) && line[pos] == '"' {
@@ -211,6 +220,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 				case pos < len(line) && line[pos] == ',':
 					pos++
 					r.ends = append(r.ends, len(r.recBuf))
+					r.recBuf = append(r.recBuf, ',')
 					break quoted
 				case pos == len(line) || (pos == len(line)-1 && line[pos] == '\n'):
 					r.ends = append(r.ends, len(r.recBuf))
@@ -243,21 +253,46 @@ func (r *csvReader) readRecord() ([]string, error) {
 		if last {
 			return r.record()
 		}
+		r.recBuf = append(r.recBuf, ',')
 		pos += i + 1
 	}
 }
 
-// record cuts the record's cells out of one string.
+// record cuts the record's cells out of one string: recBuf holds them
+// joined by commas (their quotes removed), and ends are where each ends.
 func (r *csvReader) record() ([]string, error) {
 	str := string(r.recBuf)
 	r.rec = r.rec[:0]
 	prev := 0
 	for _, e := range r.ends {
 		r.rec = append(r.rec, str[prev:e])
-		prev = e
+		prev = e + 1
 	}
 	r.held = r.held[:0]
 	return r.rec, nil
+}
+
+// appendCommas appends the offsets of b's commas to ends, eight bytes at
+// a time: a byte of x that is zero (a comma, once xor-ed) is the one whose
+// high bit survives, exactly, in ^((x&0x7f…+0x7f…)|x|0x7f…).
+func appendCommas(ends []int, b []byte) []int {
+	const (
+		ones  = 0x0101010101010101
+		seven = 0x7f7f7f7f7f7f7f7f
+	)
+	i := 0
+	for ; i+8 <= len(b); i += 8 {
+		x := binary.LittleEndian.Uint64(b[i:]) ^ (ones * ',')
+		for y := ^((x&seven + seven) | x | seven); y != 0; y &= y - 1 {
+			ends = append(ends, i+bits.TrailingZeros64(y)/8)
+		}
+	}
+	for ; i < len(b); i++ {
+		if b[i] == ',' {
+			ends = append(ends, i)
+		}
+	}
+	return ends
 }
 
 // rowText reports whether every cell of the record just read is text as
@@ -265,7 +300,8 @@ func (r *csvReader) record() ([]string, error) {
 // pass over the record's bytes rather than one per cell. The cells are
 // consecutive pieces of those bytes: the whole being UTF-8 with each cell
 // starting on a character makes each cell UTF-8, and a cell that is UTF-8
-// starts on a character, so the answer is the same as cell by cell.
+// starts on a character, so the answer is the same as cell by cell (the
+// commas between them are characters of their own).
 func (r *csvReader) rowText() bool {
 	b := r.recBuf
 	if bytes.IndexByte(b, 0) >= 0 || !utf8.Valid(b) {
@@ -276,7 +312,7 @@ func (r *csvReader) rowText() bool {
 		if e-prev > MaxFieldBytes || (e > prev && !utf8.RuneStart(b[prev])) {
 			return false
 		}
-		prev = e
+		prev = e + 1
 	}
 	return true
 }

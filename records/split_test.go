@@ -402,3 +402,25 @@ func loadCorpus(t *testing.T) []loadCase {
 	}
 	return out
 }
+
+// TestAppendCommas: the commas found eight bytes at a time are those a
+// byte-by-byte look finds, next to every byte value and at every offset.
+func TestAppendCommas(t *testing.T) {
+	for v := range 256 {
+		for n := range 20 {
+			b := bytes.Repeat([]byte{byte(v)}, n)
+			for i := 0; i < n; i += 3 {
+				b[i] = ','
+			}
+			var want []int
+			for i, c := range b {
+				if c == ',' {
+					want = append(want, i)
+				}
+			}
+			if got := appendCommas(nil, b); !reflect.DeepEqual(got, want) {
+				t.Fatalf("%q: commas at %v, want %v", b, got, want)
+			}
+		}
+	}
+}
