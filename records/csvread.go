@@ -75,17 +75,26 @@ func newCSVReader(r io.Reader) *csvReader {
 // rejects one row and reading can go on; io.EOF ends the file; any other
 // error stops it (and is returned again by every later call).
 func (r *csvReader) Read() ([]string, error) {
-	if r.fatal != nil {
-		return nil, r.fatal
+	if err := r.readRaw(); err != nil {
+		return nil, err
 	}
-	rec, err := r.readRecord()
+	return r.record(), nil
+}
+
+// readRaw reads the next record as Read does, leaving its cells in recBuf
+// and ends (see record) rather than cutting them out.
+func (r *csvReader) readRaw() error {
+	if r.fatal != nil {
+		return r.fatal
+	}
+	err := r.readRecord()
 	if err != nil && err != io.EOF {
 		var pe *csv.ParseError
 		if !errors.As(err, &pe) {
 			r.fatal = err
 		}
 	}
-	return rec, err
+	return err
 }
 
 // readLine returns the next physical line with CRLF turned into LF, its
@@ -141,7 +150,7 @@ func (r *csvReader) hold(line []byte, n int) {
 
 // recover rejects a multi-line row at its first line and puts its other
 // lines back to be read again.
-func (r *csvReader) recover(current []byte, n int, err error) ([]string, error) {
+func (r *csvReader) recover(current []byte, n int, err error) error {
 	if len(r.held) > 0 {
 		again := make([]heldLine, 0, len(r.held)+len(r.back))
 		again = append(again, r.held[1:]...)
@@ -151,10 +160,10 @@ func (r *csvReader) recover(current []byte, n int, err error) ([]string, error) 
 		r.back = append(again, r.back...)
 		r.held = r.held[:0]
 	}
-	return nil, err
+	return err
 }
 
-func (r *csvReader) readRecord() ([]string, error) {
+func (r *csvReader) readRecord() error {
 	var (
 		line []byte
 		n    int
@@ -163,7 +172,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 	for {
 		line, n, err = r.readLine()
 		if err != nil {
-			return nil, err
+			return err
 		}
 		if !(len(line) == 1 && line[0] == '\n') {
 			break // blank lines are skipped, as encoding/csv does
@@ -178,7 +187,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 		body := bytes.TrimSuffix(line, []byte{'\n'})
 		r.recBuf = append(r.recBuf, body...)
 		r.ends = append(appendCommas(r.ends, body), len(body))
-		return r.record()
+		return r.done()
 	}
 	pos := 0
 	for {
@@ -206,7 +215,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 						return r.recover(nil, 0, &csv.ParseError{StartLine: r.start, Line: r.start, Column: openCol, Err: qe})
 					}
 					if err != nil {
-						return nil, err
+						return err
 					}
 					line, pos, r.end = next, 0, n
 					continue
@@ -224,7 +233,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 					break quoted
 				case pos == len(line) || (pos == len(line)-1 && line[pos] == '\n'):
 					r.ends = append(r.ends, len(r.recBuf))
-					return r.record()
+					return r.done()
 				default:
 					if r.end > openLine {
 						qe := &quoteError{line: openLine, col: openCol, lines: r.end - openLine + 1,
@@ -251,7 +260,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 		r.recBuf = append(r.recBuf, field...)
 		r.ends = append(r.ends, len(r.recBuf))
 		if last {
-			return r.record()
+			return r.done()
 		}
 		r.recBuf = append(r.recBuf, ',')
 		pos += i + 1
@@ -260,7 +269,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 
 // record cuts the record's cells out of one string: recBuf holds them
 // joined by commas (their quotes removed), and ends are where each ends.
-func (r *csvReader) record() ([]string, error) {
+func (r *csvReader) record() []string {
 	str := string(r.recBuf)
 	r.rec = r.rec[:0]
 	prev := 0
@@ -268,8 +277,13 @@ func (r *csvReader) record() ([]string, error) {
 		r.rec = append(r.rec, str[prev:e])
 		prev = e + 1
 	}
+	return r.rec
+}
+
+// done ends a record that was read whole.
+func (r *csvReader) done() error {
 	r.held = r.held[:0]
-	return r.rec, nil
+	return nil
 }
 
 // appendCommas appends the offsets of b's commas to ends, eight bytes at

@@ -231,6 +231,9 @@ func skipBOM(br *bufio.Reader) {
 // reads the file another way).
 func (l *loaded[T]) begin(rr rowReader, rt *rowType, drain bool) (*plan, bool) {
 	head, _, err := rr.next()
+	// The plan and the warnings keep the header's names: copies, since a
+	// reader's cells are valid only until it reads on (see rowBatch).
+	head = cloneCells(head)
 	switch {
 	case err == io.EOF:
 		l.fail("", "no header row (the file is empty)")
@@ -303,6 +306,15 @@ func (l *loaded[T]) begin(rr rowReader, rt *rowType, drain bool) (*plan, bool) {
 	return p, true
 }
 
+// cloneCells copies a row's cells out of the reader's buffer.
+func cloneCells(rec []string) []string {
+	out := make([]string, len(rec))
+	for i, c := range rec {
+		out[i] = strings.Clone(c)
+	}
+	return out
+}
+
 // rowsNotRead says how many rows a file-level problem kept from being read.
 func rowsNotRead(n int) string {
 	switch n {
@@ -330,7 +342,8 @@ func (l *loaded[T]) sheetAt() string {
 
 // problem positions a rejected row (or a header problem, on line 1).
 func (l *loaded[T]) problem(line int, ce *cellError) Problem {
-	pr := Problem{File: l.file, Line: line, Column: ce.column, Value: printable(ce.value), Reason: shortenReason(ce.reason, ce.value), Kind: ce.kind}
+	// Copies: the row's cells are the reader's, valid only until it reads on.
+	pr := Problem{File: l.file, Line: line, Column: ce.column, Value: printable(ce.value), Reason: strings.Clone(shortenReason(ce.reason, ce.value)), Kind: ce.kind}
 	if l.at != nil {
 		ci := -1
 		if ce.field >= 0 && l.plan != nil {
@@ -903,7 +916,7 @@ func (l *loaded[T]) keepLocal(ref Ref, rec []string) {
 	}
 	m := make(map[string]string, len(l.local))
 	for i, name := range l.local {
-		m[name] = strings.TrimSpace(rec[i])
+		m[name] = strings.Clone(strings.TrimSpace(rec[i]))
 	}
 	l.extra[ref] = m
 }

@@ -263,11 +263,13 @@ func TestPrefetchStopsEarly(t *testing.T) {
 }
 
 // forcePrefetch makes every CSV file read by the prefetching reader, in
-// batches of rows rows, until the returned function puts it back.
+// batches of rows rows, its batches poisoned once read (so a cell the
+// loader keeps without copying shows), until the returned function puts
+// it back.
 func forcePrefetch(rows, bytes int) func() {
-	oldMin, oldRows, oldBytes := prefetchMinBytes, batchRows, batchBytes
-	prefetchMinBytes, batchRows, batchBytes = 0, rows, bytes
-	return func() { prefetchMinBytes, batchRows, batchBytes = oldMin, oldRows, oldBytes }
+	oldMin, oldRows, oldBytes, oldPoison := prefetchMinBytes, batchRows, batchBytes, poisonBatches
+	prefetchMinBytes, batchRows, batchBytes, poisonBatches = 0, rows, bytes, true
+	return func() { prefetchMinBytes, batchRows, batchBytes, poisonBatches = oldMin, oldRows, oldBytes, oldPoison }
 }
 
 // TestPrefetchSameSet: loading the FuzzLoadCSV corpus gives the same set,
@@ -384,28 +386,33 @@ func TestPrefetchChosenBySize(t *testing.T) {
 	}
 }
 
-// TestPrefetchCellsKept: the cells of a row stay as they were after the
-// reader has gone on and reused its batches (the loader keeps cells, not
-// the row's slice).
-func TestPrefetchCellsKept(t *testing.T) {
+// TestPrefetchCellsReused: a row's cells are views of its batch's text,
+// right when read however the batches before were reused; the text is
+// reused (a kept cell is the loader's to copy), and poisoned in tests.
+func TestPrefetchCellsReused(t *testing.T) {
+	defer func(v bool) { poisonBatches = v }(poisonBatches)
+	poisonBatches = true
 	var data strings.Builder
 	for i := range 5000 {
 		fmt.Fprintf(&data, "r%d,\"c,%d\",x%d\n", i, i*7, i%13)
 	}
 	p := newPrefetchRows(newCSVReader(strings.NewReader(data.String())), "f.csv:", 16, 1<<20)
 	defer p.stop()
-	var kept []string
-	for {
+	var first []string
+	for i := 0; ; i++ {
 		rec, _, err := p.next()
 		if err != nil {
 			break
 		}
-		kept = append(kept, rec...)
-	}
-	for i := range 5000 {
-		if got, want := strings.Join(kept[3*i:3*i+3], "|"), fmt.Sprintf("r%d|c,%d|x%d", i, i*7, i%13); got != want {
-			t.Fatalf("row %d kept as %q, want %q", i+1, got, want)
+		if got, want := strings.Join(rec, "|"), fmt.Sprintf("r%d|c,%d|x%d", i, i*7, i%13); got != want {
+			t.Fatalf("row %d read as %q, want %q", i+1, got, want)
 		}
+		if i == 0 {
+			first = rec[:3:3]
+		}
+	}
+	if got := strings.Join(first, "|"); got == "r0|c,0|x0" {
+		t.Errorf("the first row's cells are intact after every batch: the text was not reused or not poisoned")
 	}
 }
 

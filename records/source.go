@@ -13,7 +13,9 @@ var errEOF = io.EOF
 
 // rowReader gives a file's records one at a time, the header first, with
 // the line (or spreadsheet row) each starts on. A *csv.ParseError is one
-// bad record; any other error ends the file.
+// bad record; any other error ends the file. A record's cells may be
+// views of the reader's buffer, reused once it reads on (rowBatch): what
+// is kept of them must be copied.
 type rowReader interface {
 	next() (rec []string, line int, err error)
 	refBase() string // what a row's Ref starts with: "daily_care.csv:"

@@ -170,10 +170,16 @@ func TestSplitSameSet(t *testing.T) {
 		fsys := folder(map[string]string{careFile: data})
 		nl := newlines([]byte(data), 150)
 		joined := 0
-		for _, p := range nl {
+		for i, p := range nl {
 			sameSplitLoad(t, fsys, []int64{p}, name)
 			if splitJoins(t, fsys, careFile, []int64{p}) {
 				joined++
+			}
+			if i%5 == 0 {
+				// Each range prefetched in batches of two rows, poisoned once read.
+				restore := forcePrefetch(2, 1<<20)
+				sameSplitLoad(t, fsys, []int64{p}, name+" prefetched")
+				restore()
 			}
 		}
 		for i := 0; i+2 < len(nl); i += 7 {
