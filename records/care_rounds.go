@@ -27,6 +27,8 @@ type CareRounds struct {
 	ids    map[string]uint32
 	srcs   []string // ref prefixes ("daily_care.csv:"), by index
 	srcIdx map[string]uint32
+	// hint speeds up interning while rows are added; done drops it.
+	hint *internHint
 	// wide are the rows the compact form cannot hold exactly (a time with
 	// a fraction of a second or in another location, a yes/no or water
 	// value outside the records contract in a set made by hand), kept whole.
@@ -95,6 +97,7 @@ func NewCareRounds(rows []CareRound, loc *time.Location) *CareRounds {
 	for i := range rows {
 		c.add(&rows[i])
 	}
+	c.done()
 	return c
 }
 
@@ -102,7 +105,47 @@ func newCareRounds(loc *time.Location) *CareRounds {
 	if loc == nil {
 		loc = time.UTC
 	}
-	return &CareRounds{loc: loc, strs: []string{""}, ids: map[string]uint32{}, srcIdx: map[string]uint32{}}
+	return &CareRounds{loc: loc, strs: []string{""}, ids: map[string]uint32{}, srcIdx: map[string]uint32{}, hint: &internHint{}}
+}
+
+// done drops what only adding rows needs.
+func (c *CareRounds) done() { c.hint = nil }
+
+// internHint is, per id field of a round (the five of careRow), the key
+// interned last and, by key, the key interned after it the last time:
+// rounds repeat the keeper and visit the enclosures in the same order day
+// after day, so the next id is most often one of the two, found without
+// hashing it.
+type internHint struct {
+	last [5]uint32
+	next [5][]uint32
+}
+
+// internAt is intern for the id field f of a round.
+func (c *CareRounds) internAt(f int, s string) uint32 {
+	h := c.hint
+	if s == "" || h == nil {
+		return c.intern(s)
+	}
+	last := h.last[f]
+	if c.strs[last] == s {
+		return last
+	}
+	next := h.next[f]
+	if int(last) < len(next) {
+		if k := next[last]; k != 0 && c.strs[k] == s {
+			h.last[f] = k
+			return k
+		}
+	}
+	k := c.intern(s)
+	if int(last) >= len(next) {
+		next = append(next, make([]uint32, len(c.strs)-len(next))...)
+		h.next[f] = next
+	}
+	next[last] = k
+	h.last[f] = k
+	return k
 }
 
 // Len is the number of rounds.
@@ -192,8 +235,8 @@ func (c *CareRounds) addAt(r *CareRound, prefix string, line int) {
 	}
 	w := c.push()
 	*w = careRow{at: at, day: r.Day, line: uint32(line), flags: flags | src<<srcShift,
-		enc: c.intern(r.EnclosureID), bld: c.intern(r.BuildingID), staff: c.intern(r.StaffID),
-		anim: c.intern(r.ConcernAnimalID), notes: c.intern(r.Notes)}
+		enc: c.internAt(0, r.EnclosureID), bld: c.internAt(1, r.BuildingID), staff: c.internAt(2, r.StaffID),
+		anim: c.internAt(3, r.ConcernAnimalID), notes: c.internAt(4, r.Notes)}
 	if r.FeedG != nil {
 		w.feed = *r.FeedG
 		w.flags |= careFeedSet

@@ -118,6 +118,8 @@ type rowStore[T any] interface {
 	addAt(row *T, prefix string, line int)
 	Len() int
 	reset()
+	// done drops what only adding rows needs, once the file is read.
+	done()
 	// appendStore moves the rows of another store of the same file after
 	// this one's, as if they had been added here in order, and reports
 	// whether it could; the other store is left empty.
@@ -205,6 +207,9 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 	d.refBase = rr.refBase()
 	l.read(rr, d, e)
 	l.flatten()
+	if l.store != nil {
+		l.store.done()
+	}
 	return l
 }
 

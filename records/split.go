@@ -275,6 +275,9 @@ func readRanges[T any](ctx context.Context, l *loaded[T], ra io.ReaderAt, cuts [
 		}
 	}
 	l.flatten()
+	if l.store != nil {
+		l.store.done()
+	}
 	return true
 }
 
