@@ -84,6 +84,17 @@ type rowCheck struct {
 	p   *plan
 	rec []string
 	env *env
+	// zone is the decoder's cache of the zone of the last local time read.
+	zone *zoneCache
+}
+
+// dayOf is DayOf(t), through the decoder's cache of the zone when t was
+// just read by it.
+func (c *rowCheck) dayOf(t time.Time) Day {
+	if c.zone != nil {
+		return c.zone.dayOf(t)
+	}
+	return DayOf(t)
 }
 
 // fail positions a row-rule problem at the Go field's column.
@@ -406,7 +417,7 @@ func csvReason(err error) string {
 // by blocks (l.chunks): the caller joins them with flatten.
 func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 	spec, p := l.spec, d.p
-	check := rowCheck{p: p, env: e}
+	check := rowCheck{p: p, env: e, zone: &d.zone}
 	var zero, scratch T
 	if l.store != nil {
 		d.scratch = make([]float64, p.rt.typ.NumField())
@@ -671,7 +682,7 @@ var (
 		row: func(r *CareRound, c *rowCheck) *cellError {
 			switch {
 			case !r.At.IsZero():
-				d := DayOf(r.At)
+				d := c.dayOf(r.At)
 				if r.Day != 0 && r.Day != d {
 					return c.fail("Day", fmt.Sprintf("%s is not the day of checked_at (%s)", r.Day, d))
 				}
