@@ -356,6 +356,11 @@ type CareKeys struct {
 	Enclosure, Building, Staff, ConcernAnimal uint32
 }
 
+// key is the f-th of the keys, in the order of the fields of CareKeys.
+func (k CareKeys) key(f int) uint32 {
+	return [4]uint32{k.Enclosure, k.Building, k.Staff, k.ConcernAnimal}[f]
+}
+
 // Keys returns round i's ids as keys of Strings.
 func (c *CareRounds) Keys(i int) CareKeys {
 	r := c.row(i)
@@ -483,9 +488,13 @@ func (c *CareRounds) Filter(keep func(i int) bool) *CareRounds {
 
 // retain keeps, in place and in order, the rounds keep accepts; blocks
 // left empty are let go.
-func (c *CareRounds) retain(keep func(i int) bool) {
-	n := 0
-	for i := range c.n {
+func (c *CareRounds) retain(keep func(i int) bool) { c.retainFrom(0, keep) }
+
+// retainFrom is retain for the rounds from start on: those before it are
+// kept without asking.
+func (c *CareRounds) retainFrom(start int, keep func(i int) bool) {
+	n := start
+	for i := start; i < c.n; i++ {
 		if !keep(i) {
 			continue
 		}

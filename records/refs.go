@@ -2,6 +2,8 @@ package records
 
 import (
 	"fmt"
+	"runtime"
+	"sync"
 )
 
 // loadedSet holds every file between reading and the cross-record rules.
@@ -128,43 +130,87 @@ func (l *loaded[T]) len() int {
 // positioned and dated as keep does. refs are the round's references in
 // the order they are checked (Enclosure, Building, Staff, ConcernAnimal
 // of CareKeys); each is resolved once per distinct id, a key of the
-// store's table of strings, rather than once per round.
+// store's table of strings, rather than once per round. The rounds are
+// first searched for the first that fails, on every core at once; only
+// from there on are they compacted, in order.
 func keepRounds(l *loaded[CareRound], refs [4]ref) {
 	st, ok := l.store.(*CareRounds)
 	if l.plan == nil || !ok {
 		return
 	}
 	strs := st.Strings()
-	// known[f][key]: 0 not looked up yet, 1 in its set, 2 not.
-	var known [4][]uint8
-	for f := range known {
-		known[f] = make([]uint8, len(strs))
+	// A verdict per reference and key: 0 not looked up yet, 1 in its
+	// set, 2 not. Each goroutine has its own.
+	type known [4][]uint8
+	newKnown := func() *known {
+		var k known
+		for f := range k {
+			k[f] = make([]uint8, len(strs))
+		}
+		return &k
 	}
-	st.retain(func(i int) bool {
+	// fails is the reference round i fails, or -1.
+	fails := func(kn *known, i int) int {
 		k := st.Keys(i)
 		for f, key := range [4]uint32{k.Enclosure, k.Building, k.Staff, k.ConcernAnimal} {
 			if key == 0 {
 				continue
 			}
-			if known[f][key] == 0 {
-				known[f][key] = 1
-				if refs[f].in.check(strs[key]) != "" {
-					known[f][key] = 2
+			v := kn[f][key]
+			if v == 0 {
+				v = 1
+				if !refs[f].in.ids[strs[key]] {
+					v = 2
+				}
+				kn[f][key] = v
+			}
+			if v == 2 {
+				return f
+			}
+		}
+		return -1
+	}
+	n := st.Len()
+	parts := min(runtime.GOMAXPROCS(0), max(1, n>>16))
+	firsts := make([]int, parts)
+	var wg sync.WaitGroup
+	for p := range parts {
+		wg.Go(func() {
+			kn := newKnown()
+			firsts[p] = -1
+			for i := n * p / parts; i < n*(p+1)/parts; i++ {
+				if fails(kn, i) >= 0 {
+					firsts[p] = i
+					return
 				}
 			}
-			if known[f][key] == 1 {
-				continue
-			}
-			r := refs[f]
-			r.id = strs[key]
-			pr := l.problem(st.line(i), l.refs(r))
-			pr.Day = st.Day(i)
-			l.problems = append(l.problems, pr)
-			l.count.Accepted--
-			l.count.Rejected++
-			return false
+		})
+	}
+	wg.Wait()
+	first := -1
+	for _, i := range firsts {
+		if i >= 0 {
+			first = i
+			break
 		}
-		return true
+	}
+	if first < 0 {
+		return // every round's references resolve
+	}
+	kn := newKnown()
+	st.retainFrom(first, func(i int) bool {
+		f := fails(kn, i)
+		if f < 0 {
+			return true
+		}
+		r := refs[f]
+		r.id = strs[st.Keys(i).key(f)]
+		pr := l.problem(st.line(i), l.refs(r))
+		pr.Day = st.Day(i)
+		l.problems = append(l.problems, pr)
+		l.count.Accepted--
+		l.count.Rejected++
+		return false
 	})
 }
 

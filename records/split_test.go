@@ -430,3 +430,51 @@ func TestAppendCommas(t *testing.T) {
 		}
 	}
 }
+
+// TestCareRefsSearchedInParts: with rounds enough to be searched for a
+// failing reference in parts on several goroutines, rounds naming unknown
+// ids in either part are each rejected, in line order, and the others
+// kept in order.
+func TestCareRefsSearchedInParts(t *testing.T) {
+	defer func(n int) { runtime.GOMAXPROCS(n) }(runtime.GOMAXPROCS(2))
+	const rows = 140000
+	bad := map[int]string{90000: "E7", 120000: "E8", 130000: "K9"}
+	for _, first := range []bool{false, true} {
+		if first {
+			bad[5] = "E6"
+		}
+		var b strings.Builder
+		b.WriteString("checked_at,enclosure_id,staff_id,observed\n")
+		for i := range rows {
+			enc, staff := "E1", "K1"
+			if id, ok := bad[i]; ok && id[0] == 'E' {
+				enc = id
+			} else if ok {
+				staff = id
+			}
+			fmt.Fprintf(&b, "2026-01-%02dT07:00,%s,%s,yes\n", 1+i%28, enc, staff)
+		}
+		s := mustLoad(t, folder(map[string]string{careFile: b.String()}))
+		var want []string
+		for _, i := range []int{5, 90000, 120000, 130000} {
+			if id, ok := bad[i]; ok {
+				col := "enclosure_id"
+				if id[0] == 'K' {
+					col = "staff_id"
+				}
+				want = append(want, fmt.Sprintf("daily_care.csv:%d %s %s", i+2, col, id))
+			}
+		}
+		var got []string
+		for _, p := range s.Problems {
+			got = append(got, fmt.Sprintf("%s:%d %s %s", p.File, p.Line, p.Column, p.Value))
+		}
+		if !reflect.DeepEqual(got, want) {
+			t.Errorf("problems %v, want %v", got, want)
+		}
+		c := s.CareRounds()
+		if c.Len() != rows-len(want) || c.Ref(c.Len()-1) != Ref(fmt.Sprintf("daily_care.csv:%d", rows+1)) {
+			t.Errorf("%d rounds kept, the last %s", c.Len(), c.Ref(c.Len()-1))
+		}
+	}
+}
