@@ -366,11 +366,13 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 		{goName: "StaffID", in: staff},
 		{goName: "ConcernAnimalID", in: animals}})
 	ld.handling.keep(func(h *Handling) *cellError {
-		rs := []ref{{"AnimalID", h.AnimalID, animals}, {"StaffID", h.StaffID, staff}, protoRef("ProtocolID", h.ProtocolID)}
+		// An array, not a slice grown per row: no allocation for each of a year's handlings.
+		rs := [4]ref{{"AnimalID", h.AnimalID, animals}, {"StaffID", h.StaffID, staff}, protoRef("ProtocolID", h.ProtocolID)}
+		n := 3
 		if items != nil {
-			rs = append(rs, ref{"GloveID", h.GloveID, items})
+			rs[3], n = ref{"GloveID", h.GloveID, items}, 4
 		}
-		return ld.handling.refs(rs...)
+		return ld.handling.refs(rs[:n]...)
 	})
 	ld.weather.keep(func(w *Weather) *cellError {
 		return ld.weather.refs(ref{"SiteID", w.SiteID, sites})
