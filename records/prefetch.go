@@ -58,7 +58,6 @@ type rowBatch struct {
 	rows  []fetchedRow
 	cells []string
 	text  []byte
-	spans []int // per cell, its start and end in text, until the batch is sent
 }
 
 // poisonBatches, set by tests, overwrites a batch's text once the loader
@@ -111,7 +110,7 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 				return
 			}
 		}
-		b.rows, b.cells, b.text, b.spans = b.rows[:0], b.cells[:0], b.text[:0], b.spans[:0]
+		b.rows, b.cells, b.text = b.rows[:0], b.cells[:0], b.text[:0]
 		last := false
 		for size := 0; len(b.rows) < maxRows && size < maxBytes; {
 			if len(b.rows)%64 == 63 {
@@ -124,14 +123,23 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 			err := r.readRaw()
 			fr := fetchedRow{start: r.start, end: r.end, err: err}
 			if err == nil {
-				fr.lo = len(b.spans) / 2
-				base, prev := len(b.text), 0
-				b.text = append(b.text, r.recBuf...)
+				text, shared := b.room(len(r.recBuf))
+				base := len(text)
+				text = append(text, r.recBuf...)
+				if shared {
+					b.text = text
+				}
+				fr.lo = len(b.cells)
+				prev := 0
 				for _, e := range r.ends {
-					b.spans = append(b.spans, base+prev, base+e)
+					c := ""
+					if e > prev {
+						c = unsafe.String(&text[base+prev], e-prev)
+					}
+					b.cells = append(b.cells, c)
 					prev = e + 1
 				}
-				fr.hi = len(b.spans) / 2
+				fr.hi = len(b.cells)
 				fr.text = r.rowText()
 				size += len(r.recBuf) + 1 // the separators are in recBuf, and an empty row counts too
 			}
@@ -141,7 +149,6 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 				break
 			}
 		}
-		b.cut()
 		select {
 		case ch <- b:
 		case <-done:
@@ -153,17 +160,19 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 	}
 }
 
-// cut makes the batch's cells, views of its text, once the text is whole
-// (it may have moved while it grew).
-func (b *rowBatch) cut() {
-	for i := 0; i < len(b.spans); i += 2 {
-		lo, hi := b.spans[i], b.spans[i+1]
-		c := ""
-		if hi > lo {
-			c = unsafe.String(&b.text[lo], hi-lo)
-		}
-		b.cells = append(b.cells, c)
+// room returns the buffer a row of n bytes of text is to be appended to
+// without moving (the cells before are views of it): the batch's, when it
+// has room or holds nothing yet (it is then grown), else one of the row's
+// own, which is not reused (shared is then false).
+func (b *rowBatch) room(n int) (buf []byte, shared bool) {
+	switch {
+	case len(b.text)+n <= cap(b.text):
+		return b.text, true
+	case len(b.text) == 0:
+		b.text = make([]byte, 0, max(2*cap(b.text), n))
+		return b.text, true
 	}
+	return make([]byte, 0, n), false
 }
 
 // errRowsStopped is what a stopped reader gives: the file was not read to

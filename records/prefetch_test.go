@@ -442,3 +442,29 @@ func FuzzRowText(f *testing.F) {
 		}
 	})
 }
+
+// TestPrefetchRowsOverBatchText: rows whose text does not fit what is left
+// of a batch's buffer (cells of up to 60 KiB after rows of a few bytes)
+// are read as the direct reader reads them, and stay right while the
+// batches are reused.
+func TestPrefetchRowsOverBatchText(t *testing.T) {
+	defer func(v bool) { poisonBatches = v }(poisonBatches)
+	poisonBatches = true
+	var data strings.Builder
+	for i := range 400 {
+		if i%7 == 3 {
+			fmt.Fprintf(&data, "r%d,%s,\"%s\"\n", i, strings.Repeat("w", 60<<10), strings.Repeat("q", i*50))
+			continue
+		}
+		fmt.Fprintf(&data, "r%d,s,%d\n", i, i)
+	}
+	want := readSteps(t, &csvRows{r: newCSVReader(strings.NewReader(data.String())), base: "x.csv:"})
+	for _, rows := range []int{1, 5, 64, batchRows} {
+		p := newPrefetchRows(newCSVReader(strings.NewReader(data.String())), "x.csv:", rows, batchBytes)
+		got := readSteps(t, p)
+		p.stop()
+		if !reflect.DeepEqual(got, want) {
+			t.Fatalf("batches of %d rows: the prefetched rows differ from the direct ones", rows)
+		}
+	}
+}
