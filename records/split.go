@@ -87,6 +87,9 @@ func loadSplit[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env
 	}
 	l := newLoaded(spec, src, e)
 	if !readRanges(ctx, l, ra, cuts, rt, e) {
+		// The ranges' rows are garbage now: collect them before the file
+		// is read again, rather than hold both at the peak.
+		runtime.GC()
 		return nil
 	}
 	return l
