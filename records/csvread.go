@@ -10,6 +10,7 @@ import (
 	"io"
 	"math/bits"
 	"unicode/utf8"
+	"unsafe"
 )
 
 // csvReader reads comma-separated records as encoding/csv does (RFC 4180:
@@ -275,6 +276,22 @@ func (r *csvReader) record() []string {
 	prev := 0
 	for _, e := range r.ends {
 		r.rec = append(r.rec, str[prev:e])
+		prev = e + 1
+	}
+	return r.rec
+}
+
+// views cuts the record's cells out of recBuf without copying: they are
+// valid until the next record is read.
+func (r *csvReader) views() []string {
+	r.rec = r.rec[:0]
+	prev := 0
+	for _, e := range r.ends {
+		c := ""
+		if e > prev {
+			c = unsafe.String(&r.recBuf[prev], e-prev)
+		}
+		r.rec = append(r.rec, c)
 		prev = e + 1
 	}
 	return r.rec

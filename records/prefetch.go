@@ -60,9 +60,10 @@ type rowBatch struct {
 	text  []byte
 }
 
-// poisonBatches, set by tests, overwrites a batch's text once the loader
-// has moved past it, so a cell kept without copying shows.
-var poisonBatches bool
+// poisonCells, set by tests, overwrites a reader's cell text (a batch's,
+// or csvRows' row) once the loader has moved past it, so a cell kept
+// without copying shows.
+var poisonCells bool
 
 // fetchedRow is what csvRows.next and span return for one row.
 type fetchedRow struct {
@@ -195,7 +196,7 @@ func (p *prefetchRows) next() ([]string, int, error) {
 			return nil, 0, p.final
 		}
 		if p.cur != nil {
-			if poisonBatches {
+			if poisonCells {
 				for i := range p.cur.text {
 					p.cur.text[i] = '#'
 				}

@@ -267,9 +267,9 @@ func TestPrefetchStopsEarly(t *testing.T) {
 // loader keeps without copying shows), until the returned function puts
 // it back.
 func forcePrefetch(rows, bytes int) func() {
-	oldMin, oldRows, oldBytes, oldPoison := prefetchMinBytes, batchRows, batchBytes, poisonBatches
-	prefetchMinBytes, batchRows, batchBytes, poisonBatches = 0, rows, bytes, true
-	return func() { prefetchMinBytes, batchRows, batchBytes, poisonBatches = oldMin, oldRows, oldBytes, oldPoison }
+	oldMin, oldRows, oldBytes, oldPoison := prefetchMinBytes, batchRows, batchBytes, poisonCells
+	prefetchMinBytes, batchRows, batchBytes, poisonCells = 0, rows, bytes, true
+	return func() { prefetchMinBytes, batchRows, batchBytes, poisonCells = oldMin, oldRows, oldBytes, oldPoison }
 }
 
 // TestPrefetchSameSet: loading the FuzzLoadCSV corpus gives the same set,
@@ -390,8 +390,8 @@ func TestPrefetchChosenBySize(t *testing.T) {
 // right when read however the batches before were reused; the text is
 // reused (a kept cell is the loader's to copy), and poisoned in tests.
 func TestPrefetchCellsReused(t *testing.T) {
-	defer func(v bool) { poisonBatches = v }(poisonBatches)
-	poisonBatches = true
+	defer func(v bool) { poisonCells = v }(poisonCells)
+	poisonCells = true
 	var data strings.Builder
 	for i := range 5000 {
 		fmt.Fprintf(&data, "r%d,\"c,%d\",x%d\n", i, i*7, i%13)
@@ -448,8 +448,8 @@ func FuzzRowText(f *testing.F) {
 // are read as the direct reader reads them, and stay right while the
 // batches are reused.
 func TestPrefetchRowsOverBatchText(t *testing.T) {
-	defer func(v bool) { poisonBatches = v }(poisonBatches)
-	poisonBatches = true
+	defer func(v bool) { poisonCells = v }(poisonCells)
+	poisonCells = true
 	var data strings.Builder
 	for i := range 400 {
 		if i%7 == 3 {

@@ -17,15 +17,17 @@ import (
 
 // forceSplit makes every CSV file without a unique id read in ranges cut
 // just after the first newline at or after each of targets (nil: n equal
-// parts), until the returned function puts it back.
+// parts), with the readers' cells poisoned once read (so a cell the
+// loader keeps without copying shows), until the returned function puts
+// it back.
 func forceSplit(n int, targets []int64) func() {
-	oldMin, oldN, oldTargets := splitMinBytes, splitRanges, splitTargets
-	splitMinBytes, splitRanges = 0, n
+	oldMin, oldN, oldTargets, oldPoison := splitMinBytes, splitRanges, splitTargets, poisonCells
+	splitMinBytes, splitRanges, poisonCells = 0, n, true
 	splitTargets = nil
 	if targets != nil {
 		splitTargets = func(int64, int) []int64 { return targets }
 	}
-	return func() { splitMinBytes, splitRanges, splitTargets = oldMin, oldN, oldTargets }
+	return func() { splitMinBytes, splitRanges, splitTargets, poisonCells = oldMin, oldN, oldTargets, oldPoison }
 }
 
 // noSplit reads every file sequentially until the returned function puts
