@@ -27,6 +27,8 @@ type CareRounds struct {
 	ids    map[string]uint32
 	srcs   []string // ref prefixes ("daily_care.csv:"), by index
 	srcIdx map[string]uint32
+	// hint speeds up interning while rows are added; done drops it.
+	hint *internHint
 	// wide are the rows the compact form cannot hold exactly (a time with
 	// a fraction of a second or in another location, a yes/no or water
 	// value outside the records contract in a set made by hand), kept whole.
@@ -95,6 +97,7 @@ func NewCareRounds(rows []CareRound, loc *time.Location) *CareRounds {
 	for i := range rows {
 		c.add(&rows[i])
 	}
+	c.done()
 	return c
 }
 
@@ -102,7 +105,47 @@ func newCareRounds(loc *time.Location) *CareRounds {
 	if loc == nil {
 		loc = time.UTC
 	}
-	return &CareRounds{loc: loc, strs: []string{""}, ids: map[string]uint32{}, srcIdx: map[string]uint32{}}
+	return &CareRounds{loc: loc, strs: []string{""}, ids: map[string]uint32{}, srcIdx: map[string]uint32{}, hint: &internHint{}}
+}
+
+// done drops what only adding rows needs.
+func (c *CareRounds) done() { c.hint = nil }
+
+// internHint is, per id field of a round (the five of careRow), the key
+// interned last and, by key, the key interned after it the last time:
+// rounds repeat the keeper and visit the enclosures in the same order day
+// after day, so the next id is most often one of the two, found without
+// hashing it.
+type internHint struct {
+	last [5]uint32
+	next [5][]uint32
+}
+
+// internAt is intern for the id field f of a round.
+func (c *CareRounds) internAt(f int, s string) uint32 {
+	h := c.hint
+	if s == "" || h == nil {
+		return c.intern(s)
+	}
+	last := h.last[f]
+	if c.strs[last] == s {
+		return last
+	}
+	next := h.next[f]
+	if int(last) < len(next) {
+		if k := next[last]; k != 0 && c.strs[k] == s {
+			h.last[f] = k
+			return k
+		}
+	}
+	k := c.intern(s)
+	if int(last) >= len(next) {
+		next = append(next, make([]uint32, len(c.strs)-len(next))...)
+		h.next[f] = next
+	}
+	next[last] = k
+	h.last[f] = k
+	return k
 }
 
 // Len is the number of rounds.
@@ -192,8 +235,8 @@ func (c *CareRounds) addAt(r *CareRound, prefix string, line int) {
 	}
 	w := c.push()
 	*w = careRow{at: at, day: r.Day, line: uint32(line), flags: flags | src<<srcShift,
-		enc: c.intern(r.EnclosureID), bld: c.intern(r.BuildingID), staff: c.intern(r.StaffID),
-		anim: c.intern(r.ConcernAnimalID), notes: c.intern(r.Notes)}
+		enc: c.internAt(0, r.EnclosureID), bld: c.internAt(1, r.BuildingID), staff: c.internAt(2, r.StaffID),
+		anim: c.internAt(3, r.ConcernAnimalID), notes: c.internAt(4, r.Notes)}
 	if r.FeedG != nil {
 		w.feed = *r.FeedG
 		w.flags |= careFeedSet
@@ -311,6 +354,11 @@ func (c *CareRounds) View(i int) CareView {
 // per round in a map.
 type CareKeys struct {
 	Enclosure, Building, Staff, ConcernAnimal uint32
+}
+
+// key is the f-th of the keys, in the order of the fields of CareKeys.
+func (k CareKeys) key(f int) uint32 {
+	return [4]uint32{k.Enclosure, k.Building, k.Staff, k.ConcernAnimal}[f]
 }
 
 // Keys returns round i's ids as keys of Strings.
@@ -440,9 +488,13 @@ func (c *CareRounds) Filter(keep func(i int) bool) *CareRounds {
 
 // retain keeps, in place and in order, the rounds keep accepts; blocks
 // left empty are let go.
-func (c *CareRounds) retain(keep func(i int) bool) {
-	n := 0
-	for i := range c.n {
+func (c *CareRounds) retain(keep func(i int) bool) { c.retainFrom(0, keep) }
+
+// retainFrom is retain for the rounds from start on: those before it are
+// kept without asking.
+func (c *CareRounds) retainFrom(start int, keep func(i int) bool) {
+	n := start
+	for i := start; i < c.n; i++ {
 		if !keep(i) {
 			continue
 		}
@@ -471,4 +523,74 @@ func (c *CareRounds) truncate(n int) {
 // reset drops every row (a file that could not be read to its end).
 func (c *CareRounds) reset() {
 	c.blocks, c.n, c.wide = nil, 0, nil
+}
+
+// appendStore moves the rounds of o (a store of rounds read after c's)
+// after c's, as if each had been added to c in order: o's strings join
+// c's table in o's order of first use, which is the table c would have
+// built, and o's rows take c's keys. The rows are moved within o's own
+// blocks rather than copied to new ones, so joining needs no memory beyond
+// the two stores. It reports false, leaving the rows where they are, when
+// o is not a store c can take (another location, more ref prefixes than a
+// store holds); o is left empty when it reports true.
+func (c *CareRounds) appendStore(other rowStore[CareRound]) bool {
+	o, ok := other.(*CareRounds)
+	if !ok || o.loc != c.loc {
+		return false
+	}
+	if o.n == 0 {
+		return true
+	}
+	srcs := make([]uint32, len(o.srcs))
+	for i, p := range o.srcs {
+		if srcs[i], ok = c.source(p); !ok {
+			return false
+		}
+	}
+	keys := make([]uint32, len(o.strs))
+	for i := 1; i < len(o.strs); i++ {
+		keys[i] = c.intern(o.strs[i])
+	}
+	wideBase := uint32(len(c.wide))
+	c.wide = append(c.wide, o.wide...)
+	fix := func(r *careRow) {
+		r.enc, r.bld, r.staff, r.anim, r.notes = keys[r.enc], keys[r.bld], keys[r.staff], keys[r.anim], keys[r.notes]
+		if r.flags&careWide != 0 {
+			r.line += wideBase
+		} else {
+			r.flags = r.flags&(1<<srcShift-1) | srcs[r.flags>>srcShift]<<srcShift
+		}
+	}
+	// First fill c's last block, row by row.
+	j := 0
+	if k := len(c.blocks); k > 0 {
+		for j < o.n && len(c.blocks[k-1]) < careBlockSize {
+			w := c.push()
+			*w = *o.row(j)
+			fix(w)
+			j++
+		}
+	}
+	// The rest, o's rows from j on, are c's next blocks: each is made in
+	// o's block k from its rows after the first j and the first j rows of
+	// block k+1 (read before block k+1 is itself moved).
+	for k, blk := range o.blocks {
+		if len(blk) <= j {
+			break // its rows went into the block before
+		}
+		nb := copy(blk, blk[j:])
+		if j > 0 && k+1 < len(o.blocks) {
+			nb += copy(blk[nb:len(blk)], o.blocks[k+1][:min(j, len(o.blocks[k+1]))])
+		}
+		blk = blk[:nb]
+		for i := range blk {
+			fix(&blk[i])
+		}
+		c.blocks = append(c.blocks, blk)
+		c.n += nb
+		o.blocks[k] = nil
+	}
+	o.reset()
+	o.strs, o.ids, o.srcs, o.srcIdx = []string{""}, map[string]uint32{}, nil, map[string]uint32{}
+	return true
 }

@@ -3,11 +3,14 @@ package records
 import (
 	"bufio"
 	"bytes"
+	"encoding/binary"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
+	"math/bits"
 	"unicode/utf8"
+	"unsafe"
 )
 
 // csvReader reads comma-separated records as encoding/csv does (RFC 4180:
@@ -36,6 +39,9 @@ type csvReader struct {
 	ends       []int
 	rec        []string
 	fatal      error
+	// openAtEnd is set when the input ended inside a quoted cell: a row
+	// went on past the last line (see readRanges).
+	openAtEnd bool
 }
 
 type heldLine struct {
@@ -70,17 +76,26 @@ func newCSVReader(r io.Reader) *csvReader {
 // rejects one row and reading can go on; io.EOF ends the file; any other
 // error stops it (and is returned again by every later call).
 func (r *csvReader) Read() ([]string, error) {
-	if r.fatal != nil {
-		return nil, r.fatal
+	if err := r.readRaw(); err != nil {
+		return nil, err
 	}
-	rec, err := r.readRecord()
+	return r.record(), nil
+}
+
+// readRaw reads the next record as Read does, leaving its cells in recBuf
+// and ends (see record) rather than cutting them out.
+func (r *csvReader) readRaw() error {
+	if r.fatal != nil {
+		return r.fatal
+	}
+	err := r.readRecord()
 	if err != nil && err != io.EOF {
 		var pe *csv.ParseError
 		if !errors.As(err, &pe) {
 			r.fatal = err
 		}
 	}
-	return rec, err
+	return err
 }
 
 // readLine returns the next physical line with CRLF turned into LF, its
@@ -136,7 +151,7 @@ func (r *csvReader) hold(line []byte, n int) {
 
 // recover rejects a multi-line row at its first line and puts its other
 // lines back to be read again.
-func (r *csvReader) recover(current []byte, n int, err error) ([]string, error) {
+func (r *csvReader) recover(current []byte, n int, err error) error {
 	if len(r.held) > 0 {
 		again := make([]heldLine, 0, len(r.held)+len(r.back))
 		again = append(again, r.held[1:]...)
@@ -146,10 +161,10 @@ func (r *csvReader) recover(current []byte, n int, err error) ([]string, error) 
 		r.back = append(again, r.back...)
 		r.held = r.held[:0]
 	}
-	return nil, err
+	return err
 }
 
-func (r *csvReader) readRecord() ([]string, error) {
+func (r *csvReader) readRecord() error {
 	var (
 		line []byte
 		n    int
@@ -158,7 +173,7 @@ func (r *csvReader) readRecord() ([]string, error) {
 	for {
 		line, n, err = r.readLine()
 		if err != nil {
-			return nil, err
+			return err
 		}
 		if !(len(line) == 1 && line[0] == '\n') {
 			break // blank lines are skipped, as encoding/csv does
@@ -168,6 +183,13 @@ func (r *csvReader) readRecord() ([]string, error) {
 	r.held = r.held[:0]
 	r.recBuf = r.recBuf[:0]
 	r.ends = r.ends[:0]
+	if bytes.IndexByte(line, '"') < 0 {
+		// No quote on the line (most rows): its cells are cut at its commas.
+		body := bytes.TrimSuffix(line, []byte{'\n'})
+		r.recBuf = append(r.recBuf, body...)
+		r.ends = append(appendCommas(r.ends, body), len(body))
+		return r.done()
+	}
 	pos := 0
 	for {
 		if pos < len(line) && line[pos] == '"' {
@@ -189,11 +211,12 @@ func (r *csvReader) readRecord() ([]string, error) {
 					var next []byte
 					next, n, err = r.readLine()
 					if err == io.EOF {
+						r.openAtEnd = true
 						qe := &quoteError{line: openLine, col: openCol, lines: r.end - openLine + 1, how: "is never closed"}
 						return r.recover(nil, 0, &csv.ParseError{StartLine: r.start, Line: r.start, Column: openCol, Err: qe})
 					}
 					if err != nil {
-						return nil, err
+						return err
 					}
 					line, pos, r.end = next, 0, n
 					continue
@@ -207,10 +230,11 @@ func (r *csvReader) readRecord() ([]string, error) {
 				case pos < len(line) && line[pos] == ',':
 					pos++
 					r.ends = append(r.ends, len(r.recBuf))
+					r.recBuf = append(r.recBuf, ',')
 					break quoted
 				case pos == len(line) || (pos == len(line)-1 && line[pos] == '\n'):
 					r.ends = append(r.ends, len(r.recBuf))
-					return r.record()
+					return r.done()
 				default:
 					if r.end > openLine {
 						qe := &quoteError{line: openLine, col: openCol, lines: r.end - openLine + 1,
@@ -237,23 +261,69 @@ func (r *csvReader) readRecord() ([]string, error) {
 		r.recBuf = append(r.recBuf, field...)
 		r.ends = append(r.ends, len(r.recBuf))
 		if last {
-			return r.record()
+			return r.done()
 		}
+		r.recBuf = append(r.recBuf, ',')
 		pos += i + 1
 	}
 }
 
-// record cuts the record's cells out of one string.
-func (r *csvReader) record() ([]string, error) {
+// record cuts the record's cells out of one string: recBuf holds them
+// joined by commas (their quotes removed), and ends are where each ends.
+func (r *csvReader) record() []string {
 	str := string(r.recBuf)
 	r.rec = r.rec[:0]
 	prev := 0
 	for _, e := range r.ends {
 		r.rec = append(r.rec, str[prev:e])
-		prev = e
+		prev = e + 1
 	}
+	return r.rec
+}
+
+// views cuts the record's cells out of recBuf without copying: they are
+// valid until the next record is read.
+func (r *csvReader) views() []string {
+	r.rec = r.rec[:0]
+	prev := 0
+	for _, e := range r.ends {
+		c := ""
+		if e > prev {
+			c = unsafe.String(&r.recBuf[prev], e-prev)
+		}
+		r.rec = append(r.rec, c)
+		prev = e + 1
+	}
+	return r.rec
+}
+
+// done ends a record that was read whole.
+func (r *csvReader) done() error {
 	r.held = r.held[:0]
-	return r.rec, nil
+	return nil
+}
+
+// appendCommas appends the offsets of b's commas to ends, eight bytes at
+// a time: a byte of x that is zero (a comma, once xor-ed) is the one whose
+// high bit survives, exactly, in ^((x&0x7f…+0x7f…)|x|0x7f…).
+func appendCommas(ends []int, b []byte) []int {
+	const (
+		ones  = 0x0101010101010101
+		seven = 0x7f7f7f7f7f7f7f7f
+	)
+	i := 0
+	for ; i+8 <= len(b); i += 8 {
+		x := binary.LittleEndian.Uint64(b[i:]) ^ (ones * ',')
+		for y := ^((x&seven + seven) | x | seven); y != 0; y &= y - 1 {
+			ends = append(ends, i+bits.TrailingZeros64(y)/8)
+		}
+	}
+	for ; i < len(b); i++ {
+		if b[i] == ',' {
+			ends = append(ends, i)
+		}
+	}
+	return ends
 }
 
 // rowText reports whether every cell of the record just read is text as
@@ -261,7 +331,8 @@ func (r *csvReader) record() ([]string, error) {
 // pass over the record's bytes rather than one per cell. The cells are
 // consecutive pieces of those bytes: the whole being UTF-8 with each cell
 // starting on a character makes each cell UTF-8, and a cell that is UTF-8
-// starts on a character, so the answer is the same as cell by cell.
+// starts on a character, so the answer is the same as cell by cell (the
+// commas between them are characters of their own).
 func (r *csvReader) rowText() bool {
 	b := r.recBuf
 	if bytes.IndexByte(b, 0) >= 0 || !utf8.Valid(b) {
@@ -272,7 +343,7 @@ func (r *csvReader) rowText() bool {
 		if e-prev > MaxFieldBytes || (e > prev && !utf8.RuneStart(b[prev])) {
 			return false
 		}
-		prev = e
+		prev = e + 1
 	}
 	return true
 }

@@ -7,6 +7,8 @@ import (
 	"strings"
 	"sync"
 	"time"
+	"unicode/utf8"
+	"unsafe"
 )
 
 // fieldKind is how a cell is read into a Go field.
@@ -27,6 +29,8 @@ const (
 // field is one csv-tagged struct field, described once per row type.
 type field struct {
 	index    int
+	offset   uintptr      // of the Go field in the struct, where decode writes it
+	typ      reflect.Type // of the Go field
 	goName   string
 	name     string   // column name, or the base name when unit is set
 	unit     unitKind // "" for a unitless column
@@ -113,7 +117,7 @@ func rowTypeOf(t reflect.Type) (*rowType, error) {
 			continue
 		}
 		parts := strings.Split(tag, ",")
-		f := field{index: i, goName: sf.Name, name: parts[0], later: laterColumns[parts[0]]}
+		f := field{index: i, offset: sf.Offset, typ: sf.Type, goName: sf.Name, name: parts[0], later: laterColumns[parts[0]]}
 		for _, opt := range parts[1:] {
 			switch {
 			case opt == "required":
@@ -400,7 +404,12 @@ type decoder struct {
 	// verdicts memoises, per column, the validation reason of each distinct
 	// cell ("" = valid): validation is a pure function of the cell, and a
 	// million rows repeat a few hundred values.
-	verdicts []map[string]verdict
+	verdicts []map[string]*verdict
+	// last is, per column, the verdict of its text cell read last: rows
+	// repeat a cell, or follow the order of the rows before (a round of
+	// the enclosures every day), so the next cell is looked for as that
+	// one, then as the one that came after it, before the map.
+	last []*verdict
 	// kind is the Problem.Kind of the reason set last returned, if any.
 	kind string
 	// zone is the time zone of the last date a local time was read on.
@@ -413,17 +422,48 @@ type decoder struct {
 // for text fields, the shared copy of its value.
 type verdict struct {
 	val, reason string
+	// next is the verdict of the cell that followed this one in the
+	// column the last time it did.
+	next *verdict
 }
 
 func newDecoder(p *plan, e *env, file string) *decoder {
 	d := &decoder{p: p, loc: e.loc, win: e.window, strs: map[string]string{}, failed: make([]bool, len(p.rt.fields)), refBase: file + ":"}
-	d.verdicts = make([]map[string]verdict, len(p.cols))
+	d.verdicts = make([]map[string]*verdict, len(p.cols))
+	d.last = make([]*verdict, len(p.cols))
 	for ci, c := range p.cols {
 		if c.field >= 0 && p.rt.fields[c.field].vtag != "" {
-			d.verdicts[ci] = map[string]verdict{}
+			d.verdicts[ci] = map[string]*verdict{}
 		}
 	}
 	return d
+}
+
+// seen is the verdict of a text cell of column ci met before, or nil.
+func (d *decoder) seen(ci int, cell string) *verdict {
+	last := d.last[ci]
+	if last != nil {
+		if last.val == cell {
+			return last
+		}
+		if n := last.next; n != nil && n.val == cell {
+			d.last[ci] = n
+			return n
+		}
+	}
+	v := d.verdicts[ci][cell]
+	if v != nil {
+		d.follow(ci, v)
+	}
+	return v
+}
+
+// follow makes v the verdict read last in column ci, after the one before.
+func (d *decoder) follow(ci int, v *verdict) {
+	if last := d.last[ci]; last != nil {
+		last.next = v
+	}
+	d.last[ci] = v
 }
 
 // intern shares one copy of repeated ids and codes, so that a million rows
@@ -458,9 +498,15 @@ func (d *decoder) ref(line int) Ref {
 // decode fills the struct rv (a T, addressable) from a record. It returns the
 // first problem, but goes on decoding the remaining cells so that the row's
 // date can still place a rejected row in time.
+//
+// Each field is written through a pointer of its own Go type (field.kind
+// says which, rowTypeOf having matched the type exactly), at its offset in
+// the struct: reflect describes the struct once, and is not asked again for
+// every cell of millions of rows.
 func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 	var first *cellError
 	clear(d.failed)
+	base := rv.Addr().UnsafePointer()
 	for ci := range d.p.cols {
 		col := &d.p.cols[ci]
 		if col.field < 0 {
@@ -468,7 +514,12 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 		}
 		f := &d.p.rt.fields[col.field]
 		raw := rec[ci]
-		cell := strings.TrimSpace(raw)
+		cell := raw
+		if n := len(raw); n == 0 || raw[0] <= ' ' || raw[0] >= utf8.RuneSelf || raw[n-1] <= ' ' || raw[n-1] >= utf8.RuneSelf {
+			// Only then can the cell start or end with a space (ASCII
+			// letters, digits and punctuation are none).
+			cell = strings.TrimSpace(raw)
+		}
 		if cell == "" {
 			if f.required && first == nil {
 				first = &cellError{field: col.field, column: col.header, reason: "is required but empty"}
@@ -476,22 +527,22 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 			}
 			continue
 		}
-		fv := rv.Field(f.index)
+		fp := unsafe.Add(base, f.offset)
 		var reason string
-		v, ok := verdict{}, false
+		var v *verdict
 		if f.kind == kString && d.verdicts[ci] != nil {
-			v, ok = d.verdicts[ci][cell]
+			v = d.seen(ci, cell)
 		}
-		if ok {
+		if v != nil {
 			// A repeated id or code: its shared copy and its verdict in one lookup.
-			fv.SetString(v.val)
+			*(*string)(fp) = v.val
 			reason = v.reason
 		} else {
-			reason = d.set(fv, f, col, cell)
+			reason = d.set(fp, f, col, cell)
 			// A number inside its range is valid, as the validator would say.
 			inRange := reason == "" && f.bounds != nil && f.bounds.holds(d.number)
 			if reason == "" && !inRange && d.verdicts[ci] != nil {
-				reason = d.verdict(ci, fv, f, cell)
+				reason = d.verdict(ci, fp, f, cell)
 			}
 		}
 		if reason != "" {
@@ -505,7 +556,8 @@ func (d *decoder) decode(rv reflect.Value, rec []string) *cellError {
 	return first
 }
 
-func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) string {
+// set decodes a cell into the field at fp, of f's Go type.
+func (d *decoder) set(fp unsafe.Pointer, f *field, col *column, cell string) string {
 	switch f.kind {
 	case kString:
 		s := cell
@@ -514,7 +566,7 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		} else {
 			s = strings.Clone(cell)
 		}
-		fv.SetString(s)
+		*(*string)(fp) = s
 	case kDay:
 		day, err := parseDate(cell)
 		if err != nil {
@@ -523,7 +575,7 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		if why := d.win.check(day, f.later, cell); why != "" {
 			return why
 		}
-		fv.SetInt(int64(day))
+		*(*Day)(fp) = day
 	case kTime:
 		t, err := d.zone.parseDateTime(cell, d.loc)
 		if err != nil {
@@ -532,13 +584,13 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		if why := d.win.check(d.zone.dayOf(t), f.later, cell); why != "" {
 			return why
 		}
-		*fv.Addr().Interface().(*time.Time) = t
+		*(*time.Time)(fp) = t
 	case kBool:
 		b, ok := parseBool(cell)
 		if !ok {
 			return fmt.Sprintf("%q is not yes or no (yes/no, y/n, true/false, 1/0)", cell)
 		}
-		fv.SetInt(int64(b))
+		*(*Bool)(fp) = b
 	case kFloat, kFloatPtr:
 		v, ok := parseNumber(cell)
 		if !ok {
@@ -550,12 +602,12 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 		d.number = v
 		switch {
 		case f.kind == kFloat:
-			fv.SetFloat(v)
+			*(*float64)(fp) = v
 		case d.scratch != nil:
 			d.scratch[f.index] = v
-			fv.Set(reflect.ValueOf(&d.scratch[f.index]))
+			*(**float64)(fp) = &d.scratch[f.index]
 		default:
-			fv.Set(reflect.ValueOf(d.newFloat(v)))
+			*(**float64)(fp) = d.newFloat(v)
 		}
 	case kInt, kIntPtr:
 		v, err := strconv.Atoi(cell)
@@ -563,12 +615,12 @@ func (d *decoder) set(fv reflect.Value, f *field, col *column, cell string) stri
 			return d.numberReason(cell, "a whole number")
 		}
 		if f.kind == kInt {
-			fv.SetInt(int64(v))
+			*(*int)(fp) = v
 		} else {
-			fv.Set(reflect.ValueOf(&v))
+			*(**int)(fp) = &v
 		}
 	case kList:
-		fv.Set(reflect.ValueOf(parseList(cell, d.intern)))
+		*(*[]string)(fp) = parseList(cell, d.intern)
 	}
 	return ""
 }

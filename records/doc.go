@@ -24,6 +24,11 @@
 // holds the rounds of a set made by hand; Load leaves it empty, and
 // CareRounds serves both.
 //
+// A large CSV file whose rows carry no unique id (the care rounds above
+// all) is read in byte ranges, one per core, and the ranges are joined in
+// file order into exactly what reading it whole gives (split.go); a file
+// that cannot be cut at the end of a record is read whole.
+//
 // Unknown files and columns are Warnings: nothing was lost, but something
 // was not read. Judgements about the records (an animal culled without a
 // matching departure, an event after an animal left, life stage defaults)

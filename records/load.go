@@ -84,6 +84,17 @@ type rowCheck struct {
 	p   *plan
 	rec []string
 	env *env
+	// zone is the decoder's cache of the zone of the last local time read.
+	zone *zoneCache
+}
+
+// dayOf is DayOf(t), through the decoder's cache of the zone when t was
+// just read by it.
+func (c *rowCheck) dayOf(t time.Time) Day {
+	if c.zone != nil {
+		return c.zone.dayOf(t)
+	}
+	return DayOf(t)
 }
 
 // fail positions a row-rule problem at the Go field's column.
@@ -118,6 +129,12 @@ type rowStore[T any] interface {
 	addAt(row *T, prefix string, line int)
 	Len() int
 	reset()
+	// done drops what only adding rows needs, once the file is read.
+	done()
+	// appendStore moves the rows of another store of the same file after
+	// this one's, as if they had been added here in order, and reports
+	// whether it could; the other store is left empty.
+	appendStore(o rowStore[T]) bool
 }
 
 // loaded is one file after reading: its accepted rows and its account.
@@ -149,20 +166,18 @@ type loaded[T any] struct {
 }
 
 func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env) *loaded[T] {
-	l := &loaded[T]{spec: spec, count: FileCount{File: spec.name}, file: spec.name}
 	src := e.sources[spec.name]
 	if src == nil {
-		return l
+		return &loaded[T]{spec: spec, count: FileCount{File: spec.name}, file: spec.name}
 	}
 	if reason, present := refusal(fsys, src.file); !present || reason != "" {
 		// A refused file is a warning of Load, and is not present.
+		return &loaded[T]{spec: spec, count: FileCount{File: spec.name}, file: spec.name}
+	}
+	if l := loadSplit(ctx, fsys, spec, e, src); l != nil {
 		return l
 	}
-	l.present = true
-	l.file, l.count.File = src.file, src.display
-	if spec.store != nil {
-		l.store = spec.store(e.loc)
-	}
+	l := newLoaded(spec, src, e)
 	rt, err := rowTypeOf(reflect.TypeFor[T]())
 	if err != nil {
 		l.fail("", err.Error())
@@ -177,9 +192,7 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 		}
 		defer f.Close()
 		br := bufio.NewReaderSize(f, 4096)
-		if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
-			_, _ = br.Discard(3)
-		}
+		skipBOM(br)
 		rr = newCSVRows(f, br, src.file)
 		defer stopRows(rr)
 	} else {
@@ -197,21 +210,62 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 		}
 		rr = sr
 	}
+	p, ok := l.begin(rr, rt, true)
+	if !ok {
+		return l
+	}
+	d := newDecoder(p, e, src.file)
+	d.refBase = rr.refBase()
+	l.read(rr, d, e)
+	l.flatten()
+	if l.store != nil {
+		l.store.done()
+	}
+	return l
+}
 
+// newLoaded is a present file before its header is read.
+func newLoaded[T any](spec *fileSpec[T], src *source, e *env) *loaded[T] {
+	l := &loaded[T]{spec: spec, present: true, count: FileCount{File: src.display}, file: src.file}
+	if spec.store != nil {
+		l.store = spec.store(e.loc)
+	}
+	return l
+}
+
+// skipBOM drops a UTF-8 byte order mark at the start of a file.
+func skipBOM(br *bufio.Reader) {
+	if b, err := br.Peek(3); err == nil && string(b) == "\ufeff" {
+		_, _ = br.Discard(3)
+	}
+}
+
+// begin reads the header row and makes the file's plan, with a warning for
+// each column that is not read. A header that makes the file unusable is
+// the file's problem, and false; the file's rows are then drained (counted
+// and rejected) when drain is set, and left unread when not (the caller
+// reads the file another way).
+func (l *loaded[T]) begin(rr rowReader, rt *rowType, drain bool) (*plan, bool) {
 	head, _, err := rr.next()
+	// The plan and the warnings keep the header's names: copies, since a
+	// reader's cells are valid only until it reads on (see rowBatch).
+	head = cloneCells(head)
 	switch {
 	case err == io.EOF:
 		l.fail("", "no header row (the file is empty)")
-		return l
+		return nil, false
 	case err != nil:
 		var pe *csv.ParseError
 		if !errors.As(err, &pe) {
 			l.fail("", "cannot be read: "+err.Error())
-			return l
+			return nil, false
+		}
+		if !drain {
+			return nil, false
 		}
 		l.fail("", "header row: "+csvReason(err))
 		l.drain(rr)
-		return l
+		return nil, false
 	}
 	issue := delimiterIssue(head)
 	if !validUTF8(head) {
@@ -231,11 +285,14 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 	)
 	if issue == nil {
 		p, unknown, issue = newPlan(rt, head)
-		if p != nil && spec.header != nil {
-			issue = joinMissing(issue, spec.header(p))
+		if p != nil && l.spec.header != nil {
+			issue = joinMissing(issue, l.spec.header(p))
 		}
 	}
 	if issue != nil {
+		if !drain {
+			return nil, false
+		}
 		l.count.Failed = issue.reason
 		if issue.column != "" {
 			l.count.Failed = issue.column + ": " + issue.reason
@@ -247,7 +304,7 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 		// One message for the file, with the count of rows it cost.
 		issue.reason += rowsNotRead(l.count.Read)
 		l.problems = append(l.problems, l.problem(1, &cellError{field: -1, column: issue.column, reason: issue.reason, kind: issue.kind}))
-		return l
+		return nil, false
 	}
 	l.plan = p
 	l.local = localColumns(p)
@@ -262,10 +319,16 @@ func loadFile[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env)
 			l.warnings = append(l.warnings, Warning{File: l.count.File, Column: u, Message: "unknown column, not read"})
 		}
 	}
-	d := newDecoder(p, e, src.file)
-	d.refBase = rr.refBase()
-	l.read(rr, d, e)
-	return l
+	return p, true
+}
+
+// cloneCells copies a row's cells out of the reader's buffer.
+func cloneCells(rec []string) []string {
+	out := make([]string, len(rec))
+	for i, c := range rec {
+		out[i] = strings.Clone(c)
+	}
+	return out
 }
 
 // rowsNotRead says how many rows a file-level problem kept from being read.
@@ -295,7 +358,8 @@ func (l *loaded[T]) sheetAt() string {
 
 // problem positions a rejected row (or a header problem, on line 1).
 func (l *loaded[T]) problem(line int, ce *cellError) Problem {
-	pr := Problem{File: l.file, Line: line, Column: ce.column, Value: printable(ce.value), Reason: shortenReason(ce.reason, ce.value), Kind: ce.kind}
+	// Copies: the row's cells are the reader's, valid only until it reads on.
+	pr := Problem{File: l.file, Line: line, Column: ce.column, Value: printable(ce.value), Reason: strings.Clone(shortenReason(ce.reason, ce.value)), Kind: ce.kind}
 	if l.at != nil {
 		ci := -1
 		if ce.field >= 0 && l.plan != nil {
@@ -349,14 +413,15 @@ func csvReason(err error) string {
 	return err.Error()
 }
 
+// read decodes the file's rows after the header. Rows kept in l.rows grow
+// by blocks (l.chunks): the caller joins them with flatten.
 func (l *loaded[T]) read(r rowReader, d *decoder, e *env) {
 	spec, p := l.spec, d.p
-	check := rowCheck{p: p, env: e}
+	check := rowCheck{p: p, env: e, zone: &d.zone}
 	var zero, scratch T
 	if l.store != nil {
 		d.scratch = make([]float64, p.rt.typ.NumField())
 	}
-	defer l.flatten()
 	firstAt := map[string]int{}
 	if spec.id != nil {
 		l.rejected = map[string]Ref{}
@@ -617,7 +682,7 @@ var (
 		row: func(r *CareRound, c *rowCheck) *cellError {
 			switch {
 			case !r.At.IsZero():
-				d := DayOf(r.At)
+				d := c.dayOf(r.At)
 				if r.Day != 0 && r.Day != d {
 					return c.fail("Day", fmt.Sprintf("%s is not the day of checked_at (%s)", r.Day, d))
 				}
@@ -867,7 +932,7 @@ func (l *loaded[T]) keepLocal(ref Ref, rec []string) {
 	}
 	m := make(map[string]string, len(l.local))
 	for i, name := range l.local {
-		m[name] = strings.TrimSpace(rec[i])
+		m[name] = strings.Clone(strings.TrimSpace(rec[i]))
 	}
 	l.extra[ref] = m
 }

@@ -4,6 +4,7 @@ import (
 	"encoding/csv"
 	"errors"
 	"sync"
+	"unsafe"
 )
 
 // prefetchRows reads a CSV file's rows on a goroutine of its own, so the
@@ -47,13 +48,22 @@ const prefetchDepth = 3
 // (A variable so tests can read small files both ways.)
 var prefetchMinBytes int64 = 1 << 20
 
-// rowBatch is a run of rows in file order. Cells of all its rows are one
-// slice, reused once the loader has moved past the batch; the cell strings
-// themselves are the reader's and are never reused.
+// rowBatch is a run of rows in file order. The text of all its cells is
+// one buffer and the cells are views of it (no string is made per row):
+// buffer, cells and rows are reused once the loader has moved past the
+// batch. So a cell is valid only until the reader's next batch, and what
+// the loader keeps of a cell it copies (decoder.intern, strings.Clone,
+// printable in a Problem).
 type rowBatch struct {
 	rows  []fetchedRow
 	cells []string
+	text  []byte
 }
+
+// poisonCells, set by tests, overwrites a reader's cell text (a batch's,
+// or csvRows' row) once the loader has moved past it, so a cell kept
+// without copying shows.
+var poisonCells bool
 
 // fetchedRow is what csvRows.next and span return for one row.
 type fetchedRow struct {
@@ -90,7 +100,8 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 			select {
 			case b = <-free:
 			default:
-				b = &rowBatch{rows: make([]fetchedRow, 0, min(maxRows, 256)), cells: make([]string, 0, min(maxRows, 256)*8)}
+				b = &rowBatch{rows: make([]fetchedRow, 0, min(maxRows, 256)), cells: make([]string, 0, min(maxRows, 256)*8),
+					text: make([]byte, 0, min(maxBytes, batchBytes)+4096)}
 				made++
 			}
 		} else {
@@ -100,7 +111,7 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 				return
 			}
 		}
-		b.rows, b.cells = b.rows[:0], b.cells[:0]
+		b.rows, b.cells, b.text = b.rows[:0], b.cells[:0], b.text[:0]
 		last := false
 		for size := 0; len(b.rows) < maxRows && size < maxBytes; {
 			if len(b.rows)%64 == 63 {
@@ -110,14 +121,28 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 				default:
 				}
 			}
-			rec, err := r.Read()
+			err := r.readRaw()
 			fr := fetchedRow{start: r.start, end: r.end, err: err}
 			if err == nil {
+				text, shared := b.room(len(r.recBuf))
+				base := len(text)
+				text = append(text, r.recBuf...)
+				if shared {
+					b.text = text
+				}
 				fr.lo = len(b.cells)
-				b.cells = append(b.cells, rec...)
+				prev := 0
+				for _, e := range r.ends {
+					c := ""
+					if e > prev {
+						c = unsafe.String(&text[base+prev], e-prev)
+					}
+					b.cells = append(b.cells, c)
+					prev = e + 1
+				}
 				fr.hi = len(b.cells)
 				fr.text = r.rowText()
-				size += len(r.recBuf) + len(rec) // and the separators, so that empty cells count too
+				size += len(r.recBuf) + 1 // the separators are in recBuf, and an empty row counts too
 			}
 			b.rows = append(b.rows, fr)
 			if err != nil && stopsFile(err) {
@@ -134,6 +159,21 @@ func produce(r *csvReader, ch chan<- *rowBatch, free <-chan *rowBatch, done <-ch
 			return
 		}
 	}
+}
+
+// room returns the buffer a row of n bytes of text is to be appended to
+// without moving (the cells before are views of it): the batch's, when it
+// has room or holds nothing yet (it is then grown), else one of the row's
+// own, which is not reused (shared is then false).
+func (b *rowBatch) room(n int) (buf []byte, shared bool) {
+	switch {
+	case len(b.text)+n <= cap(b.text):
+		return b.text, true
+	case len(b.text) == 0:
+		b.text = make([]byte, 0, max(2*cap(b.text), n))
+		return b.text, true
+	}
+	return make([]byte, 0, n), false
 }
 
 // errRowsStopped is what a stopped reader gives: the file was not read to
@@ -156,6 +196,11 @@ func (p *prefetchRows) next() ([]string, int, error) {
 			return nil, 0, p.final
 		}
 		if p.cur != nil {
+			if poisonCells {
+				for i := range p.cur.text {
+					p.cur.text[i] = '#'
+				}
+			}
 			select { // the loader is done with the batch's cells
 			case p.free <- p.cur:
 			default:

@@ -263,11 +263,13 @@ func TestPrefetchStopsEarly(t *testing.T) {
 }
 
 // forcePrefetch makes every CSV file read by the prefetching reader, in
-// batches of rows rows, until the returned function puts it back.
+// batches of rows rows, its batches poisoned once read (so a cell the
+// loader keeps without copying shows), until the returned function puts
+// it back.
 func forcePrefetch(rows, bytes int) func() {
-	oldMin, oldRows, oldBytes := prefetchMinBytes, batchRows, batchBytes
-	prefetchMinBytes, batchRows, batchBytes = 0, rows, bytes
-	return func() { prefetchMinBytes, batchRows, batchBytes = oldMin, oldRows, oldBytes }
+	oldMin, oldRows, oldBytes, oldPoison := prefetchMinBytes, batchRows, batchBytes, poisonCells
+	prefetchMinBytes, batchRows, batchBytes, poisonCells = 0, rows, bytes, true
+	return func() { prefetchMinBytes, batchRows, batchBytes, poisonCells = oldMin, oldRows, oldBytes, oldPoison }
 }
 
 // TestPrefetchSameSet: loading the FuzzLoadCSV corpus gives the same set,
@@ -384,28 +386,33 @@ func TestPrefetchChosenBySize(t *testing.T) {
 	}
 }
 
-// TestPrefetchCellsKept: the cells of a row stay as they were after the
-// reader has gone on and reused its batches (the loader keeps cells, not
-// the row's slice).
-func TestPrefetchCellsKept(t *testing.T) {
+// TestPrefetchCellsReused: a row's cells are views of its batch's text,
+// right when read however the batches before were reused; the text is
+// reused (a kept cell is the loader's to copy), and poisoned in tests.
+func TestPrefetchCellsReused(t *testing.T) {
+	defer func(v bool) { poisonCells = v }(poisonCells)
+	poisonCells = true
 	var data strings.Builder
 	for i := range 5000 {
 		fmt.Fprintf(&data, "r%d,\"c,%d\",x%d\n", i, i*7, i%13)
 	}
 	p := newPrefetchRows(newCSVReader(strings.NewReader(data.String())), "f.csv:", 16, 1<<20)
 	defer p.stop()
-	var kept []string
-	for {
+	var first []string
+	for i := 0; ; i++ {
 		rec, _, err := p.next()
 		if err != nil {
 			break
 		}
-		kept = append(kept, rec...)
-	}
-	for i := range 5000 {
-		if got, want := strings.Join(kept[3*i:3*i+3], "|"), fmt.Sprintf("r%d|c,%d|x%d", i, i*7, i%13); got != want {
-			t.Fatalf("row %d kept as %q, want %q", i+1, got, want)
+		if got, want := strings.Join(rec, "|"), fmt.Sprintf("r%d|c,%d|x%d", i, i*7, i%13); got != want {
+			t.Fatalf("row %d read as %q, want %q", i+1, got, want)
 		}
+		if i == 0 {
+			first = rec[:3:3]
+		}
+	}
+	if got := strings.Join(first, "|"); got == "r0|c,0|x0" {
+		t.Errorf("the first row's cells are intact after every batch: the text was not reused or not poisoned")
 	}
 }
 
@@ -434,4 +441,30 @@ func FuzzRowText(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestPrefetchRowsOverBatchText: rows whose text does not fit what is left
+// of a batch's buffer (cells of up to 60 KiB after rows of a few bytes)
+// are read as the direct reader reads them, and stay right while the
+// batches are reused.
+func TestPrefetchRowsOverBatchText(t *testing.T) {
+	defer func(v bool) { poisonCells = v }(poisonCells)
+	poisonCells = true
+	var data strings.Builder
+	for i := range 400 {
+		if i%7 == 3 {
+			fmt.Fprintf(&data, "r%d,%s,\"%s\"\n", i, strings.Repeat("w", 60<<10), strings.Repeat("q", i*50))
+			continue
+		}
+		fmt.Fprintf(&data, "r%d,s,%d\n", i, i)
+	}
+	want := readSteps(t, &csvRows{r: newCSVReader(strings.NewReader(data.String())), base: "x.csv:"})
+	for _, rows := range []int{1, 5, 64, batchRows} {
+		p := newPrefetchRows(newCSVReader(strings.NewReader(data.String())), "x.csv:", rows, batchBytes)
+		got := readSteps(t, p)
+		p.stop()
+		if !reflect.DeepEqual(got, want) {
+			t.Fatalf("batches of %d rows: the prefetched rows differ from the direct ones", rows)
+		}
+	}
 }

@@ -2,6 +2,8 @@ package records
 
 import (
 	"fmt"
+	"runtime"
+	"sync"
 )
 
 // loadedSet holds every file between reading and the cross-record rules.
@@ -124,22 +126,87 @@ func (l *loaded[T]) len() int {
 }
 
 // keepRounds is keep for the care rounds, which are kept in their store:
-// a round failing check becomes a problem, positioned and dated as keep
-// does.
-func keepRounds(l *loaded[CareRound], check func(r *CareView) *cellError) {
+// a round naming an id that is not in its set becomes a problem,
+// positioned and dated as keep does. refs are the round's references in
+// the order they are checked (Enclosure, Building, Staff, ConcernAnimal
+// of CareKeys); each is resolved once per distinct id, a key of the
+// store's table of strings, rather than once per round. The rounds are
+// first searched for the first that fails, on every core at once; only
+// from there on are they compacted, in order.
+func keepRounds(l *loaded[CareRound], refs [4]ref) {
 	st, ok := l.store.(*CareRounds)
 	if l.plan == nil || !ok {
 		return
 	}
-	var v CareView // one for every row: a pointer to it escapes to check
-	st.retain(func(i int) bool {
-		v = st.View(i)
-		ce := check(&v)
-		if ce == nil {
+	strs := st.Strings()
+	// A verdict per reference and key: 0 not looked up yet, 1 in its
+	// set, 2 not. Each goroutine has its own.
+	type known [4][]uint8
+	newKnown := func() *known {
+		var k known
+		for f := range k {
+			k[f] = make([]uint8, len(strs))
+		}
+		return &k
+	}
+	// fails is the reference round i fails, or -1.
+	fails := func(kn *known, i int) int {
+		k := st.Keys(i)
+		for f, key := range [4]uint32{k.Enclosure, k.Building, k.Staff, k.ConcernAnimal} {
+			if key == 0 {
+				continue
+			}
+			v := kn[f][key]
+			if v == 0 {
+				v = 1
+				if !refs[f].in.ids[strs[key]] {
+					v = 2
+				}
+				kn[f][key] = v
+			}
+			if v == 2 {
+				return f
+			}
+		}
+		return -1
+	}
+	n := st.Len()
+	parts := min(runtime.GOMAXPROCS(0), max(1, n>>16))
+	firsts := make([]int, parts)
+	var wg sync.WaitGroup
+	for p := range parts {
+		wg.Go(func() {
+			kn := newKnown()
+			firsts[p] = -1
+			for i := n * p / parts; i < n*(p+1)/parts; i++ {
+				if fails(kn, i) >= 0 {
+					firsts[p] = i
+					return
+				}
+			}
+		})
+	}
+	wg.Wait()
+	first := -1
+	for _, i := range firsts {
+		if i >= 0 {
+			first = i
+			break
+		}
+	}
+	if first < 0 {
+		return // every round's references resolve
+	}
+	kn := newKnown()
+	st.retainFrom(first, func(i int) bool {
+		f := fails(kn, i)
+		if f < 0 {
 			return true
 		}
-		pr := l.problem(st.line(i), ce)
-		pr.Day = v.Day // the row rule set it to the day of checked_at
+		r := refs[f]
+		r.id = strs[st.Keys(i).key(f)]
+		pr := l.problem(st.line(i), l.refs(r))
+		pr.Day = st.Day(i)
 		l.problems = append(l.problems, pr)
 		l.count.Accepted--
 		l.count.Rejected++
@@ -293,19 +360,19 @@ func (ld *loadedSet) crossCheck(fac *Facility) {
 		}
 	}
 
-	keepRounds(ld.care, func(r *CareView) *cellError {
-		return ld.care.refs(
-			ref{"EnclosureID", r.EnclosureID, enclosures},
-			ref{"BuildingID", r.BuildingID, buildings},
-			ref{"StaffID", r.StaffID, staff},
-			ref{"ConcernAnimalID", r.ConcernAnimalID, animals})
-	})
+	keepRounds(ld.care, [4]ref{
+		{goName: "EnclosureID", in: enclosures},
+		{goName: "BuildingID", in: buildings},
+		{goName: "StaffID", in: staff},
+		{goName: "ConcernAnimalID", in: animals}})
 	ld.handling.keep(func(h *Handling) *cellError {
-		rs := []ref{{"AnimalID", h.AnimalID, animals}, {"StaffID", h.StaffID, staff}, protoRef("ProtocolID", h.ProtocolID)}
+		// An array, not a slice grown per row: no allocation for each of a year's handlings.
+		rs := [4]ref{{"AnimalID", h.AnimalID, animals}, {"StaffID", h.StaffID, staff}, protoRef("ProtocolID", h.ProtocolID)}
+		n := 3
 		if items != nil {
-			rs = append(rs, ref{"GloveID", h.GloveID, items})
+			rs[3], n = ref{"GloveID", h.GloveID, items}, 4
 		}
-		return ld.handling.refs(rs...)
+		return ld.handling.refs(rs[:n]...)
 	})
 	ld.weather.keep(func(w *Weather) *cellError {
 		return ld.weather.refs(ref{"SiteID", w.SiteID, sites})

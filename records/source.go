@@ -13,7 +13,9 @@ var errEOF = io.EOF
 
 // rowReader gives a file's records one at a time, the header first, with
 // the line (or spreadsheet row) each starts on. A *csv.ParseError is one
-// bad record; any other error ends the file.
+// bad record; any other error ends the file. A record's cells may be
+// views of the reader's buffer, reused once it reads on (rowBatch): what
+// is kept of them must be copied.
 type rowReader interface {
 	next() (rec []string, line int, err error)
 	refBase() string // what a row's Ref starts with: "daily_care.csv:"
@@ -58,17 +60,25 @@ func stopRows(r rowReader) {
 }
 
 // csvRows reads a CSV file's rows with the bounded csvReader.
+// Its cells are views of the reader's buffer, valid until the next row.
 type csvRows struct {
 	r    *csvReader
 	base string
+	text bool // the row just read is text (csvReader.rowText)
 }
 
 func (c *csvRows) next() ([]string, int, error) {
-	rec, err := c.r.Read()
-	if err != nil {
+	if poisonCells {
+		for i := range c.r.recBuf {
+			c.r.recBuf[i] = '#'
+		}
+	}
+	c.text = false
+	if err := c.r.readRaw(); err != nil {
 		return nil, 0, err
 	}
-	return rec, c.r.start, nil
+	c.text = c.r.rowText()
+	return c.r.views(), c.r.start, nil
 }
 
 func (c *csvRows) refBase() string { return c.base }
@@ -189,12 +199,16 @@ func kindOrder(p *Problem) int {
 }
 
 // textChecked reports whether the reader has already found every cell of
-// the row just read to be text within the cell cap (textIssue), so the
-// loader need not look again: only a prefetching reader checks, on its own
-// goroutine.
+// the row just read to be text within the cell cap (textIssue), in one
+// pass over the row, so the loader need not look again cell by cell.
 func textChecked(r rowReader) bool {
-	p, ok := r.(*prefetchRows)
-	return ok && p.textChecked()
+	switch r := r.(type) {
+	case *prefetchRows:
+		return r.textChecked()
+	case *csvRows:
+		return r.text
+	}
+	return false
 }
 
 func validUTF8(rec []string) bool {

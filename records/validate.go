@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"unsafe"
 
 	"github.com/go-playground/validator/v10"
 )
@@ -31,13 +32,13 @@ var validate = sync.OnceValue(func() *validator.Validate {
 
 // verdict validates a decoded cell against its field's validate tag, once
 // per distinct cell of the column.
-func (d *decoder) verdict(ci int, fv reflect.Value, f *field, cell string) string {
+func (d *decoder) verdict(ci int, fp unsafe.Pointer, f *field, cell string) string {
 	m := d.verdicts[ci]
 	if v, ok := m[cell]; ok {
 		return v.reason
 	}
 	reason := ""
-	if err := validate().Var(fv.Interface(), f.vtag); err != nil {
+	if err := validate().Var(reflect.NewAt(f.typ, fp).Elem().Interface(), f.vtag); err != nil {
 		var ves validator.ValidationErrors
 		if errors.As(err, &ves) && len(ves) > 0 {
 			reason = d.describe(ves[0], f, ci, cell)
@@ -46,11 +47,12 @@ func (d *decoder) verdict(ci int, fv reflect.Value, f *field, cell string) strin
 		}
 	}
 	if len(m) < 1<<16 {
-		v := verdict{reason: reason}
-		if fv.Kind() == reflect.String {
-			v.val = fv.String()
-		}
+		v := &verdict{reason: reason}
 		m[strings.Clone(cell)] = v
+		if f.kind == kString {
+			v.val = *(*string)(fp)
+			d.follow(ci, v)
+		}
 	}
 	return reason
 }

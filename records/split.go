@@ -1,0 +1,311 @@
+package records
+
+import (
+	"bufio"
+	"bytes"
+	"context"
+	"errors"
+	"io"
+	"io/fs"
+	"reflect"
+	"runtime"
+	"sync"
+)
+
+// A large CSV file is read in byte ranges, one per core, each tokenized and
+// decoded on a goroutine of its own into its own rows, problems and store,
+// and the ranges are then joined in file order. The result is the one the
+// sequential reader gives: the same rows in the same order, the same line
+// numbers and refs, the same rejected rows and messages, the same counts
+// and the same store, table of strings included.
+//
+// A range starts after a newline. That newline ends a record unless it is
+// inside a quoted cell; then the range before it ends inside the quote,
+// which its reader sees (csvReader.openAtEnd), and the file is read again
+// from the start by the sequential reader. So is a file whose ranges stop
+// on an error that ends a file (a line over the cap, a cancelled run), and
+// a file whose header makes it unusable: those paths are rare, and the
+// sequential reader words them.
+//
+// Only files whose rows are not keyed by a unique id are read in ranges: a
+// duplicate id must be judged against every row before it, in order.
+
+// splitMinBytes is the smallest CSV file read in ranges. Below it, one
+// range with its prefetching reader is fast enough that joining is not
+// worth it (care rounds are the one file that gets there).
+// (A variable so tests can read small files in ranges.)
+var splitMinBytes int64 = 16 << 20
+
+// splitRanges is the number of ranges; 0 means one per core
+// (GOMAXPROCS), at most maxRanges. (A variable for tests.)
+var splitRanges = 0
+
+// splitTargets, when set (by tests), gives the offsets the ranges are cut
+// at, or just before, instead of equal parts.
+var splitTargets func(size int64, n int) []int64
+
+const maxRanges = 8
+
+// splitSearch is how far past a target offset a newline is looked for.
+const splitSearch = 1 << 20
+
+// loadSplit reads a CSV file in ranges and returns the loaded file, or nil
+// when the file is not one to read in ranges or the ranges could not be
+// joined; the caller then reads it sequentially.
+func loadSplit[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env, src *source) *loaded[T] {
+	if spec.id != nil || !src.csv() {
+		return nil
+	}
+	n := splitRanges
+	if n == 0 {
+		n = min(runtime.GOMAXPROCS(0), maxRanges)
+	}
+	if n < 2 {
+		return nil
+	}
+	rt, err := rowTypeOf(reflect.TypeFor[T]())
+	if err != nil {
+		return nil
+	}
+	f, err := OpenFile(ctx, fsys, src.file)
+	if err != nil {
+		return nil // the sequential reader says why
+	}
+	defer f.Close()
+	c, ok := f.(*capped)
+	if !ok {
+		return nil
+	}
+	ra, ok := c.f.(io.ReaderAt)
+	size := csvSize(f)
+	if !ok || size < splitMinBytes {
+		return nil
+	}
+	cuts := splitPoints(ctx, ra, size, n)
+	if len(cuts) < 3 {
+		return nil
+	}
+	l := newLoaded(spec, src, e)
+	if !readRanges(ctx, l, ra, cuts, rt, e) {
+		// The ranges' rows are garbage now: collect them before the file
+		// is read again, rather than hold both at the peak.
+		runtime.GC()
+		return nil
+	}
+	return l
+}
+
+// splitPoints cuts [0, size) into at most n ranges, each starting just
+// after a newline: the offsets 0, the starts of the ranges after the
+// first, and size. Fewer than 3 offsets means the file is read whole.
+func splitPoints(ctx context.Context, ra io.ReaderAt, size int64, n int) []int64 {
+	var targets []int64
+	if splitTargets != nil {
+		targets = splitTargets(size, n)
+	} else {
+		for k := 1; k < n; k++ {
+			targets = append(targets, size*int64(k)/int64(n))
+		}
+	}
+	cuts := []int64{0}
+	buf := make([]byte, 64<<10)
+	for _, t := range targets {
+		if t <= cuts[len(cuts)-1] {
+			continue
+		}
+		// The first newline at or after t; the range starts after it.
+		found := false
+		for off := t; off < min(size, t+splitSearch) && ctx.Err() == nil; {
+			m, err := ra.ReadAt(buf[:min(int64(len(buf)), size-off)], off)
+			if i := bytes.IndexByte(buf[:m], '\n'); i >= 0 {
+				if cut := off + int64(i) + 1; cut < size {
+					cuts = append(cuts, cut)
+				}
+				found = true
+				break
+			}
+			if err != nil {
+				break
+			}
+			off += int64(m)
+		}
+		if !found {
+			break // a line longer than the search: read the rest as one range
+		}
+	}
+	return append(cuts, size)
+}
+
+// rangeReader reads the bytes [off, end) of a file, stopping soon after
+// ctx is done.
+type rangeReader struct {
+	ctx      context.Context
+	ra       io.ReaderAt
+	off, end int64
+}
+
+// errFileShrank is a range that ends before its end: the file changed
+// while it was read.
+var errFileShrank = errors.New("the file became shorter while it was read")
+
+func (r *rangeReader) Read(p []byte) (int, error) {
+	if err := r.ctx.Err(); err != nil {
+		return 0, err
+	}
+	if r.off >= r.end {
+		return 0, io.EOF
+	}
+	if int64(len(p)) > r.end-r.off {
+		p = p[:r.end-r.off]
+	}
+	m, err := r.ra.ReadAt(p, r.off)
+	r.off += int64(m)
+	if err == io.EOF {
+		err = nil
+		if m == 0 {
+			err = errFileShrank
+		}
+	}
+	return m, err
+}
+
+// countLines counts the newlines of [off, end).
+func countLines(ctx context.Context, ra io.ReaderAt, off, end int64) (int, error) {
+	r := &rangeReader{ctx: ctx, ra: ra, off: off, end: end}
+	buf := make([]byte, 1<<20)
+	n := 0
+	for {
+		m, err := r.Read(buf)
+		n += bytes.Count(buf[:m], []byte{'\n'})
+		if err == io.EOF {
+			return n, nil
+		}
+		if err != nil {
+			return 0, err
+		}
+	}
+}
+
+// rangeRows reads the rows of [off, end), numbering lines from line+1.
+// A range is read and decoded on one goroutine: the ranges already keep
+// every core busy, and a prefetching goroutine each (measured on 2 shared
+// cores) saves no time while it adds a hand-over per batch.
+func rangeRows(ctx context.Context, ra io.ReaderAt, off, end int64, line int, base string) (*csvRows, *csvReader) {
+	br := bufio.NewReaderSize(&rangeReader{ctx: ctx, ra: ra, off: off, end: end}, 4096)
+	if off == 0 {
+		skipBOM(br)
+	}
+	r := newCSVReader(br)
+	r.numLine = line
+	return &csvRows{r: r, base: base}, r
+}
+
+// readRanges reads the file into l in the ranges between cuts (see
+// splitPoints), and reports whether they joined into what the sequential
+// reader gives; when not, l is to be dropped.
+func readRanges[T any](ctx context.Context, l *loaded[T], ra io.ReaderAt, cuts []int64, rt *rowType, e *env) bool {
+	n := len(cuts) - 1
+	// The first line of each range: the newlines before it, counted while
+	// the first range is read.
+	lines := make([]int, n)
+	countErr := make([]error, n)
+	var counted sync.WaitGroup
+	for k := 1; k < n; k++ {
+		counted.Go(func() { lines[k], countErr[k] = countLines(ctx, ra, cuts[k-1], cuts[k]) })
+	}
+
+	base := l.file + ":"
+	rr, r0 := rangeRows(ctx, ra, cuts[0], cuts[1], 0, base)
+	p, ok := l.begin(rr, rt, false)
+	if !ok {
+		stopRows(rr)
+		counted.Wait()
+		return false
+	}
+	parts := make([]*loaded[T], n)
+	readers := make([]*csvReader, n)
+	parts[0], readers[0] = l, r0
+	var wg sync.WaitGroup
+	for k := 1; k < n; k++ {
+		part := &loaded[T]{spec: l.spec, present: true, count: FileCount{File: l.count.File}, file: l.file, plan: p, local: l.local}
+		if l.spec.store != nil {
+			part.store = l.spec.store(e.loc)
+		}
+		parts[k] = part
+		wg.Go(func() {
+			counted.Wait()
+			for _, err := range countErr {
+				if err != nil {
+					return // part read no row: the join below fails
+				}
+			}
+			first := 0
+			for _, c := range lines[1 : k+1] {
+				first += c
+			}
+			rr, r := rangeRows(ctx, ra, cuts[k], cuts[k+1], first, base)
+			defer stopRows(rr)
+			readers[k] = r
+			d := newDecoder(p, e, l.file)
+			d.refBase = rr.refBase()
+			part.read(rr, d, e)
+		})
+	}
+	d := newDecoder(p, e, l.file)
+	d.refBase = rr.refBase()
+	l.read(rr, d, e)
+	stopRows(rr)
+	wg.Wait()
+
+	// Each range but the last must end where the next begins: at the end
+	// of a record, on the line before the next range's first.
+	end := 0 // the last line of range k
+	for k := range n {
+		r := readers[k]
+		if r == nil || parts[k].count.Failed != "" {
+			return false // a range stopped on an error that ends the file
+		}
+		if k < n-1 {
+			end += lines[k+1]
+			if r.openAtEnd || r.numLine != end {
+				return false
+			}
+		}
+	}
+	for _, part := range parts[1:] {
+		if !l.join(part) {
+			return false
+		}
+	}
+	l.flatten()
+	if l.store != nil {
+		l.store.done()
+	}
+	return true
+}
+
+// join appends the rows, account and problems of the range after l's.
+func (l *loaded[T]) join(part *loaded[T]) bool {
+	if l.store != nil {
+		if !l.store.appendStore(part.store) {
+			return false
+		}
+	} else {
+		if len(l.rows) > 0 {
+			l.chunks = append(l.chunks, l.rows)
+		}
+		l.chunks = append(l.chunks, part.chunks...)
+		l.rows = part.rows
+	}
+	l.count.Read += part.count.Read
+	l.count.Accepted += part.count.Accepted
+	l.count.Rejected += part.count.Rejected
+	l.problems = append(l.problems, part.problems...)
+	if len(part.extra) > 0 && l.extra == nil {
+		l.extra = map[Ref]map[string]string{}
+	}
+	for ref, m := range part.extra {
+		l.extra[ref] = m
+	}
+	return true
+}
