@@ -580,7 +580,7 @@ func (c *CareRounds) appendStore(other rowStore[CareRound]) bool {
 		}
 		nb := copy(blk, blk[j:])
 		if j > 0 && k+1 < len(o.blocks) {
-			nb += copy(blk[nb:len(blk)], o.blocks[k+1][:min(j, len(o.blocks[k+1]))])
+			nb += copy(blk[nb:], o.blocks[k+1][:min(j, len(o.blocks[k+1]))])
 		}
 		blk = blk[:nb]
 		for i := range blk {
