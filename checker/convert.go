@@ -40,6 +40,9 @@ type converter struct {
 	// pairs is a stack of the key-value pairs of the objects being
 	// built (ast.NewObject copies them out).
 	pairs [][2]*ast.Term
+	// coldWater keeps the enclosures' cold water groups made (waterTerms),
+	// to give them again to the enclosures that have the same.
+	coldWater map[coldWaterKey]coldWaterGroup
 }
 
 type containerMemo struct {
