@@ -313,6 +313,10 @@ var (
 	heatRunKey     = ast.InternedTerm("run")
 )
 
+// hotDayPairs is room for a hot day's key-value pairs: the site-day's 13
+// figures and the enclosure's 3 fields, and some to spare.
+const hotDayPairs = 20
+
 // sectionTerm makes the enclosure's heat section as the OPA value
 // converting section's gives: each hot day an object of its site-day's
 // converted figures and the enclosure's three fields, a site run's
@@ -347,11 +351,14 @@ func (eh *encHeat) sectionTerm(c *converter) (*ast.Term, error) {
 			}
 		}
 		// The days' terms and evidence lists in one block each; the
-		// key-value pairs of each day on the converter's stack (NewObject
-		// copies them out).
+		// key-value pairs of each day in an array on the stack (NewObject
+		// copies them out, and writing them there costs no write barrier
+		// while the collector runs), or on the converter's stack when a
+		// site-day has more figures than it holds.
 		elems := make([]*ast.Term, len(eh.days))
 		terms := make([]ast.Term, 2*len(eh.days))
 		evs := make([]*ast.Term, 0, 3*len(eh.days))
+		var buf [hotDayPairs][2]*ast.Term
 		start := len(c.pairs)
 		defer func() { c.pairs = c.pairs[:start] }()
 		for k, hd := range eh.days {
@@ -370,12 +377,20 @@ func (eh *encHeat) sectionTerm(c *converter) (*ast.Term, error) {
 			if run == nil {
 				run = ast.InternedNullTerm
 			}
-			c.pairs = append(append(c.pairs[:start], sh.pairs[hd.day]...),
-				[2]*ast.Term{waterChecksKey, ast.InternedTerm(int(hd.water))},
-				[2]*ast.Term{evidenceKey, ev},
-				[2]*ast.Term{heatRunKey, run})
+			site := sh.pairs[hd.day]
+			var pairs [][2]*ast.Term
+			if len(site)+3 <= len(buf) {
+				pairs = buf[:len(site)+3]
+			} else {
+				c.pairs = append(c.pairs[:start], make([][2]*ast.Term, len(site)+3)...)
+				pairs = c.pairs[start:]
+			}
+			n := copy(pairs, site)
+			pairs[n] = [2]*ast.Term{waterChecksKey, ast.InternedTerm(int(hd.water))}
+			pairs[n+1] = [2]*ast.Term{evidenceKey, ev}
+			pairs[n+2] = [2]*ast.Term{heatRunKey, run}
 			day := &terms[2*k+1]
-			day.Value = ast.NewObject(c.pairs[start:]...)
+			day.Value = ast.NewObject(pairs...)
 			elems[k] = day
 		}
 		days = ast.NewTerm(ast.NewArray(elems...))
