@@ -153,6 +153,13 @@ const (
 
 var sinceNames = [...]string{sinceFirstRound: "first_round", sinceOccupancy: "occupancy", sinceCleaned: "cleaned"}
 
+// sinceTerms are sinceNames as OPA values, made once.
+var sinceTerms = [...]*ast.Term{
+	sinceFirstRound: ast.StringTerm(sinceNames[sinceFirstRound]),
+	sinceOccupancy:  ast.StringTerm(sinceNames[sinceOccupancy]),
+	sinceCleaned:    ast.StringTerm(sinceNames[sinceCleaned]),
+}
+
 // encCleaning is an enclosure's cleaning section as the facts keep it.
 type encCleaning struct {
 	day      *dayValues
@@ -198,7 +205,7 @@ func (ec *encCleaning) sectionTerm(c *converter) (*ast.Term, error) {
 				[2]*ast.Term{fromKey, ec.day.term(c, g.from)},
 				[2]*ast.Term{untilKey, ec.day.term(c, g.until)},
 				[2]*ast.Term{daysKey, ast.InternedTerm(int(g.until - g.from))},
-				[2]*ast.Term{sinceKey, c.str(sinceNames[g.since])},
+				[2]*ast.Term{sinceKey, sinceTerms[g.since]},
 				[2]*ast.Term{periodFromKey, periodFrom},
 				[2]*ast.Term{evidenceKey, ev},
 			)
