@@ -22,6 +22,9 @@ import (
 //     one after the other (a site's run shared by the enclosures of that
 //     site): it remembers the containers of the subject it converts and
 //     of the one before;
+//   - an enclosure's cold water groups (a site's days by water checks,
+//     the same for most enclosures of a site) are kept by what they are
+//     made from for the whole conversion (encCold.waterTerms);
 //   - object keys, short strings (days, times, bands, kinds) and
 //     numbers are converted once per converter and their terms reused;
 //     every empty list is one term.
@@ -40,6 +43,9 @@ type converter struct {
 	// pairs is a stack of the key-value pairs of the objects being
 	// built (ast.NewObject copies them out).
 	pairs [][2]*ast.Term
+	// coldWater keeps the enclosures' cold water groups made (waterTerms),
+	// to give them again to the enclosures that have the same.
+	coldWater map[coldWaterKey]coldWaterGroup
 }
 
 type containerMemo struct {

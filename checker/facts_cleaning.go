@@ -52,6 +52,7 @@ func (f *facts) cleaningFacts() {
 	// are worked out in buffers reused from one enclosure to the next; the
 	// gaps kept are copied out at their exact size.
 	day := f.days
+	day.makeTerms() // the gaps' days as OPA values (sectionTerm)
 	recorded := f.set.Present["daily_care.csv"]
 	var days []records.Day
 	var gaps []cleanGap
@@ -152,6 +153,13 @@ const (
 
 var sinceNames = [...]string{sinceFirstRound: "first_round", sinceOccupancy: "occupancy", sinceCleaned: "cleaned"}
 
+// sinceTerms are sinceNames as OPA values, made once.
+var sinceTerms = [...]*ast.Term{
+	sinceFirstRound: ast.StringTerm(sinceNames[sinceFirstRound]),
+	sinceOccupancy:  ast.StringTerm(sinceNames[sinceOccupancy]),
+	sinceCleaned:    ast.StringTerm(sinceNames[sinceCleaned]),
+}
+
 // encCleaning is an enclosure's cleaning section as the facts keep it.
 type encCleaning struct {
 	day      *dayValues
@@ -175,7 +183,7 @@ func (ec *encCleaning) sectionTerm(c *converter) (*ast.Term, error) {
 	gaps := emptyArray
 	if len(ec.gaps) > 0 {
 		encRef := c.str(string(ec.ref))
-		periodFrom := c.str(ec.day.of(ec.day.from).(string))
+		periodFrom := ec.day.term(c, ec.day.from)
 		// The gaps' terms and evidence lists in one block each.
 		fromKey, untilKey, daysKey := c.key("from"), c.key("until"), c.key("days")
 		sinceKey, periodFromKey, evidenceKey := c.key("since"), c.key("period_from"), c.key("evidence")
@@ -194,10 +202,10 @@ func (ec *encCleaning) sectionTerm(c *converter) (*ast.Term, error) {
 			ev.Value = ast.NewArray(evs[at:len(evs):len(evs)]...)
 			gap := &terms[3*i+1]
 			gap.Value = ast.NewObject(
-				[2]*ast.Term{fromKey, c.str(ec.day.of(g.from).(string))},
-				[2]*ast.Term{untilKey, c.str(ec.day.of(g.until).(string))},
+				[2]*ast.Term{fromKey, ec.day.term(c, g.from)},
+				[2]*ast.Term{untilKey, ec.day.term(c, g.until)},
 				[2]*ast.Term{daysKey, ast.InternedTerm(int(g.until - g.from))},
-				[2]*ast.Term{sinceKey, c.str(sinceNames[g.since])},
+				[2]*ast.Term{sinceKey, sinceTerms[g.since]},
 				[2]*ast.Term{periodFromKey, periodFrom},
 				[2]*ast.Term{evidenceKey, ev},
 			)

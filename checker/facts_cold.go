@@ -606,6 +606,118 @@ var (
 	keyDaysWithoutWthr = ast.InternedTerm("days_without_weather")
 )
 
+// waterTerms gives the enclosure's water groups (waterGroups) as the
+// section's objects. A group's object is made from its site's figures,
+// the period's days and the group's days and checks only, and the
+// enclosures of a site occupied alike have the same groups (at 1,000
+// animals 984 of 990 groups, 156 k days, repeat one made before), so
+// the converter keeps each group it made by what it was made from and
+// gives it again: values are immutable and shared among documents.
+func (ec *encCold) waterTerms(c *converter) []*ast.Term {
+	if len(ec.water) == 0 {
+		return nil
+	}
+	maxChecks := 0
+	for _, w := range ec.water {
+		maxChecks = max(maxChecks, int(w.checks))
+	}
+	// Each group's day count and a hash of its days (FNV-1a), in one pass.
+	var small [8]coldWaterSum
+	sums := small[:0]
+	if maxChecks < len(small) {
+		sums = small[:maxChecks+1]
+	} else {
+		sums = make([]coldWaterSum, maxChecks+1)
+	}
+	for i := range sums {
+		sums[i].hash = fnvOffset
+	}
+	for _, w := range ec.water {
+		s := &sums[w.checks]
+		s.n++
+		s.hash = (s.hash ^ uint64(uint32(w.day))) * fnvPrime
+	}
+	if c.coldWater == nil || len(c.coldWater) > maxSharedGroups {
+		c.coldWater = map[coldWaterKey]coldWaterGroup{}
+	}
+	sc := ec.sc
+	var water []*ast.Term
+	for checks, s := range sums {
+		if s.n == 0 {
+			continue
+		}
+		key := coldWaterKey{sc: sc, days: ec.days, checks: checks, n: s.n, hash: s.hash}
+		if g, ok := c.coldWater[key]; ok && g.holds(ec.water, checks) {
+			water = append(water, g.term)
+			continue
+		}
+		g := make([]int32, 0, s.n)
+		for _, w := range ec.water {
+			if int(w.checks) == checks {
+				g = append(g, w.day)
+			}
+		}
+		// The three lists in one block.
+		block := make([]*ast.Term, 3*len(g))
+		on, minAir, airRefs := block[:len(g):len(g)], block[len(g):2*len(g):2*len(g)], block[2*len(g):]
+		for k, i := range g {
+			on[k], minAir[k], airRefs[k] = ec.days.terms[i], sc.minAirTerms[i], sc.airRefTerms[i]
+		}
+		t := ast.NewTerm(ast.NewObject(
+			[2]*ast.Term{keyChecks, ast.InternedTerm(checks)},
+			[2]*ast.Term{keyOn, ast.NewTerm(ast.NewArray(on...))},
+			[2]*ast.Term{keyMinAirC, ast.NewTerm(ast.NewArray(minAir...))},
+			[2]*ast.Term{keyAirRefs, ast.NewTerm(ast.NewArray(airRefs...))},
+		))
+		c.coldWater[key] = coldWaterGroup{days: g, term: t}
+		water = append(water, t)
+	}
+	return water
+}
+
+// coldWaterKey is what a water group's object is made from: the site's
+// figures, the period's days, the checks, and the group's days by their
+// number and hash (coldWaterGroup.holds compares them).
+type coldWaterKey struct {
+	sc        *siteCold
+	days      *periodDays
+	checks, n int
+	hash      uint64
+}
+
+type coldWaterGroup struct {
+	days []int32
+	term *ast.Term
+}
+
+type coldWaterSum struct {
+	n    int
+	hash uint64
+}
+
+const (
+	fnvOffset uint64 = 14695981039346656037
+	fnvPrime  uint64 = 1099511628211
+	// Past this many groups a converter forgets them all (its memory stays
+	// bounded; a site's enclosures are converted one after the other).
+	maxSharedGroups = 1 << 10
+)
+
+// holds reports whether water's days with checks are the group's days.
+func (g coldWaterGroup) holds(water []waterDay, checks int) bool {
+	k := 0
+	for _, w := range water {
+		if int(w.checks) != checks {
+			continue
+		}
+		if k >= len(g.days) || g.days[k] != w.day {
+			return false
+		}
+		k++
+	}
+	return k == len(g.days)
+}
+
 // ptrTerm is num's value as an OPA value.
 func ptrTerm(c *converter, p *float64) *ast.Term {
 	if p == nil {
@@ -643,22 +755,7 @@ func (ec *encCold) sectionTerm(c *converter) (*ast.Term, error) {
 		}
 		return ast.NewTerm(ast.NewArray(ev...))
 	}
-	var water []*ast.Term
-	for checks, g := range ec.waterGroups() {
-		if len(g) == 0 {
-			continue
-		}
-		on, minAir, airRefs := make([]*ast.Term, len(g)), make([]*ast.Term, len(g)), make([]*ast.Term, len(g))
-		for k, i := range g {
-			on[k], minAir[k], airRefs[k] = ec.days.terms[i], sc.minAirTerms[i], sc.airRefTerms[i]
-		}
-		water = append(water, ast.NewTerm(ast.NewObject(
-			[2]*ast.Term{keyChecks, ast.InternedTerm(checks)},
-			[2]*ast.Term{keyOn, ast.NewTerm(ast.NewArray(on...))},
-			[2]*ast.Term{keyMinAirC, ast.NewTerm(ast.NewArray(minAir...))},
-			[2]*ast.Term{keyAirRefs, ast.NewTerm(ast.NewArray(airRefs...))},
-		)))
-	}
+	water := ec.waterTerms(c)
 	bedding := make([]*ast.Term, len(ec.bedding))
 	for k, bd := range ec.bedding {
 		base := sc.pairs[bd.day]

@@ -1,12 +1,15 @@
 package checker
 
 import (
+	"encoding/json"
 	"fmt"
 	"sort"
+	"strconv"
 	"testing"
 	"time"
 
 	"github.com/google/go-cmp/cmp"
+	"github.com/open-policy-agent/opa/v1/ast"
 
 	"welfare/checker/cold"
 	"welfare/records"
@@ -533,5 +536,44 @@ func TestBuildingWithoutWeatherSite(t *testing.T) {
 	}
 	if _, has := f.docs["building"]["BARN"]; has {
 		t.Error("the indoor BARN got a weather section")
+	}
+}
+
+// TestColdWaterGroupsShared: enclosures of one site with the same water
+// days by checks get the same group objects from one converter, and an
+// enclosure whose days differ (same count, same checks) gets its own; each
+// section converts as OPA converts its made section.
+func TestColdWaterGroupsShared(t *testing.T) {
+	p := Period{From: records.DayOf(coldAt("2026-01-10", "00:00")), To: records.DayOf(coldAt("2026-01-19", "00:00"))}
+	pd := newPeriodDays(p)
+	n := len(pd.text)
+	sc := &siteCold{minAir: make([]any, n), airRefs: make([]string, n),
+		minAirTerms: make([]*ast.Term, n), airRefTerms: make([]*ast.Term, n)}
+	for i := range n {
+		sc.minAir[i] = -10.5 - float64(i)
+		sc.airRefs[i] = fmt.Sprintf("weather.csv:%d", 4+8*i)
+		sc.minAirTerms[i] = ast.NumberTerm(json.Number(strconv.FormatFloat(sc.minAir[i].(float64), 'g', -1, 64)))
+		sc.airRefTerms[i] = ast.StringTerm(sc.airRefs[i])
+	}
+	enc := func(ref string, water ...waterDay) *encCold {
+		return &encCold{exposure: "outdoor", site: "YARD", ref: records.Ref(ref), days: pd, sc: sc, water: water}
+	}
+	a := enc("enclosures.csv:2", waterDay{1, 2}, waterDay{2, 1}, waterDay{3, 2}, waterDay{5, 2})
+	b := enc("enclosures.csv:3", waterDay{1, 2}, waterDay{2, 1}, waterDay{3, 2}, waterDay{5, 2})
+	other := enc("enclosures.csv:4", waterDay{1, 2}, waterDay{2, 1}, waterDay{4, 2}, waterDay{5, 2})
+	c := newConverter()
+	var groups [][]*ast.Term
+	for _, ec := range []*encCold{a, b, other} {
+		sameAsOPA(t, c, map[string]any{"id": string(ec.ref), "cold": &lazy{make: ec.section, term: ec.sectionTerm}})
+		groups = append(groups, ec.waterTerms(c))
+	}
+	if len(groups[0]) != 2 || groups[0][0] != groups[1][0] || groups[0][1] != groups[1][1] {
+		t.Errorf("the same groups were not shared: %v, %v", groups[0], groups[1])
+	}
+	if groups[2][0] != groups[0][0] {
+		t.Errorf("the same 1-check group was not shared")
+	}
+	if groups[2][1] == groups[0][1] || groups[2][1].Equal(groups[0][1]) {
+		t.Errorf("other days' 2-check group %v is enclosure a's %v", groups[2][1], groups[0][1])
 	}
 }

@@ -242,6 +242,7 @@ type siteHeat struct {
 	evidence [][2]records.Ref
 	runs     map[records.Day]siteRun
 	hot      float64
+	hic      []float64 // each day's maximum heat index (its figures' max_heat_index_c)
 
 	pairs    [][][2]*ast.Term
 	evTerms  [][2]*ast.Term
@@ -252,8 +253,10 @@ type siteHeat struct {
 }
 
 func (f *facts) siteHeatOf(site []heatDay, docs []map[string]any, hot float64) *siteHeat {
-	sh := &siteHeat{from: f.period.From, docs: docs, evidence: make([][2]records.Ref, len(site)), hot: hot}
+	sh := &siteHeat{from: f.period.From, docs: docs, evidence: make([][2]records.Ref, len(site)), hot: hot,
+		hic: make([]float64, len(site))}
 	for i, hd := range site {
+		sh.hic[i] = hd.maxHIC
 		if hd.readings > 0 {
 			sh.evidence[i] = [2]records.Ref{hd.airRef, hd.peak.Ref}
 		}
@@ -313,6 +316,10 @@ var (
 	heatRunKey     = ast.InternedTerm("run")
 )
 
+// hotDayPairs is room for a hot day's key-value pairs: the site-day's 13
+// figures and the enclosure's 3 fields, and some to spare.
+const hotDayPairs = 20
+
 // sectionTerm makes the enclosure's heat section as the OPA value
 // converting section's gives: each hot day an object of its site-day's
 // converted figures and the enclosure's three fields, a site run's
@@ -325,20 +332,21 @@ func (eh *encHeat) sectionTerm(c *converter) (*ast.Term, error) {
 			return nil, sh.err
 		}
 		encRef := ast.StringTerm(string(eh.ref))
-		base := make([]map[string]any, len(eh.days))
 		on := make([]records.Day, len(eh.days))
-		anyDays := make([]any, len(eh.days))
 		for k, hd := range eh.days {
-			base[k] = sh.docs[hd.day]
-			anyDays[k] = base[k]
 			on[k] = sh.from + records.Day(hd.day)
 		}
+		hic := func(k int) float64 { return sh.hic[eh.days[k].day] }
 		runs := make([]*ast.Term, len(eh.days))
-		for _, r := range heatRuns(anyDays, on, sh.hot) {
+		for _, r := range heatRunsBy(len(on), hic, on, sh.hot) {
 			t, ok := sh.runTerms[on[r.first]]
 			if !ok || sh.runs[on[r.first]].until != on[r.last] {
+				days := make([]any, 0, r.last-r.first+1)
+				for _, hd := range eh.days[r.first : r.last+1] {
+					days = append(days, sh.docs[hd.day])
+				}
 				var err error
-				if t, err = c.term(heatRunDoc(anyDays[r.first : r.last+1])); err != nil {
+				if t, err = c.term(heatRunDoc(days)); err != nil {
 					return nil, err
 				}
 			}
@@ -347,11 +355,14 @@ func (eh *encHeat) sectionTerm(c *converter) (*ast.Term, error) {
 			}
 		}
 		// The days' terms and evidence lists in one block each; the
-		// key-value pairs of each day on the converter's stack (NewObject
-		// copies them out).
+		// key-value pairs of each day in an array on the stack (NewObject
+		// copies them out, and writing them there costs no write barrier
+		// while the collector runs), or on the converter's stack when a
+		// site-day has more figures than it holds.
 		elems := make([]*ast.Term, len(eh.days))
 		terms := make([]ast.Term, 2*len(eh.days))
 		evs := make([]*ast.Term, 0, 3*len(eh.days))
+		var buf [hotDayPairs][2]*ast.Term
 		start := len(c.pairs)
 		defer func() { c.pairs = c.pairs[:start] }()
 		for k, hd := range eh.days {
@@ -370,12 +381,20 @@ func (eh *encHeat) sectionTerm(c *converter) (*ast.Term, error) {
 			if run == nil {
 				run = ast.InternedNullTerm
 			}
-			c.pairs = append(append(c.pairs[:start], sh.pairs[hd.day]...),
-				[2]*ast.Term{waterChecksKey, ast.InternedTerm(int(hd.water))},
-				[2]*ast.Term{evidenceKey, ev},
-				[2]*ast.Term{heatRunKey, run})
+			site := sh.pairs[hd.day]
+			var pairs [][2]*ast.Term
+			if len(site)+3 <= len(buf) {
+				pairs = buf[:len(site)+3]
+			} else {
+				c.pairs = append(c.pairs[:start], make([][2]*ast.Term, len(site)+3)...)
+				pairs = c.pairs[start:]
+			}
+			n := copy(pairs, site)
+			pairs[n] = [2]*ast.Term{waterChecksKey, ast.InternedTerm(int(hd.water))}
+			pairs[n+1] = [2]*ast.Term{evidenceKey, ev}
+			pairs[n+2] = [2]*ast.Term{heatRunKey, run}
 			day := &terms[2*k+1]
-			day.Value = ast.NewObject(c.pairs[start:]...)
+			day.Value = ast.NewObject(pairs...)
 			elems[k] = day
 		}
 		days = ast.NewTerm(ast.NewArray(elems...))
@@ -464,14 +483,20 @@ type dayRange struct{ first, last int }
 // run finding keeps its first day's message, so the message must speak
 // for the whole run: each day of a run gets the run's document (setRun).
 func heatRuns(days []any, on []records.Day, limit float64) []dayRange {
-	in := func(i int) bool { return days[i].(map[string]any)["max_heat_index_c"].(float64) >= limit }
+	hic := func(i int) float64 { return days[i].(map[string]any)["max_heat_index_c"].(float64) }
+	return heatRunsBy(len(days), hic, on, limit)
+}
+
+// heatRunsBy is heatRuns of n days given by their maximum heat index.
+func heatRunsBy(n int, hic func(i int) float64, on []records.Day, limit float64) []dayRange {
+	in := func(i int) bool { return hic(i) >= limit }
 	var out []dayRange
-	for i := 0; i < len(days); i++ {
+	for i := 0; i < n; i++ {
 		if !in(i) {
 			continue
 		}
 		j := i
-		for j+1 < len(days) && in(j+1) && on[j+1] == on[j]+1 {
+		for j+1 < n && in(j+1) && on[j+1] == on[j]+1 {
 			j++
 		}
 		out = append(out, dayRange{i, j})
