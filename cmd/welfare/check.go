@@ -155,7 +155,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		return err
 	}
 	var view todayView
-	res, checked, err := policy.CheckWith(ctx, fsys, checker.CheckOptions{Only: only, Previous: prev, DropRecords: o.on == "", Scope: func(set *records.Set) (*records.Set, checker.Period, error) {
+	res, checked, err := policy.CheckWith(ctx, fsys, checker.CheckOptions{Only: only, Previous: prev, DropRecords: o.on == "", Released: paceReleased, Scope: func(set *records.Set) (*records.Set, checker.Period, error) {
 		if prev != nil && prev.Facility != set.Facility.Name {
 			return nil, period, fmt.Errorf("--previous %s: the findings of %q, not of %q: give the previous review of this facility", o.previous, prev.Facility, set.Facility.Name)
 		}
