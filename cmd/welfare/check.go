@@ -65,7 +65,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.DurationVar(&o.packageTimeout, "package-timeout", checker.DefaultPackageBudget, "time budget of one rule package across all its subjects (a `DURATION`)")
 	fs.DurationVar(&o.evalTimeout, "evaluation-timeout", checker.DefaultTotalBudget, "time budget of the whole rule evaluation, every package and subject (a `DURATION`)")
 	fs.StringVar(&o.explain, "explain", "", "print why one finding fired instead of the summary: the facts the rule saw, the limits it read, the rule and the evidence rows (`KEY` = \"CHECK SUBJECT YYYY-MM-DD\")")
-	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time (load, facts, rules, reports) and peak heap to stderr")
+	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time (load, facts, rules, reports), peak heap and CPU time to stderr")
 	return fs, o
 }
 

@@ -13,10 +13,10 @@ import (
 )
 
 // phases follows a run through its steps (load, facts, rules, reports): with
-// --timings it prints each step's wall time and peak heap to stderr at the
-// end; when stderr is a terminal it shows a progress line (step, rows or
-// subjects, rate) for a step that has run longer than a second. Pipes, CI
-// and tests see neither unless they ask for --timings.
+// --timings it prints each step's wall time, peak heap and CPU time to
+// stderr at the end; when stderr is a terminal it shows a progress line
+// (step, rows or subjects, rate) for a step that has run longer than a
+// second. Pipes, CI and tests see neither unless they ask for --timings.
 type phases struct {
 	timings io.Writer // nil: no timings
 	tty     io.Writer // nil: no progress display
