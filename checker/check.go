@@ -38,6 +38,8 @@ type config struct {
 	// read (dropEvents) once the facts are built: for a caller that keeps
 	// nothing of Records but the result.
 	DropRecords bool
+	// Released: see CheckOptions.Released.
+	Released func()
 }
 
 // evalChunk is how many subjects of a kind are evaluated at once: each
@@ -82,6 +84,9 @@ func check(ctx context.Context, cfg config) (*Result, error) {
 		release = func() {
 			cfg.Records.DropCare()
 			set.DropCare()
+			if cfg.Released != nil {
+				cfg.Released()
+			}
 		}
 	}
 	buildFacts(f, release)

@@ -17,10 +17,7 @@ type dayCare struct {
 }
 
 func (a dayCare) or(b dayCare) dayCare {
-	w := int(a.waterChecks) + int(b.waterChecks)
-	if w > 255 {
-		w = 255
-	}
+	w := min(uint(a.waterChecks)+uint(b.waterChecks), 255)
 	return dayCare{a.observed || b.observed, a.fed || b.fed, a.bedding || b.bedding, uint8(w)}
 }
 
@@ -56,16 +53,17 @@ func (c *careDays) of(encID, buildingID string) enclosureCare {
 
 // on is what the rounds of day d recorded for the enclosure, counting its
 // building's rounds.
+// The days of each are nil or n long, so one unsigned test per slice
+// keeps d within the period (and the method small enough to inline: the
+// cold and care builders call it for every occupied day of every
+// enclosure).
 func (ec enclosureCare) on(d records.Day) dayCare {
-	i := int(d - ec.from)
-	if i < 0 || i >= ec.n {
-		return dayCare{}
-	}
+	i := uint(d - ec.from)
 	var out dayCare
-	if ec.enc != nil {
+	if i < uint(len(ec.enc)) {
 		out = ec.enc[i]
 	}
-	if ec.bld != nil {
+	if i < uint(len(ec.bld)) {
 		out = out.or(ec.bld[i])
 	}
 	return out

@@ -93,6 +93,10 @@ type CheckOptions struct {
 	// outdoor work, ...) as soon as the facts are built, for a caller that
 	// needs only the result: CheckWith then returns no rows.
 	DropRecords bool
+	// Released, when set with DropRecords, is called once the care rounds
+	// are let go, while the facts are built: most of a large set's memory
+	// is then garbage, for a caller pacing the collector to take it.
+	Released func()
 }
 
 // Scope chooses, once the records are loaded, what a check judges: the
@@ -137,7 +141,7 @@ func (p *Policy) CheckWith(ctx context.Context, recordsFS fs.FS, opt CheckOption
 		}
 	}
 	res, err := check(ctx, config{Records: judged, Limits: p.limits, Engine: p.engine, Period: period, Only: opt.Only,
-		Progress: progress, Previous: opt.Previous, Lines: lines, Rejected: set.Problems, DropRecords: opt.DropRecords})
+		Progress: progress, Previous: opt.Previous, Lines: lines, Rejected: set.Problems, DropRecords: opt.DropRecords, Released: opt.Released})
 	if err != nil {
 		return nil, nil, err
 	}

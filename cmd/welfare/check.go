@@ -65,7 +65,7 @@ func checkFlags() (*flag.FlagSet, *checkOpts) {
 	fs.DurationVar(&o.packageTimeout, "package-timeout", checker.DefaultPackageBudget, "time budget of one rule package across all its subjects (a `DURATION`)")
 	fs.DurationVar(&o.evalTimeout, "evaluation-timeout", checker.DefaultTotalBudget, "time budget of the whole rule evaluation, every package and subject (a `DURATION`)")
 	fs.StringVar(&o.explain, "explain", "", "print why one finding fired instead of the summary: the facts the rule saw, the limits it read, the rule and the evidence rows (`KEY` = \"CHECK SUBJECT YYYY-MM-DD\")")
-	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time (load, facts, rules, reports) and peak heap to stderr")
+	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time (load, facts, rules, reports), peak heap and CPU time to stderr")
 	return fs, o
 }
 
@@ -155,7 +155,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		return err
 	}
 	var view todayView
-	res, checked, err := policy.CheckWith(ctx, fsys, checker.CheckOptions{Only: only, Previous: prev, DropRecords: o.on == "", Scope: func(set *records.Set) (*records.Set, checker.Period, error) {
+	res, checked, err := policy.CheckWith(ctx, fsys, checker.CheckOptions{Only: only, Previous: prev, DropRecords: o.on == "", Released: paceReleased, Scope: func(set *records.Set) (*records.Set, checker.Period, error) {
 		if prev != nil && prev.Facility != set.Facility.Name {
 			return nil, period, fmt.Errorf("--previous %s: the findings of %q, not of %q: give the previous review of this facility", o.previous, prev.Facility, set.Facility.Name)
 		}

@@ -12,33 +12,60 @@ var gcAuto bool
 // minMemoryLimit is the smallest soft memory limit paceMemory sets.
 const minMemoryLimit = 256 << 20
 
-// paceMemory sets a soft memory limit of 1.6 times the live heap, at least
-// minMemoryLimit, when the user left the collector to us. A check calls it
-// as its facts start: the loaded records are then most of what it will
-// ever hold (the care rounds go once the facts that read them are built,
-// and the rules' documents are made subject by subject), so the limit
-// keeps the collector's headroom to 60 % of that instead of the default
-// 100 % of whatever is live. The limit is soft: should the heap still
-// outgrow it, the runtime bounds the time spent collecting rather than
-// failing. On the 10,000-animal generated year this took the peak
-// resident memory from 971 to about 545 MB for a few per cent more CPU
-// time (README, Performance).
+// The collector's pacing over a check, when the user left it to us:
 //
-// The forced collection measures the live heap exactly; most of it is the
-// care rounds' pointer-free store, which the collector need not scan.
+//   - paceMemory, as the facts start, takes the heap then — the loaded
+//     records, most of what the check will ever hold (the care rounds go
+//     once the facts that read them are built, and the rules' documents
+//     are made subject by subject) — as the measure the soft memory limit
+//     is set from: 1.6 times it, at least minMemoryLimit, so the
+//     collector's headroom is 60 % of that instead of the default 100 % of
+//     whatever is live. On the 10,000-animal generated year this took the
+//     peak resident memory from 971 to about 545 MB for a few per cent more
+//     CPU time (README, Performance). Until the care rounds go, the
+//     collector waits for twice that heap, as the default pacing would
+//     after a collection: a collection while the rounds are live marks
+//     them all and frees next to nothing (the builders reading them keep
+//     what they make), and the builders stay well under that bound.
+//   - paceReleased, as the rounds are let go, starts a collection in the
+//     background: most of the heap is then the rounds' garbage, taken while
+//     the other builders run on.
+//   - paceRules lets the collector run only at the soft limit while the
+//     rules are evaluated; paceReports returns the default.
+//
+// The heap is read without a collection: it is an upper bound of the live
+// heap (on the generated years, the loaded records are all but 1 % of it;
+// a forced collection cost 40 ms of CPU time at 10,000 animals), and
+// should it hold garbage, the limit is looser, never tighter, than asked.
+// The limit is soft: should the heap still outgrow it, the runtime bounds
+// the time spent collecting rather than failing.
 func paceMemory() {
 	if !gcAuto {
 		return
 	}
-	runtime.GC()
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
-	debug.SetMemoryLimit(max(int64(minMemoryLimit), int64(ms.HeapAlloc)*16/10))
+	heap := int64(ms.HeapAlloc)
+	memoryLimit = max(int64(minMemoryLimit), heap*16/10)
+	debug.SetMemoryLimit(max(int64(minMemoryLimit), heap*2))
+	debug.SetGCPercent(-1)
 	paced = true
 }
 
-// paced: paceMemory has set the soft memory limit.
-var paced bool
+// paced: paceMemory has set the soft memory limit; memoryLimit is the one
+// the rules run under.
+var (
+	paced       bool
+	memoryLimit int64
+)
+
+// paceReleased starts a collection in the background once the care rounds
+// are let go (see paceMemory).
+func paceReleased() {
+	if gcAuto && paced {
+		go runtime.GC()
+	}
+}
 
 // paceRules lets the collector run only at the soft memory limit while the
 // rules are evaluated, when paceMemory set one. The rules' phase holds less
@@ -51,6 +78,7 @@ var paced bool
 // (paceReports).
 func paceRules() {
 	if gcAuto && paced {
+		debug.SetMemoryLimit(memoryLimit)
 		debug.SetGCPercent(-1)
 	}
 }

@@ -8,15 +8,17 @@ import (
 )
 
 // TestPaceMemory: the soft limit is set only when the user left GOGC and
-// GOMEMLIMIT unset, and then to 1.6 times the live heap, never below the
-// floor.
+// GOMEMLIMIT unset; the facts then run with the collector waiting for twice
+// the heap as they start, and the rules under a limit of 1.6 times it,
+// never below the floor.
 func TestPaceMemory(t *testing.T) {
 	before := debug.SetMemoryLimit(-1)
 	defer debug.SetMemoryLimit(before)
-	defer func(v bool) { gcAuto = v }(gcAuto)
+	defer debug.SetGCPercent(debug.SetGCPercent(100))
+	defer func(a, p bool, l int64) { gcAuto, paced, memoryLimit = a, p, l }(gcAuto, paced, memoryLimit)
 
 	debug.SetMemoryLimit(math.MaxInt64)
-	gcAuto = false
+	gcAuto, paced = false, false
 	paceMemory()
 	if got := debug.SetMemoryLimit(-1); got != math.MaxInt64 {
 		t.Fatalf("GOGC or GOMEMLIMIT set by the user: the limit changed to %d", got)
@@ -28,17 +30,24 @@ func TestPaceMemory(t *testing.T) {
 	if got < minMemoryLimit {
 		t.Fatalf("limit %d is below the floor %d", got, minMemoryLimit)
 	}
-	// With a live heap over the floor, the limit follows it.
+	// With a live heap over the floor, the limits follow it.
 	keep := make([][]byte, 0, 40)
 	for range 40 {
 		keep = append(keep, make([]byte, 8<<20)) // 320 MiB in all
 	}
 	paceMemory()
+	if got, low := debug.SetMemoryLimit(-1), int64(320<<20)*2; got < low {
+		t.Fatalf("facts' limit %d MiB with over 320 MiB live, want at least %d MiB", got>>20, low>>20)
+	}
+	if v := debug.SetGCPercent(-1); v != -1 {
+		t.Errorf("GC percent during the facts %d, want -1 (only at the limit)", v)
+	}
+	paceRules()
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
 	got = debug.SetMemoryLimit(-1)
-	if low := int64(320<<20) * 16 / 10; got < low {
-		t.Fatalf("limit %d MiB with over 320 MiB live, want at least %d MiB", got>>20, low>>20)
+	if low, high := int64(320<<20)*16/10, int64(ms.HeapAlloc)*16/10+1; got < low || got > high {
+		t.Fatalf("rules' limit %d MiB with over 320 MiB live, want %d to %d MiB", got>>20, low>>20, high>>20)
 	}
 	runtime.KeepAlive(keep)
 }
@@ -49,7 +58,7 @@ func TestPaceMemory(t *testing.T) {
 func TestPaceRules(t *testing.T) {
 	defer debug.SetGCPercent(debug.SetGCPercent(100))
 	defer debug.SetMemoryLimit(debug.SetMemoryLimit(-1))
-	defer func(a, p bool) { gcAuto, paced = a, p }(gcAuto, paced)
+	defer func(a, p bool, l int64) { gcAuto, paced, memoryLimit = a, p, l }(gcAuto, paced, memoryLimit)
 
 	gcPercent := func() int {
 		v := debug.SetGCPercent(100)
@@ -66,7 +75,7 @@ func TestPaceRules(t *testing.T) {
 		{true, true, -1},
 	} {
 		debug.SetGCPercent(100)
-		gcAuto, paced = tt.auto, tt.paced
+		gcAuto, paced, memoryLimit = tt.auto, tt.paced, math.MaxInt64
 		paceRules()
 		if got := gcPercent(); got != tt.during {
 			t.Errorf("auto %v, limit set %v: GC percent during the rules %d, want %d", tt.auto, tt.paced, got, tt.during)

@@ -13,10 +13,10 @@ import (
 )
 
 // phases follows a run through its steps (load, facts, rules, reports): with
-// --timings it prints each step's wall time and peak heap to stderr at the
-// end; when stderr is a terminal it shows a progress line (step, rows or
-// subjects, rate) for a step that has run longer than a second. Pipes, CI
-// and tests see neither unless they ask for --timings.
+// --timings it prints each step's wall time, peak heap and CPU time to
+// stderr at the end; when stderr is a terminal it shows a progress line
+// (step, rows or subjects, rate) for a step that has run longer than a
+// second. Pipes, CI and tests see neither unless they ask for --timings.
 type phases struct {
 	timings io.Writer // nil: no timings
 	tty     io.Writer // nil: no progress display
@@ -25,6 +25,7 @@ type phases struct {
 	name  string
 	unit  string
 	start time.Time
+	cpu0  time.Duration // the process's CPU time as the step started
 	bar   *progressbar.ProgressBar
 	done  []phaseTime
 	t0    time.Time
@@ -40,6 +41,7 @@ type phaseTime struct {
 	name     string
 	wall     time.Duration
 	peakHeap uint64
+	cpu      time.Duration // -1: not measured
 }
 
 // progressAfter is how long a step runs before its progress line appears.
@@ -78,6 +80,7 @@ func (p *phases) enter(name, unit string) {
 	defer p.mu.Unlock()
 	p.endLocked()
 	p.name, p.unit, p.start = name, unit, time.Now()
+	p.cpu0, _ = cpuTime()
 	p.count.Store(0)
 	p.peakHeap.Store(0)
 	p.sample()
@@ -94,7 +97,11 @@ func (p *phases) endLocked() {
 		return
 	}
 	p.sample()
-	p.done = append(p.done, phaseTime{p.name, time.Since(p.start), p.peakHeap.Load()})
+	cpu, ok := cpuTime()
+	if !ok {
+		cpu = p.cpu0 - 1
+	}
+	p.done = append(p.done, phaseTime{p.name, time.Since(p.start), p.peakHeap.Load(), cpu - p.cpu0})
 	if p.bar != nil {
 		_ = p.bar.Finish()
 		p.bar = nil
@@ -116,13 +123,26 @@ func (p *phases) finish() {
 	if p.timings == nil {
 		return
 	}
-	fmt.Fprintln(p.timings, "timings (wall time, peak heap in use):")
+	fmt.Fprintln(p.timings, "timings (wall time, peak heap in use, CPU time of every thread):")
 	var peak uint64
 	for _, t := range p.done {
-		fmt.Fprintf(p.timings, "  %-12s %8.3f s  %8s\n", t.name, t.wall.Seconds(), mib(t.peakHeap))
+		fmt.Fprintf(p.timings, "  %-12s %8.3f s  %8s%s\n", t.name, t.wall.Seconds(), mib(t.peakHeap), cpuText(t.cpu))
 		peak = max(peak, t.peakHeap)
 	}
-	fmt.Fprintf(p.timings, "  %-12s %8.3f s  %8s  (Go runtime memory at most %s)\n", "total", time.Since(p.t0).Seconds(), mib(peak), mib(p.peakTotal.Load()))
+	total, ok := cpuTime()
+	if !ok {
+		total = -1
+	}
+	fmt.Fprintf(p.timings, "  %-12s %8.3f s  %8s%s  (Go runtime memory at most %s)\n", "total", time.Since(p.t0).Seconds(), mib(peak), cpuText(total), mib(p.peakTotal.Load()))
+}
+
+// cpuText is a step's CPU time as a column of the timings, empty when
+// not measured.
+func cpuText(d time.Duration) string {
+	if d < 0 {
+		return ""
+	}
+	return fmt.Sprintf("  %8.3f s CPU", d.Seconds())
 }
 
 func mib(b uint64) string { return fmt.Sprintf("%.0f MiB", float64(b)/(1<<20)) }

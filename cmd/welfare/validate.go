@@ -19,7 +19,7 @@ func validateFlags() (*flag.FlagSet, *validateOpts) {
 	o := &validateOpts{}
 	fs := flag.NewFlagSet("validate", flag.ContinueOnError)
 	addLimitsFlags(fs, &o.limits)
-	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time and peak heap to stderr")
+	fs.BoolVar(&o.timings, "timings", false, "print each step's wall time, peak heap and CPU time to stderr")
 	return fs, o
 }
 
