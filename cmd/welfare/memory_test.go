@@ -9,8 +9,8 @@ import (
 
 // TestPaceMemory: the soft limit is set only when the user left GOGC and
 // GOMEMLIMIT unset; the facts then run with the collector waiting for twice
-// the heap as they start, and the rules under a limit of 1.6 times it,
-// never below the floor.
+// the heap as they start, and the rules under a limit of 1.6 times it; a
+// heap whose limit would be under the floor is left to the default pacing.
 func TestPaceMemory(t *testing.T) {
 	before := debug.SetMemoryLimit(-1)
 	defer debug.SetMemoryLimit(before)
@@ -24,11 +24,16 @@ func TestPaceMemory(t *testing.T) {
 		t.Fatalf("GOGC or GOMEMLIMIT set by the user: the limit changed to %d", got)
 	}
 
+	// A small heap (this test's, well under the floor) is left to the
+	// default pacing: no limit, the collector on, nothing paced.
 	gcAuto = true
+	runtime.GC()
 	paceMemory()
-	got := debug.SetMemoryLimit(-1)
-	if got < minMemoryLimit {
-		t.Fatalf("limit %d is below the floor %d", got, minMemoryLimit)
+	if got := debug.SetMemoryLimit(-1); got != math.MaxInt64 || paced {
+		t.Fatalf("a small heap: limit %d, paced %v; want none set", got, paced)
+	}
+	if v := debug.SetGCPercent(100); v != 100 {
+		t.Errorf("a small heap: GC percent %d, want the default 100", v)
 	}
 	// With a live heap over the floor, the limits follow it.
 	keep := make([][]byte, 0, 40)
@@ -45,7 +50,7 @@ func TestPaceMemory(t *testing.T) {
 	paceRules()
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
-	got = debug.SetMemoryLimit(-1)
+	got := debug.SetMemoryLimit(-1)
 	if low, high := int64(320<<20)*16/10, int64(ms.HeapAlloc)*16/10+1; got < low || got > high {
 		t.Fatalf("rules' limit %d MiB with over 320 MiB live, want %d to %d MiB", got>>20, low>>20, high>>20)
 	}
