@@ -2,17 +2,18 @@ package checker
 
 import (
 	"bytes"
+	"cmp"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
 	"hash"
+	"hash/crc32"
 	"io"
 	"io/fs"
 	"slices"
 	"sort"
 	"strings"
 	"sync"
-	"time"
 )
 
 // The fingerprint is the SHA-256 over the inputs a check used: every
@@ -120,7 +121,7 @@ func (c *captureFS) Open(name string) (fs.File, error) {
 	if ra, ok := f.(io.ReaderAt); ok {
 		// The loader reads a large file in ranges, in parallel, through
 		// ReadAt: offer it, so a check reads as fast as validate does.
-		return &capturedReaderAt{capturedRead: r, ra: ra, size: st.Size(), modTime: st.ModTime()}, nil
+		return &capturedReaderAt{capturedRead: r, ra: ra, size: st.Size()}, nil
 	}
 	return r, nil
 }
@@ -146,8 +147,7 @@ func (c *captureFS) keep(name string, cp *capture) {
 	}
 }
 
-// changedWhileRead notes a file whose size or modification time moved
-// while it was read in ranges.
+// changedWhileRead notes a file whose bytes differed between two reads.
 func (c *captureFS) changedWhileRead(name string) {
 	c.mu.Lock()
 	defer c.mu.Unlock()
@@ -229,14 +229,17 @@ func (r *capturedRead) Close() error {
 // order (a range that ran ahead of the frontier) are read again at Close,
 // from the frontier to the end of what the loader read.
 //
-// The loader itself reads the start of the file twice (the line count,
-// then the parse), so a file whose size or modification time moved between
-// Open and Close is reported (captureFS.err) rather than fingerprinted.
+// The loader itself reads some bytes twice (the first range: its line
+// count, then its parse). Such a second read is checked against the bytes
+// hashed: a CRC-32C runs along the frontier, noted at the end of each of
+// its reads, and a second read continues the CRC noted where it starts;
+// where it ends on a noted offset the two must agree. A file that changed
+// between the two reads is an error of the check (captureFS.err), not a
+// fingerprint of bytes the parse did not see.
 type capturedReaderAt struct {
 	*capturedRead
-	ra      io.ReaderAt
-	size    int64 // at Open
-	modTime time.Time
+	ra   io.ReaderAt
+	size int64 // at Open: the ranges end there
 
 	mu      sync.Mutex
 	rpos    int64 // the offset of the next Read
@@ -244,7 +247,30 @@ type capturedReaderAt struct {
 	hashing bool  // a goroutine is hashing at the frontier
 	end     int64 // the end of the furthest read
 	ranged  bool  // ReadAt was used
+	crc     uint32
+	marks   []crcMark    // the frontier's CRC at the end of each of its reads, by offset
+	again   []*crcStream // second reads being checked
+	changed bool
 }
+
+// crcMark is the CRC-32C of a file's first off bytes.
+type crcMark struct {
+	off int64
+	crc uint32
+}
+
+// crcStream is a second read of bytes behind the frontier: the CRC-32C of
+// the file's first next bytes, if the bytes read again are the same.
+type crcStream struct {
+	next int64
+	crc  uint32
+}
+
+var castagnoli = crc32.MakeTable(crc32.Castagnoli)
+
+// maxStreams is the most second reads followed at once (the loader has one
+// per range).
+const maxStreams = 16
 
 func (r *capturedReaderAt) Read(p []byte) (int, error) {
 	n, err := r.File.Read(p)
@@ -272,23 +298,75 @@ func (r *capturedReaderAt) ReadAt(p []byte, off int64) (int, error) {
 	return n, err
 }
 
-// saw hashes what b, the bytes at off, adds at the frontier. The hashing
-// is done outside the lock, so the other ranges' reads do not wait on it.
+// saw takes b, the bytes at off: what it adds at the frontier is hashed,
+// outside the lock so that the other ranges' reads do not wait on it; a
+// read wholly behind the frontier is checked against what was hashed.
 func (r *capturedReaderAt) saw(b []byte, off int64) {
+	if len(b) == 0 {
+		return
+	}
+	end := off + int64(len(b))
 	r.mu.Lock()
-	r.end = max(r.end, off+int64(len(b)))
+	r.end = max(r.end, end)
 	pos := r.pos
-	if r.hashing || off > pos || off+int64(len(b)) <= pos {
+	if end <= pos {
+		r.checkAgain(b, off, end)
+		r.mu.Unlock()
+		return
+	}
+	if r.hashing || off > pos {
 		r.mu.Unlock()
 		return
 	}
 	r.hashing = true
+	crc := r.crc
 	r.mu.Unlock()
 	r.c.add(b[pos-off:])
+	crc = crc32.Update(crc, castagnoli, b[pos-off:])
 	r.mu.Lock()
-	r.pos = r.c.n
+	r.pos, r.crc = end, crc
+	r.marks = append(r.marks, crcMark{end, crc})
 	r.hashing = false
 	r.mu.Unlock()
+}
+
+// checkAgain checks b, bytes at off read a second time (under r.mu).
+func (r *capturedReaderAt) checkAgain(b []byte, off, end int64) {
+	var s *crcStream
+	for _, t := range r.again {
+		if t.next == off {
+			s = t
+			break
+		}
+	}
+	if s == nil {
+		crc, ok := r.markAt(off)
+		if !ok {
+			return // starts where no CRC was noted: not checked
+		}
+		s = &crcStream{next: off, crc: crc}
+		if len(r.again) == maxStreams {
+			r.again = r.again[1:]
+		}
+		r.again = append(r.again, s)
+	}
+	s.crc = crc32.Update(s.crc, castagnoli, b)
+	s.next = end
+	if crc, ok := r.markAt(end); ok && crc != s.crc {
+		r.changed = true
+	}
+}
+
+// markAt is the frontier's CRC of the first off bytes, when noted.
+func (r *capturedReaderAt) markAt(off int64) (uint32, bool) {
+	if off == 0 {
+		return 0, true
+	}
+	i, ok := slices.BinarySearchFunc(r.marks, off, func(m crcMark, off int64) int { return cmp.Compare(m.off, off) })
+	if !ok {
+		return 0, false
+	}
+	return r.marks[i].crc, true
 }
 
 func (r *capturedReaderAt) Close() error {
@@ -296,13 +374,14 @@ func (r *capturedReaderAt) Close() error {
 		return r.File.Close()
 	}
 	r.mu.Lock()
-	ranged, end := r.ranged, r.end
+	ranged, end, changed := r.ranged, r.end, r.changed
+	r.marks, r.again = nil, nil
 	r.mu.Unlock()
 	if ranged {
-		r.catchUp(end)
-		if st, err := r.File.Stat(); err != nil || st.Size() != r.size || !st.ModTime().Equal(r.modTime) {
+		if changed {
 			r.fs.changedWhileRead(r.name)
 		}
+		r.catchUp(end)
 		r.c.complete = r.c.n == r.size
 	}
 	return r.capturedRead.Close()

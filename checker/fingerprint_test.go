@@ -9,7 +9,6 @@ import (
 	"strings"
 	"testing"
 	"testing/fstest"
-	"time"
 
 	"github.com/google/go-cmp/cmp"
 )
@@ -249,28 +248,59 @@ func TestCaptureRanges(t *testing.T) {
 	}
 }
 
-// TestCaptureRangesChanged: a file whose modification time or size moves
-// while it is read in ranges is an error of the capture, not a
-// fingerprint of bytes the parse may not have seen.
+// TestCaptureRangesChanged: bytes the loader reads a second time (the
+// first range: its line count, then its parse) are checked against the
+// bytes hashed. A file rewritten between the two reads is an error of the
+// capture, not a fingerprint of bytes the parse did not see; a file that
+// only grew past what was read is not.
 func TestCaptureRangesChanged(t *testing.T) {
-	data := bytes.Repeat([]byte("2026-01-01,E-0001,yes\n"), 1000)
-	fsys := fstest.MapFS{"daily_care.csv": {Data: data}}
-	c := newCaptureFS(fsys)
-	f, err := c.Open("daily_care.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	p := make([]byte, 100)
-	if _, err := f.(io.ReaderAt).ReadAt(p, 0); err != nil {
-		t.Fatal(err)
-	}
-	fsys["daily_care.csv"].ModTime = fsys["daily_care.csv"].ModTime.Add(time.Second)
-	f.Close()
-	if err := c.err(); err == nil || !strings.Contains(err.Error(), "daily_care.csv changed while it was read") {
-		t.Errorf("err = %v, want daily_care.csv changed while it was read", err)
+	row := []byte("2026-01-01,E-0001,yes\n")
+	for _, tc := range []struct {
+		name    string
+		change  func(f *fstest.MapFile)
+		wantErr bool
+	}{
+		{"unchanged", func(*fstest.MapFile) {}, false},
+		{"rewritten", func(f *fstest.MapFile) { f.Data[len(row)*500+3] = '7' }, true},
+		{"grown", func(f *fstest.MapFile) { f.Data = append(f.Data, row...) }, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			data := bytes.Repeat(row, 1000)
+			fsys := fstest.MapFS{"daily_care.csv": {Data: data}}
+			c := newCaptureFS(fsys)
+			f, err := c.Open("daily_care.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			ra := f.(io.ReaderAt)
+			size := int64(len(data))
+			read := func(chunk int64) {
+				p := make([]byte, chunk)
+				for off := int64(0); off < size; off += chunk {
+					if _, err := ra.ReadAt(p[:min(chunk, size-off)], off); err != nil && err != io.EOF {
+						t.Fatal(err)
+					}
+				}
+			}
+			read(1 << 10) // the count: hashed
+			tc.change(fsys["daily_care.csv"])
+			read(333) // the parse: checked
+			f.Close()
+			err = c.err()
+			if tc.wantErr != (err != nil) {
+				t.Fatalf("err = %v, want an error: %v", err, tc.wantErr)
+			}
+			if err != nil && !strings.Contains(err.Error(), "daily_care.csv changed while it was read") {
+				t.Errorf("err = %v, want daily_care.csv changed while it was read", err)
+			}
+			files := c.read()
+			if got, want := fmt.Sprintf("%d %x", files[0].size, files[0].sum), fmt.Sprintf("%d %x", len(data), sha256.Sum256(bytes.Repeat(row, 1000))); got != want {
+				t.Errorf("captured %s, want the bytes first read: %s", got, want)
+			}
+		})
 	}
 	// A file read from start to end alone is hashed as read: no error.
-	c = newCaptureFS(fsys)
+	c := newCaptureFS(fstest.MapFS{"daily_care.csv": {Data: row}})
 	if _, err := fs.ReadFile(c, "daily_care.csv"); err != nil {
 		t.Fatal(err)
 	}
