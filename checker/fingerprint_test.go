@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
+	"strings"
 	"testing"
 	"testing/fstest"
 
@@ -166,4 +167,144 @@ func BenchmarkCaptureDailyCare1M(b *testing.B) {
 			b.Fatal("no newlines")
 		}
 	})
+}
+
+// TestCaptureRanges: a file read in ranges through ReadAt, from several
+// goroutines and in any order (as records/split.go reads a large file),
+// gets the fingerprint, size and line count of the same bytes read from
+// start to end: the SHA-256 of the file, whatever the order of the reads.
+func TestCaptureRanges(t *testing.T) {
+	var buf bytes.Buffer
+	for i := range 20000 {
+		fmt.Fprintf(&buf, "2026-01-%02d,E-%04d,yes\n", 1+i%28, i)
+	}
+	buf.WriteString("last line without a break")
+	data := buf.Bytes()
+	size := int64(len(data))
+	want := fmt.Sprintf("%d %x", len(data), sha256.Sum256(data))
+	wantLines := 20001
+
+	// Each plan is the ranges read, in the order their reads start; the
+	// ranges of one plan are read at the same time.
+	half, third := size/2, size/3
+	plans := map[string][][2]int64{
+		"whole":                  {{0, size}},
+		"count then two ranges":  {{0, half}, {0, half}, {half, size}},
+		"later range first":      {{half, size}, {0, half}},
+		"three ranges, overlaps": {{third, 2 * third}, {0, third + 100}, {2*third - 7, size}, {0, third}},
+		"a sniff of the middle":  {{half, half + 4096}, {0, size}},
+	}
+	for name, plan := range plans {
+		t.Run(name, func(t *testing.T) {
+			c := newCaptureFS(fstest.MapFS{"daily_care.csv": {Data: data}})
+			f, err := c.Open("daily_care.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			ra, ok := f.(io.ReaderAt)
+			if !ok {
+				t.Fatal("the capture hides ReadAt: the loader cannot read the file in ranges")
+			}
+			done := make(chan error, len(plan))
+			for i, r := range plan {
+				go func() {
+					// Reads of odd sizes, as a bufio.Reader over the range makes.
+					p := make([]byte, 4093+i)
+					for off := r[0]; off < r[1]; {
+						n, err := ra.ReadAt(p[:min(int64(len(p)), r[1]-off)], off)
+						if n > 0 && !bytes.Equal(p[:n], data[off:off+int64(n)]) {
+							done <- fmt.Errorf("ReadAt at %d gave other bytes", off)
+							return
+						}
+						off += int64(n)
+						if err != nil && off < r[1] {
+							done <- err
+							return
+						}
+					}
+					done <- nil
+				}()
+			}
+			for range plan {
+				if err := <-done; err != nil {
+					t.Fatal(err)
+				}
+			}
+			f.Close()
+			if err := c.err(); err != nil {
+				t.Fatal(err)
+			}
+			files := c.read()
+			if len(files) != 1 {
+				t.Fatalf("%d files captured", len(files))
+			}
+			if got := fmt.Sprintf("%d %x", files[0].size, files[0].sum); got != want {
+				t.Errorf("captured %s, want %s", got, want)
+			}
+			if got := c.lineCounts()["daily_care.csv"]; got != wantLines {
+				t.Errorf("%d lines, want %d", got, wantLines)
+			}
+		})
+	}
+}
+
+// TestCaptureRangesChanged: bytes the loader reads a second time (the
+// first range: its line count, then its parse) are checked against the
+// bytes hashed. A file rewritten between the two reads is an error of the
+// capture, not a fingerprint of bytes the parse did not see; a file that
+// only grew past what was read is not.
+func TestCaptureRangesChanged(t *testing.T) {
+	row := []byte("2026-01-01,E-0001,yes\n")
+	for _, tc := range []struct {
+		name    string
+		change  func(f *fstest.MapFile)
+		wantErr bool
+	}{
+		{"unchanged", func(*fstest.MapFile) {}, false},
+		{"rewritten", func(f *fstest.MapFile) { f.Data[len(row)*500+3] = '7' }, true},
+		{"grown", func(f *fstest.MapFile) { f.Data = append(f.Data, row...) }, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			data := bytes.Repeat(row, 1000)
+			fsys := fstest.MapFS{"daily_care.csv": {Data: data}}
+			c := newCaptureFS(fsys)
+			f, err := c.Open("daily_care.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			ra := f.(io.ReaderAt)
+			size := int64(len(data))
+			read := func(chunk int64) {
+				p := make([]byte, chunk)
+				for off := int64(0); off < size; off += chunk {
+					if _, err := ra.ReadAt(p[:min(chunk, size-off)], off); err != nil && err != io.EOF {
+						t.Fatal(err)
+					}
+				}
+			}
+			read(1 << 10) // the count: hashed
+			tc.change(fsys["daily_care.csv"])
+			read(333) // the parse: checked
+			f.Close()
+			err = c.err()
+			if tc.wantErr != (err != nil) {
+				t.Fatalf("err = %v, want an error: %v", err, tc.wantErr)
+			}
+			if err != nil && !strings.Contains(err.Error(), "daily_care.csv changed while it was read") {
+				t.Errorf("err = %v, want daily_care.csv changed while it was read", err)
+			}
+			files := c.read()
+			if got, want := fmt.Sprintf("%d %x", files[0].size, files[0].sum), fmt.Sprintf("%d %x", len(data), sha256.Sum256(bytes.Repeat(row, 1000))); got != want {
+				t.Errorf("captured %s, want the bytes first read: %s", got, want)
+			}
+		})
+	}
+	// A file read from start to end alone is hashed as read: no error.
+	c := newCaptureFS(fstest.MapFS{"daily_care.csv": {Data: row}})
+	if _, err := fs.ReadFile(c, "daily_care.csv"); err != nil {
+		t.Fatal(err)
+	}
+	if err := c.err(); err != nil {
+		t.Error(err)
+	}
 }

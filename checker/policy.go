@@ -123,6 +123,9 @@ func (p *Policy) CheckWith(ctx context.Context, recordsFS fs.FS, opt CheckOption
 	capture := newCaptureFS(recordsFS)
 	set, err := records.LoadContext(ctx, capture, records.Options{Species: p.limits.SpeciesCodes(),
 		Progress: func(n int) { progress("load", int(rows.Add(int64(n)))) }})
+	if err == nil {
+		err = capture.err()
+	}
 	if err != nil {
 		return nil, nil, err
 	}
