@@ -272,11 +272,9 @@ else := ""
 #   needs: [weather.csv]
 findings contains f if {
 	days := input.cold.days_at_or_below_frostbite_limit
-	days[0] # none: nothing to go through
-	frostbite_c := lim.frostbite_wind_chill
 	frost := [d |
 		some d in days
-		d.min_wind_chill_c <= frostbite_c
+		d.min_wind_chill_c <= lim.frostbite_wind_chill
 	]
 	count(frost) > 0
 	some r in runs(frost)
