@@ -1,6 +1,7 @@
 package checker
 
 import (
+	"strconv"
 	"strings"
 
 	"github.com/open-policy-agent/opa/v1/ast"
@@ -247,29 +248,107 @@ func textOrNull(t *handlingTable, k uint32) *ast.Term {
 }
 
 // sectionTerm makes the animal's handling section as the OPA value
-// converting section's gives, without the maps between.
+// converting section's gives, without the maps between. The terms and texts
+// each entry makes afresh come from blocks made once for the section
+// (entryBlocks).
 func (ah *animalHandling) sectionTerm(c *converter) (*ast.Term, error) {
 	t := ah.t
+	b := newEntryBlocks(len(ah.rows), 3, 2, func(buf []byte, i, k int) []byte {
+		r := &ah.rows[i]
+		if k == 0 {
+			return appendStamp(buf, stampDayOf(t.days, r.day), r.minute)
+		}
+		return appendRef(buf, t.refs, r.ref)
+	})
 	elems := make([]*ast.Term, len(ah.rows))
-	for i, r := range ah.rows {
-		elems[i] = ast.NewTerm(ast.NewObject(
-			[2]*ast.Term{keyOn, t.days.term(c, r.day)},
-			[2]*ast.Term{keyAt, ast.StringTerm(minuteStampOf(stampDay(r.day), r.minute))},
-			[2]*ast.Term{keyRef, ast.StringTerm(t.refs.ref(r.ref))},
-			[2]*ast.Term{keyStaff, t.textTerms[r.staff]},
-			[2]*ast.Term{keyPurpose, t.textTerms[r.purpose]},
-			[2]*ast.Term{keyRestraint, textOrNull(t, r.restraint)},
-			[2]*ast.Term{keyGlove, textOrNull(t, r.glove)},
-			[2]*ast.Term{keyThickness, numTerm(c, r.flags&hasThickness != 0, r.thickness)},
-			[2]*ast.Term{keyPPE, t.ppeTerms[r.ppe]},
-			[2]*ast.Term{keyDuration, numTerm(c, r.flags&hasDuration != 0, r.duration)},
-			[2]*ast.Term{keyBite, ast.InternedTerm(r.flags&wasBite != 0)},
-			[2]*ast.Term{keyScratch, ast.InternedTerm(r.flags&wasScratch != 0)},
-			[2]*ast.Term{keyWoundWashed, ast.InternedTerm(r.flags&woundWashed != 0)},
-			[2]*ast.Term{keyReported, numTerm(c, r.flags&hasReported != 0, r.reported)},
-		))
+	var pairs [14][2]*ast.Term
+	for i := range ah.rows {
+		r := &ah.rows[i]
+		pairs = [14][2]*ast.Term{
+			{keyOn, t.days.term(c, r.day)},
+			{keyAt, b.text(i, 0)},
+			{keyRef, b.text(i, 1)},
+			{keyStaff, t.textTerms[r.staff]},
+			{keyPurpose, t.textTerms[r.purpose]},
+			{keyRestraint, textOrNull(t, r.restraint)},
+			{keyGlove, textOrNull(t, r.glove)},
+			{keyThickness, numTerm(c, r.flags&hasThickness != 0, r.thickness)},
+			{keyPPE, t.ppeTerms[r.ppe]},
+			{keyDuration, numTerm(c, r.flags&hasDuration != 0, r.duration)},
+			{keyBite, ast.InternedTerm(r.flags&wasBite != 0)},
+			{keyScratch, ast.InternedTerm(r.flags&wasScratch != 0)},
+			{keyWoundWashed, ast.InternedTerm(r.flags&woundWashed != 0)},
+			{keyReported, numTerm(c, r.flags&hasReported != 0, r.reported)},
+		}
+		elems[i] = b.term(ast.NewObject(pairs[:]...))
 	}
 	return ast.NewTerm(ast.NewArray(elems...)), nil
+}
+
+// entryBlocks hands out the terms and texts the entries of one lazy
+// section make afresh (an entry's object, its time stamp, its ref) from
+// blocks made once for the section, not one allocation each: a block of
+// terms, and the entries' texts written into one string, each a slice of it.
+type entryBlocks struct {
+	terms []ast.Term
+	texts string
+	ends  []int32 // where each text ends in texts, texts per entry in a row
+	per   int
+}
+
+// newEntryBlocks makes the blocks for n entries of terms terms and texts
+// texts each; write appends entry i's text k to buf.
+func newEntryBlocks(n, terms, texts int, write func(buf []byte, i, k int) []byte) *entryBlocks {
+	b := &entryBlocks{terms: make([]ast.Term, 0, n*terms), ends: make([]int32, n*texts), per: texts}
+	buf := make([]byte, 0, n*texts*20)
+	for i := range n {
+		for k := range texts {
+			buf = write(buf, i, k)
+			b.ends[i*texts+k] = int32(len(buf))
+		}
+	}
+	b.texts = string(buf)
+	return b
+}
+
+// term is a term of the block holding v.
+func (b *entryBlocks) term(v ast.Value) *ast.Term {
+	b.terms = append(b.terms, ast.Term{Value: v})
+	return &b.terms[len(b.terms)-1]
+}
+
+// text is entry i's text k as a string term of the block.
+func (b *entryBlocks) text(i, k int) *ast.Term {
+	j := i*b.per + k
+	start := int32(0)
+	if j > 0 {
+		start = b.ends[j-1]
+	}
+	return b.term(ast.String(b.texts[start:b.ends[j]]))
+}
+
+// stampDayOf is stampDay's text of d, the period's shared text when d is
+// in the period.
+func stampDayOf(days *dayValues, d records.Day) string {
+	if s, ok := days.of(d).(string); ok && s != "" {
+		return s
+	}
+	return stampDay(d)
+}
+
+// appendStamp appends minuteStampOf(day, minute) to buf.
+func appendStamp(buf []byte, day string, minute uint16) []byte {
+	h, m := minute/60, minute%60
+	return append(append(buf, day...), ' ', byte('0'+h/10), byte('0'+h%10), ':', byte('0'+m/10), byte('0'+m%10))
+}
+
+// appendRef appends the text of the kept ref r (rowRefs.ref) to buf.
+func appendRef(buf []byte, t *rowRefs, r rowRef) []byte {
+	buf = append(buf, t.parts[r.part]...)
+	if r.line != 0 {
+		buf = strconv.AppendUint(buf, uint64(r.line), 10)
+	}
+	return buf
 }
 
 // orNull is v, or null when the text s it stands for is empty.

@@ -214,10 +214,19 @@ func (f *facts) observationFacts() {
 type obsTable struct {
 	days *dayValues
 	refs *rowRefs
+	// from is the period's first day, dayNums the period's day numbers as
+	// OPA values (dayNumber).
+	from    records.Day
+	dayNums []*ast.Term
 }
 
 func (t *obsTable) finish() {
 	t.days.makeTerms()
+	t.from = t.days.from
+	t.dayNums = make([]*ast.Term, len(t.days.vals))
+	for i := range t.dayNums {
+		t.dayNums[i] = ast.InternedTerm(int(t.from) + i)
+	}
 }
 
 // weighing is one weighing as the facts keep it: its day and minute, the
@@ -259,22 +268,42 @@ var (
 )
 
 // sectionTerm makes the weights section as the OPA value converting
-// section's gives.
+// section's gives. The terms and texts each entry makes afresh come from
+// blocks made once for the section (entryBlocks).
 func (aw *animalWeights) sectionTerm(c *converter) (*ast.Term, error) {
 	t := aw.t
+	b := newEntryBlocks(len(aw.rows), 3, 2, func(buf []byte, i, k int) []byte {
+		w := &aw.rows[i]
+		if k == 0 {
+			return appendStamp(buf, stampDayOf(t.days, w.day), w.minute)
+		}
+		return appendRef(buf, t.refs, w.ref)
+	})
 	elems := make([]*ast.Term, len(aw.rows))
-	for i, w := range aw.rows {
-		elems[i] = ast.NewTerm(ast.NewObject(
-			[2]*ast.Term{keyN, ast.InternedTerm(i)},
-			[2]*ast.Term{keyOn, t.days.term(c, w.day)},
-			[2]*ast.Term{keyDay, ast.InternedTerm(int(w.day))},
-			[2]*ast.Term{keyAt, ast.StringTerm(minuteStampOf(stampDay(w.day), w.minute))},
-			[2]*ast.Term{keyKg, c.num(w.kg)},
-			[2]*ast.Term{keyRef, ast.StringTerm(t.refs.ref(w.ref))},
-			[2]*ast.Term{keyInPeriod, ast.InternedTerm(w.in)},
-		))
+	var pairs [7][2]*ast.Term
+	for i := range aw.rows {
+		w := &aw.rows[i]
+		pairs = [7][2]*ast.Term{
+			{keyN, ast.InternedTerm(i)},
+			{keyOn, t.days.term(c, w.day)},
+			{keyDay, t.dayNumber(w.day)},
+			{keyAt, b.text(i, 0)},
+			{keyKg, c.num(w.kg)},
+			{keyRef, b.text(i, 1)},
+			{keyInPeriod, ast.InternedTerm(w.in)},
+		}
+		elems[i] = b.term(ast.NewObject(pairs[:]...))
 	}
 	return ast.NewTerm(ast.NewArray(elems...)), nil
+}
+
+// dayNumber is a day's number as an OPA value: the period's made once in
+// finish and shared, any other day's made afresh.
+func (t *obsTable) dayNumber(d records.Day) *ast.Term {
+	if i := int(d - t.from); i >= 0 && i < len(t.dayNums) {
+		return t.dayNums[i]
+	}
+	return ast.InternedTerm(int(d))
 }
 
 // condition is one body condition score in the period.
@@ -302,12 +331,18 @@ func (ac *animalConditions) section() any {
 func (ac *animalConditions) sectionTerm(c *converter) (*ast.Term, error) {
 	t := ac.t
 	elems := make([]*ast.Term, len(ac.rows))
-	for i, r := range ac.rows {
-		elems[i] = ast.NewTerm(ast.NewObject(
-			[2]*ast.Term{keyOn, t.days.term(c, r.day)},
-			[2]*ast.Term{keyScore, ast.InternedTerm(int(r.score))},
-			[2]*ast.Term{keyRef, ast.StringTerm(t.refs.ref(r.ref))},
-		))
+	b := newEntryBlocks(len(ac.rows), 2, 1, func(buf []byte, i, _ int) []byte {
+		return appendRef(buf, t.refs, ac.rows[i].ref)
+	})
+	var pairs [3][2]*ast.Term
+	for i := range ac.rows {
+		r := &ac.rows[i]
+		pairs = [3][2]*ast.Term{
+			{keyOn, t.days.term(c, r.day)},
+			{keyScore, ast.InternedTerm(int(r.score))},
+			{keyRef, b.text(i, 0)},
+		}
+		elems[i] = b.term(ast.NewObject(pairs[:]...))
 	}
 	return ast.NewTerm(ast.NewArray(elems...)), nil
 }

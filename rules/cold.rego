@@ -116,6 +116,7 @@ findings contains f if {
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
 	days := input.cold.days_at_or_past_bedding_limits
+	days[0] # none: nothing to go through (an enclosure's list is most often empty)
 	wind_chill_c := lim.bedding_wind_chill
 	bedding_days := lim.bedding_days
 	stale := [d |
@@ -171,6 +172,7 @@ else := "no bedding added on record"
 findings contains f if {
 	not input.cold.nest_box
 	days := input.cold.days_at_or_below_shelter_limit_without_nest_box
+	days[0] # none: nothing to go through (an enclosure's list is most often empty)
 	wind_chill_c := lim.shelter_wind_chill
 	bare := [d |
 		some d in days

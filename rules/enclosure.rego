@@ -22,9 +22,9 @@ package welfare.enclosure
 #   source: "Council of Europe fur-animal recommendation (1999) as implemented in Czech Decree 208/2004 §13 (as in force before the 2019 fur-farming ban) and Finnish Decree 1084/2011 (section from memory); dogs: 9 CFR §3.6(c)(1)"
 #   runs: true
 findings contains f if {
+	area := input.area_m2
 	some s in input.occupancy
-	need := max({s.required_m2, s.min_cage_m2})
-	input.area_m2 < need
+	area < max([s.required_m2, s.min_cage_m2])
 	f := {
 		"check": "enclosure.space.insufficient",
 		"subject": input.id,
@@ -56,8 +56,9 @@ else := round(x * 1000) / 1000
 #   source: "Council of Europe fur-animal recommendation (1999) as implemented in Finnish rules and Czech Decree 208/2004 §13"
 #   runs: true
 findings contains f if {
+	height := input.height_cm
 	some s in input.occupancy
-	input.height_cm < s.min_height_cm
+	height < s.min_height_cm
 	f := {
 		"check": "enclosure.height.insufficient",
 		"subject": input.id,
@@ -77,9 +78,10 @@ findings contains f if {
 #   source: facility choice
 #   runs: true
 findings contains f if {
-	input.max_occupants > 0
+	most := input.max_occupants
+	most > 0
 	some s in input.occupancy
-	s.count > input.max_occupants
+	s.count > most
 	f := {
 		"check": "enclosure.capacity.exceeded",
 		"subject": input.id,
@@ -99,9 +101,9 @@ findings contains f if {
 #   source: "Council of Europe fur-animal recommendation (1999) as implemented in national rules (from memory)"
 #   runs: true
 findings contains f if {
+	not input.nest_box # checked once, before the occupancy
 	some s in input.occupancy
 	s.needs_nest_box
-	not input.nest_box
 	f := {
 		"check": "enclosure.nest_box.missing",
 		"subject": input.id,
@@ -121,9 +123,9 @@ findings contains f if {
 #   source: "Council of Europe fur-animal recommendation (1999) as implemented in national rules (from memory)"
 #   runs: true
 findings contains f if {
+	not input.platform # checked once, before the occupancy
 	some s in input.occupancy
 	s.needs_platform
-	not input.platform
 	f := {
 		"check": "enclosure.platform.missing",
 		"subject": input.id,

@@ -57,7 +57,7 @@ else := ", last reading outside"
 #   needs: [environment.csv]
 findings contains f if {
 	input.exposure == "indoor"
-	some d in input.environment.days
+	some d in humid_days
 	outside := [i | some i, h in d.humidity_pct; out_of_range(h)]
 	count(outside) > 0
 	values := [d.humidity_pct[i] | some i in outside]
@@ -70,9 +70,27 @@ findings contains f if {
 	}
 }
 
-out_of_range(h) if h < lim.humidity_pct.min
+humidity_min := lim.humidity_pct.min
 
-out_of_range(h) if h > lim.humidity_pct.max
+humidity_max := lim.humidity_pct.max
+
+out_of_range(h) if h < humidity_min
+
+out_of_range(h) if h > humidity_max
+
+# The days with a humidity reading outside the range, found from each day's
+# lowest and highest reading (null: none), so that only their readings are
+# gone through one by one.
+humid_days contains d if {
+	some d in input.environment.days
+	d.max_humidity_pct > humidity_max # null is below every number
+}
+
+humid_days contains d if {
+	some d in input.environment.days
+	d.min_humidity_pct != null
+	d.min_humidity_pct < humidity_min
+}
 
 # METADATA
 # title: Ammonia above the limit
@@ -84,9 +102,9 @@ out_of_range(h) if h > lim.humidity_pct.max
 #   runs: true
 #   needs: [environment.csv]
 findings contains f if {
+	most := lim.ammonia_ppm_max
 	some d in input.environment.days
-	d.max_ammonia_ppm != null
-	d.max_ammonia_ppm > lim.ammonia_ppm_max
+	d.max_ammonia_ppm > most # null is below every number: no reading
 	f := {
 		"check": "environment.ammonia.high",
 		"subject": input.id,

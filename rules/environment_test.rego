@@ -16,11 +16,21 @@ spell(hours) := {
 	"direction": "above", "peak_c": 31.4, "evidence": ["environment.csv:300", "environment.csv:303"],
 }
 
+# The day's lowest and highest humidity are null when none was recorded, as the facts give them.
 day(hum, ammonia) := {
 	"on": "2026-07-21", "readings": count(hum), "humidity_pct": hum,
 	"humidity_refs": [sprintf("environment.csv:%d", [i + 10]) | some i, _ in hum],
+	"min_humidity_pct": lowest(hum), "max_humidity_pct": highest(hum),
 	"max_ammonia_ppm": ammonia, "ammonia_ref": "environment.csv:12",
 }
+
+lowest(hum) := null if count(hum) == 0
+
+else := min(hum)
+
+highest(hum) := null if count(hum) == 0
+
+else := max(hum)
 
 test_quiet_building if {
 	count(environment.findings) == 0 with input as bld({"days": [day([30, 50, 70], 25)]})
@@ -50,6 +60,18 @@ test_humidity_above_70_fires if {
 test_humidity_below_30_fires if {
 	some f in environment.findings with input as bld({"days": [day([29.9], null)]})
 	f.check == "environment.humidity.out_of_range"
+}
+
+test_humidity_just_outside_both_ends_is_one_finding if {
+	# Guide Table 3.1: 30–70 %; 29.9 and 70.1 are outside, 30 and 70 inside.
+	fs := [f | some f in environment.findings with input as bld({"days": [day([30, 29.9, 70, 70.1], null)]})]
+	count(fs) == 1
+	contains(fs[0].message, "2 of 4 humidity readings outside 30–70 % (from 29.9 to 70.1 %)")
+	fs[0].evidence == ["environment.csv:11", "environment.csv:13"]
+}
+
+test_ammonia_at_25_is_quiet if {
+	count(environment.findings) == 0 with input as bld({"days": [day([], 25)]})
 }
 
 test_humidity_in_sheltered_building_is_not_judged if {

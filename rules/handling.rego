@@ -92,13 +92,11 @@ required_ppe(purpose) := object.get(lim.required_ppe, purpose, object.get(lim.re
 # The PPE lists the rows record, each once.
 kits := {k | k := input.handling[_].ppe}
 
-# Every item some purpose requires.
-any_required := {p | some list in lim.required_ppe; some p in list}
-
 # The PPE lists that lack an item some purpose requires.
 short_kits contains k if {
 	some k in kits
-	some p in any_required
+	some list in lim.required_ppe
+	some p in list
 	not p in k
 }
 

@@ -262,6 +262,7 @@ answered(s) if {
 #   source: common practice
 #   needs: [observations.csv]
 findings contains f if {
+	input.signs[0] # no observation with signs: nothing to go through
 	some on in {s.on | some s in unattended}
 	obs := [s | some s in unattended; s.on == on]
 	signs := {x | some s in obs; some x in s.signs; x in lim.needs_vet}
@@ -300,6 +301,7 @@ fired := graph.reachable(following, {min(candidates)}) if count(candidates) > 0
 #   source: "common practice: stereotypies and fur chewing in farmed foxes and mink (EU scientific committee report on fur animals, 2001) (from memory)"
 #   needs: [observations.csv]
 findings contains f if {
+	input.signs[0] # no observation with signs: nothing to go through
 	some c in fired
 	some s in behaviour
 	s.day == c

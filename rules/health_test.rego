@@ -263,6 +263,14 @@ test_sign_not_needing_a_vet_is_quiet if {
 	count(health.findings) == 0 with input as animal({"signs": [sign(["fur_loss"], [], null)]})
 }
 
+# The signs rules skip an animal with no observation of signs; one whose first
+# observation needs no veterinarian is still gone through to its last.
+test_sign_after_a_quiet_observation_fires if {
+	some f in health.findings with input as animal({"signs": [sign(["fur_loss"], [], null), sign(["wound"], [], null)]})
+	f.check == "health.signs.unattended"
+	count(health.findings) == 0 with input as animal({"signs": []})
+}
+
 # ---- behaviour: 3 within 30 days, then not again for 30 days [C]
 
 date_of(day) := sprintf("2026-01-%02d", [day]) if day <= 31

@@ -75,3 +75,14 @@ test_died_without_death_row_fires if {
 test_died_without_deaths_file_is_not_judged if {
 	count(records.findings) == 0 with input as object.union(died, {"deaths": [], "deaths_recorded": false})
 }
+
+# An animal without health records has no deaths key at all: nothing to compare, no finding.
+test_animal_without_deaths_key_is_quiet if {
+	count(records.findings) == 0 with input as object.remove(died, ["deaths", "deaths_recorded", "left_in_period"])
+}
+
+test_died_without_deaths_key_but_file_read_fires if {
+	some f in records.findings with input as object.remove(died, ["deaths"])
+	f.check == "records.death.mismatch"
+	contains(f.message, "deaths.csv has no row")
+}
