@@ -623,7 +623,7 @@ func (ec *encCold) waterTerms(c *converter) []*ast.Term {
 	}
 	// Each group's day count and a hash of its days (FNV-1a), in one pass.
 	var small [8]coldWaterSum
-	sums := small[:0]
+	var sums []coldWaterSum
 	if maxChecks < len(small) {
 		sums = small[:maxChecks+1]
 	} else {
