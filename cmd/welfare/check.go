@@ -114,6 +114,7 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	}
 	ph := newPhases(stderr, o.timings)
 	defer ph.finish()
+	recordBytes := folderBytes(dir)
 	ph.enter("compile", "")
 	lim, err := loadLimits(o.limits)
 	if err != nil {
@@ -129,6 +130,8 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 			if done == 0 {
 				ph.enter(phase, map[string]string{"load": "rows", "rules": "subjects"}[phase])
 				switch phase {
+				case "load":
+					paceLoad(recordBytes)
 				case "facts":
 					paceMemory()
 				case "rules":

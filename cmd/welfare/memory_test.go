@@ -2,6 +2,8 @@ package main
 
 import (
 	"math"
+	"os"
+	"path/filepath"
 	"runtime"
 	"runtime/debug"
 	"testing"
@@ -9,7 +11,7 @@ import (
 
 // TestPaceMemory: the soft limit is set only when the user left GOGC and
 // GOMEMLIMIT unset; the facts then run with the collector waiting for twice
-// the heap as they start, and the rules under a limit of 1.6 times it; a
+// the heap as they start, and the rules under a limit of 1.8 times it; a
 // heap whose limit would be under the floor is left to the default pacing.
 func TestPaceMemory(t *testing.T) {
 	before := debug.SetMemoryLimit(-1)
@@ -51,7 +53,7 @@ func TestPaceMemory(t *testing.T) {
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
 	got := debug.SetMemoryLimit(-1)
-	if low, high := int64(320<<20)*16/10, int64(ms.HeapAlloc)*16/10+1; got < low || got > high {
+	if low, high := int64(320<<20)*18/10, int64(ms.HeapAlloc)*18/10+1; got < low || got > high {
 		t.Fatalf("rules' limit %d MiB with over 320 MiB live, want %d to %d MiB", got>>20, low>>20, high>>20)
 	}
 	runtime.KeepAlive(keep)
@@ -89,5 +91,63 @@ func TestPaceRules(t *testing.T) {
 		if got := gcPercent(); got != 100 {
 			t.Errorf("auto %v, limit set %v: GC percent during the reports %d, want 100", tt.auto, tt.paced, got)
 		}
+	}
+}
+
+// TestPaceLoad: while the records are read the collector waits for twice
+// the files' bytes, only when the user left it to us and that is over the
+// floor; a check whose heap then proves small returns to the default.
+func TestPaceLoad(t *testing.T) {
+	defer debug.SetGCPercent(debug.SetGCPercent(100))
+	defer debug.SetMemoryLimit(debug.SetMemoryLimit(-1))
+	defer func(a, p, l bool, m int64) { gcAuto, paced, loadPaced, memoryLimit = a, p, l, m }(gcAuto, paced, loadPaced, memoryLimit)
+	limit := func() int64 { return debug.SetMemoryLimit(-1) }
+
+	debug.SetMemoryLimit(math.MaxInt64)
+	gcAuto, loadPaced = false, false
+	paceLoad(1 << 30)
+	if limit() != math.MaxInt64 || loadPaced {
+		t.Fatalf("GOGC or GOMEMLIMIT set by the user: limit %d, paced %v", limit(), loadPaced)
+	}
+	gcAuto = true
+	paceLoad(minMemoryLimit/2 - 1)
+	if limit() != math.MaxInt64 || loadPaced {
+		t.Fatalf("files of %d bytes: limit %d, paced %v; want the default", minMemoryLimit/2-1, limit(), loadPaced)
+	}
+	paceLoad(300 << 20)
+	if got := limit(); got != 600<<20 || !loadPaced {
+		t.Fatalf("files of 300 MiB: limit %d MiB, paced %v; want 600 MiB", got>>20, loadPaced)
+	}
+	if v := debug.SetGCPercent(-1); v != -1 {
+		t.Errorf("GC percent during the load %d, want -1", v)
+	}
+	// This test's heap is small: the facts return to the default pacing.
+	paceMemory()
+	if limit() != math.MaxInt64 || loadPaced || paced {
+		t.Fatalf("a small heap after a paced load: limit %d, load paced %v, paced %v; want the default", limit(), loadPaced, paced)
+	}
+	if v := debug.SetGCPercent(100); v != 100 {
+		t.Errorf("a small heap after a paced load: GC percent %d, want 100", v)
+	}
+}
+
+func TestFolderBytes(t *testing.T) {
+	dir := t.TempDir()
+	for name, n := range map[string]int{"animals.csv": 100, "daily_care.csv": 2500} {
+		if err := os.WriteFile(filepath.Join(dir, name), make([]byte, n), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.Mkdir(filepath.Join(dir, "previous"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "previous", "findings.json"), make([]byte, 999), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if got := folderBytes(dir); got != 2600 {
+		t.Errorf("folderBytes = %d, want 2600 (the files directly in the folder)", got)
+	}
+	if got := folderBytes(filepath.Join(dir, "missing")); got != 0 {
+		t.Errorf("a folder that cannot be listed: %d, want 0", got)
 	}
 }

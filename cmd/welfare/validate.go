@@ -41,6 +41,7 @@ func runValidate(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	ph := newPhases(stderr, o.timings)
 	defer ph.finish()
 	ph.enter("load", "rows")
+	paceLoad(folderBytes(pos[0]))
 	_, set, err := loadRecordsCounted(ctx, pos[0], lim, ph.add)
 	if err != nil {
 		return err
