@@ -155,20 +155,66 @@ func (f *facts) warmFigures(fs []Finding, gaps []CleaningGap) *Warm {
 	}
 
 	overdue := findingDays(fs, "care.cleaning.overdue")
-	gaps = slices.Clone(gaps)
-	for i := range gaps {
-		g := &gaps[i]
+	w.Cleaning = longestGaps(gaps, func(g *CleaningGap) bool {
 		for _, d := range overdue[g.Enclosure] {
-			g.Overdue = g.Overdue || (d > g.From && d <= g.Until)
+			if d > g.From && d <= g.Until {
+				return true
+			}
 		}
-	}
-	sort.SliceStable(gaps, func(i, j int) bool { return gaps[i].Days > gaps[j].Days })
-	for i, g := range gaps {
-		if g.Overdue || i < MaxCleaningGaps {
-			w.Cleaning = append(w.Cleaning, g)
-		}
-	}
+		return false
+	}, MaxCleaningGaps)
 	return w
+}
+
+// longestGaps gives, longest first (gaps of one length in their order),
+// every gap overdue says was overdue (marked Overdue) and the first n of
+// the others' order too: what a stable sort of all the gaps by length,
+// cut after n but for the overdue ones, gives. It places each gap by a
+// count of the gaps of each length instead of sorting them (half a
+// million at 10,000 enclosures, a tenth of a second of sorting), and
+// sorts only what it keeps; gaps is not changed.
+func longestGaps(gaps []CleaningGap, overdue func(*CleaningGap) bool, n int) []CleaningGap {
+	if len(gaps) == 0 {
+		return nil
+	}
+	lo, hi := gaps[0].Days, gaps[0].Days
+	for i := range gaps {
+		lo, hi = min(lo, gaps[i].Days), max(hi, gaps[i].Days)
+	}
+	// next[k]: the place in the sorted order of the next gap of length hi-k.
+	next := make([]int, hi-lo+1)
+	for i := range gaps {
+		next[hi-gaps[i].Days]++
+	}
+	at := 0
+	for k, c := range next {
+		next[k] = at
+		at += c
+	}
+	type placed struct {
+		at  int
+		gap CleaningGap
+	}
+	var keep []placed
+	for i := range gaps {
+		g := gaps[i]
+		k := hi - g.Days
+		pos := next[k]
+		next[k]++
+		g.Overdue = g.Overdue || overdue(&g)
+		if g.Overdue || pos < n {
+			keep = append(keep, placed{pos, g})
+		}
+	}
+	if len(keep) == 0 {
+		return nil
+	}
+	slices.SortFunc(keep, func(a, b placed) int { return a.at - b.at })
+	out := make([]CleaningGap, len(keep))
+	for i, p := range keep {
+		out[i] = p.gap
+	}
+	return out
 }
 
 // cleaningGaps lists the gaps of the enclosures' cleaning sections, by
