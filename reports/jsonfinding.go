@@ -1,8 +1,6 @@
 package reports
 
 import (
-	"bytes"
-	"encoding/json"
 	"strings"
 	"unicode/utf8"
 )
@@ -94,22 +92,55 @@ func appendField(b []byte, indent, key, value string, omitEmpty bool) []byte {
 }
 
 // appendString appends s quoted as encoding/json quotes it with HTML left
-// as it is. Plain text (no control characters, quotes, backslashes,
-// invalid UTF-8 or line/paragraph separators) is copied; anything else
-// goes through encoding/json itself, so the rare escapes are its own.
+// as it is: plain text (no control characters, quotes, backslashes,
+// invalid UTF-8 or line/paragraph separators) copied whole, anything else
+// escaped as encoding/json escapes it (TestAppendStringAsEncoder and
+// FuzzAppendString hold the two equal).
 func appendString(b []byte, s string) []byte {
+	b = append(b, '"')
 	if plainJSON(s) {
-		b = append(b, '"')
 		b = append(b, s...)
 		return append(b, '"')
 	}
-	var buf bytes.Buffer
-	enc := json.NewEncoder(&buf)
-	enc.SetEscapeHTML(false)
-	if err := enc.Encode(s); err != nil { // a string always encodes
-		panic(err)
+	const hex = "0123456789abcdef"
+	for i := 0; i < len(s); {
+		c := s[i]
+		if c < utf8.RuneSelf {
+			switch {
+			case c == '"' || c == '\\':
+				b = append(b, '\\', c)
+			case c == '\b':
+				b = append(b, '\\', 'b')
+			case c == '\f':
+				b = append(b, '\\', 'f')
+			case c == '\n':
+				b = append(b, '\\', 'n')
+			case c == '\r':
+				b = append(b, '\\', 'r')
+			case c == '\t':
+				b = append(b, '\\', 't')
+			case c < 0x20:
+				b = append(b, '\\', 'u', '0', '0', hex[c>>4], hex[c&0xf])
+			default:
+				b = append(b, c)
+			}
+			i++
+			continue
+		}
+		r, size := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == utf8.RuneError && size == 1:
+			b = append(b, `\ufffd`...)
+		case r == '\u2028':
+			b = append(b, `\u2028`...)
+		case r == '\u2029':
+			b = append(b, `\u2029`...)
+		default:
+			b = append(b, s[i:i+size]...)
+		}
+		i += size
 	}
-	return append(b, bytes.TrimSuffix(buf.Bytes(), []byte("\n"))...)
+	return append(b, '"')
 }
 
 // plainJSON reports whether encoding/json writes s between quotes as it is.
