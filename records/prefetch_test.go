@@ -328,17 +328,7 @@ func TestPrefetchSameSet(t *testing.T) {
 // three, and of the usual size: their messages, lines and counts must not
 // change.
 func TestPrefetchLoaderTests(t *testing.T) {
-	tests := map[string]func(*testing.T){
-		"RefusedEntries": TestRefusedEntries, "RequiredRefused": TestRequiredRefused, "OSFolder": TestOSFolder,
-		"LineCap": TestLineCap, "FieldCap": TestFieldCap, "LongValueEchoShortened": TestLongValueEchoShortened,
-		"FileSize": TestFileSize, "CappedReader": TestCappedReader, "LoadCancel": TestLoadCancel,
-		"TextCells": TestTextCells, "HeaderNotText": TestHeaderNotText, "UnclosedQuote": TestUnclosedQuote,
-		"QuoteStillOpen": TestQuoteStillOpen, "DateWindow": TestDateWindow, "WarningsGrouped": TestWarningsGrouped,
-		"LoadBase": TestLoadBase, "RowProblems": TestRowProblems, "ColdPlausibility": TestColdPlausibility,
-		"UnitColumns": TestUnitColumns, "CSVForms": TestCSVForms, "FileLevel": TestFileLevel,
-		"CrossRecord": TestCrossRecord, "CareRoundTimes": TestCareRoundTimes, "SpeciesNotChecked": TestSpeciesNotChecked,
-		"LoadErrors": TestLoadErrors, "ProblemDayAndValue": TestProblemDayAndValue,
-	}
+	tests := loaderTests()
 	before := runtime.NumGoroutine()
 	for _, rows := range []int{1, 3, batchRows} {
 		restore := forcePrefetch(rows, 1<<20)
@@ -466,5 +456,23 @@ func TestPrefetchRowsOverBatchText(t *testing.T) {
 		if !reflect.DeepEqual(got, want) {
 			t.Fatalf("batches of %d rows: the prefetched rows differ from the direct ones", rows)
 		}
+	}
+}
+
+// loaderTests are the loader's tests of hostile and malformed input, which
+// TestPrefetchLoaderTests and TestSplitLoaderTests run again with every
+// file read the other ways: one list, so a test added to the loader is
+// run all three ways.
+func loaderTests() map[string]func(*testing.T) {
+	return map[string]func(*testing.T){
+		"RefusedEntries": TestRefusedEntries, "RequiredRefused": TestRequiredRefused, "OSFolder": TestOSFolder,
+		"LineCap": TestLineCap, "FieldCap": TestFieldCap, "LongValueEchoShortened": TestLongValueEchoShortened,
+		"FileSize": TestFileSize, "CappedReader": TestCappedReader, "LoadCancel": TestLoadCancel,
+		"TextCells": TestTextCells, "HeaderNotText": TestHeaderNotText, "UnclosedQuote": TestUnclosedQuote,
+		"QuoteStillOpen": TestQuoteStillOpen, "DateWindow": TestDateWindow, "WarningsGrouped": TestWarningsGrouped,
+		"LoadBase": TestLoadBase, "RowProblems": TestRowProblems, "ColdPlausibility": TestColdPlausibility,
+		"UnitColumns": TestUnitColumns, "CSVForms": TestCSVForms, "FileLevel": TestFileLevel,
+		"CrossRecord": TestCrossRecord, "CareRoundTimes": TestCareRoundTimes, "SpeciesNotChecked": TestSpeciesNotChecked,
+		"LoadErrors": TestLoadErrors, "ProblemDayAndValue": TestProblemDayAndValue, "ShortQuote": TestShortQuote,
 	}
 }

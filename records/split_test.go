@@ -305,17 +305,7 @@ func TestSplitCorpora(t *testing.T) {
 // ranges: their messages, lines and counts must not change, and no
 // goroutine is left behind.
 func TestSplitLoaderTests(t *testing.T) {
-	tests := map[string]func(*testing.T){
-		"RefusedEntries": TestRefusedEntries, "OSFolder": TestOSFolder,
-		"LineCap": TestLineCap, "FieldCap": TestFieldCap, "LongValueEchoShortened": TestLongValueEchoShortened,
-		"FileSize": TestFileSize, "CappedReader": TestCappedReader, "LoadCancel": TestLoadCancel,
-		"TextCells": TestTextCells, "HeaderNotText": TestHeaderNotText, "UnclosedQuote": TestUnclosedQuote,
-		"QuoteStillOpen": TestQuoteStillOpen, "DateWindow": TestDateWindow, "WarningsGrouped": TestWarningsGrouped,
-		"LoadBase": TestLoadBase, "RowProblems": TestRowProblems, "ColdPlausibility": TestColdPlausibility,
-		"UnitColumns": TestUnitColumns, "CSVForms": TestCSVForms, "FileLevel": TestFileLevel,
-		"CrossRecord": TestCrossRecord, "CareRoundTimes": TestCareRoundTimes,
-		"ProblemDayAndValue": TestProblemDayAndValue, "ShortQuote": TestShortQuote,
-	}
+	tests := loaderTests()
 	before := runtime.NumGoroutine()
 	for _, n := range []int{2, 3} {
 		restore := forceSplit(n, nil)
