@@ -3,8 +3,10 @@ package main
 import (
 	"math"
 	"os"
+	"path/filepath"
 	"runtime"
 	"runtime/debug"
+	"strings"
 )
 
 // gcAuto is set when the user left both GOGC and GOMEMLIMIT unset: the
@@ -20,7 +22,7 @@ const minMemoryLimit = 256 << 20
 // The collector's pacing over a check, when the user left it to us:
 //
 //   - paceLoad, as the records are read, lets the collector wait for twice
-//     the record files' bytes: nearly all the loader allocates stays live.
+//     the CSV files' bytes: nearly all the loader allocates stays live.
 //   - paceMemory, as the facts start, collects once if the load ran
 //     without collecting, and takes the heap then — the loaded records,
 //     most of what the check will ever hold (the care rounds go once the
@@ -136,9 +138,11 @@ func paceLoad(fileBytes int64) {
 	loadPaced = true
 }
 
-// folderBytes is the size of the regular files directly in dir (the
-// record files and facility.yaml; sub-folders are not read as records),
-// 0 when it cannot be listed: the load then runs at the default pacing.
+// folderBytes is the size of the CSV files directly in dir; 0, so the
+// load runs at the default pacing, when it cannot be listed or holds a
+// workbook. CSV rows take about their bytes once loaded; a workbook is
+// compressed and may take many times its size, which would put the
+// load's limit under its heap and the collector to work all the time.
 func folderBytes(dir string) int64 {
 	entries, err := os.ReadDir(dir)
 	if err != nil {
@@ -146,7 +150,11 @@ func folderBytes(dir string) int64 {
 	}
 	var n int64
 	for _, e := range entries {
-		if !e.Type().IsRegular() {
+		ext := strings.ToLower(filepath.Ext(e.Name()))
+		if ext == ".xlsx" {
+			return 0
+		}
+		if !e.Type().IsRegular() || ext != ".csv" {
 			continue
 		}
 		if info, err := e.Info(); err == nil {

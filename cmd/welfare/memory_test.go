@@ -133,7 +133,7 @@ func TestPaceLoad(t *testing.T) {
 
 func TestFolderBytes(t *testing.T) {
 	dir := t.TempDir()
-	for name, n := range map[string]int{"animals.csv": 100, "daily_care.csv": 2500} {
+	for name, n := range map[string]int{"animals.csv": 100, "daily_care.csv": 2500, "facility.yaml": 40} {
 		if err := os.WriteFile(filepath.Join(dir, name), make([]byte, n), 0o644); err != nil {
 			t.Fatal(err)
 		}
@@ -145,7 +145,13 @@ func TestFolderBytes(t *testing.T) {
 		t.Fatal(err)
 	}
 	if got := folderBytes(dir); got != 2600 {
-		t.Errorf("folderBytes = %d, want 2600 (the files directly in the folder)", got)
+		t.Errorf("folderBytes = %d, want 2600 (the CSV files directly in the folder)", got)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "care.xlsx"), make([]byte, 700), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if got := folderBytes(dir); got != 0 {
+		t.Errorf("a folder with a workbook: %d, want 0 (the default pacing)", got)
 	}
 	if got := folderBytes(filepath.Join(dir, "missing")); got != 0 {
 		t.Errorf("a folder that cannot be listed: %d, want 0", got)
