@@ -60,20 +60,16 @@ func BuildAudit(r *checker.Result, opt PDFOptions) (*Audit, error) {
 	}
 	js, cs := opt.FindingsJSON, opt.FindingsCSV
 	if js == nil {
-		var buf bytes.Buffer
-		buf.Grow(findingsSize(r, 320))
-		if err := WriteJSON(&buf, r); err != nil {
+		var err error
+		if js, err = JSONBytes(r); err != nil {
 			return nil, fmt.Errorf("reports: attached findings.json: %w", err)
 		}
-		js = buf.Bytes()
 	}
 	if cs == nil {
-		var buf bytes.Buffer
-		buf.Grow(findingsSize(r, 40))
-		if err := WriteCSV(&buf, r); err != nil {
+		var err error
+		if cs, err = CSVBytes(r); err != nil {
 			return nil, fmt.Errorf("reports: attached findings.csv: %w", err)
 		}
-		cs = buf.Bytes()
 	}
 	b := &auditBuilder{r: r, opt: opt, tall: countFindings(r.Findings), groups: groupFindings(r)}
 	a := &Audit{
@@ -793,6 +789,24 @@ func plural(n int, noun string) string {
 		return "1 " + noun
 	}
 	return itoa(n) + " " + noun + "s"
+}
+
+// JSONBytes is what WriteJSON writes, in a buffer grown once to an
+// estimate of its size (findingsSize).
+func JSONBytes(r *checker.Result) ([]byte, error) {
+	var buf bytes.Buffer
+	buf.Grow(findingsSize(r, 320))
+	err := WriteJSON(&buf, r)
+	return buf.Bytes(), err
+}
+
+// CSVBytes is what WriteCSV writes, in a buffer grown once to an estimate
+// of its size.
+func CSVBytes(r *checker.Result) ([]byte, error) {
+	var buf bytes.Buffer
+	buf.Grow(findingsSize(r, 40))
+	err := WriteCSV(&buf, r)
+	return buf.Bytes(), err
 }
 
 // findingsSize estimates the bytes of r's findings written one to a row

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"context"
 	"flag"
 	"fmt"
@@ -201,17 +200,17 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 	// With a PDF, the findings.json and findings.csv written beside it are
 	// kept and attached as they are, not written a second time.
 	popt := reports.PDFOptions{Inspector: o.inspector, GeneratedAt: generated, SiteOf: res.SiteOf}
-	keep := func(into *[]byte, write func(io.Writer, *checker.Result) error) func(io.Writer) error {
+	keep := func(into *[]byte, write func(io.Writer, *checker.Result) error, encode func(*checker.Result) ([]byte, error)) func(io.Writer) error {
 		return func(w io.Writer) error {
 			if o.pdfOut == "" {
 				return write(w, res)
 			}
-			var buf bytes.Buffer
-			if err := write(&buf, res); err != nil {
+			b, err := encode(res)
+			if err != nil {
 				return err
 			}
-			*into = buf.Bytes()
-			_, err := w.Write(*into)
+			*into = b
+			_, err = w.Write(b)
 			return err
 		}
 	}
@@ -219,8 +218,8 @@ func checkFolder(ctx context.Context, dir string, o *checkOpts, stdout, stderr i
 		path  string
 		write func(io.Writer) error
 	}{
-		{o.jsonOut, keep(&popt.FindingsJSON, reports.WriteJSON)},
-		{o.csvOut, keep(&popt.FindingsCSV, reports.WriteCSV)},
+		{o.jsonOut, keep(&popt.FindingsJSON, reports.WriteJSON, reports.JSONBytes)},
+		{o.csvOut, keep(&popt.FindingsCSV, reports.WriteCSV, reports.CSVBytes)},
 		// The scope goes beside the CSV, not into it: a spreadsheet reads
 		// findings.csv as one header row and one finding per row.
 		{scopePath(o.csvOut), func(w io.Writer) error { return reports.WriteScope(w, res) }},
