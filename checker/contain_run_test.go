@@ -210,7 +210,15 @@ func squareRule(pkg string) string {
 // package (its subjects' times added up) part-way through, and the error
 // names the package and the subject where it ran out.
 func TestPackageBudget(t *testing.T) {
-	src := engUser(map[string]string{"square.rego": squareRule("square")})
+	packageBudgetRunsOut(t, engUser(map[string]string{"square.rego": squareRule("square")}))
+}
+
+// packageBudgetRunsOut evaluates src's welfare.square package (and any
+// other package of src) on 60 subjects, each sized to take at least 20 ms
+// on this machine, against a package budget of 8 of them: the error must
+// be welfare.square's budget, whatever else src evaluates with it.
+func packageBudgetRunsOut(t *testing.T, src []checker.Source) {
+	t.Helper()
 	// Find a size that takes at least 20 ms on this machine.
 	calib := engNew(t, src, nil, checker.EngineOptions{Workers: 1})
 	n, per := 100, time.Duration(0)

@@ -33,20 +33,8 @@ func sameAsOPA(t *testing.T, c *converter, doc map[string]any) {
 // conversion gives, one converter going through the subjects in the order
 // Evaluate gives them (so shared parts are reused across subjects).
 func TestConverterMatchesOPAOnFacts(t *testing.T) {
-	all := demoFacts(t)
-	lim, err := rules.Default()
-	if err != nil {
-		t.Fatal(err)
-	}
-	set, _ := generatedSet(t, 150, lim)
-	from, to := recordSpan(set)
-	g := newFacts(set, lim, Period{From: from, To: to})
-	for _, d := range domains {
-		d.facts(g)
-	}
-	all = append(all, g)
 	n := 0
-	for _, f := range all {
+	for _, f := range documentSets(t) {
 		for _, kind := range SubjectKinds {
 			c := newConverter()
 			for _, doc := range f.inputs(kind) {
@@ -60,7 +48,7 @@ func TestConverterMatchesOPAOnFacts(t *testing.T) {
 	}
 	// The correction documents, built from findings in the second pass.
 	d := func(s string) records.Day { return followDay(t, s) }
-	set = &records.Set{CorrectiveActions: []records.CorrectiveAction{
+	set := &records.Set{CorrectiveActions: []records.CorrectiveAction{
 		{Ref: "corrective_actions.csv:2", Check: "care.water.unavailable", Subject: "S2-11", FoundOn: d("2025-12-09"),
 			Plan: "heated drinker", DueOn: d("2025-12-19"), ClosedOn: d("2026-01-05")},
 	}}

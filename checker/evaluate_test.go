@@ -412,34 +412,5 @@ func TestOneQueryPerKindFindings(t *testing.T) {
 // time of its part of each subject's evaluation, added up, runs out and
 // the error names it, not the package evaluated with it.
 func TestOneQueryPerKindPackageBudget(t *testing.T) {
-	src := engUser(map[string]string{"a.rego": quickRule("quick"), "b.rego": squareRule("square")})
-	calib := engNew(t, src, nil, checker.EngineOptions{Workers: 1})
-	n, per := 100, time.Duration(0)
-	for ; n < 1_000_000; n *= 2 {
-		per = time.Hour
-		for range 3 {
-			started := time.Now()
-			if _, err := calib.Evaluate(context.Background(), "enclosure", []map[string]any{{"id": "E-00", "n": n}}); err != nil {
-				t.Fatal(err)
-			}
-			per = min(per, time.Since(started))
-		}
-		if per >= 20*time.Millisecond {
-			break
-		}
-	}
-	inputs := make([]map[string]any, 60)
-	for i := range inputs {
-		inputs[i] = map[string]any{"id": fmt.Sprintf("E-%02d", i+1), "n": n}
-	}
-	budget := (8 * per).Round(time.Millisecond)
-	e := engNew(t, src, nil, checker.EngineOptions{Timeout: time.Minute, PackageBudget: budget, Workers: 1})
-	_, err := checker.EvaluateRun(context.Background(), e, "enclosure", inputs)
-	if !errors.Is(err, checker.ErrTimeBudget) {
-		t.Fatalf("error = %v, want one wrapping ErrTimeBudget", err)
-	}
-	want := "welfare.square: the " + budget.String() + " time budget ran out for the whole package, across its subjects (it ran out at subject E-"
-	if !strings.HasPrefix(err.Error(), want) {
-		t.Fatalf("error = %q,\nwant it to start with %q", err, want)
-	}
+	packageBudgetRunsOut(t, engUser(map[string]string{"a.rego": quickRule("quick"), "b.rego": squareRule("square")}))
 }
