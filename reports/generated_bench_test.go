@@ -25,25 +25,33 @@ func BenchmarkGenerated(b *testing.B) {
 	for _, n := range []int{1000, 10000} {
 		b.Run(fmt.Sprintf("animals=%d", n), func(b *testing.B) {
 			res := generatedResult(b, synth.Options{Animals: n, Days: 365, Seed: 7})
-			writers := []struct {
-				name  string
-				write func(io.Writer) error
-			}{
-				{"text", func(w io.Writer) error { return reports.WriteText(w, res, reports.TextOptions{MaxPerCheck: 20}) }},
-				{"json", func(w io.Writer) error { return reports.WriteJSON(w, res) }},
-				{"pdf", func(w io.Writer) error {
-					return pdf.Write(w, res, reports.PDFOptions{GeneratedAt: time.Date(2027, 1, 1, 0, 0, 0, 0, time.UTC)})
-				}},
-			}
-			for _, wr := range writers {
-				b.Run(wr.name, func(b *testing.B) {
-					b.ReportAllocs()
-					for b.Loop() {
-						if err := wr.write(io.Discard); err != nil {
-							b.Fatal(err)
-						}
-					}
-				})
+			benchWriters(b, res, "text", "json", "pdf")
+		})
+	}
+}
+
+// benchWriters benchmarks each named writer (text, json, csv, pdf) on res,
+// one sub-benchmark each, writing to io.Discard.
+func benchWriters(b *testing.B, res *checker.Result, names ...string) {
+	writers := map[string]func(io.Writer) error{
+		"text": func(w io.Writer) error { return reports.WriteText(w, res, reports.TextOptions{MaxPerCheck: 20}) },
+		"json": func(w io.Writer) error { return reports.WriteJSON(w, res) },
+		"csv":  func(w io.Writer) error { return reports.WriteCSV(w, res) },
+		"pdf": func(w io.Writer) error {
+			return pdf.Write(w, res, reports.PDFOptions{GeneratedAt: time.Date(2027, 1, 1, 0, 0, 0, 0, time.UTC)})
+		},
+	}
+	for _, name := range names {
+		write, ok := writers[name]
+		if !ok {
+			b.Fatalf("no writer %q", name)
+		}
+		b.Run(name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if err := write(io.Discard); err != nil {
+					b.Fatal(err)
+				}
 			}
 		})
 	}

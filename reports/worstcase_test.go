@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
-	"io"
 	"regexp"
 	"strings"
 	"testing"
@@ -149,27 +148,7 @@ func TestWorstCasePagesBounded(t *testing.T) {
 func BenchmarkWorstCase(b *testing.B) {
 	for _, n := range []int{1000, 10000} {
 		b.Run(fmt.Sprintf("findings=%d", synth.FailingFindings(n, 7)), func(b *testing.B) {
-			res := failingResult(b, n, 7)
-			writers := []struct {
-				name  string
-				write func(io.Writer) error
-			}{
-				{"json", func(w io.Writer) error { return reports.WriteJSON(w, res) }},
-				{"csv", func(w io.Writer) error { return reports.WriteCSV(w, res) }},
-				{"pdf", func(w io.Writer) error {
-					return pdf.Write(w, res, reports.PDFOptions{GeneratedAt: time.Date(2027, 1, 1, 0, 0, 0, 0, time.UTC)})
-				}},
-			}
-			for _, wr := range writers {
-				b.Run(wr.name, func(b *testing.B) {
-					b.ReportAllocs()
-					for b.Loop() {
-						if err := wr.write(io.Discard); err != nil {
-							b.Fatal(err)
-						}
-					}
-				})
-			}
+			benchWriters(b, failingResult(b, n, 7), "json", "csv", "pdf")
 		})
 	}
 }
