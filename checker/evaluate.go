@@ -305,29 +305,45 @@ func (e *engine) evaluatePackages(ctx context.Context, queries []*packageQuery, 
 			case (timedOut || topdown.IsCancel(err)) && packageLimited:
 				return nil, e.packageBudgetErr(q.name, subject)
 			case timedOut || topdown.IsCancel(err):
-				return nil, fmt.Errorf("%s: subject %s: the %s %w (a rule is looping or doing too much work)", q.name, subject, e.opt.Timeout, ErrTimeBudget)
+				return nil, e.timedOutErr(q.name, subject)
 			}
 			return nil, fmt.Errorf("%s: subject %s: %w", q.name, subject, err)
 		}
 		if len(rs) == 0 || len(rs[0].Expressions) == 0 {
 			continue
 		}
-		list, ok := rs[0].Expressions[0].Value.([]any)
-		if !ok {
-			return nil, fmt.Errorf("%s: subject %s: findings must be a set of objects, got %T", q.name, subject, rs[0].Expressions[0].Value)
-		}
-		for _, raw := range list {
-			f, keep, err := e.toFinding(q.name, raw, run.lines)
-			if err != nil {
-				out = append(out, e.malformed(q.name, subject, raw, err))
-				continue
-			}
-			if keep {
-				out = append(out, f)
-			}
+		if out, err = e.appendFindings(out, q.name, subject, rs[0].Expressions[0].Value, run); err != nil {
+			return nil, err
 		}
 	}
 	return out, nil
+}
+
+// appendFindings appends the findings of package pkg's findings set v on
+// one subject to out: a finding the rule got wrong as a malformed-rule
+// finding, a value that is not a set of objects as the error.
+func (e *engine) appendFindings(out []Finding, pkg, subject string, v any, run *evalRun) ([]Finding, error) {
+	list, ok := v.([]any)
+	if !ok {
+		return nil, fmt.Errorf("%s: subject %s: findings must be a set of objects, got %T", pkg, subject, v)
+	}
+	for _, raw := range list {
+		f, keep, err := e.toFinding(pkg, raw, run.lines)
+		if err != nil {
+			out = append(out, e.malformed(pkg, subject, raw, err))
+			continue
+		}
+		if keep {
+			out = append(out, f)
+		}
+	}
+	return out, nil
+}
+
+// timedOutErr is the error of a package that ran out of its per-subject
+// budget on subject.
+func (e *engine) timedOutErr(pkg, subject string) error {
+	return fmt.Errorf("%s: subject %s: the %s %w (a rule is looping or doing too much work)", pkg, subject, e.opt.Timeout, ErrTimeBudget)
 }
 
 // evaluateGroup evaluates every package of g on one subject in one
@@ -364,7 +380,7 @@ func (e *engine) evaluateGroup(ctx context.Context, g *kindQuery, w *evalWorker,
 		case stoppedHere && timedOut && gc.limited:
 			return nil, true, e.packageBudgetErr(q.name, subject)
 		case stoppedHere && timedOut:
-			return nil, true, fmt.Errorf("%s: subject %s: the %s %w (a rule is looping or doing too much work)", q.name, subject, e.opt.Timeout, ErrTimeBudget)
+			return nil, true, e.timedOutErr(q.name, subject)
 		}
 		for i, d := range gc.spent {
 			run.add(g.pkgs[i], -d)
@@ -377,19 +393,8 @@ func (e *engine) evaluateGroup(ctx context.Context, g *kindQuery, w *evalWorker,
 		return nil, true, fmt.Errorf("subject %s: the query of its packages gave %d results, at package %s", subject, len(rs), q.name)
 	}
 	for i, q := range g.pkgs {
-		list, ok := rs[0].Bindings[g.vars[i]].([]any)
-		if !ok {
-			return nil, true, fmt.Errorf("%s: subject %s: findings must be a set of objects, got %T", q.name, subject, rs[0].Bindings[g.vars[i]])
-		}
-		for _, raw := range list {
-			f, keep, err := e.toFinding(q.name, raw, run.lines)
-			if err != nil {
-				out = append(out, e.malformed(q.name, subject, raw, err))
-				continue
-			}
-			if keep {
-				out = append(out, f)
-			}
+		if out, err = e.appendFindings(out, q.name, subject, rs[0].Bindings[g.vars[i]], run); err != nil {
+			return nil, true, err
 		}
 	}
 	return out, true, nil
