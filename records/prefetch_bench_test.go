@@ -40,10 +40,10 @@ func BenchmarkPrefetch(b *testing.B) {
 					if err != nil {
 						b.Fatal(err)
 					}
-					if len(s.Care) != n || len(s.Problems) != 0 {
-						b.Fatalf("care rows = %d, problems = %d", len(s.Care), len(s.Problems))
+					if s.CareRounds().Len() != n || len(s.Problems) != 0 {
+						b.Fatalf("care rows = %d, problems = %d", s.CareRounds().Len(), len(s.Problems))
 					}
-					rows += len(s.Care)
+					rows += n
 				}
 				b.ReportMetric(float64(rows)/b.Elapsed().Seconds(), "rows/s")
 				b.ReportMetric(float64(cpuTime()-cpu0)/float64(rows), "cpu-ns/row")
