@@ -108,6 +108,14 @@ func loadSplit[T any](ctx context.Context, fsys fs.FS, spec *fileSpec[T], e *env
 // splitPoints cuts [from, size) into at most n ranges, each starting
 // just after a newline: the offsets from, the starts of the ranges after
 // the first, and size. Fewer than 3 offsets means it is read whole.
+//
+// A range is cut after a newline with an even number of quotes on the
+// line before it and on the line after it, the first such within the
+// search after its target (after the first newline at or after it, when
+// there is none: every row or two has a line break in quotes). A newline inside a quoted cell of two or three lines
+// has an odd number of quotes on one side, so a note with a line break
+// does not make the ranges be read again (see readSpans); only a quoted
+// cell of four lines or more can still be cut inside.
 func splitPoints(ctx context.Context, ra io.ReaderAt, from, size int64, n int) []int64 {
 	var targets []int64
 	if splitTargets != nil {
@@ -118,32 +126,57 @@ func splitPoints(ctx context.Context, ra io.ReaderAt, from, size int64, n int) [
 		}
 	}
 	cuts := []int64{from}
-	buf := make([]byte, 64<<10)
+	var buf []byte
 	for _, t := range targets {
 		if t <= cuts[len(cuts)-1] {
 			continue
 		}
-		// The first newline at or after t; the range starts after it.
-		found := false
-		for off := t; off < min(size, t+splitSearch) && ctx.Err() == nil; {
-			m, err := ra.ReadAt(buf[:min(int64(len(buf)), size-off)], off)
-			if i := bytes.IndexByte(buf[:m], '\n'); i >= 0 {
-				if cut := off + int64(i) + 1; cut < size {
-					cuts = append(cuts, cut)
-				}
-				found = true
-				break
-			}
-			if err != nil {
-				break
-			}
-			off += int64(m)
+		if buf == nil {
+			buf = make([]byte, splitSearch)
 		}
-		if !found {
+		m, err := ra.ReadAt(buf[:min(int64(len(buf)), size-t)], t)
+		if (err != nil && err != io.EOF) || ctx.Err() != nil {
+			break // the sequential reader says why, if it can
+		}
+		first, quiet := cutAfter(buf[:m])
+		if first < 0 {
 			break // a line longer than the search: read the rest as one range
+		}
+		cut := t + int64(first) + 1
+		if quiet >= 0 && splitTargets == nil {
+			cut = t + int64(quiet) + 1
+		}
+		if cut < size {
+			cuts = append(cuts, cut)
 		}
 	}
 	return append(cuts, size)
+}
+
+// cutAfter is the offset of b's first newline, and of its first newline
+// after that with an even number of quotes on the whole line before it
+// and on the whole line after it (see splitPoints); -1 when none.
+func cutAfter(b []byte) (first, quiet int) {
+	first = bytes.IndexByte(b, '\n')
+	if first < 0 {
+		return -1, -1
+	}
+	// Lines of b after its first newline, each ended by a newline; a
+	// newline is quiet when the line it ends and the next are even.
+	prevEven := false
+	for start := first + 1; ; {
+		i := bytes.IndexByte(b[start:], '\n')
+		if i < 0 {
+			return first, -1 // the next line is not whole in b
+		}
+		end := start + i
+		even := bytes.Count(b[start:end], []byte{'"'})%2 == 0
+		if prevEven && even {
+			return first, start - 1
+		}
+		prevEven = even
+		start = end + 1
+	}
 }
 
 // rangeReader reads the bytes [off, end) of a file, stopping soon after

@@ -473,6 +473,49 @@ func TestSplitPoints(t *testing.T) {
 			t.Errorf("cut %d is not after a newline", c)
 		}
 	}
+	// Notes over two and three lines, quotes doubled inside them, on every
+	// third row: no cut falls inside a quote. One over four lines can be
+	// cut inside.
+	for _, note := range []string{"\"a\nb\"", "\"a \"\"b\"\"\nc\"", "\"a\nb\nc\"", "\"\"\"a\"\"\n\n\"\"c\"\"\""} {
+		var b strings.Builder
+		b.WriteString("head,notes\n")
+		for i := range 400 {
+			if i%3 == 0 {
+				fmt.Fprintf(&b, "%d,%s\n", i, note)
+			} else {
+				fmt.Fprintf(&b, "%d,\"plain, quoted\"\n", i)
+			}
+		}
+		data := []byte(b.String())
+		for n := 2; n <= 8; n++ {
+			cuts := splitPoints(context.Background(), bytes.NewReader(data), 0, int64(len(data)), n)
+			if len(cuts) != n+1 {
+				t.Errorf("%q, %d ranges: cuts %v", note, n, cuts)
+			}
+			for _, c := range cuts[1 : len(cuts)-1] {
+				if data[c-1] != '\n' || bytes.Count(data[:c], []byte{'"'})%2 != 0 {
+					t.Errorf("%q, %d ranges: cut %d inside a quote", note, n, c)
+				}
+			}
+		}
+	}
+	var four strings.Builder
+	four.WriteString("head,notes\n")
+	for i := range 400 {
+		fmt.Fprintf(&four, "%d,\"a\nb\nc\nd\"\n", i)
+	}
+	inside := 0
+	for n := 2; n <= 8; n++ {
+		data := []byte(four.String())
+		for _, c := range splitPoints(context.Background(), bytes.NewReader(data), 0, int64(len(data)), n) {
+			if bytes.Count(data[:c], []byte{'"'})%2 != 0 {
+				inside++
+			}
+		}
+	}
+	if inside == 0 {
+		t.Errorf("no cut fell inside a note of four lines: is the search looking further than a line each side?")
+	}
 	long := []byte("head\n" + strings.Repeat("x", 3*splitSearch) + "\nrow\n")
 	if cuts := splitPoints(context.Background(), bytes.NewReader(long), 0, int64(len(long)), 2); len(cuts) != 2 {
 		t.Errorf("a line over the search was cut: %v", cuts)
