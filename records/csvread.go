@@ -40,8 +40,14 @@ type csvReader struct {
 	rec        []string
 	fatal      error
 	// openAtEnd is set when the input ended inside a quoted cell: a row
-	// went on past the last line (see readRanges).
+	// went on past the last line (see readRanges). openLine is the first
+	// line of the first such row.
 	openAtEnd bool
+	openLine  int
+	// stopOpen ends the input at a row still open at its end, as io.EOF,
+	// instead of rejecting the row and reading on after its first line:
+	// the input is a range of a file that goes on (see readSpans).
+	stopOpen bool
 }
 
 type heldLine struct {
@@ -211,7 +217,14 @@ func (r *csvReader) readRecord() error {
 					var next []byte
 					next, n, err = r.readLine()
 					if err == io.EOF {
+						if !r.openAtEnd {
+							r.openLine = r.start
+						}
 						r.openAtEnd = true
+						if r.stopOpen {
+							r.held = r.held[:0]
+							return io.EOF
+						}
 						qe := &quoteError{line: openLine, col: openCol, lines: r.end - openLine + 1, how: "is never closed"}
 						return r.recover(nil, 0, &csv.ParseError{StartLine: r.start, Line: r.start, Column: openCol, Err: qe})
 					}

@@ -26,8 +26,9 @@
 //
 // A large CSV file whose rows carry no unique id (the care rounds above
 // all) is read in byte ranges, one per core, and the ranges are joined in
-// file order into exactly what reading it whole gives (split.go); a file
-// that cannot be cut at the end of a record is read whole.
+// file order into exactly what reading it whole gives (split.go); when a
+// cut falls inside a quoted cell, the rest of the file is read again from
+// the row where the quote opened.
 //
 // Unknown files and columns are Warnings: nothing was lost, but something
 // was not read. Judgements about the records (an animal culled without a

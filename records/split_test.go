@@ -25,7 +25,7 @@ func forceSplit(n int, targets []int64) func() {
 	splitMinBytes, splitRanges, poisonCells = 0, n, true
 	splitTargets = nil
 	if targets != nil {
-		splitTargets = func(int64, int) []int64 { return targets }
+		splitTargets = func(int64, int64, int) []int64 { return targets }
 	}
 	return func() { splitMinBytes, splitRanges, splitTargets, poisonCells = oldMin, oldN, oldTargets, oldPoison }
 }
@@ -196,8 +196,9 @@ func TestSplitSameSet(t *testing.T) {
 }
 
 // TestSplitQuotedNewline: a cut just after a newline inside a quoted cell
-// is seen (the first range ends inside the quote) and the file is read
-// whole instead; a cut after the line where that quote closes joins.
+// is seen (the first range ends inside the quote) and the rest of the file
+// is read again from the row where the quote opened; a cut after the line
+// where that quote closes joins as cut.
 func TestSplitQuotedNewline(t *testing.T) {
 	head := "checked_at,enclosure_id,staff_id,observed,notes\n"
 	rows := head + "2026-01-15T07:00,E1,K1,yes,ok\n" +
@@ -206,11 +207,12 @@ func TestSplitQuotedNewline(t *testing.T) {
 	fsys := folder(map[string]string{careFile: rows})
 	inQuote := int64(strings.Index(rows, "gate\n") + len("gate"))
 	afterQuote := int64(strings.Index(rows, "open\"\n") + len("open\""))
-	if splitJoins(t, fsys, careFile, []int64{inQuote}) {
-		t.Errorf("a cut inside a quoted cell joined")
+	openRow := int64(strings.Index(rows, "2026-01-15T08:00"))
+	if got := resumes(t, fsys, []int64{inQuote}); !reflect.DeepEqual(got, []resume{{openRow, 3}}) {
+		t.Errorf("a cut inside a quoted cell resumed at %v, want offset %d, line 3", got, openRow)
 	}
-	if !splitJoins(t, fsys, careFile, []int64{afterQuote}) {
-		t.Errorf("a cut after the quote closed fell back")
+	if got := resumes(t, fsys, []int64{afterQuote}); len(got) != 0 {
+		t.Errorf("a cut after the quote closed resumed at %v", got)
 	}
 	sameSplitLoad(t, fsys, []int64{inQuote}, "quoted newline")
 	s := mustLoadSplit(t, fsys, []int64{inQuote})
@@ -227,8 +229,149 @@ func TestSplitQuotedNewline(t *testing.T) {
 	for _, p := range newlines([]byte(bad), 100) {
 		sameSplitLoad(t, fsys, []int64{p}, "open quote")
 	}
-	if splitJoins(t, fsys, careFile, []int64{int64(strings.Index(bad, "open\n") + 4)}) {
-		t.Errorf("a cut inside a quote that never closes joined")
+	openRow = int64(len(head))
+	if got := resumes(t, fsys, []int64{int64(strings.Index(bad, "open\n") + 4)}); !reflect.DeepEqual(got, []resume{{openRow, 2}}) {
+		t.Errorf("a cut inside a quote that never closes resumed at %v, want offset %d, line 2", got, openRow)
+	}
+}
+
+type resume struct {
+	off  int64
+	line int
+}
+
+// resumes reads the care rounds of fsys in ranges cut at targets, fails
+// unless they are the rounds read whole, and returns where the rest of
+// the file was read again from, in order.
+func resumes(t *testing.T, fsys fstest.MapFS, targets []int64) []resume {
+	t.Helper()
+	var got []resume
+	splitResumed = func(off int64, line int) { got = append(got, resume{off, line}) }
+	defer func() { splitResumed = nil }()
+	if !splitJoins(t, fsys, careFile, targets) {
+		t.Errorf("cut at %v: the ranges fell back to the sequential reader", targets)
+	}
+	return got
+}
+
+// TestSplitResume: care rounds with quoted cells over two to six lines,
+// read in two to four ranges cut at every pair of newlines, load the set
+// read whole; each time a range ends inside a quote, the rest is read from
+// the first line of a row that opens a quote, and every cut inside a
+// quote is resumed from.
+func TestSplitResume(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("checked_at,enclosure_id,staff_id,observed,notes,x_tag\n")
+	for i := range 60 {
+		switch i % 10 {
+		case 3:
+			fmt.Fprintf(&b, "2026-01-%02dT07:00,E1,K1,yes,\"%s\",t%d\n", 1+i%28, strings.Repeat("line\n", i%6)+"end", i)
+		case 7:
+			fmt.Fprintf(&b, "2026-01-%02dT07:00,E9,K1,yes,\"bad\nrow\",\"two\nquotes\"\n", 1+i%28)
+		default:
+			fmt.Fprintf(&b, "2026-01-%02dT08:00,E%d,K1,yes,note %d,\n", 1+i%28, 1+i%2, i)
+		}
+	}
+	data := b.String()
+	fsys := folder(map[string]string{careFile: data})
+	inQuote := func(off int64) bool { return strings.Count(data[:off], "\"")%2 == 1 }
+	nl := newlines([]byte(data), 1<<20)
+	resumed := 0
+	for i, p := range nl[1 : len(nl)-1] {
+		cuts := [][]int64{{p}}
+		for k := i + 2; k < len(nl)-1; k += 5 {
+			cuts = append(cuts, []int64{p, nl[k]})
+		}
+		for _, targets := range cuts {
+			q := targets[len(targets)-1]
+			got := resumes(t, fsys, targets)
+			if inQuote(p+1) && (len(got) == 0 || got[0].off > p) {
+				t.Errorf("cut at %v inside a quote: resumed at %v", targets, got)
+			}
+			for _, r := range got {
+				line := data[r.off:]
+				line = line[:strings.IndexByte(line, '\n')]
+				if data[r.off-1] != '\n' || strings.Count(data[:r.off], "\n")+1 != r.line || !strings.Contains(line, "\"") {
+					t.Errorf("cut at %v: resumed at %d, line %d (%q), not the start of a row opening a quote", targets, r.off, r.line, line)
+				}
+			}
+			resumed += len(got)
+			if len(targets) == 2 && q-p < 60 {
+				sameSplitLoad(t, fsys, append(targets, q+(int64(len(data))-q)/2), "three cuts")
+			}
+		}
+	}
+	if resumed == 0 {
+		t.Errorf("no cut resumed")
+	}
+	// The rest read in ranges again, cut as a file is (equal parts, here
+	// of two to four ranges), each time a range ends inside a quote: up
+	// to maxResumes times, then as one range.
+	opt := testSpecies
+	opt.Now = fuzzNow
+	restore := noSplit()
+	want, wantErr := Load(fsys, opt)
+	restore()
+	for n := 2; n <= 4; n++ {
+		deep := 0
+		for _, p := range nl[1 : len(nl)-1] {
+			restore := forceSplit(n, nil)
+			splitTargets = func(from, size int64, n int) []int64 {
+				if from == 0 {
+					return []int64{p}
+				}
+				var out []int64
+				for k := 1; k < n; k++ {
+					out = append(out, from+(size-from)*int64(k)/int64(n))
+				}
+				return out
+			}
+			var got []resume
+			splitResumed = func(off int64, line int) { got = append(got, resume{off, line}) }
+			set, err := Load(fsys, opt)
+			splitResumed = nil
+			restore()
+			if fmt.Sprint(err) != fmt.Sprint(wantErr) || !reflect.DeepEqual(set, want) {
+				t.Errorf("%d ranges, first cut at %d, resumed at %v: loaded in ranges differs from loaded whole", n, p, got)
+			}
+			if len(got) > maxResumes+1 {
+				t.Errorf("%d ranges, first cut at %d: resumed %d times", n, p, len(got))
+			}
+			for i := 1; i < len(got); i++ {
+				if got[i].off <= got[i-1].off {
+					t.Errorf("%d ranges, first cut at %d: resumed at %v, not on", n, p, got)
+				}
+			}
+			if len(got) > 1 {
+				deep++
+			}
+		}
+		if deep == 0 {
+			t.Errorf("%d ranges: the rest never resumed again", n)
+		}
+	}
+}
+
+// TestLineStart: the start of every line of a range, looked for from its
+// end, is the offset just after the newline before it.
+func TestLineStart(t *testing.T) {
+	data := "head\n\nab\r\n" + strings.Repeat("x", 70000) + "\nc\n\"d\ne\"\n"
+	ra := strings.NewReader(data)
+	nl := newlines([]byte(data), 1<<20)
+	for i := range nl {
+		for j := i + 1; j < len(nl); j++ {
+			from, to := nl[i]+1, nl[j]+1
+			last := j + 1 // line numbers from 1: the newline nl[j] ends line j+1
+			for line := i + 2; line <= last; line++ {
+				got, err := lineStart(context.Background(), ra, from, to, last, line)
+				if want := nl[line-2] + 1; err != nil || got != want {
+					t.Errorf("[%d, %d) line %d: %d (%v), want %d", from, to, line, got, err, want)
+				}
+			}
+			if _, err := lineStart(context.Background(), ra, from, to, last, i+1); err == nil {
+				t.Errorf("[%d, %d): line %d, before the range, found", from, to, i+1)
+			}
+		}
 	}
 }
 
@@ -321,7 +464,7 @@ func TestSplitLoaderTests(t *testing.T) {
 // file; a line longer than the search leaves the rest in one range.
 func TestSplitPoints(t *testing.T) {
 	data := []byte("head\n" + strings.Repeat("a,b\n", 100))
-	cuts := splitPoints(context.Background(), bytes.NewReader(data), int64(len(data)), 4)
+	cuts := splitPoints(context.Background(), bytes.NewReader(data), 0, int64(len(data)), 4)
 	if len(cuts) != 5 || cuts[0] != 0 || cuts[4] != int64(len(data)) {
 		t.Fatalf("cuts %v", cuts)
 	}
@@ -330,8 +473,51 @@ func TestSplitPoints(t *testing.T) {
 			t.Errorf("cut %d is not after a newline", c)
 		}
 	}
+	// Notes over two and three lines, quotes doubled inside them, on every
+	// third row: no cut falls inside a quote. One over four lines can be
+	// cut inside.
+	for _, note := range []string{"\"a\nb\"", "\"a \"\"b\"\"\nc\"", "\"a\nb\nc\"", "\"\"\"a\"\"\n\n\"\"c\"\"\""} {
+		var b strings.Builder
+		b.WriteString("head,notes\n")
+		for i := range 400 {
+			if i%3 == 0 {
+				fmt.Fprintf(&b, "%d,%s\n", i, note)
+			} else {
+				fmt.Fprintf(&b, "%d,\"plain, quoted\"\n", i)
+			}
+		}
+		data := []byte(b.String())
+		for n := 2; n <= 8; n++ {
+			cuts := splitPoints(context.Background(), bytes.NewReader(data), 0, int64(len(data)), n)
+			if len(cuts) != n+1 {
+				t.Errorf("%q, %d ranges: cuts %v", note, n, cuts)
+			}
+			for _, c := range cuts[1 : len(cuts)-1] {
+				if data[c-1] != '\n' || bytes.Count(data[:c], []byte{'"'})%2 != 0 {
+					t.Errorf("%q, %d ranges: cut %d inside a quote", note, n, c)
+				}
+			}
+		}
+	}
+	var four strings.Builder
+	four.WriteString("head,notes\n")
+	for i := range 400 {
+		fmt.Fprintf(&four, "%d,\"a\nb\nc\nd\"\n", i)
+	}
+	inside := 0
+	for n := 2; n <= 8; n++ {
+		data := []byte(four.String())
+		for _, c := range splitPoints(context.Background(), bytes.NewReader(data), 0, int64(len(data)), n) {
+			if bytes.Count(data[:c], []byte{'"'})%2 != 0 {
+				inside++
+			}
+		}
+	}
+	if inside == 0 {
+		t.Errorf("no cut fell inside a note of four lines: is the search looking further than a line each side?")
+	}
 	long := []byte("head\n" + strings.Repeat("x", 3*splitSearch) + "\nrow\n")
-	if cuts := splitPoints(context.Background(), bytes.NewReader(long), int64(len(long)), 2); len(cuts) != 2 {
+	if cuts := splitPoints(context.Background(), bytes.NewReader(long), 0, int64(len(long)), 2); len(cuts) != 2 {
 		t.Errorf("a line over the search was cut: %v", cuts)
 	}
 }
