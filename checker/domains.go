@@ -1,5 +1,7 @@
 package checker
 
+import "sync"
+
 // domain is one area of the check catalogue: its name (the first part of
 // its check ids, what --only selects) and the fact builder that adds its
 // sections to the subjects' input documents (facts_<domain>.go).
@@ -11,6 +13,10 @@ type domain struct {
 	// check that keeps only its result can let the rounds — most of a
 	// large set's memory — go before the other builders add theirs.
 	rounds bool
+	// lane is the goroutine (0 or 1) the builder runs on among those run
+	// at the same time: the lanes take about as long each on the
+	// generated years (buildFacts).
+	lane int
 }
 
 // domains is the one catalogue of the shipped domains, in the order reports
@@ -21,38 +27,113 @@ type domain struct {
 // own check ids) needs no entry: it reads the facts the shipped domains
 // compute, and reports list it after these.
 var domains = []domain{
-	{"records", (*facts).recordsFacts, true},
-	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }, true},
-	{"enclosure", (*facts).enclosureFacts, false},
-	{"handling", (*facts).handlingFacts, false},
-	{"staff", (*facts).staffFacts, true},
-	{"ppe", (*facts).ppeFacts, false},
-	{"protocol", (*facts).protocolFacts, false},
-	{"cull", (*facts).cullFacts, false},
-	{"health", (*facts).healthFacts, false},
-	{"litter", (*facts).litterFacts, false},
-	{"cold", (*facts).coldFacts, true},
-	{"heat", (*facts).heatFacts, false},
-	{"environment", (*facts).environmentFacts, false},
+	{"records", (*facts).recordsFacts, true, 0},
+	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }, true, 0},
+	{"enclosure", (*facts).enclosureFacts, false, 1},
+	{"handling", (*facts).handlingFacts, false, 1},
+	{"staff", (*facts).staffFacts, true, 0},
+	{"ppe", (*facts).ppeFacts, false, 0},
+	{"protocol", (*facts).protocolFacts, false, 0},
+	{"cull", (*facts).cullFacts, false, 0},
+	{"health", (*facts).healthFacts, false, 0},
+	{"litter", (*facts).litterFacts, false, 0},
+	{"cold", (*facts).coldFacts, true, 0},
+	{"heat", (*facts).heatFacts, false, 0},
+	{"environment", (*facts).environmentFacts, false, 1},
 }
 
 // buildFacts runs every domain's fact builder, the ones reading the care
 // rounds first; release, when not nil, is called once those are done.
-// Each builder writes only its own sections, so the order does not change
-// the facts.
-func buildFacts(f *facts, release func()) {
+// The others then run on two goroutines, by lane (buildLanes).
+func buildFacts(f *facts, release func()) { buildFactsIn(f, release, 2) }
+
+// buildFactsIn is buildFacts with the builders run after the release on
+// that many goroutines (1: one after the other, in the catalogue's order).
+// Each builder writes only its own sections, so neither the order nor the
+// lanes change the facts.
+func buildFactsIn(f *facts, release func(), lanes int) {
 	for _, d := range domains {
 		if d.rounds {
 			d.facts(f)
 		}
 	}
+	// What the builders share and make on first use is made before they
+	// run side by side: the care index (kept when the rounds go) and the
+	// period's days as OPA values.
+	f.careIndex()
+	f.days.makeTerms()
 	f.rounds, f.rix = nil, nil
 	if release != nil {
 		release()
 	}
+	var rest []domain
 	for _, d := range domains {
 		if !d.rounds {
+			rest = append(rest, d)
+		}
+	}
+	f.buildLanes(rest, lanes)
+}
+
+// buildLanes runs the builders ds, lane 0 on f, lane 1 on a goroutine of
+// its own writing into a fork of f (fork), whose documents join f's once
+// both are done (join). With one lane they run one after the other on f.
+func (f *facts) buildLanes(ds []domain, lanes int) {
+	if lanes < 2 {
+		for _, d := range ds {
 			d.facts(f)
+		}
+		return
+	}
+	g := f.fork()
+	var wg sync.WaitGroup
+	wg.Go(func() {
+		for _, d := range ds {
+			if d.lane == 1 {
+				d.facts(g)
+			}
+		}
+	})
+	for _, d := range ds {
+		if d.lane != 1 {
+			d.facts(f)
+		}
+	}
+	wg.Wait()
+	f.join(g)
+}
+
+// fork is a facts sharing f's records and indexes, to build facts at the
+// same time as f: it has documents of its own, empty, and writes into them
+// only. Its builders must not make what f makes on first use (buildFactsIn
+// makes it before).
+func (f *facts) fork() *facts {
+	g := *f
+	g.docs = map[string]map[string]map[string]any{}
+	return &g
+}
+
+// join adds the documents g built to f's: a subject's document f has not
+// is taken as it is; to one it has, g's sections are added. The keys both
+// documents have are those every builder writing a subject's document
+// gives it alike (its kind, id, name and ref; an animal's record-keeping
+// attributes, animalDoc), and f's stay.
+func (f *facts) join(g *facts) {
+	for kind, byID := range g.docs {
+		for id, gd := range byID {
+			fd := f.docs[kind][id]
+			if fd == nil {
+				if f.docs[kind] == nil {
+					f.docs[kind] = map[string]map[string]any{}
+				}
+				f.docs[kind][id] = gd
+				continue
+			}
+			for k, v := range gd {
+				if _, ok := fd[k]; !ok {
+					fd[k] = v
+				}
+			}
 		}
 	}
 }

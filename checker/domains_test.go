@@ -1,0 +1,81 @@
+package checker
+
+import (
+	"maps"
+	"reflect"
+	"slices"
+	"testing"
+
+	"welfare/records"
+	"welfare/records/demo"
+	"welfare/rules"
+)
+
+// TestLanesBuildTheSameFacts builds the facts of both demo seasons and of
+// a generated year twice, the builders after the release one after the
+// other and on two lanes (buildFactsIn), and requires the same documents,
+// resolved, of every kind and subject, and the same report figures. The
+// generated year must have animals whose documents got sections from both
+// lanes, so joining a subject's document is tested, not only taking one.
+func TestLanesBuildTheSameFacts(t *testing.T) {
+	lim, err := rules.Default()
+	if err != nil {
+		t.Fatal(err)
+	}
+	sets := map[string]*records.Set{}
+	for _, name := range slices.Sorted(maps.Keys(demo.Seasons)) {
+		set, err := records.Load(demo.Seasons[name].FS(), records.Options{Species: lim.SpeciesCodes()})
+		if err != nil {
+			t.Fatal(err)
+		}
+		sets["demo "+name] = set
+	}
+	sets["generated-150"], _ = generatedSet(t, 150, lim)
+	laneOf := map[string]int{}
+	for _, d := range domains {
+		if !d.rounds {
+			laneOf[d.name] = d.lane
+		}
+	}
+	if !slices.Contains(slices.Collect(maps.Values(laneOf)), 0) || !slices.Contains(slices.Collect(maps.Values(laneOf)), 1) {
+		t.Fatalf("lanes %v: the builders after the release are not on both lanes", laneOf)
+	}
+	for name, set := range sets {
+		from, to := recordSpan(set)
+		build := func(lanes int) *facts {
+			f := newFacts(set, lim, Period{From: from, To: to})
+			buildFactsIn(f, nil, lanes)
+			return f
+		}
+		one, two := build(1), build(2)
+		if !reflect.DeepEqual(one.coverage, two.coverage) || !reflect.DeepEqual(one.weather, two.weather) {
+			t.Errorf("%s: the report's care coverage or weather differ", name)
+		}
+		if got, want := slices.Sorted(maps.Keys(two.docs)), slices.Sorted(maps.Keys(one.docs)); !slices.Equal(got, want) {
+			t.Fatalf("%s: kinds %v on two lanes, %v on one", name, got, want)
+		}
+		joined := 0
+		for kind := range one.docs {
+			a, b := one.inputs(kind), two.inputs(kind)
+			if len(a) != len(b) {
+				t.Errorf("%s: %d %s documents on two lanes, %d on one", name, len(b), kind, len(a))
+				continue
+			}
+			for i := range a {
+				if !reflect.DeepEqual(resolveDoc(a[i]), resolveDoc(b[i])) {
+					t.Errorf("%s: %s %v differs on two lanes", name, kind, a[i]["id"])
+				}
+				// A document with a handling section (lane 1) and a health
+				// one (lane 0) was joined.
+				if _, h := b[i]["handling"]; h && kind == "animal" {
+					if _, d := b[i]["deaths_recorded"]; d {
+						joined++
+					}
+				}
+			}
+		}
+		if name == "generated-150" && joined == 0 {
+			t.Errorf("%s: no animal's document has sections from both lanes", name)
+		}
+	}
+}
