@@ -27,11 +27,11 @@ type domain struct {
 // own check ids) needs no entry: it reads the facts the shipped domains
 // compute, and reports list it after these.
 var domains = []domain{
-	{"records", (*facts).recordsFacts, true, 0},
+	{"records", (*facts).recordsFacts, true, 1},
 	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }, true, 0},
-	{"enclosure", (*facts).enclosureFacts, false, 1},
-	{"handling", (*facts).handlingFacts, false, 1},
-	{"staff", (*facts).staffFacts, true, 0},
+	{"enclosure", (*facts).enclosureFacts, false, 0},
+	{"handling", (*facts).handlingFacts, false, 0},
+	{"staff", (*facts).staffFacts, true, 1},
 	{"ppe", (*facts).ppeFacts, false, 0},
 	{"protocol", (*facts).protocolFacts, false, 0},
 	{"cull", (*facts).cullFacts, false, 0},
@@ -39,40 +39,43 @@ var domains = []domain{
 	{"litter", (*facts).litterFacts, false, 0},
 	{"cold", (*facts).coldFacts, true, 0},
 	{"heat", (*facts).heatFacts, false, 0},
-	{"environment", (*facts).environmentFacts, false, 1},
+	{"environment", (*facts).environmentFacts, false, 0},
 }
 
 // buildFacts runs every domain's fact builder, the ones reading the care
-// rounds first; release, when not nil, is called once those are done.
-// The others then run on two goroutines, by lane (buildLanes).
+// rounds first, on two goroutines by lane (buildLanes); release, when not
+// nil, is called once those are done, and the others run after.
 func buildFacts(f *facts, release func()) { buildFactsIn(f, release, 2) }
 
-// buildFactsIn is buildFacts with the builders run after the release on
-// that many goroutines (1: one after the other, in the catalogue's order).
-// Each builder writes only its own sections, so neither the order nor the
-// lanes change the facts.
+// buildFactsIn is buildFacts with the builders reading the care rounds run
+// on that many goroutines (1: one after the other, in the catalogue's
+// order). Each builder writes only its own sections, so neither the order
+// nor the lanes change the facts.
 func buildFactsIn(f *facts, release func(), lanes int) {
+	// What the builders share and make on first use is made before they
+	// run side by side: the one pass over the rounds (with the care index)
+	// and the period's days as OPA values.
+	f.roundIndex()
+	f.days.makeTerms()
+	var round, rest []domain
 	for _, d := range domains {
 		if d.rounds {
-			d.facts(f)
+			round = append(round, d)
+		} else {
+			rest = append(rest, d)
 		}
 	}
-	// What the builders share and make on first use is made before they
-	// run side by side: the care index (kept when the rounds go) and the
-	// period's days as OPA values.
-	f.careIndex()
-	f.days.makeTerms()
+	f.buildLanes(round, lanes)
 	f.rounds, f.rix = nil, nil
 	if release != nil {
 		release()
 	}
-	var rest []domain
-	for _, d := range domains {
-		if !d.rounds {
-			rest = append(rest, d)
-		}
+	// The others run one after the other: on two lanes they took as long
+	// (the collection started as the rounds go has the other core) and
+	// held more memory at once.
+	for _, d := range rest {
+		d.facts(f)
 	}
-	f.buildLanes(rest, lanes)
 }
 
 // buildLanes runs the builders ds, lane 0 on f, lane 1 on a goroutine of

@@ -12,11 +12,12 @@ import (
 )
 
 // TestLanesBuildTheSameFacts builds the facts of both demo seasons and of
-// a generated year twice, the builders after the release one after the
-// other and on two lanes (buildFactsIn), and requires the same documents,
-// resolved, of every kind and subject, and the same report figures. The
-// generated year must have animals whose documents got sections from both
-// lanes, so joining a subject's document is tested, not only taking one.
+// a generated year twice, the builders reading the care rounds one after
+// the other and on two lanes (buildFactsIn), and requires the same
+// documents, resolved, of every kind and subject, and the same report
+// figures. The generated year must have people whose documents got
+// sections from both lanes (staff on lane 1, the outdoor stints' cold on
+// lane 0), so joining a subject's document is tested, not only taking one.
 func TestLanesBuildTheSameFacts(t *testing.T) {
 	lim, err := rules.Default()
 	if err != nil {
@@ -33,12 +34,12 @@ func TestLanesBuildTheSameFacts(t *testing.T) {
 	sets["generated-150"], _ = generatedSet(t, 150, lim)
 	laneOf := map[string]int{}
 	for _, d := range domains {
-		if !d.rounds {
+		if d.rounds {
 			laneOf[d.name] = d.lane
 		}
 	}
 	if !slices.Contains(slices.Collect(maps.Values(laneOf)), 0) || !slices.Contains(slices.Collect(maps.Values(laneOf)), 1) {
-		t.Fatalf("lanes %v: the builders after the release are not on both lanes", laneOf)
+		t.Fatalf("lanes %v: the builders reading the rounds are not on both lanes", laneOf)
 	}
 	for name, set := range sets {
 		from, to := recordSpan(set)
@@ -65,17 +66,17 @@ func TestLanesBuildTheSameFacts(t *testing.T) {
 				if !reflect.DeepEqual(resolveDoc(a[i]), resolveDoc(b[i])) {
 					t.Errorf("%s: %s %v differs on two lanes", name, kind, a[i]["id"])
 				}
-				// A document with a handling section (lane 1) and a health
-				// one (lane 0) was joined.
-				if _, h := b[i]["handling"]; h && kind == "animal" {
-					if _, d := b[i]["deaths_recorded"]; d {
+				// A document with a staff section (lane 1) and a cold one
+				// (lane 0) was joined.
+				if _, s := b[i]["staff"]; s && kind == "staff" {
+					if _, c := b[i]["cold"]; c {
 						joined++
 					}
 				}
 			}
 		}
 		if name == "generated-150" && joined == 0 {
-			t.Errorf("%s: no animal's document has sections from both lanes", name)
+			t.Errorf("%s: no person's document has sections from both lanes", name)
 		}
 	}
 }
