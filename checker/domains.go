@@ -13,9 +13,11 @@ type domain struct {
 	// check that keeps only its result can let the rounds — most of a
 	// large set's memory — go before the other builders add theirs.
 	rounds bool
-	// lane is the goroutine (0 or 1) the builder runs on among those run
-	// at the same time: the lanes take about as long each on the
-	// generated years (buildFacts).
+	// lane, for a builder reading the rounds, is the goroutine it runs on
+	// (buildLanes): 0 on the facts themselves, 1 on a fork, picked so the
+	// lanes take about as long on the generated years. A builder that sets
+	// the report's figures (care: the care coverage; cold: the weather
+	// sites' days) runs on lane 0: a fork keeps only its documents.
 	lane int
 }
 
@@ -42,9 +44,10 @@ var domains = []domain{
 	{"environment", (*facts).environmentFacts, false, 0},
 }
 
-// buildFacts runs every domain's fact builder, the ones reading the care
+// buildFacts runs every domain's fact builder: the ones reading the care
 // rounds first, on two goroutines by lane (buildLanes); release, when not
-// nil, is called once those are done, and the others run after.
+// nil, is called once those are done, and the others run after, one after
+// the other.
 func buildFacts(f *facts, release func()) { buildFactsIn(f, release, 2) }
 
 // buildFactsIn is buildFacts with the builders reading the care rounds run
@@ -71,8 +74,10 @@ func buildFactsIn(f *facts, release func(), lanes int) {
 		release()
 	}
 	// The others run one after the other: on two lanes they took as long
-	// (the collection started as the rounds go has the other core) and
-	// held more memory at once.
+	// on the generated year of 10,000 animals (the collection a check
+	// starts as the rounds go has the other core then) and it held 30 MB
+	// more at its peak; while the rounds are kept, the collector waits
+	// (cmd/welfare/memory.go), so run then, they held 40 MB more.
 	for _, d := range rest {
 		d.facts(f)
 	}

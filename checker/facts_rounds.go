@@ -4,6 +4,7 @@ import (
 	"cmp"
 	"slices"
 	"strings"
+	"sync"
 
 	"welfare/records"
 )
@@ -84,11 +85,23 @@ func (f *facts) roundIndex() *roundIndex {
 	}
 	var cleanList, bedList blockList[listed]
 	var counts [][2]int32
+	// The staff counts and the concerns are read on a goroutine of their
+	// own, over the rounds in the same order: they fill fields the rest
+	// of the pass does not touch, so the index is the same.
+	var wg sync.WaitGroup
+	wg.Go(func() {
+		for i := range rounds.Len() {
+			k := rounds.Keys(i)
+			if k.ConcernAnimal != 0 {
+				ix.concerns = append(ix.concerns, int32(i))
+			}
+			if d := rounds.Day(i); d >= from && d <= to {
+				ix.staff.visit(i, k, d)
+			}
+		}
+	})
 	for i := range rounds.Len() {
 		k := rounds.Keys(i)
-		if k.ConcernAnimal != 0 {
-			ix.concerns = append(ix.concerns, int32(i))
-		}
 		d := rounds.Day(i)
 		if d > to {
 			continue
@@ -117,7 +130,6 @@ func (f *facts) roundIndex() *roundIndex {
 			}
 			continue
 		}
-		ix.staff.visit(i, k, d)
 		if p.care == nil {
 			p.care = make([]dayCare, n)
 		}
@@ -132,6 +144,7 @@ func (f *facts) roundIndex() *roundIndex {
 			ix.events = append(ix.events, int32(i))
 		}
 	}
+	wg.Wait()
 	// Each list cut into one block, a slice per place.
 	cleaned := make([]records.Ref, 0, cleanList.n)
 	cleanedOn := make([]records.Day, 0, cleanList.n)
