@@ -15,9 +15,7 @@ type domain struct {
 	rounds bool
 	// lane, for a builder reading the rounds, is the goroutine it runs on
 	// (buildLanes): 0 on the facts themselves, 1 on a fork, picked so the
-	// lanes take about as long on the generated years. A builder that sets
-	// the report's figures (care: the care coverage; cold: the weather
-	// sites' days) runs on lane 0: a fork keeps only its documents.
+	// lanes take about as long on the generated years.
 	lane int
 }
 
@@ -29,7 +27,7 @@ type domain struct {
 // own check ids) needs no entry: it reads the facts the shipped domains
 // compute, and reports list it after these.
 var domains = []domain{
-	{"records", (*facts).recordsFacts, true, 1},
+	{"records", (*facts).recordsFacts, true, 0},
 	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }, true, 0},
 	{"enclosure", (*facts).enclosureFacts, false, 0},
 	{"handling", (*facts).handlingFacts, false, 0},
@@ -39,7 +37,7 @@ var domains = []domain{
 	{"cull", (*facts).cullFacts, false, 0},
 	{"health", (*facts).healthFacts, false, 0},
 	{"litter", (*facts).litterFacts, false, 0},
-	{"cold", (*facts).coldFacts, true, 0},
+	{"cold", (*facts).coldFacts, true, 1},
 	{"heat", (*facts).heatFacts, false, 0},
 	{"environment", (*facts).environmentFacts, false, 0},
 }
@@ -112,21 +110,26 @@ func (f *facts) buildLanes(ds []domain, lanes int) {
 }
 
 // fork is a facts sharing f's records and indexes, to build facts at the
-// same time as f: it has documents of its own, empty, and writes into them
-// only. Its builders must not make what f makes on first use (buildFactsIn
-// makes it before).
+// same time as f: it has documents and report figures of its own, empty,
+// and writes into them only. Its builders must not make what f makes on
+// first use (buildFactsIn makes it before).
 func (f *facts) fork() *facts {
 	g := *f
 	g.docs = map[string]map[string]map[string]any{}
+	g.coverage, g.weather = CareCoverage{}, nil
 	return &g
 }
 
-// join adds the documents g built to f's: a subject's document f has not
-// is taken as it is; to one it has, g's sections are added. The keys both
-// documents have are those every builder writing a subject's document
-// gives it alike (its kind, id, name and ref; an animal's record-keeping
-// attributes, animalDoc), and f's stay.
+// join adds what g built to f: its report figures (the care coverage
+// counts, the weather sites' days), and its documents: a subject's
+// document f has not is taken as it is; to one it has, g's sections are
+// added. The keys both documents have are those every builder writing a
+// subject's document gives it alike (its kind, id, name and ref; an
+// animal's record-keeping attributes, animalDoc), and f's stay.
 func (f *facts) join(g *facts) {
+	f.coverage.OccupiedDays += g.coverage.OccupiedDays
+	f.coverage.CompleteDays += g.coverage.CompleteDays
+	f.weather = append(f.weather, g.weather...)
 	for kind, byID := range g.docs {
 		for id, gd := range byID {
 			fd := f.docs[kind][id]

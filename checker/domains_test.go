@@ -15,9 +15,9 @@ import (
 // a generated year twice, the builders reading the care rounds one after
 // the other and on two lanes (buildFactsIn), and requires the same
 // documents, resolved, of every kind and subject, and the same report
-// figures. The generated year must have people whose documents got
-// sections from both lanes (staff on lane 1, the outdoor stints' cold on
-// lane 0), so joining a subject's document is tested, not only taking one.
+// figures. The generated year must have enclosures whose documents got
+// sections from both lanes (care on lane 0, cold on lane 1), so joining a
+// subject's document is tested, not only taking one.
 func TestLanesBuildTheSameFacts(t *testing.T) {
 	lim, err := rules.Default()
 	if err != nil {
@@ -66,9 +66,9 @@ func TestLanesBuildTheSameFacts(t *testing.T) {
 				if !reflect.DeepEqual(resolveDoc(a[i]), resolveDoc(b[i])) {
 					t.Errorf("%s: %s %v differs on two lanes", name, kind, a[i]["id"])
 				}
-				// A document with a staff section (lane 1) and a cold one
-				// (lane 0) was joined.
-				if _, s := b[i]["staff"]; s && kind == "staff" {
+				// A document with a care section (lane 0) and a cold one
+				// (lane 1) was joined.
+				if _, s := b[i]["care"]; s && kind == "enclosure" {
 					if _, c := b[i]["cold"]; c {
 						joined++
 					}
@@ -76,7 +76,7 @@ func TestLanesBuildTheSameFacts(t *testing.T) {
 			}
 		}
 		if name == "generated-150" && joined == 0 {
-			t.Errorf("%s: no person's document has sections from both lanes", name)
+			t.Errorf("%s: no enclosure's document has sections from both lanes", name)
 		}
 	}
 }
