@@ -117,6 +117,7 @@ func (f *facts) fork() *facts {
 	g := *f
 	g.docs = map[string]map[string]map[string]any{}
 	g.coverage, g.weather = CareCoverage{}, nil
+	g.forked = true
 	return &g
 }
 
