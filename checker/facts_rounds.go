@@ -52,7 +52,9 @@ type roundPlace struct {
 
 // roundIndex reads the care rounds once for every builder that needs them
 // (made on first use; see roundIndex the type). The care index (careDays)
-// is filled in the same pass.
+// is filled in the same pass. The pass is on two goroutines: the staff
+// counts and the concerns need only each round's keys and day, not its
+// answers, and take a third of it on the generated years.
 func (f *facts) roundIndex() *roundIndex {
 	if f.rix != nil {
 		return f.rix
