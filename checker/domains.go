@@ -9,81 +9,94 @@ type domain struct {
 	name  string
 	facts func(*facts)
 	// rounds: the builder reads the care rounds themselves (f.rounds; the
-	// care index made from them is kept). Such builders run first, so a
-	// check that keeps only its result can let the rounds — most of a
-	// large set's memory — go before the other builders add theirs.
+	// care index made from them is kept). Such builders run while the
+	// rounds are kept (lane0, lane1), so a check that keeps only its result
+	// can let the rounds — most of a large set's memory — go before the
+	// builders that allocate most (afterRounds) add theirs.
 	rounds bool
-	// lane, for a builder reading the rounds, is the goroutine it runs on
-	// (buildLanes): 0 on the facts themselves, 1 on a fork, picked so the
-	// lanes take about as long on the generated years.
-	lane int
+	// lane is when and where the builder runs (buildFacts).
+	lane lane
 }
+
+// lane is when and where a fact builder runs: while the care rounds are
+// kept, on one of two goroutines (lane0 on the facts themselves, lane1 on
+// a fork; the two take about as long on the generated years), or once
+// they are let go (afterRounds), one builder after the other.
+type lane int
+
+const (
+	lane0 lane = iota
+	lane1
+	afterRounds
+)
 
 // domains is the one catalogue of the shipped domains, in the order reports
 // list them: record keeping first, then the animals' daily care and
-// housing, the people who handle them, and the season. The fact builders
-// run in this order; each writes only its own sections, so the order does
-// not change the facts. A committee's own domain (a rule package with its
-// own check ids) needs no entry: it reads the facts the shipped domains
-// compute, and reports list it after these.
+// housing, the people who handle them, and the season. Each fact builder
+// writes only its own sections, so the order they run in does not change
+// the facts. A committee's own domain (a rule package with its own check
+// ids) needs no entry: it reads the facts the shipped domains compute, and
+// reports list it after these.
+//
+// The builders not reading the rounds that allocate little (heat,
+// protocol, ...) run on lane0 too: the rounds' builders on lane1 take
+// longer. Those that allocate most (enclosure, handling, health: 51 MiB of
+// the 10,000-animal year) run after: while the rounds are kept the
+// collector waits (cmd/welfare/memory.go), so all they allocate then adds
+// to the check's peak, and run on two lanes after the rounds go they took
+// as long (the collection a check starts then has the other core) and the
+// peak was 30 MB more.
 var domains = []domain{
-	{"records", (*facts).recordsFacts, true, 0},
-	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }, true, 0},
-	{"enclosure", (*facts).enclosureFacts, false, 0},
-	{"handling", (*facts).handlingFacts, false, 0},
-	{"staff", (*facts).staffFacts, true, 1},
-	{"ppe", (*facts).ppeFacts, false, 0},
-	{"protocol", (*facts).protocolFacts, false, 0},
-	{"cull", (*facts).cullFacts, false, 0},
-	{"health", (*facts).healthFacts, false, 0},
-	{"litter", (*facts).litterFacts, false, 0},
-	{"cold", (*facts).coldFacts, true, 1},
-	{"heat", (*facts).heatFacts, false, 0},
-	{"environment", (*facts).environmentFacts, false, 0},
+	{"records", (*facts).recordsFacts, true, lane0},
+	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }, true, lane0},
+	{"enclosure", (*facts).enclosureFacts, false, afterRounds},
+	{"handling", (*facts).handlingFacts, false, afterRounds},
+	{"staff", (*facts).staffFacts, true, lane1},
+	{"ppe", (*facts).ppeFacts, false, lane0},
+	{"protocol", (*facts).protocolFacts, false, lane0},
+	{"cull", (*facts).cullFacts, false, lane0},
+	{"health", (*facts).healthFacts, false, afterRounds},
+	{"litter", (*facts).litterFacts, false, lane0},
+	{"cold", (*facts).coldFacts, true, lane1},
+	{"heat", (*facts).heatFacts, false, lane0},
+	{"environment", (*facts).environmentFacts, false, lane0},
 }
 
-// buildFacts runs every domain's fact builder: the ones reading the care
-// rounds first, on two goroutines by lane (buildLanes); release, when not
-// nil, is called once those are done, and the others run after, one after
-// the other.
+// buildFacts runs every domain's fact builder, by lane; release, when not
+// nil, is called once the care rounds are no longer read.
 func buildFacts(f *facts, release func()) { buildFactsIn(f, release, 2) }
 
-// buildFactsIn is buildFacts with the builders reading the care rounds run
-// on that many goroutines (1: one after the other, in the catalogue's
-// order). Each builder writes only its own sections, so neither the order
-// nor the lanes change the facts.
+// buildFactsIn is buildFacts with the builders of lane0 and lane1 run on
+// that many goroutines (1: one after the other, in the catalogue's order).
+// Each builder writes only its own sections, so neither the order nor the
+// lanes change the facts.
 func buildFactsIn(f *facts, release func(), lanes int) {
 	// What the builders share and make on first use is made before they
 	// run side by side: the one pass over the rounds (with the care index)
 	// and the period's days as OPA values.
 	f.roundIndex()
 	f.days.makeTerms()
-	var round, rest []domain
+	var early, rest []domain
 	for _, d := range domains {
-		if d.rounds {
-			round = append(round, d)
-		} else {
+		if d.lane == afterRounds {
 			rest = append(rest, d)
+		} else {
+			early = append(early, d)
 		}
 	}
-	f.buildLanes(round, lanes)
+	f.buildLanes(early, lanes)
 	f.rounds, f.rix = nil, nil
 	if release != nil {
 		release()
 	}
-	// The others run one after the other: on two lanes they took as long
-	// on the generated year of 10,000 animals (the collection a check
-	// starts as the rounds go has the other core then) and it held 30 MB
-	// more at its peak; while the rounds are kept, the collector waits
-	// (cmd/welfare/memory.go), so run then, they held 40 MB more.
 	for _, d := range rest {
 		d.facts(f)
 	}
 }
 
-// buildLanes runs the builders ds, lane 0 on f, lane 1 on a goroutine of
-// its own writing into a fork of f (fork), whose documents join f's once
-// both are done (join). With one lane they run one after the other on f.
+// buildLanes runs the builders ds, lane0's on f, lane1's on a goroutine
+// of its own writing into a fork of f (fork), which joins f once both are
+// done (join). With one lane they run one after the other on f.
 func (f *facts) buildLanes(ds []domain, lanes int) {
 	if lanes < 2 {
 		for _, d := range ds {
@@ -95,13 +108,13 @@ func (f *facts) buildLanes(ds []domain, lanes int) {
 	var wg sync.WaitGroup
 	wg.Go(func() {
 		for _, d := range ds {
-			if d.lane == 1 {
+			if d.lane == lane1 {
 				d.facts(g)
 			}
 		}
 	})
 	for _, d := range ds {
-		if d.lane != 1 {
+		if d.lane != lane1 {
 			d.facts(f)
 		}
 	}
