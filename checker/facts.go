@@ -53,6 +53,8 @@ type facts struct {
 	days *dayValues
 
 	docs map[string]map[string]map[string]any // kind -> subject id -> document
+	// forked: a fork's (domains.go), whose documents are made small (doc).
+	forked bool
 
 	// For the report: care coverage and the weather sites' daily minima.
 	coverage CareCoverage
@@ -209,7 +211,13 @@ func (f *facts) doc(kind, id string) map[string]any {
 				name, ref = p.Title, string(p.Ref)
 			}
 		}
-		d = make(map[string]any, docKeys[kind])
+		size := docKeys[kind]
+		if f.forked {
+			// Most of a fork's documents add a section or two to one f
+			// has (join) and are let go then.
+			size = 0
+		}
+		d = make(map[string]any, size)
 		d["kind"], d["id"], d["name"], d["ref"] = kind, id, name, ref
 		byID[id] = d
 	}

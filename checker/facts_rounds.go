@@ -4,6 +4,7 @@ import (
 	"cmp"
 	"slices"
 	"strings"
+	"sync"
 
 	"welfare/records"
 )
@@ -51,7 +52,9 @@ type roundPlace struct {
 
 // roundIndex reads the care rounds once for every builder that needs them
 // (made on first use; see roundIndex the type). The care index (careDays)
-// is filled in the same pass.
+// is filled in the same pass. The pass is on two goroutines: the staff
+// counts and the concerns need only each round's keys and day, not its
+// answers, and take a third of it on the generated years.
 func (f *facts) roundIndex() *roundIndex {
 	if f.rix != nil {
 		return f.rix
@@ -84,11 +87,23 @@ func (f *facts) roundIndex() *roundIndex {
 	}
 	var cleanList, bedList blockList[listed]
 	var counts [][2]int32
+	// The staff counts and the concerns are read on a goroutine of their
+	// own, over the rounds in the same order: they fill fields the rest
+	// of the pass does not touch, so the index is the same.
+	var wg sync.WaitGroup
+	wg.Go(func() {
+		for i := range rounds.Len() {
+			k := rounds.Keys(i)
+			if k.ConcernAnimal != 0 {
+				ix.concerns = append(ix.concerns, int32(i))
+			}
+			if d := rounds.Day(i); d >= from && d <= to {
+				ix.staff.visit(i, k, d)
+			}
+		}
+	})
 	for i := range rounds.Len() {
 		k := rounds.Keys(i)
-		if k.ConcernAnimal != 0 {
-			ix.concerns = append(ix.concerns, int32(i))
-		}
 		d := rounds.Day(i)
 		if d > to {
 			continue
@@ -117,7 +132,6 @@ func (f *facts) roundIndex() *roundIndex {
 			}
 			continue
 		}
-		ix.staff.visit(i, k, d)
 		if p.care == nil {
 			p.care = make([]dayCare, n)
 		}
@@ -132,6 +146,7 @@ func (f *facts) roundIndex() *roundIndex {
 			ix.events = append(ix.events, int32(i))
 		}
 	}
+	wg.Wait()
 	// Each list cut into one block, a slice per place.
 	cleaned := make([]records.Ref, 0, cleanList.n)
 	cleanedOn := make([]records.Day, 0, cleanList.n)

@@ -31,22 +31,20 @@ func BenchmarkGenerated(b *testing.B) {
 			set, planted := generatedSet(b, n, lim)
 			from, to := recordSpan(set)
 			period := Period{From: from, To: to}
-			buildFacts := func() *facts {
+			build := func() *facts {
 				f := newFacts(set, lim, period)
-				for _, d := range domains {
-					d.facts(f)
-				}
+				buildFacts(f, nil)
 				return f
 			}
 			b.Run("facts", func(b *testing.B) {
 				b.ReportAllocs()
 				defer reportCPU(b)()
 				for b.Loop() {
-					buildFacts()
+					build()
 				}
 			})
 			b.Run("rules", func(b *testing.B) {
-				f := buildFacts()
+				f := build()
 				kinds := map[string][]map[string]any{}
 				for _, k := range engine.Kinds() {
 					kinds[k] = f.inputs(k)
