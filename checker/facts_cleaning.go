@@ -213,10 +213,28 @@ func (ec *encCleaning) sectionTerm(c *converter) (*ast.Term, error) {
 		}
 		gaps = ast.NewTerm(ast.NewArray(elems...))
 	}
+	longest := ast.InternedNullTerm
+	if n, ok := ec.longestGap(); ok {
+		longest = ast.InternedTerm(n)
+	}
 	return ast.NewTerm(ast.NewObject(
 		[2]*ast.Term{c.key("rounds_recorded"), ast.InternedTerm(ec.recorded)},
 		[2]*ast.Term{c.key("gaps"), gaps},
+		[2]*ast.Term{c.key("longest_gap_days"), longest},
 	)), nil
+}
+
+// longestGap is the days of the section's longest gap; false when it has
+// none.
+func (ec *encCleaning) longestGap() (int, bool) {
+	if len(ec.gaps) == 0 {
+		return 0, false
+	}
+	n := 0
+	for _, g := range ec.gaps {
+		n = max(n, int(g.until-g.from))
+	}
+	return n, true
 }
 
 // appendGaps appends the section's gaps as the report lists them: the
@@ -244,9 +262,14 @@ func (ec *encCleaning) section() any {
 			"evidence": evidence,
 		}
 	}
+	var longest any
+	if n, ok := ec.longestGap(); ok {
+		longest = n
+	}
 	return map[string]any{
-		"rounds_recorded": ec.recorded,
-		"gaps":            gaps,
+		"rounds_recorded":  ec.recorded,
+		"gaps":             gaps,
+		"longest_gap_days": longest,
 	}
 }
 

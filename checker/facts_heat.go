@@ -403,12 +403,17 @@ func (eh *encHeat) sectionTerm(c *converter) (*ast.Term, error) {
 	if s, ok := eh.site.(string); ok {
 		site = c.str(s)
 	}
+	fewest := ast.InternedNullTerm
+	if n, ok := eh.fewestWaterChecks(); ok {
+		fewest = ast.InternedTerm(n)
+	}
 	return ast.NewTerm(ast.NewObject(
 		[2]*ast.Term{c.key("exposure"), c.str(eh.exposure)},
 		[2]*ast.Term{c.key("weather_site"), site},
 		[2]*ast.Term{c.key("shade"), ast.InternedTerm(eh.shade)},
 		[2]*ast.Term{c.key("shade_recorded"), ast.InternedTerm(eh.shadeRecorded)},
 		[2]*ast.Term{c.key("hot_days"), days},
+		[2]*ast.Term{c.key("fewest_water_checks"), fewest},
 	)), nil
 }
 
@@ -435,13 +440,31 @@ func (eh *encHeat) section() any {
 			}
 		}
 	}
-	return map[string]any{
-		"exposure":       eh.exposure,
-		"weather_site":   eh.site,
-		"shade":          eh.shade,
-		"shade_recorded": eh.shadeRecorded,
-		"hot_days":       days,
+	var fewest any
+	if n, ok := eh.fewestWaterChecks(); ok {
+		fewest = n
 	}
+	return map[string]any{
+		"exposure":            eh.exposure,
+		"weather_site":        eh.site,
+		"shade":               eh.shade,
+		"shade_recorded":      eh.shadeRecorded,
+		"hot_days":            days,
+		"fewest_water_checks": fewest,
+	}
+}
+
+// fewestWaterChecks is the fewest water checks of any of the enclosure's
+// hot days; false when it has none.
+func (eh *encHeat) fewestWaterChecks() (int, bool) {
+	if len(eh.days) == 0 {
+		return 0, false
+	}
+	n := int(eh.days[0].water)
+	for _, hd := range eh.days[1:] {
+		n = min(n, int(hd.water))
+	}
+	return n, true
 }
 
 // hotDay reports whether a site-day is a hot day for the enclosures it

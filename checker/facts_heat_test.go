@@ -378,3 +378,48 @@ func TestEnclosureHotRunsShared(t *testing.T) {
 		t.Errorf("S-01 run = %v", s1[0])
 	}
 }
+
+// TestSectionFiguresMatchTheirLists: on a generated year, each enclosure's
+// fewest_water_checks is the fewest water_checks of its hot days and its
+// longest_gap_days the most days of its cleaning gaps (null when the list
+// is empty): the heat and care rules walk the lists only when these say a
+// day or a gap may fail, so a figure that disagreed would hide findings.
+func TestSectionFiguresMatchTheirLists(t *testing.T) {
+	lim := defaultLimits(t)
+	set, _ := generatedSet(t, 150, lim)
+	from, to := recordSpan(set)
+	f := newFacts(set, lim, Period{From: from, To: to})
+	buildFacts(f, nil)
+	extreme := func(list []any, field string, better func(a, b int) bool) any {
+		var out any
+		for _, x := range list {
+			n := x.(map[string]any)[field].(int)
+			if out == nil || better(n, out.(int)) {
+				out = n
+			}
+		}
+		return out
+	}
+	var heatSeen, gapsSeen int
+	for _, d := range f.inputs("enclosure") {
+		if h, ok := section(d, "heat").(map[string]any); ok {
+			days := h["hot_days"].([]any)
+			heatSeen += len(days)
+			want := extreme(days, "water_checks", func(a, b int) bool { return a < b })
+			if h["fewest_water_checks"] != want {
+				t.Errorf("%s: fewest_water_checks %v, the hot days' fewest %v", d["id"], h["fewest_water_checks"], want)
+			}
+		}
+		if c, ok := section(d, "cleaning").(map[string]any); ok {
+			gaps := c["gaps"].([]any)
+			gapsSeen += len(gaps)
+			want := extreme(gaps, "days", func(a, b int) bool { return a > b })
+			if c["longest_gap_days"] != want {
+				t.Errorf("%s: longest_gap_days %v, the gaps' longest %v", d["id"], c["longest_gap_days"], want)
+			}
+		}
+	}
+	if heatSeen == 0 || gapsSeen == 0 {
+		t.Fatalf("the generated year gave %d hot days and %d gaps: nothing compared", heatSeen, gapsSeen)
+	}
+}

@@ -136,11 +136,13 @@ else := []
 #   needs: ["daily_care.csv:cleaned"]
 findings contains f if {
 	# The limit is read once, not once per gap: a year has about 50 gaps per enclosure. Most
-	# enclosures have no gap too long: the longest gap, compared first, spares them the walk over
-	# their gaps (a gap over the limit makes the longest over it).
-	gaps := input.cleaning.gaps
+	# enclosures have no gap too long: the longest gap (the facts measure it), compared first,
+	# spares them the walk over their gaps (a gap over the limit makes the longest over it). An
+	# input without that figure has its gaps walked (the default is over the limit); null, no gap,
+	# compares below every number.
 	n := data.limits.care.clean_every_days
-	max([d | d := gaps[_].days]) > n
+	object.get(input.cleaning, "longest_gap_days", n + 1) > n
+	gaps := input.cleaning.gaps
 	some i
 	gaps[i].days > n
 	g := gaps[i]

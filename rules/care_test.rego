@@ -94,6 +94,23 @@ test_only_the_gap_over_14_days_fires if {
 	{[f.check, f.on] | some f in found} == {["care.cleaning.overdue", "2026-07-17"]}
 }
 
+# The facts give the longest gap too (longest_gap_days): at most 14 days spares the walk over
+# the gaps, more walks them; an input without it is walked as above.
+test_the_longest_gap_given_over_14_days_fires if {
+	g := gap("2026-07-02", "2026-07-17", 15, "cleaned").enclosure
+	found := care.findings with input as object.union(g, {"cleaning": {"longest_gap_days": 15}})
+	{[f.check, f.on] | some f in found} == {["care.cleaning.overdue", "2026-07-17"]}
+}
+
+test_the_longest_gap_given_of_14_days_is_quiet if {
+	g := gap("2026-07-02", "2026-07-16", 14, "cleaned").enclosure
+	count(care.findings) == 0 with input as object.union(g, {"cleaning": {"longest_gap_days": 14}})
+}
+
+test_no_gap_and_a_null_longest_gap_is_quiet if {
+	count(care.findings) == 0 with input as {"kind": "enclosure", "id": "K-01", "ref": "enclosures.csv:30", "cleaning": {"rounds_recorded": true, "gaps": [], "longest_gap_days": null}}
+}
+
 test_cleaning_gap_from_before_the_period_starts_on_the_first_day if {
 	some f in care.findings with input as gap("2026-06-01", "2026-07-10", 39, "first_round").enclosure
 	f.on == "2026-07-01"

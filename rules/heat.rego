@@ -18,8 +18,9 @@
 #     its first day's message, so messages describe the run.
 #   Input (site): {id, heat: {readings_recorded, days: [DAY]}} (every day with readings).
 #   Input (enclosure, outdoor or sheltered buildings only): {id, ref, ..., heat: {exposure,
-#     weather_site, shade, shade_recorded, hot_days: [DAY + water_checks]}} (occupied days whose
-#     maximum air temperature or heat index reaches hot_day_c).
+#     weather_site, shade, shade_recorded, hot_days: [DAY + water_checks], fewest_water_checks}}
+#     (occupied days whose maximum air temperature or heat index reaches hot_day_c; the fewest
+#     water checks of any of them, null without one).
 #   The heat index describes how hot it feels to a person in the shade; for animals it is a
 #   guide, and the attending veterinarian decides what the animals need.
 # scope: package
@@ -60,11 +61,13 @@ else := sprintf("; no humidity recorded on %s: the air temperature stands for th
 #   needs: [daily_care.csv, weather.csv]
 findings contains f if {
 	# The limits are read once, not once per day: a year has about 50 hot days per enclosure.
-	# Most enclosures have no day with too few checks: the fewest checks of any day, compared
-	# first, spares them the walk over their days (a day below the limit makes the fewest below).
-	days := input.heat.hot_days
+	# Most enclosures have no day with too few checks: the fewest checks of any day (the facts
+	# count it), compared first, spares them the walk over their days (a day below the limit
+	# makes the fewest below). An input without that count has its days walked (the default is
+	# below the limit); null, no hot day, has no day to walk.
 	checks_min := lim.water_checks_min
-	min([c | c := days[_].water_checks]) < checks_min
+	object.get(input.heat, "fewest_water_checks", checks_min - 1) < checks_min
+	days := input.heat.hot_days
 	hot_c := lim.hot_day_c
 	some i
 	days[i].water_checks < checks_min

@@ -60,6 +60,23 @@ test_only_the_days_with_too_few_checks_fire if {
 	{[f.check, f.on] | some f in found} == {["heat.water.checks_insufficient", "2026-07-15"]}
 }
 
+# The facts give the fewest checks of any hot day too (fewest_water_checks): 2 or more spares
+# the walk over the days, fewer walks them; null (no hot day) is quiet; an input without it is
+# walked as above.
+test_the_fewest_checks_given_below_2_fires if {
+	found := heat.findings with input as enc({"shade": true, "hot_days": [hot_day(28, 29, 3), hot_day(28, 29, 1)], "fewest_water_checks": 1})
+	{f.check | some f in found} == {"heat.water.checks_insufficient"}
+	count(found) == 1
+}
+
+test_the_fewest_checks_given_at_2_is_quiet if {
+	count(heat.findings) == 0 with input as enc({"shade": true, "hot_days": [hot_day(28, 29, 3), hot_day(28, 29, 2)], "fewest_water_checks": 2})
+}
+
+test_no_hot_day_and_null_fewest_checks_is_quiet if {
+	count(heat.findings) == 0 with input as enc({"fewest_water_checks": null})
+}
+
 test_two_water_checks_is_quiet if {
 	count(heat.findings) == 0 with input as enc({"shade": true, "hot_days": [hot_day(31, 33, 2)]})
 }
