@@ -50,9 +50,9 @@ gloves := {g | g := input.handling[_].glove}
 #   source: "common practice: bite-resistant gloves for conscious carnivores; minimum thickness: facility choice"
 #   needs: [handling.csv]
 findings contains f if {
-	bite_risk
 	some g in gloves
 	not g in lim.accepted_gloves
+	bite_risk
 	some e in input.handling
 	e.glove == g
 	conscious(e)
@@ -69,10 +69,10 @@ findings contains f if {
 thicknesses := {t | t := input.handling[_].glove_thickness_mm}
 
 findings contains f if {
-	bite_risk
 	some t in thicknesses
 	t != null
 	t < lim.min_glove_thickness_mm
+	bite_risk
 	some e in input.handling
 	e.glove_thickness_mm == t
 	e.glove in lim.accepted_gloves

@@ -35,6 +35,19 @@ test_dog_is_not_a_bite_risk_by_default if {
 	count(handling.findings) == 0 with input as object.union(fox(object.union(ev, {"glove": "nitrile"})), {"species": "canis_familiaris"})
 }
 
+# The glove checks test the glove and its thickness before the species: a
+# thin or unaccepted glove on an animal that is not a bite risk (dogs,
+# bite_risk false, limits.yaml) stays quiet, on a fox it fires, and an
+# accepted glove of the minimum is quiet on both.
+test_glove_checks_read_the_species_after_the_glove if {
+	dog := {"species": "canis_familiaris"}
+	count(handling.findings) == 0 with input as object.union(fox(object.union(ev, {"glove_thickness_mm": 1.5})), dog)
+	count(handling.findings) == 0 with input as object.union(fox(object.union(ev, {"glove": null})), dog)
+	checks(object.union(ev, {"glove_thickness_mm": 1.99})) == {"handling.glove.inadequate"}
+	checks(object.union(ev, {"glove": "gauntlet", "glove_thickness_mm": 2})) == set()
+	count(handling.findings) == 0 with input as object.union(fox(object.union(ev, {"glove": "gauntlet", "glove_thickness_mm": 2})), dog)
+}
+
 test_missing_coverall_fires if {
 	some f in handling.findings with input as fox(object.union(ev, {"ppe": ["boots"]}))
 	f.check == "handling.ppe.missing"

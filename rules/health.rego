@@ -111,10 +111,11 @@ findings contains f if {
 # heaviest mass is passed over before the look-back.
 losses contains x if {
 	varies
-	some w in input.weights
+	dips
+	some i, w in input.weights
 	w.in_period
 	w.kg < heaviest
-	b := loss_block(w.day)
+	b := block_of[i]
 	since := w.day - lim.weight_loss_days # the first day of the look-back
 	prior := [p |
 		some c in [b - 1, b]
@@ -124,6 +125,7 @@ losses contains x if {
 	]
 	count(prior) > 0
 	top := max([p.kg | some p in prior])
+	w.kg < top # a plain comparison before the arithmetic: a growing animal has no heavier weighing before
 	(top - w.kg) * 100 >= lim.weight_loss_pct * top
 	peak := sort([[p.n, p] | some p in prior; p.kg == top])[0][1]
 	x := {"on": w.on, "pct": ((top - w.kg) * 100) / top, "w": w, "peak": peak}
@@ -158,13 +160,29 @@ varies if {
 	(heaviest - least) * 100 >= lim.weight_loss_pct * heaviest
 }
 
-# The animal's weighings per block, found once per animal.
-weighings_in_block := blocks if {
-	blocks := {b: ws |
-		some w in input.weights
-		b := loss_block(w.day)
-		ws := [p | some p in input.weights; loss_block(p.day) == b]
-	}
+# Some weighing is lighter than one before it, or the list is not in order:
+# the weighings one after another in the list are not all later (by n) and
+# no lighter. A loss compares a weighing with a heavier one before it (by n),
+# so an animal whose list only rises, a growing cub, has none, and its
+# weighings are not looked at one by one. The list in n order (the facts
+# give it so) is not assumed: a list out of order is gone through as any
+# other with a dip.
+dips if count([i |
+	some i, w in input.weights
+	p := input.weights[i - 1]
+	p.n < w.n
+	p.kg <= w.kg
+]) != count(input.weights) - 1
+
+# Each weighing's block (by its index in the list), computed once per weighing.
+block_of := {i: loss_block(w.day) | some i, w in input.weights}
+
+# The animal's weighings per block, found once per animal, in the list's
+# order: each block's weighings are picked by the blocks computed above, not
+# by computing every weighing's block again for every block.
+weighings_in_block := {b: ws |
+	some b in {c | some c in block_of}
+	ws := [input.weights[i] | some i, c in block_of; c == b]
 }
 
 # METADATA

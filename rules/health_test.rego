@@ -209,6 +209,20 @@ test_growing_animal_varies_without_a_loss if {
 	count(health.findings) == 0 with input as animal({"weights": [weigh(0, 2, 2), weigh(1, 9, 4), weigh(2, 16, 6)]})
 }
 
+# A list that only rises (by n, masses equal or heavier) is not gone through
+# weighing by weighing; one dip in it, or a list out of n order, is.
+test_rising_list_is_quiet_and_a_dip_in_it_fires if {
+	count(health.findings) == 0 with input as animal({"weights": [weigh(0, 2, 2), weigh(1, 9, 6), weigh(2, 16, 6), weigh(3, 23, 7)]})
+	fs := health.findings with input as animal({"weights": [weigh(0, 2, 2), weigh(1, 9, 10), weigh(2, 16, 9), weigh(3, 23, 11)]})
+	[[f.on, f.evidence] | some f in fs] == [["2026-01-16", ["observations.csv:3", "observations.csv:4"]]]
+	count(health.findings) == 0 with input as animal({"weights": [weigh(0, 2, 2), weigh(1, 9, 10), weigh(2, 16, 9.01), weigh(3, 23, 11)]})
+}
+
+test_list_rising_in_its_order_but_falling_by_n_fires if {
+	fs := health.findings with input as animal({"weights": [weigh(1, 20, 9), weigh(0, 2, 10)]})
+	[[f.on, f.evidence] | some f in fs] == [["2026-01-20", ["observations.csv:2", "observations.csv:3"]]]
+}
+
 test_steady_animal_just_under_the_loss_is_quiet if {
 	count(health.findings) == 0 with input as animal({"weights": [weigh(0, 2, 10), weigh(1, 9, 9.01), weigh(2, 16, 9.5), weigh(3, 23, 9.01)]})
 }
