@@ -8,13 +8,12 @@ import "sync"
 type domain struct {
 	name  string
 	facts func(*facts)
-	// rounds: the builder reads the care rounds themselves (f.rounds; the
-	// care index made from them is kept). Such builders run while the
-	// rounds are kept (lane0, lane1), so a check that keeps only its result
-	// can let the rounds — most of a large set's memory — go before the
-	// builders that allocate most (afterRounds) add theirs.
-	rounds bool
-	// lane is when and where the builder runs (buildFacts).
+	// lane is when and where the builder runs (buildFacts). A builder
+	// that reads the care rounds (f.rounds, f.roundIndex; the care index
+	// made from them is kept) runs while they are kept, on lane0 or lane1,
+	// so a check that keeps only its result can let the rounds — most of
+	// a large set's memory — go before the builders that allocate most
+	// (afterRounds) add theirs; once they are gone, f.rounds is nil.
 	lane lane
 }
 
@@ -47,19 +46,19 @@ const (
 // as long (the collection a check starts then has the other core) and the
 // peak was 30 MB more.
 var domains = []domain{
-	{"records", (*facts).recordsFacts, true, lane0},
-	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }, true, lane0},
-	{"enclosure", (*facts).enclosureFacts, false, afterRounds},
-	{"handling", (*facts).handlingFacts, false, afterRounds},
-	{"staff", (*facts).staffFacts, true, lane1},
-	{"ppe", (*facts).ppeFacts, false, lane0},
-	{"protocol", (*facts).protocolFacts, false, lane0},
-	{"cull", (*facts).cullFacts, false, lane0},
-	{"health", (*facts).healthFacts, false, afterRounds},
-	{"litter", (*facts).litterFacts, false, lane0},
-	{"cold", (*facts).coldFacts, true, lane1},
-	{"heat", (*facts).heatFacts, false, lane0},
-	{"environment", (*facts).environmentFacts, false, lane0},
+	{"records", (*facts).recordsFacts, lane0},
+	{"care", func(f *facts) { f.careFacts(); f.cleaningFacts() }, lane0},
+	{"enclosure", (*facts).enclosureFacts, afterRounds},
+	{"handling", (*facts).handlingFacts, afterRounds},
+	{"staff", (*facts).staffFacts, lane1},
+	{"ppe", (*facts).ppeFacts, lane0},
+	{"protocol", (*facts).protocolFacts, lane0},
+	{"cull", (*facts).cullFacts, lane0},
+	{"health", (*facts).healthFacts, afterRounds},
+	{"litter", (*facts).litterFacts, lane0},
+	{"cold", (*facts).coldFacts, lane1},
+	{"heat", (*facts).heatFacts, lane0},
+	{"environment", (*facts).environmentFacts, lane0},
 }
 
 // buildFacts runs every domain's fact builder, by lane; release, when not

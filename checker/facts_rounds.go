@@ -60,6 +60,11 @@ func (f *facts) roundIndex() *roundIndex {
 		return f.rix
 	}
 	rounds := f.rounds
+	if rounds == nil {
+		// A builder running after the rounds go (domains.go, afterRounds)
+		// must not read them: a programming error, not the records'.
+		panic("checker: the care rounds were read after they were let go; run that fact builder on lane0 or lane1")
+	}
 	strs := rounds.Strings()
 	ix := &roundIndex{staff: f.newStaffRounds()}
 	from, to := f.period.From, f.period.To
