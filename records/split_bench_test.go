@@ -45,11 +45,11 @@ func BenchmarkSplitNoteAtCut1M(b *testing.B) {
 				fsys[careFile] = &fstest.MapFile{Data: noteAtHalf(base[careFile].Data, c.note)}
 			}
 			// Two ranges whatever the cores, so the cut is at the middle.
-			defer func(n int) { splitRanges = n }(splitRanges)
-			splitRanges = 2
+			ranges := 2
 			if c.whole {
-				splitRanges = 1
+				ranges = 1
 			}
+			defer splitInto(ranges)()
 			resumed := 0
 			splitResumed = func(int64, int) { resumed++ }
 			defer func() { splitResumed = nil }()

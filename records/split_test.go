@@ -32,9 +32,13 @@ func forceSplit(n int, targets []int64) func() {
 
 // noSplit reads every file sequentially until the returned function puts
 // it back.
-func noSplit() func() {
+func noSplit() func() { return splitInto(1) }
+
+// splitInto reads each large file in n ranges, whatever the cores, until
+// the returned function puts it back.
+func splitInto(n int) func() {
 	old := splitRanges
-	splitRanges = 1
+	splitRanges = n
 	return func() { splitRanges = old }
 }
 
